@@ -1,0 +1,109 @@
+import 'reflect-metadata';
+import { existsSync } from 'node:fs';
+import http from 'node:http';
+import path from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pinoHttp } from 'pino-http';
+import { Server as SocketServer } from 'socket.io';
+import type { DataSource } from 'typeorm';
+import type { Config } from './config.js';
+import type { AppContext } from './context.js';
+import { WriteQueue } from './db/write-queue.js';
+import { apiNotFound, errorHandler } from './errors.js';
+import type { Logger } from './logger.js';
+import { healthRouter } from './routes/health.js';
+import { attachSockets } from './sockets/index.js';
+
+export interface AppDeps {
+  config: Config;
+  dataSource: DataSource;
+  logger: Logger;
+  /** Folder of the built client; omitted in API-only tests. */
+  clientDir?: string;
+}
+
+export interface HoldlineApp {
+  app: Express;
+  io: SocketServer;
+  httpServer: http.Server;
+  context: AppContext;
+  /** Stops accepting, closes sockets, finishes queued writes, closes the database. */
+  close(): Promise<void>;
+}
+
+/** Builds the Express app and the Socket.IO server without listening. */
+export function createApp(deps: AppDeps): HoldlineApp {
+  const { config, dataSource, logger } = deps;
+  const queue = new WriteQueue(dataSource);
+  const context: AppContext = { config, dataSource, queue, logger };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Site networks are often plain http on a LAN address; upgrading would break every asset.
+          upgradeInsecureRequests: null,
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          connectSrc: ["'self'"],
+        },
+      },
+      hsts: false,
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' || !req.url?.startsWith('/api') },
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+    }),
+  );
+
+  const api = express.Router();
+  api.use(express.json({ limit: '1mb' }));
+  api.use(healthRouter(dataSource, config.version));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  if (deps.clientDir) serveClient(app, deps.clientDir);
+  app.use(errorHandler(logger));
+
+  const httpServer = http.createServer(app);
+  const io = new SocketServer(httpServer, { serveClient: false });
+  attachSockets(io, context);
+
+  let closing: Promise<void> | undefined;
+  const close = () => {
+    closing ??= (async () => {
+      // io.close() also closes the HTTP server, so no new requests or sockets are accepted.
+      await new Promise<void>((resolve) => io.close(() => resolve()));
+      httpServer.closeAllConnections();
+      await queue.drain();
+      if (dataSource.isInitialized) await dataSource.destroy();
+    })();
+    return closing;
+  };
+
+  return { app, io, httpServer, context, close };
+}
+
+/** Serves the built client and answers client routes with index.html. */
+function serveClient(app: Express, clientDir: string): void {
+  const indexFile = path.join(clientDir, 'index.html');
+  app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+  app.get(/^(?!\/api\/|\/socket\.io\/).*/, (_req, res) => {
+    if (!existsSync(indexFile)) {
+      res.status(503).type('text/plain').send('The client is not built yet. Run `npm run build`, or use `npm start`.');
+      return;
+    }
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(indexFile);
+  });
+}

@@ -1,0 +1,59 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { z } from 'zod';
+
+/** The server's settings, read from the environment once at start. */
+export const configSchema = z.object({
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  HOLDLINE_DB: z.string().min(1).default('data/holdline.sqlite'),
+  HOLDLINE_PUBLIC_URL: z.url().optional(),
+  HOLDLINE_DEMO: z.enum(['0', '1']).default('1'),
+  HOLDLINE_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
+  SMTP_URL: z.url().refine((u) => /^smtps?:/.test(u), 'must start with smtp:// or smtps://').optional(),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+});
+
+export interface Config {
+  port: number;
+  databasePath: string;
+  /** Folder beside the database: uploads, the generated secret, the fake inbox. */
+  dataDir: string;
+  publicUrl: string;
+  demo: boolean;
+  secret?: string;
+  smtpUrl?: string;
+  logLevel: string;
+  version: string;
+}
+
+/** Thrown when a setting is invalid; the message names each bad variable. */
+export class ConfigError extends Error {}
+
+/** Parses the environment; an empty string counts as unset so `VAR= npm start` means the default. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const cleaned = Object.fromEntries(Object.entries(env).filter(([, v]) => v !== undefined && v !== ''));
+  const parsed = configSchema.safeParse(cleaned);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new ConfigError(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const c = parsed.data;
+  const databasePath = path.resolve(c.HOLDLINE_DB);
+  return {
+    port: c.PORT,
+    databasePath,
+    dataDir: path.dirname(databasePath),
+    publicUrl: (c.HOLDLINE_PUBLIC_URL ?? `http://localhost:${c.PORT}`).replace(/\/$/, ''),
+    demo: c.HOLDLINE_DEMO === '1',
+    secret: c.HOLDLINE_SECRET,
+    smtpUrl: c.SMTP_URL,
+    logLevel: c.LOG_LEVEL,
+    version: packageVersion(),
+  };
+}
+
+/** The version in package.json, shown by the health check. */
+export function packageVersion(): string {
+  const file = path.resolve(import.meta.dirname, '..', 'package.json');
+  return (JSON.parse(readFileSync(file, 'utf8')) as { version: string }).version;
+}

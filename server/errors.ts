@@ -1,0 +1,78 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { z } from 'zod';
+import type { ApiError, FieldError } from '../shared/schemas/errors.js';
+import type { Logger } from './logger.js';
+
+/** An error meant for the client: HTTP status, stable code, readable message. */
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields?: FieldError[],
+  ) {
+    super(message);
+  }
+
+  toBody(): { error: ApiError } {
+    return { error: { code: this.code, message: this.message, ...(this.fields ? { fields: this.fields } : {}) } };
+  }
+}
+
+export const badRequest = (message: string, fields?: FieldError[]) => new HttpError(400, 'validation', message, fields);
+export const unauthorized = (message = 'Sign in to continue.') => new HttpError(401, 'unauthenticated', message);
+export const forbidden = (message = 'You do not have permission to do that.') => new HttpError(403, 'forbidden', message);
+export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${what} was not found.`);
+export const conflict = (code: string, message: string) => new HttpError(409, code, message);
+
+/** Turns zod issues into `fields`, one per failing path. */
+export function fieldsFromZod(error: z.ZodError): FieldError[] {
+  return error.issues.map((issue) => ({ path: issue.path.map(String).join('.') || '(body)', message: issue.message }));
+}
+
+/** Parses with a shared schema or throws a 400 naming every failing field. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown, what = 'request'): z.infer<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) throw badRequest(`The ${what} has invalid fields.`, fieldsFromZod(result.error));
+  return result.data;
+}
+
+/** 404 for any /api path no router answered. */
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new HttpError(404, 'not_found', `No API route ${req.method} ${req.path}.`));
+};
+
+/** The one place errors become JSON; unknown errors are logged in full and answered generically. */
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (err: unknown, req, res, _next) => {
+    if (res.headersSent) return;
+    let httpError: HttpError;
+    if (err instanceof HttpError) httpError = err;
+    else if (isBodyParserError(err)) httpError = bodyParserError(err);
+    else {
+      logger.error({ err, method: req.method, url: req.originalUrl }, 'unhandled error');
+      httpError = new HttpError(500, 'internal', 'Something went wrong on the server. Try again; if it keeps happening, tell your administrator.');
+    }
+    res.status(httpError.status).json(httpError.toBody());
+  };
+}
+
+interface BodyParserError { type: string; status: number }
+
+function isBodyParserError(err: unknown): err is BodyParserError {
+  return typeof err === 'object' && err !== null && 'type' in err && typeof (err as BodyParserError).type === 'string' && 'status' in err;
+}
+
+function bodyParserError(err: BodyParserError): HttpError {
+  switch (err.type) {
+    case 'entity.parse.failed':
+      return new HttpError(400, 'malformed_json', 'The request body is not valid JSON.');
+    case 'entity.too.large':
+      return new HttpError(413, 'too_large', 'The request body is too large.');
+    case 'encoding.unsupported':
+    case 'charset.unsupported':
+      return new HttpError(415, 'unsupported_encoding', 'The request body uses an unsupported encoding.');
+    default:
+      return new HttpError(err.status >= 400 && err.status < 500 ? err.status : 400, 'bad_request', 'The request could not be read.');
+  }
+}

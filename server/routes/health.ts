@@ -1,0 +1,19 @@
+import { Router } from 'express';
+import type { DataSource } from 'typeorm';
+import type { Health } from '../../shared/schemas/health.js';
+import { HttpError } from '../errors.js';
+
+/** GET /api/health: the process is up and the database answers. */
+export function healthRouter(dataSource: DataSource, version: string): Router {
+  const router = Router();
+  router.get('/health', async (_req, res) => {
+    try {
+      await dataSource.query('SELECT 1');
+    } catch {
+      throw new HttpError(503, 'database_unavailable', 'The database is not answering.');
+    }
+    const body: Health = { status: 'ok', version, database: 'ok' };
+    res.json(body);
+  });
+  return router;
+}

@@ -1,0 +1,26 @@
+import { z } from 'zod';
+import { userSchema } from './users.js';
+
+export const MIN_PASSWORD_LENGTH = 10;
+
+/** Body of POST /api/auth/login. */
+export const loginRequestSchema = z.object({
+  email: z.string().trim().min(1, 'Enter your e-mail').max(254).pipe(z.email('Enter a valid e-mail')),
+  password: z.string().min(1, 'Enter your password').max(200),
+});
+export type LoginRequest = z.infer<typeof loginRequestSchema>;
+
+/** Answer of sign-in, refresh and accepting an invitation or reset: a short-lived access token. */
+export const sessionSchema = z.object({
+  token: z.string(),
+  /** ISO time at which the access token expires. */
+  expiresAt: z.string(),
+  user: userSchema,
+});
+export type SessionDto = z.infer<typeof sessionSchema>;
+
+/** A new password, with the only rule the product has: length. */
+export const passwordSchema = z
+  .string()
+  .min(MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters`)
+  .max(200, 'Use at most 200 characters');

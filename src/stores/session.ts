@@ -1,0 +1,90 @@
+import { defineStore } from 'pinia';
+import { computed, ref } from 'vue';
+import { sessionSchema, type SessionDto } from '../../shared/schemas/auth';
+import type { UserDto } from '../../shared/schemas/users';
+import { api, ApiRequestError, setTokenSource } from '../services/api';
+
+/** Refresh this long before the access token expires, so a shift never sees it lapse. */
+const REFRESH_MARGIN_MS = 60_000;
+
+/** Who is signed in, with the short-lived access token kept in memory only. */
+export const useSessionStore = defineStore('session', () => {
+  const user = ref<UserDto | null>(null);
+  const token = ref<string | null>(null);
+  const expiresAtMs = ref(0);
+  const restored = ref(false);
+  let refreshing: Promise<boolean> | null = null;
+  let timer: ReturnType<typeof setTimeout> | undefined;
+
+  const signedIn = computed(() => user.value !== null);
+  const isAdmin = computed(() => user.value?.isAdmin === true);
+
+  function accept(session: SessionDto) {
+    user.value = session.user;
+    token.value = session.token;
+    expiresAtMs.value = Date.parse(session.expiresAt);
+    clearTimeout(timer);
+    timer = setTimeout(() => void refresh(), Math.max(5_000, expiresAtMs.value - Date.now() - REFRESH_MARGIN_MS));
+  }
+
+  function clear() {
+    clearTimeout(timer);
+    user.value = null;
+    token.value = null;
+    expiresAtMs.value = 0;
+  }
+
+  async function login(email: string, password: string) {
+    accept(await api('/auth/login', { method: 'POST', body: { email, password }, schema: sessionSchema, anonymous: true }));
+  }
+
+  /** Exchanges the refresh cookie for a new access token; concurrent callers share one request. */
+  function refresh(): Promise<boolean> {
+    refreshing ??= api('/auth/refresh', { method: 'POST', schema: sessionSchema, anonymous: true })
+      .then((session) => {
+        accept(session);
+        return true;
+      })
+      .catch((error: unknown) => {
+        // Only a refusal ends the session; a dropped network keeps the person signed in to retry.
+        if (error instanceof ApiRequestError && (error.status === 401 || error.status === 403)) clear();
+        else if (user.value) timer = setTimeout(() => void refresh(), 10_000);
+        return false;
+      })
+      .finally(() => {
+        refreshing = null;
+      });
+    return refreshing;
+  }
+
+  /** At page load: a refresh cookie may still hold a session. */
+  async function restore() {
+    if (restored.value) return;
+    await refresh();
+    restored.value = true;
+  }
+
+  async function logout() {
+    try {
+      await api('/auth/logout', { method: 'POST', anonymous: true });
+    } finally {
+      clear();
+    }
+  }
+
+  /** Accepts a session handed over by an invitation or reset link. */
+  function adopt(session: SessionDto) {
+    accept(session);
+    restored.value = true;
+  }
+
+  setTokenSource({
+    async getToken() {
+      if (token.value && Date.now() > expiresAtMs.value - REFRESH_MARGIN_MS / 2) await refresh();
+      return token.value;
+    },
+    onUnauthorized: () => refresh(),
+  });
+
+  return { user, token, expiresAtMs, restored, signedIn, isAdmin, login, refresh, restore, logout, adopt };
+});

@@ -1,0 +1,56 @@
+import { mkdtempSync, rmSync } from 'node:fs';
+import type { AddressInfo } from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { createApp, type HoldlineApp } from '../../server/app.js';
+import { loadConfig, type Config } from '../../server/config.js';
+import { openDatabase } from '../../server/db/data-source.js';
+import { createLogger } from '../../server/logger.js';
+
+export interface TestServer extends HoldlineApp {
+  url: string;
+  port: number;
+  config: Config;
+  dataDir: string;
+  stop(): Promise<void>;
+}
+
+export interface TestServerOptions {
+  /** Serve the built client from dist/ (browser tests). */
+  withClient?: boolean;
+  env?: Record<string, string>;
+}
+
+/** Boots the real app on an ephemeral port with its own SQLite file in a temporary folder. */
+export async function startTestServer(options: TestServerOptions = {}): Promise<TestServer> {
+  const dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-test-'));
+  const config = loadConfig({
+    HOLDLINE_DB: path.join(dataDir, 'holdline.sqlite'),
+    HOLDLINE_DEMO: '0',
+    LOG_LEVEL: 'silent',
+    HOLDLINE_SECRET: 'test-secret-test-secret-test-secret-0123456789',
+    ...options.env,
+  });
+  const dataSource = await openDatabase(config.databasePath);
+  const holdline = createApp({
+    config,
+    dataSource,
+    logger: createLogger(config.logLevel),
+    clientDir: options.withClient ? path.resolve(import.meta.dirname, '..', '..', 'dist') : undefined,
+  });
+  await new Promise<void>((resolve) => holdline.httpServer.listen(0, '127.0.0.1', resolve));
+  const port = (holdline.httpServer.address() as AddressInfo).port;
+  const url = `http://127.0.0.1:${port}`;
+  config.publicUrl = url;
+  return {
+    ...holdline,
+    url,
+    port,
+    config,
+    dataDir,
+    async stop() {
+      await holdline.close();
+      rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}

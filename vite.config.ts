@@ -1,0 +1,19 @@
+import { fileURLToPath, URL } from 'node:url';
+import { defineConfig } from 'vite';
+import vue from '@vitejs/plugin-vue';
+import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
+
+const serverPort = Number(process.env.PORT ?? 3000);
+
+export default defineConfig({
+  plugins: [vue({ template: { transformAssetUrls } }), quasar({ sassVariables: false })],
+  resolve: { alias: { '@': fileURLToPath(new URL('./src', import.meta.url)) } },
+  server: {
+    port: 5173,
+    proxy: {
+      '/api': `http://localhost:${serverPort}`,
+      '/socket.io': { target: `http://localhost:${serverPort}`, ws: true },
+    },
+  },
+  build: { outDir: 'dist', emptyOutDir: true, chunkSizeWarningLimit: 900 },
+});
