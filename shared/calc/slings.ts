@@ -1,0 +1,84 @@
+/**
+ * Sling leg tensions. The angle is measured from the horizontal, as the rigging tables print it.
+ */
+import { CalcInputError, finiteResult, requireInRange, requireInteger, requireNonNegative } from './errors';
+
+/** Smallest sling angle from the horizontal that may be used. */
+export const MINIMUM_SLING_ANGLE_DEG = 30;
+
+/** Where the minimum sling angle is published. */
+export const MINIMUM_SLING_ANGLE_SOURCE = 'ASME B30.9: horizontal sling angles less than 30° shall not be used';
+
+function checkAngle(field: string, angleDeg: number): number {
+  // Below 30° the tension factor climbs steeply (2.0 at 30°), so the standard refuses it outright.
+  return requireInRange(field, angleDeg, MINIMUM_SLING_ANGLE_DEG, 90);
+}
+
+function sinDeg(angleDeg: number): number {
+  // Exact at 90° so a vertical leg carries exactly its share.
+  return angleDeg === 90 ? 1 : Math.sin((angleDeg * Math.PI) / 180);
+}
+
+/** Tension in each of `legs` equal legs: T = W / (n · sin θ). */
+export function slingLegTensionKn(input: { loadKn: number; legs: number; angleFromHorizontalDeg: number }): {
+  legTensionKn: number;
+  tensionFactor: number;
+  rule: string;
+} {
+  const load = requireNonNegative('loadKn', input.loadKn);
+  const legs = requireInteger('legs', input.legs, 1, 8);
+  const angle = checkAngle('angleFromHorizontalDeg', input.angleFromHorizontalDeg);
+  const factor = 1 / sinDeg(angle);
+  return {
+    legTensionKn: finiteResult('loadKn', (load / legs) * factor),
+    tensionFactor: factor,
+    rule: `T = W ÷ (n · sin θ), θ ≥ ${MINIMUM_SLING_ANGLE_DEG}° from horizontal (${MINIMUM_SLING_ANGLE_SOURCE})`,
+  };
+}
+
+/** One leg of a two-leg lift with the centre of gravity off centre. */
+export interface CogLegResult {
+  /** The vertical share of the load this leg carries. */
+  verticalShareKn: number;
+  tensionKn: number;
+  angleFromHorizontalDeg: number;
+}
+
+/**
+ * Two legs, unequal shares: leg i carries W · d_other ÷ (d1 + d2) vertically, divided by sin θi.
+ * Distances are horizontal, from each pick point to the centre of gravity.
+ */
+export function slingLegTensionsFromCog(input: {
+  loadKn: number;
+  distancesToCogM: readonly [number, number];
+  angleFromHorizontalDeg: number | readonly [number, number];
+}): { legs: [CogLegResult, CogLegResult]; rule: string } {
+  const load = requireNonNegative('loadKn', input.loadKn);
+  if (!Array.isArray(input.distancesToCogM) || input.distancesToCogM.length !== 2) {
+    throw new CalcInputError('distancesToCogM', 'must give exactly two distances');
+  }
+  const d1 = requireNonNegative('distancesToCogM.0', input.distancesToCogM[0]);
+  const d2 = requireNonNegative('distancesToCogM.1', input.distancesToCogM[1]);
+  if (d1 + d2 <= 0) throw new CalcInputError('distancesToCogM', 'the two pick points cannot both sit on the centre of gravity');
+  const angles: [number, number] =
+    typeof input.angleFromHorizontalDeg === 'number'
+      ? [
+          checkAngle('angleFromHorizontalDeg', input.angleFromHorizontalDeg),
+          checkAngle('angleFromHorizontalDeg', input.angleFromHorizontalDeg),
+        ]
+      : [
+          checkAngle('angleFromHorizontalDeg.0', input.angleFromHorizontalDeg[0]),
+          checkAngle('angleFromHorizontalDeg.1', input.angleFromHorizontalDeg[1]),
+        ];
+  const share1 = finiteResult('loadKn', (load * d2) / (d1 + d2));
+  const share2 = finiteResult('loadKn', (load * d1) / (d1 + d2));
+  const leg = (share: number, angle: number): CogLegResult => ({
+    verticalShareKn: share,
+    tensionKn: finiteResult('loadKn', share / sinDeg(angle)),
+    angleFromHorizontalDeg: angle,
+  });
+  return {
+    legs: [leg(share1, angles[0]), leg(share2, angles[1])],
+    rule: `V1 = W·d2/(d1+d2), V2 = W·d1/(d1+d2), T = V ÷ sin θ, θ ≥ ${MINIMUM_SLING_ANGLE_DEG}° (rigging handbooks; ${MINIMUM_SLING_ANGLE_SOURCE})`,
+  };
+}
