@@ -5,6 +5,15 @@ export const qualifications = ['supervisor', 'operator', 'signaller', 'rigger', 
 export const qualificationSchema = z.enum(qualifications);
 export type Qualification = z.infer<typeof qualificationSchema>;
 
+/** Words for each qualification on screen. */
+export const qualificationLabels: Record<Qualification, string> = {
+  supervisor: 'Supervisor',
+  operator: 'Operator',
+  signaller: 'Signaller',
+  rigger: 'Rigger',
+  viewer: 'Viewer',
+};
+
 /** A person as the API presents them (never a hash or token). */
 export const userSchema = z.object({
   id: z.string(),
@@ -13,6 +22,36 @@ export const userSchema = z.object({
   qualifications: z.array(qualificationSchema),
   isAdmin: z.boolean(),
   active: z.boolean(),
+  /** False while an invited person has not yet set a password. */
+  hasPassword: z.boolean(),
   createdAt: z.string(),
 });
 export type UserDto = z.infer<typeof userSchema>;
+
+const emailField = z.string().trim().toLowerCase().max(254).pipe(z.email('Enter a valid e-mail'));
+const displayNameField = z.string().trim().min(1, 'Enter a name').max(120, 'Use at most 120 characters');
+
+/** Body of POST /api/users: invite a person by e-mail. */
+export const inviteUserSchema = z.object({
+  email: emailField,
+  displayName: displayNameField,
+  qualifications: z.array(qualificationSchema).max(qualifications.length).default([]),
+  isAdmin: z.boolean().default(false),
+});
+export type InviteUserRequest = z.input<typeof inviteUserSchema>;
+
+/** Body of PATCH /api/users/:id: any subset of these. */
+export const updateUserSchema = z
+  .object({
+    displayName: displayNameField,
+    qualifications: z.array(qualificationSchema).max(qualifications.length),
+    isAdmin: z.boolean(),
+    active: z.boolean(),
+  })
+  .partial()
+  .strict()
+  .refine((v) => Object.keys(v).length > 0, 'Change at least one field');
+export type UpdateUserRequest = z.infer<typeof updateUserSchema>;
+
+export const userListSchema = z.object({ items: z.array(userSchema) });
+export const userEnvelopeSchema = z.object({ user: userSchema });

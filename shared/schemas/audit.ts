@@ -1,0 +1,40 @@
+import { z } from 'zod';
+
+/** What the sign-in audit records; never a password or a token. */
+export const signInAuditKinds = [
+  'sign_in',
+  'sign_in_failed',
+  'sign_in_inactive',
+  'sign_out',
+  'refresh_refused',
+  'refresh_reuse',
+  'password_set',
+  'deactivated',
+  'reactivated',
+] as const;
+export const signInAuditKindSchema = z.enum(signInAuditKinds);
+export type SignInAuditKind = z.infer<typeof signInAuditKindSchema>;
+
+export const signInAuditEntrySchema = z.object({
+  id: z.number(),
+  at: z.string(),
+  kind: signInAuditKindSchema,
+  email: z.string().nullable(),
+  userId: z.string().nullable(),
+  displayName: z.string().nullable(),
+  ip: z.string().nullable(),
+  detail: z.string().nullable(),
+});
+export type SignInAuditEntry = z.infer<typeof signInAuditEntrySchema>;
+export const signInAuditListSchema = z.object({ items: z.array(signInAuditEntrySchema) });
+
+/** A message caught by the local fake mail server (demo mode). */
+export const inboxMessageSchema = z.object({
+  id: z.string(),
+  at: z.string(),
+  to: z.array(z.string()),
+  subject: z.string(),
+  text: z.string(),
+});
+export type InboxMessage = z.infer<typeof inboxMessageSchema>;
+export const inboxListSchema = z.object({ items: z.array(inboxMessageSchema) });
