@@ -14,6 +14,18 @@ declare module 'vue-router' {
 export const routes: RouteRecordRaw[] = [
   { path: '/sign-in', name: 'sign-in', component: () => import('../pages/auth/SignInPage.vue'), meta: { public: true, title: 'Sign in' } },
   {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('../pages/auth/ForgotPasswordPage.vue'),
+    meta: { public: true, title: 'Reset your password' },
+  },
+  {
+    path: '/set-password',
+    name: 'set-password',
+    component: () => import('../pages/auth/SetPasswordPage.vue'),
+    meta: { public: true, title: 'Set your password' },
+  },
+  {
     path: '/',
     component: () => import('../layouts/MainLayout.vue'),
     children: [

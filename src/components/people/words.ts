@@ -1,0 +1,37 @@
+import type { SignInAuditKind } from '../../../shared/schemas/audit';
+import type { PersonStatus } from '../../stores/people';
+
+export { formatWhen } from '../../services/time';
+
+/** What each audit entry means, in words a site office reads without a manual. */
+export const auditKindWords: Record<SignInAuditKind, string> = {
+  sign_in: 'Signed in',
+  sign_in_failed: 'Sign-in refused: wrong e-mail or password',
+  sign_in_inactive: 'Sign-in refused: account deactivated',
+  sign_out: 'Signed out',
+  refresh_refused: 'Session renewal refused',
+  refresh_reuse: 'Old session token used again; sessions ended',
+  password_set: 'Password set',
+  deactivated: 'Account deactivated',
+  reactivated: 'Account reactivated',
+};
+
+/** Which audit entries deserve a second look; shown with a warning shape as well as colour. */
+export const auditKindTone: Record<SignInAuditKind, 'normal' | 'warning'> = {
+  sign_in: 'normal',
+  sign_in_failed: 'warning',
+  sign_in_inactive: 'warning',
+  sign_out: 'normal',
+  refresh_refused: 'warning',
+  refresh_reuse: 'warning',
+  password_set: 'normal',
+  deactivated: 'warning',
+  reactivated: 'normal',
+};
+
+/** A status in words and the icon that goes with its colour. */
+export const statusWords: Record<PersonStatus, { label: string; icon: string }> = {
+  active: { label: 'Active', icon: 'check_circle' },
+  pending: { label: 'Invitation pending', icon: 'schedule_send' },
+  deactivated: { label: 'Deactivated', icon: 'block' },
+};
