@@ -65,6 +65,8 @@ describe('beaufortForce: the Beaufort scale as meteorological services publish i
 });
 
 describe('windPressureNpm2: q = 0.613·v² (ISO 4302)', () => {
+  // The coefficient is the one ISO 4302 gives (per the trade reference table; the standard's text
+  // was not read here beyond its scope page, which states p in kPa from v in m/s).
   it('ISO 4302: q = 0.613·v², so 20 m/s gives 245.2 N/m²', () => {
     const r = windPressureNpm2(20);
     expect(r.pressureNpm2).toBeCloseTo(245.2, 9);
