@@ -6,13 +6,21 @@ import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import { Server as SocketServer } from 'socket.io';
+import cookieParser from 'cookie-parser';
 import type { DataSource } from 'typeorm';
 import type { Config } from './config.js';
 import type { AppContext } from './context.js';
 import { WriteQueue } from './db/write-queue.js';
 import { apiNotFound, errorHandler } from './errors.js';
 import type { Logger } from './logger.js';
+import { resolveSecret } from './auth/secret.js';
+import { createMailer, type Mailer } from './mail/mailer.js';
+import { authenticate } from './middlewares/authenticate.js';
+import { auditRouter } from './routes/audit.js';
+import { authRouter } from './routes/auth.js';
 import { healthRouter } from './routes/health.js';
+import { usersRouter } from './routes/users.js';
+import type { HoldlineServer } from './sockets/auth.js';
 import { attachSockets } from './sockets/index.js';
 
 export interface AppDeps {
@@ -21,11 +29,15 @@ export interface AppDeps {
   logger: Logger;
   /** Folder of the built client; omitted in API-only tests. */
   clientDir?: string;
+  /** Defaults to SMTP_URL or a local fake mail server. */
+  mailer?: Mailer;
+  /** The clock; tests pass their own. */
+  now?: () => Date;
 }
 
 export interface HoldlineApp {
   app: Express;
-  io: SocketServer;
+  io: HoldlineServer;
   httpServer: http.Server;
   context: AppContext;
   /** Stops accepting, closes sockets, finishes queued writes, closes the database. */
@@ -36,7 +48,16 @@ export interface HoldlineApp {
 export function createApp(deps: AppDeps): HoldlineApp {
   const { config, dataSource, logger } = deps;
   const queue = new WriteQueue(dataSource);
-  const context: AppContext = { config, dataSource, queue, logger };
+  const context: AppContext = {
+    config,
+    dataSource,
+    queue,
+    logger,
+    mailer: deps.mailer ?? createMailer(config.smtpUrl, logger),
+    secret: resolveSecret(config.secret, config.dataDir),
+    now: deps.now ?? (() => new Date()),
+    realtime: { endSessions: () => undefined },
+  };
 
   const app = express();
   app.disable('x-powered-by');
@@ -68,7 +89,12 @@ export function createApp(deps: AppDeps): HoldlineApp {
 
   const api = express.Router();
   api.use(express.json({ limit: '1mb' }));
+  api.use(cookieParser());
+  api.use(authenticate(context));
   api.use(healthRouter(dataSource, config.version));
+  api.use(authRouter(context));
+  api.use(usersRouter(context));
+  api.use(auditRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -76,7 +102,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
   app.use(errorHandler(logger));
 
   const httpServer = http.createServer(app);
-  const io = new SocketServer(httpServer, { serveClient: false });
+  const io: HoldlineServer = new SocketServer(httpServer, { serveClient: false });
   attachSockets(io, context);
 
   let closing: Promise<void> | undefined;
@@ -86,6 +112,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
       await new Promise<void>((resolve) => io.close(() => resolve()));
       httpServer.closeAllConnections();
       await queue.drain();
+      await context.mailer.close();
       if (dataSource.isInitialized) await dataSource.destroy();
     })();
     return closing;

@@ -2,6 +2,13 @@ import type { DataSource } from 'typeorm';
 import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
+import type { Mailer } from './mail/mailer.js';
+
+/** Live connections the commands may need to act on, filled in when Socket.IO is attached. */
+export interface Realtime {
+  /** Tells every socket of a person why their session ended, then disconnects them. */
+  endSessions(userId: string, reason: string): void;
+}
 
 /** What every router, socket handler and command receives: the app's collaborators. */
 export interface AppContext {
@@ -9,4 +16,10 @@ export interface AppContext {
   dataSource: DataSource;
   queue: WriteQueue;
   logger: Logger;
+  mailer: Mailer;
+  /** The token-signing secret (configured or generated in the data folder). */
+  secret: string;
+  /** The clock; tests move it to check expiries. */
+  now(): Date;
+  realtime: Realtime;
 }

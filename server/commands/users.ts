@@ -1,9 +1,14 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
-import type { Qualification } from '../../shared/schemas/users.js';
+import type { InviteUserRequest, Qualification, UpdateUserRequest } from '../../shared/schemas/users.js';
 import { hashPassword } from '../auth/passwords.js';
+import { revokeAllForUser } from '../auth/refresh-tokens.js';
+import { createSignInLink } from '../auth/sign-in-links.js';
+import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { conflict } from '../errors.js';
+import { conflict, notFound } from '../errors.js';
+import { invitationMail, resetMail } from '../mail/templates.js';
+import { recordSignInAudit } from './audit.js';
 
 export interface NewUser {
   email: string;
@@ -31,4 +36,80 @@ export async function createUser(manager: EntityManager, input: NewUser): Promis
     updatedAt: now,
   });
   return manager.save(user);
+}
+
+function linkUrl(context: AppContext, token: string): string {
+  return `${context.config.publicUrl}/set-password?token=${encodeURIComponent(token)}`;
+}
+
+/** Creates a person without a password and e-mails them an invitation link. */
+export async function inviteUser(context: AppContext, input: InviteUserRequest & { qualifications: Qualification[]; isAdmin: boolean }, invitedBy: User): Promise<User> {
+  const now = context.now();
+  const { user, token } = await context.queue.transaction(async (manager) => {
+    const created = await createUser(manager, input);
+    const link = await createSignInLink(manager, created.id, 'invitation', now);
+    return { user: created, token: link.token };
+  });
+  await context.mailer.send(invitationMail(user.email, user.displayName, linkUrl(context, token), invitedBy.displayName));
+  return user;
+}
+
+/** Sends a fresh invitation to someone who has not set a password; earlier links stop working. */
+export async function resendInvitation(context: AppContext, userId: string, invitedBy: User): Promise<void> {
+  const now = context.now();
+  const { user, token } = await context.queue.transaction(async (manager) => {
+    const found = await manager.findOneBy(User, { id: userId });
+    if (!found) throw notFound('That person');
+    if (found.passwordHash) throw conflict('already_joined', `${found.displayName} has already set a password; they can reset it from the sign-in page.`);
+    if (!found.active) throw conflict('account_inactive', `${found.displayName} is deactivated; reactivate them first.`);
+    const link = await createSignInLink(manager, found.id, 'invitation', now);
+    return { user: found, token: link.token };
+  });
+  await context.mailer.send(invitationMail(user.email, user.displayName, linkUrl(context, token), invitedBy.displayName));
+}
+
+/** E-mails a reset link when the address belongs to an active person; silent otherwise. */
+export async function requestPasswordReset(context: AppContext, email: string): Promise<void> {
+  const now = context.now();
+  const found = await context.queue.transaction(async (manager) => {
+    const user = await manager.findOneBy(User, { email: email.trim().toLowerCase() });
+    if (!user || !user.active) return null;
+    const link = await createSignInLink(manager, user.id, 'reset', now);
+    return { user, token: link.token };
+  });
+  if (found) await context.mailer.send(resetMail(found.user.email, found.user.displayName, linkUrl(context, found.token)));
+}
+
+/**
+ * Changes a person's name, qualifications, admin flag or active flag. Deactivation revokes every
+ * session and disconnects every socket at once. The last active admin cannot be removed.
+ */
+export async function updateUser(context: AppContext, userId: string, changes: UpdateUserRequest, actor: User, ip: string | null): Promise<User> {
+  const now = context.now();
+  const { user, deactivated } = await context.queue.transaction(async (manager) => {
+    const found = await manager.findOneBy(User, { id: userId });
+    if (!found) throw notFound('That person');
+    if (changes.active === false && found.id === actor.id) throw conflict('self_deactivate', 'You cannot deactivate your own account. Ask another administrator.');
+    const losesAdmin = found.isAdmin && found.active && (changes.isAdmin === false || changes.active === false);
+    if (losesAdmin) {
+      const admins = await manager.countBy(User, { isAdmin: true, active: true });
+      if (admins <= 1) throw conflict('last_admin', 'This is the last active administrator. Make someone else an administrator first.');
+    }
+    const wasActive = found.active;
+    if (changes.displayName !== undefined) found.displayName = changes.displayName;
+    if (changes.qualifications !== undefined) found.qualifications = [...new Set(changes.qualifications)];
+    if (changes.isAdmin !== undefined) found.isAdmin = changes.isAdmin;
+    if (changes.active !== undefined) found.active = changes.active;
+    found.updatedAt = now.toISOString();
+    await manager.save(found);
+    if (wasActive && !found.active) {
+      await revokeAllForUser(manager, found.id, now);
+      await recordSignInAudit(manager, { kind: 'deactivated', email: found.email, userId: found.id, ip, detail: `by ${actor.email}` }, now);
+    } else if (!wasActive && found.active) {
+      await recordSignInAudit(manager, { kind: 'reactivated', email: found.email, userId: found.id, ip, detail: `by ${actor.email}` }, now);
+    }
+    return { user: found, deactivated: wasActive && !found.active };
+  });
+  if (deactivated) context.realtime.endSessions(user.id, 'Your account was deactivated by an administrator.');
+  return user;
 }

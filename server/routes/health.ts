@@ -2,11 +2,13 @@ import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import type { Health } from '../../shared/schemas/health.js';
 import { HttpError } from '../errors.js';
+import { authorize } from '../policies/index.js';
 
 /** GET /api/health: the process is up and the database answers. */
 export function healthRouter(dataSource: DataSource, version: string): Router {
   const router = Router();
-  router.get('/health', async (_req, res) => {
+  router.get('/health', async (req, res) => {
+    authorize(req.actor ?? null, 'health.read');
     try {
       await dataSource.query('SELECT 1');
     } catch {

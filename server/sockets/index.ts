@@ -1,9 +1,11 @@
-import type { Server } from 'socket.io';
 import type { AppContext } from '../context.js';
+import { endSessions, handshakeAuth, registerSessionHandlers, type HoldlineServer } from './auth.js';
 
 /** Wires Socket.IO: handshake checks, then the handlers for each connection. */
-export function attachSockets(io: Server, context: AppContext): void {
+export function attachSockets(io: HoldlineServer, context: AppContext): void {
+  context.realtime.endSessions = (userId, reason) => endSessions(io, userId, reason);
+  io.use(handshakeAuth(context));
   io.on('connection', (socket) => {
-    context.logger.debug({ socketId: socket.id }, 'socket connected');
+    registerSessionHandlers(context, socket);
   });
 }

@@ -3,6 +3,7 @@ import { computed, ref } from 'vue';
 import { sessionSchema, type SessionDto } from '../../shared/schemas/auth';
 import type { UserDto } from '../../shared/schemas/users';
 import { api, ApiRequestError, setTokenSource } from '../services/api';
+import { disconnectSocket, renewSocketToken } from '../services/socket';
 
 /** Refresh this long before the access token expires, so a shift never sees it lapse. */
 const REFRESH_MARGIN_MS = 60_000;
@@ -23,12 +24,14 @@ export const useSessionStore = defineStore('session', () => {
     user.value = session.user;
     token.value = session.token;
     expiresAtMs.value = Date.parse(session.expiresAt);
+    renewSocketToken(session.token);
     clearTimeout(timer);
     timer = setTimeout(() => void refresh(), Math.max(5_000, expiresAtMs.value - Date.now() - REFRESH_MARGIN_MS));
   }
 
   function clear() {
     clearTimeout(timer);
+    disconnectSocket();
     user.value = null;
     token.value = null;
     expiresAtMs.value = 0;

@@ -9,6 +9,8 @@ import { createLogger } from '../../server/logger.js';
 
 export interface TestServer extends HoldlineApp {
   url: string;
+  /** Moves the server's clock forward (expiries, grace periods). */
+  advance(ms: number): void;
   port: number;
   config: Config;
   dataDir: string;
@@ -32,7 +34,9 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     ...options.env,
   });
   const dataSource = await openDatabase(config.databasePath);
+  let offsetMs = 0;
   const holdline = createApp({
+    now: () => new Date(Date.now() + offsetMs),
     config,
     dataSource,
     logger: createLogger(config.logLevel),
@@ -46,6 +50,9 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     ...holdline,
     url,
     port,
+    advance(ms: number) {
+      offsetMs += ms;
+    },
     config,
     dataDir,
     async stop() {

@@ -1,0 +1,95 @@
+import type { EntityManager } from 'typeorm';
+import type { SessionDto } from '../../shared/schemas/auth.js';
+import { signAccessToken } from '../auth/access-token.js';
+import { hashPassword, verifyPassword } from '../auth/passwords.js';
+import { issueRefreshToken, revokeByToken, rotateRefreshToken, type IssuedRefresh } from '../auth/refresh-tokens.js';
+import { findUsableLink } from '../auth/sign-in-links.js';
+import type { AppContext } from '../context.js';
+import { User } from '../entities/User.js';
+import { HttpError } from '../errors.js';
+import { presentUser } from '../presenters/user.js';
+import { recordSignInAudit } from './audit.js';
+
+export interface SignedIn {
+  session: SessionDto;
+  refresh: IssuedRefresh;
+}
+
+const badCredentials = () => new HttpError(401, 'bad_credentials', 'That e-mail and password do not match an account. Check both and try again.');
+const refreshRefused = () => new HttpError(401, 'session_ended', 'Your session has ended. Sign in again.');
+
+function sessionFor(context: AppContext, user: User, now: Date): SessionDto {
+  const { token, expiresAt } = signAccessToken(user.id, context.secret, now);
+  return { token, expiresAt, user: presentUser(user) };
+}
+
+/** Checks a password and starts a session; a wrong e-mail and a wrong password look the same. */
+export async function signIn(context: AppContext, email: string, password: string, ip: string | null): Promise<SignedIn> {
+  const normalized = email.trim().toLowerCase();
+  // Read and compare outside the write queue: bcrypt is slow and must not hold up board commands.
+  const user = await context.dataSource.manager.findOneBy(User, { email: normalized });
+  const matches = await verifyPassword(password, user?.passwordHash ?? null);
+  const now = context.now();
+  const outcome = await context.queue.transaction(async (manager): Promise<{ error: HttpError } | { signedIn: SignedIn }> => {
+    if (!user || !matches) {
+      await recordSignInAudit(manager, { kind: 'sign_in_failed', email: normalized, userId: user?.id, ip }, now);
+      return { error: badCredentials() };
+    }
+    if (!user.active) {
+      await recordSignInAudit(manager, { kind: 'sign_in_inactive', email: normalized, userId: user.id, ip }, now);
+      return { error: new HttpError(403, 'account_inactive', 'This account is deactivated. Ask your administrator.') };
+    }
+    await recordSignInAudit(manager, { kind: 'sign_in', email: normalized, userId: user.id, ip }, now);
+    return { signedIn: { session: sessionFor(context, user, now), refresh: await issueRefreshToken(manager, user.id, now) } };
+  });
+  // Refusals are answered after the commit so that their audit line is kept.
+  if ('error' in outcome) throw outcome.error;
+  return outcome.signedIn;
+}
+
+/** Rotates a refresh token into a new session; refusals are audited. */
+export async function refreshSession(context: AppContext, token: string | undefined, ip: string | null): Promise<SignedIn> {
+  const now = context.now();
+  const outcome = await context.queue.transaction(async (manager): Promise<{ error: HttpError } | { signedIn: SignedIn }> => {
+    if (!token) return { error: refreshRefused() };
+    const rotated = await rotateRefreshToken(manager, token, context.secret, now);
+    if (!rotated.ok) {
+      const kind = rotated.reason === 'reused' ? 'refresh_reuse' : 'refresh_refused';
+      await recordSignInAudit(manager, { kind, userId: rotated.userId, ip, detail: rotated.reason }, now);
+      return { error: refreshRefused() };
+    }
+    const user = await manager.findOneBy(User, { id: rotated.issued.userId });
+    if (!user || !user.active) {
+      await recordSignInAudit(manager, { kind: 'refresh_refused', userId: rotated.issued.userId, ip, detail: 'inactive' }, now);
+      return { error: refreshRefused() };
+    }
+    return { signedIn: { session: sessionFor(context, user, now), refresh: rotated.issued } };
+  });
+  if ('error' in outcome) throw outcome.error;
+  return outcome.signedIn;
+}
+
+/** Ends the session the refresh token belongs to. */
+export async function signOut(context: AppContext, token: string | undefined, ip: string | null): Promise<void> {
+  if (!token) return;
+  const now = context.now();
+  await context.queue.transaction(async (manager) => {
+    const userId = await revokeByToken(manager, token, now);
+    if (userId) await recordSignInAudit(manager, { kind: 'sign_out', userId, ip }, now);
+  });
+}
+
+/** Sets a password from an invitation or reset link, uses the link up and signs the person in. */
+export async function setPasswordFromLink(context: AppContext, token: string, password: string, ip: string | null): Promise<SignedIn> {
+  const passwordHash = await hashPassword(password);
+  const now = context.now();
+  return context.queue.transaction(async (manager: EntityManager) => {
+    const { link, user } = await findUsableLink(manager, token, now);
+    await manager.update(User, { id: user.id }, { passwordHash, updatedAt: now.toISOString() });
+    link.usedAt = now.toISOString();
+    await manager.save(link);
+    await recordSignInAudit(manager, { kind: 'password_set', email: user.email, userId: user.id, ip, detail: link.kind }, now);
+    user.passwordHash = passwordHash;
+    return { session: sessionFor(context, user, now), refresh: await issueRefreshToken(manager, user.id, now) };
+  });
+}

@@ -1,0 +1,67 @@
+import type { Qualification } from '../../shared/schemas/users.js';
+import type { User } from '../entities/User.js';
+import { forbidden, HttpError, unauthorized } from '../errors.js';
+
+/**
+ * Who a rule admits:
+ * - `anyone`: no sign-in needed
+ * - `signed_in`: any active, signed-in person
+ * - `admin`: a person with the admin flag
+ * - `self`: the person the request is about
+ * - `qualification:X`: a person qualified for crew role X
+ * Later issues add `crew:X` (a person holding role X on the job acted on).
+ */
+export type Subject = 'anyone' | 'signed_in' | 'admin' | 'self' | `qualification:${Qualification}`;
+
+export interface PolicyRow {
+  action: string;
+  allow: readonly Subject[];
+  /** The routes guarded by this action; the policy test calls each one as every kind of person. */
+  routes: readonly string[];
+}
+
+/** The one table of who may do what. Every route and socket handler asks it through `can`. */
+export const policyTable = [
+  { action: 'health.read', allow: ['anyone'], routes: ['GET /api/health'] },
+  { action: 'session.read', allow: ['signed_in'], routes: ['GET /api/auth/me'] },
+  { action: 'users.list', allow: ['admin'], routes: ['GET /api/users'] },
+  { action: 'users.invite', allow: ['admin'], routes: ['POST /api/users', 'POST /api/users/:userId/invitation'] },
+  { action: 'users.read', allow: ['admin', 'self'], routes: ['GET /api/users/:userId'] },
+  { action: 'users.update', allow: ['admin'], routes: ['PATCH /api/users/:userId'] },
+  { action: 'audit.read', allow: ['admin'], routes: ['GET /api/audit/sign-ins'] },
+  { action: 'inbox.read', allow: ['admin'], routes: ['GET /api/dev/inbox'] },
+  { action: 'socket.connect', allow: ['signed_in'], routes: [] },
+] as const satisfies readonly PolicyRow[];
+
+export type Action = (typeof policyTable)[number]['action'];
+
+/** What an action is about, when a rule depends on it. */
+export interface PolicyTarget {
+  userId?: string;
+}
+
+const rows = new Map<string, readonly Subject[]>(policyTable.map((r) => [r.action, r.allow]));
+
+function admits(subject: Subject, actor: User | null, target: PolicyTarget): boolean {
+  if (subject === 'anyone') return true;
+  if (!actor || !actor.active) return false;
+  if (subject === 'signed_in') return true;
+  if (subject === 'admin') return actor.isAdmin;
+  if (subject === 'self') return target.userId === actor.id;
+  const [, qualification] = subject.split(':') as [string, Qualification];
+  return actor.qualifications.includes(qualification);
+}
+
+/** May this person (or nobody signed in) do this action to this thing? */
+export function can(actor: User | null, action: Action, target: PolicyTarget = {}): boolean {
+  const allow = rows.get(action);
+  if (!allow) return false;
+  return allow.some((subject) => admits(subject, actor, target));
+}
+
+/** Throws 401 when nobody is signed in and sign-in would help, 403 when the person may not. */
+export function authorize(actor: User | null, action: Action, target: PolicyTarget = {}, signInProblem?: HttpError): void {
+  if (can(actor, action, target)) return;
+  if (!actor) throw signInProblem ?? unauthorized();
+  throw forbidden();
+}

@@ -1,0 +1,27 @@
+import request from 'supertest';
+import type { Qualification } from '../../shared/schemas/users.js';
+import type { User } from '../../server/entities/User.js';
+import { insertUser, TEST_PASSWORD } from '../factories.js';
+import type { TestServer } from './server.js';
+
+export interface SignedInUser {
+  user: User;
+  token: string;
+  /** The Set-Cookie value carrying the refresh token. */
+  cookie: string;
+}
+
+/** Creates a person through the real command and signs them in through the real route. */
+export async function signedInUser(server: TestServer, overrides: { qualifications?: Qualification[]; isAdmin?: boolean; email?: string } = {}): Promise<SignedInUser> {
+  const user = await server.context.queue.transaction((m) => insertUser(m, overrides));
+  const res = await request(server.app).post('/api/auth/login').send({ email: user.email, password: TEST_PASSWORD }).expect(200);
+  return { user, token: res.body.token as string, cookie: refreshCookieOf(res.headers['set-cookie']) };
+}
+
+/** Extracts `holdline_refresh=...` from a Set-Cookie header. */
+export function refreshCookieOf(setCookie: string | string[] | undefined): string {
+  const list = Array.isArray(setCookie) ? setCookie : setCookie ? [setCookie] : [];
+  const found = list.find((c) => c.startsWith('holdline_refresh='));
+  if (!found) throw new Error('no refresh cookie set');
+  return found.split(';')[0];
+}
