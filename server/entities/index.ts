@@ -1,8 +1,14 @@
+import { AssistCrane } from './AssistCrane.js';
+import { Component } from './Component.js';
+import { CraneModel } from './CraneModel.js';
+import { CraneUnit } from './CraneUnit.js';
+import { Inspection } from './Inspection.js';
 import { RefreshToken } from './RefreshToken.js';
 import { SignInAudit } from './SignInAudit.js';
 import { SignInLink } from './SignInLink.js';
+import { Upload } from './Upload.js';
 import { User } from './User.js';
 
 /** Every entity the data source knows; migrations create their tables. */
-export const entities = [User, RefreshToken, SignInLink, SignInAudit];
-export { RefreshToken, SignInAudit, SignInLink, User };
+export const entities = [User, RefreshToken, SignInLink, SignInAudit, Upload, CraneModel, CraneUnit, AssistCrane, Component, Inspection];
+export { AssistCrane, Component, CraneModel, CraneUnit, Inspection, RefreshToken, SignInAudit, SignInLink, Upload, User };

@@ -31,6 +31,54 @@ export const policyTable = [
   { action: 'audit.read', allow: ['admin'], routes: ['GET /api/audit/sign-ins'] },
   { action: 'inbox.read', allow: ['admin'], routes: ['GET /api/dev/inbox'] },
   { action: 'socket.connect', allow: ['signed_in'], routes: [] },
+  {
+    action: 'fleet.read',
+    allow: ['signed_in'],
+    routes: [
+      'GET /api/crane-models',
+      'GET /api/crane-models/:modelId',
+      'GET /api/crane-models/:modelId/arrangement',
+      'GET /api/crane-units',
+      'GET /api/crane-units/:unitId',
+      'GET /api/crane-units/:unitId/boom-makeup',
+      'GET /api/assist-cranes',
+      'GET /api/assist-cranes/:assistCraneId',
+      'GET /api/components',
+      'GET /api/components/:componentId',
+      'GET /api/components/:componentId/inspections',
+    ],
+  },
+  {
+    action: 'fleet.change',
+    allow: ['admin', 'qualification:supervisor'],
+    routes: [
+      'POST /api/crane-models',
+      'PATCH /api/crane-models/:modelId',
+      'POST /api/crane-models/import',
+      'POST /api/crane-units',
+      'PATCH /api/crane-units/:unitId',
+      'POST /api/assist-cranes',
+      'POST /api/components',
+      'PATCH /api/components/:componentId',
+    ],
+  },
+  {
+    action: 'inspections.record',
+    allow: ['admin', 'qualification:supervisor', 'qualification:rigger'],
+    routes: ['POST /api/components/:componentId/inspections'],
+  },
+  {
+    // Viewers watch and never act, so they never add photos.
+    action: 'uploads.create',
+    allow: ['admin', 'qualification:supervisor', 'qualification:operator', 'qualification:signaller', 'qualification:rigger'],
+    routes: ['POST /api/uploads'],
+  },
+  {
+    // The coarse rule; `canSeeUpload` then decides by what the photo belongs to.
+    action: 'uploads.read',
+    allow: ['signed_in'],
+    routes: ['GET /api/uploads/:uploadId', 'GET /api/uploads/:uploadId/thumbnail'],
+  },
 ] as const satisfies readonly PolicyRow[];
 
 export type Action = (typeof policyTable)[number]['action'];

@@ -1,5 +1,6 @@
 import { CreateUsers1764633600000 } from './1764633600000-CreateUsers.js';
 import { CreateSessions1764637200000 } from './1764637200000-CreateSessions.js';
+import { CreateFleet1764640800000 } from './1764640800000-CreateFleet.js';
 
 /** The migration chain, oldest first. */
-export const migrations = [CreateUsers1764633600000, CreateSessions1764637200000];
+export const migrations = [CreateUsers1764633600000, CreateSessions1764637200000, CreateFleet1764640800000];
