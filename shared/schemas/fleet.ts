@@ -190,3 +190,11 @@ export const componentListSchema = z.object({ items: z.array(componentSchema) })
 export const craneModelListSchema = z.object({ items: z.array(craneModelSummarySchema) });
 export const craneUnitListSchema = z.object({ items: z.array(craneUnitSchema) });
 export const assistCraneListSchema = z.object({ items: z.array(assistCraneUnitSchema) });
+export const craneModelEnvelopeSchema = z.object({ model: craneModelSchema });
+export const craneUnitEnvelopeSchema = z.object({ unit: craneUnitSchema });
+export const assistCraneEnvelopeSchema = z.object({ assistCrane: assistCraneUnitSchema });
+export const componentEnvelopeSchema = z.object({ component: componentSchema });
+export const inspectionListSchema = z.object({ items: z.array(inspectionSchema) });
+export const inspectionCreatedSchema = z.object({ inspection: inspectionSchema, component: componentSchema });
+/** Query of GET /api/crane-units/:id/boom-makeup. */
+export const boomMakeupQuerySchema = z.object({ lengthM: z.coerce.number().positive().max(500) });
