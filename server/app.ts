@@ -16,10 +16,17 @@ import type { Logger } from './logger.js';
 import { resolveSecret } from './auth/secret.js';
 import { createMailer, type Mailer } from './mail/mailer.js';
 import { authenticate } from './middlewares/authenticate.js';
+import { assistCranesRouter } from './routes/assist-cranes.js';
 import { auditRouter } from './routes/audit.js';
 import { authRouter } from './routes/auth.js';
+import { componentsRouter } from './routes/components.js';
+import { craneModelsRouter } from './routes/crane-models.js';
+import { craneUnitsRouter } from './routes/crane-units.js';
 import { healthRouter } from './routes/health.js';
 import { usersRouter } from './routes/users.js';
+import { uploadsRouter } from './routes/uploads.js';
+import { LocalDiskStorage } from './storage/local-disk.js';
+import type { Storage } from './storage/index.js';
 import type { HoldlineServer } from './sockets/auth.js';
 import { attachSockets } from './sockets/index.js';
 
@@ -33,6 +40,8 @@ export interface AppDeps {
   mailer?: Mailer;
   /** The clock; tests pass their own. */
   now?: () => Date;
+  /** Defaults to the local disk under `<dataDir>/uploads/`. */
+  storage?: Storage;
 }
 
 export interface HoldlineApp {
@@ -54,6 +63,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     queue,
     logger,
     mailer: deps.mailer ?? createMailer(config.smtpUrl, logger),
+    storage: deps.storage ?? new LocalDiskStorage(path.join(config.dataDir, 'uploads')),
     secret: resolveSecret(config.secret, config.dataDir),
     now: deps.now ?? (() => new Date()),
     realtime: { endSessions: () => undefined },
@@ -95,6 +105,11 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(authRouter(context));
   api.use(usersRouter(context));
   api.use(auditRouter(context));
+  api.use(craneModelsRouter(context));
+  api.use(craneUnitsRouter(context));
+  api.use(assistCranesRouter(context));
+  api.use(componentsRouter(context));
+  api.use(uploadsRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
 

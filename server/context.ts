@@ -3,6 +3,7 @@ import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
 import type { Mailer } from './mail/mailer.js';
+import type { Storage } from './storage/index.js';
 
 /** Live connections the commands may need to act on, filled in when Socket.IO is attached. */
 export interface Realtime {
@@ -17,6 +18,8 @@ export interface AppContext {
   queue: WriteQueue;
   logger: Logger;
   mailer: Mailer;
+  /** Photo bytes, behind a small interface (local disk under the data folder by default). */
+  storage: Storage;
   /** The token-signing secret (configured or generated in the data folder). */
   secret: string;
   /** The clock; tests move it to check expiries. */

@@ -1,4 +1,5 @@
 import type { Qualification } from '../../shared/schemas/users.js';
+import type { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { forbidden, HttpError, unauthorized } from '../errors.js';
 
@@ -105,6 +106,25 @@ export function can(actor: User | null, action: Action, target: PolicyTarget = {
   const allow = rows.get(action);
   if (!allow) return false;
   return allow.some((subject) => admits(subject, actor, target));
+}
+
+/** May this person see this photo? Decided by what it belongs to, after `uploads.read` admitted them. */
+export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedBy' | 'ownerKind'>): boolean {
+  if (!actor || !actor.active) return false;
+  if (actor.isAdmin || upload.uploadedBy === actor.id) return true;
+  switch (upload.ownerKind) {
+    case null:
+      // Not attached yet: it is still the uploader's draft.
+      return false;
+    case 'inspection':
+      // Inspection records are part of the fleet history everyone signed in may read.
+      return can(actor, 'fleet.read');
+    case 'step':
+    case 'hold':
+    case 'defect':
+      // For now admin or uploader only; a later issue admits the job's crew.
+      return false;
+  }
 }
 
 /** Throws 401 when nobody is signed in and sign-in would help, 403 when the person may not. */

@@ -1,0 +1,104 @@
+import { pipeline } from 'node:stream/promises';
+import { Router, type Request, type Response } from 'express';
+import multer from 'multer';
+import { z } from 'zod';
+import { checkUploadUrl } from '../auth/upload-urls.js';
+import { MAX_UPLOAD_BYTES, storeUpload } from '../commands/uploads.js';
+import type { AppContext } from '../context.js';
+import { Upload } from '../entities/Upload.js';
+import { badRequest, forbidden, HttpError, notFound } from '../errors.js';
+import { authorize, canSeeUpload } from '../policies/index.js';
+import { presentUpload } from '../presenters/upload.js';
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+const signedQuerySchema = z.object({ exp: z.string().optional(), sig: z.string().optional() });
+
+// Memory storage: the bytes are checked by content before anything touches the disk, and the
+// 10 MB limit bounds what one request can hold.
+const receivePhoto = multer({
+  storage: multer.memoryStorage(),
+  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, parts: 11 },
+}).single('file');
+
+const fileField = (message: string) => badRequest(message, [{ path: 'file', message }]);
+
+/** multer and busboy errors as our JSON errors. */
+function uploadProblem(err: unknown): HttpError {
+  if (err instanceof HttpError) return err;
+  if (err instanceof multer.MulterError) {
+    switch (err.code) {
+      case 'LIMIT_FILE_SIZE':
+        return new HttpError(413, 'too_large', 'Photos can be at most 10 MB. Choose a smaller photo or take it again at a lower size.');
+      case 'LIMIT_UNEXPECTED_FILE':
+        return fileField('Send the photo in the form field "file".');
+      case 'LIMIT_FILE_COUNT':
+        return fileField('Send one photo at a time.');
+      default:
+        return badRequest('The upload form has too many or too long fields. Send only the photo.');
+    }
+  }
+  // Busboy's own errors: a cut-off or malformed multipart body.
+  return new HttpError(400, 'bad_request', 'The upload could not be read. Check the connection and try again.');
+}
+
+/** Runs multer for one request and resolves with the file it read, if any. */
+function readPhoto(req: Request, res: Response): Promise<Express.Multer.File | undefined> {
+  return new Promise((resolve, reject) => {
+    receivePhoto(req, res, (err?: unknown) => (err ? reject(uploadProblem(err)) : resolve(req.file)));
+  });
+}
+
+/** Photos: upload one (checked by content), and read it or its thumbnail. */
+export function uploadsRouter(context: AppContext): Router {
+  const router = Router();
+  const { manager } = context.dataSource;
+
+  router.post('/uploads', async (req, res) => {
+    // Before multer: someone who may not upload is refused before a byte of the photo is read.
+    const file = await readPhoto(req, res);
+    authorize(req.actor ?? null, 'uploads.create', {}, req.authProblem);
+    if (!file) throw fileField('Attach a JPEG, PNG or WebP photo in the form field "file".');
+    const upload = await storeUpload(context, req.actor!, file);
+    res.status(201).location(`/api/uploads/${upload.id}`).json(presentUpload(upload, context));
+  });
+
+  /**
+   * Admits EITHER a valid `exp` + `sig` pair (minted by the presenter for someone who could see
+   * the photo then; `<img src>` cannot send a bearer token), OR a bearer token whose person
+   * passes `uploads.read` and `canSeeUpload`. A request with neither gets 401.
+   */
+  async function servePhoto(req: Request, res: Response, variant: 'photo' | 'thumbnail'): Promise<void> {
+    const uploadId = String(req.params.uploadId);
+    const query = signedQuerySchema.safeParse(req.query);
+    const { exp, sig } = query.success ? query.data : {};
+    const signedCheck = exp !== undefined || sig !== undefined ? checkUploadUrl(uploadId, exp ?? '', sig ?? '', context.secret, context.now()) : null;
+    const bySignature = signedCheck === 'ok';
+    if (!bySignature) {
+      const actor = req.actor ?? null;
+      if (!actor && signedCheck === 'expired') throw new HttpError(401, 'photo_link_expired', 'This photo link has expired. Reload the page to see the photo.');
+      if (!actor && signedCheck === 'invalid') throw new HttpError(401, 'photo_link_invalid', 'This photo link is not valid. Reload the page to see the photo.');
+      authorize(actor, 'uploads.read', {}, req.authProblem);
+    }
+
+    const upload = UUID.test(uploadId) ? await manager.findOneBy(Upload, { id: uploadId.toLowerCase() }) : null;
+    if (!upload) throw notFound('That photo');
+    if (!bySignature && !canSeeUpload(req.actor ?? null, upload)) throw forbidden('You cannot see this photo. It belongs to a record you do not have access to.');
+
+    const stored = await context.storage.get(variant === 'photo' ? upload.storedName : upload.thumbnailName);
+    if (!stored) {
+      context.logger.error({ uploadId, variant }, 'upload row without its file');
+      throw notFound('That photo’s file');
+    }
+    res.setHeader('Content-Type', variant === 'photo' ? upload.mimeType : 'image/webp');
+    res.setHeader('Content-Length', String(stored.sizeBytes));
+    res.setHeader('Cache-Control', 'private, max-age=86400');
+    // The type is ours, from the content check: browsers must not guess another.
+    res.setHeader('X-Content-Type-Options', 'nosniff');
+    await pipeline(stored.stream, res);
+  }
+
+  router.get('/uploads/:uploadId', (req, res) => servePhoto(req, res, 'photo'));
+  router.get('/uploads/:uploadId/thumbnail', (req, res) => servePhoto(req, res, 'thumbnail'));
+
+  return router;
+}
