@@ -1,6 +1,7 @@
 import type { AppContext } from '../context.js';
 import { createUser } from '../commands/users.js';
 import { User } from '../entities/User.js';
+import { seedDemoFleet } from './fleet.js';
 import { DEMO_PASSWORD, demoPeople } from './people.js';
 
 /**
@@ -9,11 +10,14 @@ import { DEMO_PASSWORD, demoPeople } from './people.js';
  * Returns whether it seeded.
  */
 export async function seedDemoIfEmpty(context: AppContext): Promise<boolean> {
-  return context.queue.transaction(async (manager) => {
-    if ((await manager.count(User)) > 0) return false;
-    for (const person of demoPeople) {
-      await createUser(manager, { ...person, password: DEMO_PASSWORD });
-    }
-    return true;
+  const people = await context.queue.transaction(async (manager) => {
+    if ((await manager.count(User)) > 0) return null;
+    const created = new Map<string, User>();
+    for (const person of demoPeople) created.set(person.email, await createUser(manager, { ...person, password: DEMO_PASSWORD }));
+    return created;
   });
+  if (!people) return false;
+  const person = (email: string) => people.get(email)!;
+  await seedDemoFleet(context, { supervisor: person('supervisor@holdline.test'), rigger: person('rigger@holdline.test') });
+  return true;
 }

@@ -58,6 +58,10 @@ describe('the server process', () => {
     const db = new Database(env.HOLDLINE_DB, { readonly: true });
     const count = () => (db.prepare('SELECT COUNT(*) AS n FROM user').get() as { n: number }).n;
     expect(count()).toBe(8);
+    // The invented fleet arrives through the same commands: three parts quarantined after inspections with photos.
+    const quarantined = db.prepare("SELECT serial FROM component WHERE status = 'quarantined' ORDER BY serial").all() as { serial: string }[];
+    expect(quarantined.map((r) => r.serial)).toEqual(['F07-BALL12-01', 'F07-G12-12', 'F07-INS12-06']);
+    expect((db.prepare('SELECT COUNT(*) AS n FROM upload WHERE owner_kind = ?').get('inspection') as { n: number }).n).toBe(3);
 
     const second = boot(env);
     await waitFor(() => second.output().includes('Holdline is serving'));
