@@ -55,8 +55,8 @@ export function uploadsRouter(context: AppContext): Router {
 
   router.post('/uploads', async (req, res) => {
     // Before multer: someone who may not upload is refused before a byte of the photo is read.
-    const file = await readPhoto(req, res);
     authorize(req.actor ?? null, 'uploads.create', {}, req.authProblem);
+    const file = await readPhoto(req, res);
     if (!file) throw fileField('Attach a JPEG, PNG or WebP photo in the form field "file".');
     const upload = await storeUpload(context, req.actor!, file);
     res.status(201).location(`/api/uploads/${upload.id}`).json(presentUpload(upload, context));

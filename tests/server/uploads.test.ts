@@ -206,6 +206,14 @@ describe('uploads: one path for every photo', () => {
     expect(await snapshot()).toEqual(before);
   });
 
+  it('decides who may upload before reading the body: 12 MB from anonymous is 401, from a viewer 403, not 413', async () => {
+    const big = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(12 * 1024 * 1024)]);
+    const before = await snapshot();
+    expect((await post(null, big, 'huge.jpg').expect(401)).body.error.code).toBe('unauthenticated');
+    expect((await post(viewer, big, 'huge.jpg').expect(403)).body.error.code).toBe('forbidden');
+    expect(await snapshot()).toEqual(before);
+  });
+
   it('refuses a viewer with 403 and stores nothing', async () => {
     const before = await snapshot();
     const res = await post(viewer, await photo('jpeg'), 'watching.jpg').expect(403);
