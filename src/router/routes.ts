@@ -31,7 +31,22 @@ export const routes: RouteRecordRaw[] = [
     children: [
       { path: '', redirect: { name: 'jobs' } },
       { path: 'jobs', name: 'jobs', component: () => import('../pages/jobs/JobListPage.vue'), meta: { title: 'Jobs' } },
-      { path: 'fleet', name: 'fleet', component: () => import('../pages/fleet/FleetPage.vue'), meta: { title: 'Fleet' } },
+      {
+        path: 'fleet',
+        children: [
+          { path: '', name: 'fleet', component: () => import('../pages/fleet/FleetPage.vue'), meta: { title: 'Fleet' } },
+          { path: 'units/:id', name: 'fleet-unit', component: () => import('../pages/fleet/UnitDetailPage.vue'), meta: { title: 'Crane unit' } },
+          { path: 'models/:id', name: 'fleet-model', component: () => import('../pages/fleet/ModelDetailPage.vue'), meta: { title: 'Crane model' } },
+          {
+            path: 'assist-cranes/:id',
+            name: 'fleet-assist-crane',
+            component: () => import('../pages/fleet/AssistCraneDetailPage.vue'),
+            meta: { title: 'Assist crane' },
+          },
+          { path: 'components', name: 'fleet-components', component: () => import('../pages/fleet/ComponentListPage.vue'), meta: { title: 'Components' } },
+          { path: 'components/:id', name: 'fleet-component', component: () => import('../pages/fleet/ComponentDetailPage.vue'), meta: { title: 'Component' } },
+        ],
+      },
       { path: 'records', name: 'records', component: () => import('../pages/records/RecordsPage.vue'), meta: { title: 'Records' } },
       { path: 'people', name: 'people', component: () => import('../pages/people/PeoplePage.vue'), meta: { title: 'People', admin: true } },
     ],

@@ -1,0 +1,47 @@
+import type { RouteLocationRaw } from 'vue-router';
+import type { ComponentKind, ComponentStatus, InspectionResult } from '../../../shared/schemas/fleet';
+
+export { componentKindLabels } from '../../../shared/schemas/fleet';
+export { formatWhen } from '../../services/time';
+
+/** A component's status in words, with the icon that goes with its colour. */
+export const componentStatusWords: Record<ComponentStatus, { label: string; icon: string; hint: string }> = {
+  serviceable: { label: 'Serviceable', icon: 'check_circle', hint: 'May go into a boom.' },
+  quarantined: { label: 'Quarantined', icon: 'report', hint: 'Do not use. Keep apart until a competent person clears it.' },
+  retired: { label: 'Retired', icon: 'remove_circle_outline', hint: 'Out of the fleet for good; its history is kept.' },
+};
+
+/** What an inspection found, as the buttons and the history say it. */
+export const inspectionResultWords: Record<InspectionResult, { label: string; icon: string; effect: string }> = {
+  serviceable: { label: 'Serviceable', icon: 'check_circle', effect: 'No defects found.' },
+  damaged: { label: 'Damaged', icon: 'report', effect: 'The component is quarantined until it is re-inspected.' },
+  repaired: { label: 'Repaired', icon: 'build_circle', effect: 'Repaired and checked; the component returns to service.' },
+};
+
+/**
+ * What to look for, by kind, from the trade's general knowledge. Shown as hints only: the
+ * manufacturer's inspection criteria for the part always govern.
+ */
+export const inspectionChecklist: Record<ComponentKind, string[]> = {
+  section: ['Straightness of chords', 'Dents', 'Bent or missing lacings', 'Cracked welds', 'Corrosion', 'Pin hole wear'],
+  guy_line: ['Straightness of the bar or line', 'Cracked welds at the connectors', 'Corrosion', 'Pin hole wear', 'Legible mark on the connectors'],
+  hook_block: ['Sheaves turn freely and are not cracked', 'Hook latch works', 'Cracked welds', 'Corrosion', 'Pin hole wear'],
+  rope: ['Broken wires', 'Kinks', 'Crushing', 'Bird-caging', 'Core protrusion', 'Heat damage', 'Loss of diameter'],
+};
+
+/** The weight of a part in tonnes, for people; the data keeps kilograms. */
+export function tonnes(weightKg: number): string {
+  return `${(Math.round(weightKg / 100) / 10).toLocaleString('en-GB')} t`;
+}
+
+/** A length with its unit, without trailing zeros. */
+export function metres(lengthM: number): string {
+  return `${Math.round(lengthM * 100) / 100} m`;
+}
+
+/** One labelled fact on a detail screen; `to` makes the value a link. */
+export interface Fact {
+  label: string;
+  value: string;
+  to?: RouteLocationRaw;
+}
