@@ -301,15 +301,17 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
   const header = [`Total length ${num(totalM)} m`, `${sections.length} sections`];
   if (!isTypeList) {
     const m = input as DrawableMakeup;
-    if (m.totalSectionWeightKg !== undefined && Number.isFinite(m.totalSectionWeightKg)) header.push(`sections ${num(m.totalSectionWeightKg / 1000)} t`);
+    if (m.totalSectionWeightKg !== undefined && Number.isFinite(m.totalSectionWeightKg)) header.push(`sections ${num(Math.round(m.totalSectionWeightKg / 100) / 10)} t`);
     if (m.pinCount && Number.isFinite(m.pinCount.total)) header.push(`${m.pinCount.total} pins (${m.pinCount.jointPins} in joints, ${m.pinCount.guyLinePins} in guy lines)`);
   }
   parts.push(text(MARGIN_X, y, header.join(' · '), `font-size="15" font-weight="700" fill="${p.ink}"`));
   if (!isTypeList && !(input as DrawableMakeup).buildable) {
+    // On its own line: beside a long header it would collide at narrow widths.
+    y += 26;
     const warning = 'NOT BUILDABLE from the parts at hand';
     const w = textWidth(warning, 13) + 16;
-    parts.push(`<rect x="${px(width - MARGIN_X - w)}" y="${px(y - 15)}" width="${px(w)}" height="20" fill="${p.stopFill}" stroke="${p.stop}" stroke-width="1.5"/>`);
-    parts.push(text(width - MARGIN_X - w + 8, y, warning, `font-size="13" font-weight="700" fill="${p.stop}"`));
+    parts.push(`<rect x="${px(MARGIN_X)}" y="${px(y - 15)}" width="${px(w)}" height="20" fill="${p.stopFill}" stroke="${p.stop}" stroke-width="1.5"/>`);
+    parts.push(text(MARGIN_X + 8, y, warning, `font-size="13" font-weight="700" fill="${p.stop}"`));
   }
 
   // Joint marks above the boom: a pin circle and its count, in lanes so close joints stay legible.
