@@ -150,6 +150,7 @@ describe('fleet screens', () => {
     await page.waitForURL(/status=quarantined/);
     await expect.poll(() => table.locator('tbody tr').count()).toBe(2);
     expect(await table.locator('tbody tr.row-quarantined').count()).toBe(2);
+    await page.waitForFunction(() => document.getAnimations().every((a) => a.playState !== 'running'));
     await screenshot(page, 'fleet-components-desktop');
 
     await page.getByRole('link', { name: 'TX-INS12-02' }).click();
