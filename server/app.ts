@@ -23,6 +23,7 @@ import { componentsRouter } from './routes/components.js';
 import { craneModelsRouter } from './routes/crane-models.js';
 import { craneUnitsRouter } from './routes/crane-units.js';
 import { healthRouter } from './routes/health.js';
+import { jobsRouter } from './routes/jobs.js';
 import { usersRouter } from './routes/users.js';
 import { uploadsRouter } from './routes/uploads.js';
 import { LocalDiskStorage } from './storage/local-disk.js';
@@ -66,7 +67,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     storage: deps.storage ?? new LocalDiskStorage(path.join(config.dataDir, 'uploads')),
     secret: resolveSecret(config.secret, config.dataDir),
     now: deps.now ?? (() => new Date()),
-    realtime: { endSessions: () => undefined },
+    realtime: { endSessions: () => undefined, publishJobEvent: () => undefined },
   };
 
   const app = express();
@@ -110,6 +111,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(assistCranesRouter(context));
   api.use(componentsRouter(context));
   api.use(uploadsRouter(context));
+  api.use(jobsRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
 

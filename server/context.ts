@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import type { JobEventDto } from '../shared/schemas/jobs.js';
 import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
@@ -9,6 +10,8 @@ import type { Storage } from './storage/index.js';
 export interface Realtime {
   /** Tells every socket of a person why their session ended, then disconnects them. */
   endSessions(userId: string, reason: string): void;
+  /** Broadcasts a committed job event to everyone on that job's board. */
+  publishJobEvent(event: JobEventDto): void;
 }
 
 /** What every router, socket handler and command receives: the app's collaborators. */

@@ -10,9 +10,9 @@ import { forbidden, HttpError, unauthorized } from '../errors.js';
  * - `admin`: a person with the admin flag
  * - `self`: the person the request is about
  * - `qualification:X`: a person qualified for crew role X
- * Later issues add `crew:X` (a person holding role X on the job acted on).
+ * - `crew:X`: a person holding crew role X on the job acted on; `crew:any`: in its crew at all
  */
-export type Subject = 'anyone' | 'signed_in' | 'admin' | 'self' | `qualification:${Qualification}`;
+export type Subject = 'anyone' | 'signed_in' | 'admin' | 'self' | `qualification:${Qualification}` | `crew:${Qualification}` | 'crew:any';
 
 export interface PolicyRow {
   action: string;
@@ -74,6 +74,31 @@ export const policyTable = [
     allow: ['admin', 'qualification:supervisor', 'qualification:operator', 'qualification:signaller', 'qualification:rigger'],
     routes: ['POST /api/uploads'],
   },
+  { action: 'jobs.list', allow: ['signed_in'], routes: ['GET /api/jobs'] },
+  { action: 'jobs.create', allow: ['admin', 'qualification:supervisor'], routes: ['POST /api/jobs'] },
+  {
+    action: 'jobs.read',
+    allow: ['admin', 'qualification:supervisor', 'crew:any'],
+    routes: [
+      'GET /api/jobs/:jobId',
+      'GET /api/jobs/:jobId/events',
+      'GET /api/jobs/:jobId/readiness',
+      'GET /api/jobs/:jobId/record/verify',
+      'GET /api/jobs/:jobId/configuration.pdf',
+    ],
+  },
+  {
+    // Only the job's own supervisors (or an admin) change a job.
+    action: 'jobs.plan',
+    allow: ['admin', 'crew:supervisor'],
+    routes: ['PATCH /api/jobs/:jobId', 'PUT /api/jobs/:jobId/crew', 'PUT /api/jobs/:jobId/configuration'],
+  },
+  {
+    // The job's supervisors ask for an override; another supervisor or an admin approves it.
+    action: 'jobs.override',
+    allow: ['admin', 'qualification:supervisor'],
+    routes: ['POST /api/jobs/:jobId/overrides'],
+  },
   {
     // The coarse rule; `canSeeUpload` then decides by what the photo belongs to.
     action: 'uploads.read',
@@ -87,6 +112,8 @@ export type Action = (typeof policyTable)[number]['action'];
 /** What an action is about, when a rule depends on it. */
 export interface PolicyTarget {
   userId?: string;
+  /** The roles the actor holds on the job acted on. */
+  crewRoles?: readonly Qualification[];
 }
 
 const rows = new Map<string, readonly Subject[]>(policyTable.map((r) => [r.action, r.allow]));
@@ -97,8 +124,10 @@ function admits(subject: Subject, actor: User | null, target: PolicyTarget): boo
   if (subject === 'signed_in') return true;
   if (subject === 'admin') return actor.isAdmin;
   if (subject === 'self') return target.userId === actor.id;
-  const [, qualification] = subject.split(':') as [string, Qualification];
-  return actor.qualifications.includes(qualification);
+  if (subject === 'crew:any') return (target.crewRoles ?? []).length > 0;
+  const [kind, role] = subject.split(':') as ['qualification' | 'crew', Qualification];
+  if (kind === 'crew') return (target.crewRoles ?? []).includes(role);
+  return actor.qualifications.includes(role);
 }
 
 /** May this person (or nobody signed in) do this action to this thing? */

@@ -29,10 +29,12 @@ export async function seedModelAndUnit(server: TestServer, token: string, fleetN
   return { model: model as CraneModelDto, unit: unit.body.unit as CraneUnitDto };
 }
 
-/** Registers the parts of the 18 m boom (base, 3 m insert, tip and its guy lines) on a unit. */
+/** Registers the parts of the 18 m boom (base, 3 m insert, tip, its guy lines, the HB120 block and a hoist rope) on a unit. */
 export async function addParts18m(server: TestServer, token: string, modelId: string, unitId: string, prefix: string): Promise<Record<string, string>> {
   const auth = { Authorization: `Bearer ${token}` };
-  const parts: [string, 'section' | 'guy_line', string][] = [
+  const parts: [string, 'section' | 'guy_line' | 'hook_block' | 'rope', string][] = [
+    [`${prefix}-HB120`, 'hook_block', 'HB120'],
+    [`${prefix}-R28`, 'rope', 'R28-hoist'],
     [`${prefix}-B1`, 'section', 'base'],
     [`${prefix}-I3A`, 'section', 'ins3'],
     [`${prefix}-T1`, 'section', 'tip'],

@@ -3,6 +3,7 @@ import { io as connect } from 'socket.io-client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { policyTable, type PolicyRow, type Subject } from '../../server/policies/index.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
+import { seedModelAndUnit } from '../helpers/fleet.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 
 type ActorName = 'anonymous' | 'rigger' | 'supervisor' | 'viewer' | 'admin';
@@ -15,6 +16,7 @@ describe('the policy table against the real routes', () => {
   let server: TestServer;
   const actors = {} as Record<Exclude<ActorName, 'anonymous'>, SignedInUser>;
   let other: SignedInUser;
+  let jobId: string;
 
   beforeAll(async () => {
     server = await startTestServer();
@@ -23,16 +25,24 @@ describe('the policy table against the real routes', () => {
     actors.viewer = await signedInUser(server, { qualifications: ['viewer'] });
     actors.admin = await signedInUser(server, { qualifications: [], isAdmin: true });
     other = await signedInUser(server, { qualifications: ['operator'] });
+    // A job the supervisor created (and so supervises); nobody else is on its crew.
+    const { unit } = await seedModelAndUnit(server, actors.admin.token);
+    const job = await request(server.app).post('/api/jobs').set('Authorization', `Bearer ${actors.supervisor.token}`).send({ name: 'Policy job', site: 'Test site', craneUnitId: unit.id, kind: 'erection' }).expect(201);
+    jobId = job.body.job.id as string;
   });
   afterAll(() => server.stop());
 
-  function admitted(allow: readonly Subject[], actor: SignedInUser | null, targetUserId: string | undefined): boolean {
+  function admitted(allow: readonly Subject[], actor: SignedInUser | null, targetUserId: string | undefined, onJob: boolean): boolean {
+    // Only the supervisor who created the job is on its crew, as its supervisor.
+    const crewRoles = onJob && actor === actors.supervisor ? ['supervisor'] : [];
     return allow.some((subject) => {
       if (subject === 'anyone') return true;
       if (!actor) return false;
       if (subject === 'signed_in') return true;
       if (subject === 'admin') return actor.user.isAdmin;
       if (subject === 'self') return targetUserId === actor.user.id;
+      if (subject === 'crew:any') return crewRoles.length > 0;
+      if (subject.startsWith('crew:')) return crewRoles.includes(subject.slice('crew:'.length));
       return actor.user.qualifications.includes(subject.slice('qualification:'.length) as never);
     });
   }
@@ -59,12 +69,15 @@ describe('the policy table against the real routes', () => {
     const targetUserId = target === 'self' ? (actor?.user.id ?? other.user.id) : target === 'other' ? other.user.id : undefined;
     const [method, pattern] = route.split(' ') as [string, string];
     // Other ids point at nothing: an admitted person then gets 404 (or 400), never 401/403.
-    const path = pattern.replace(':userId', targetUserId ?? '').replace(/:[a-zA-Z]+Id/g, '00000000-0000-4000-8000-000000000000');
+    const path = pattern
+      .replace(':userId', targetUserId ?? '')
+      .replace(':jobId', jobId)
+      .replace(/:[a-zA-Z]+Id/g, '00000000-0000-4000-8000-000000000000');
     let req = request(server.app)[method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'](path);
     if (actor) req = req.set('Authorization', `Bearer ${actor.token}`);
     if (method !== 'GET') req = req.send({});
     const res = await req;
-    if (admitted(row.allow, actor, targetUserId)) {
+    if (admitted(row.allow, actor, targetUserId, pattern.includes(':jobId'))) {
       expect([401, 403]).not.toContain(res.status);
     } else {
       expect(res.status).toBe(actor ? 403 : 401);

@@ -1,0 +1,110 @@
+import { randomUUID } from 'node:crypto';
+import type { EntityManager } from 'typeorm';
+import type { JobEventDto } from '../../shared/schemas/jobs.js';
+import type { AppContext } from '../context.js';
+import { Job } from '../entities/Job.js';
+import { JobEvent } from '../entities/JobEvent.js';
+import type { User } from '../entities/User.js';
+import { conflict, notFound } from '../errors.js';
+import { commandHash, eventHash, GENESIS_HASH } from '../events/chain.js';
+import { presentJobEvent } from '../presenters/job-event.js';
+
+/** What a command handler decided: the event to append. The handler has already changed the job row. */
+export interface EventDraft {
+  type: string;
+  /** The role the actor acted in (a crew role, or "admin"). */
+  role: string;
+  /** Every resulting change, so a client can apply the event without asking again. */
+  data: Record<string, unknown>;
+}
+
+export interface CommandOutcome {
+  event: JobEventDto;
+  job: Job;
+  /** True when this command id was seen before with the same body: nothing was applied again. */
+  replayed: boolean;
+}
+
+export interface JobCommand {
+  /** Client-generated (or server-generated for plain HTTP edits) id of the command. */
+  commandId?: string;
+  /** The command as received, for idempotency; defaults to the data. */
+  body: unknown;
+  actor: User;
+}
+
+/**
+ * The one writer of every job change. In one queued transaction it checks the command id, runs
+ * the handler (which validates against the current state and changes the job row), appends the
+ * single event with the next sequence number and the chained hash, and saves the job. After the
+ * commit it publishes the event to the job's live board.
+ */
+export async function runJobCommand(
+  context: AppContext,
+  jobId: string,
+  command: JobCommand,
+  handler: (manager: EntityManager, job: Job) => Promise<EventDraft>,
+): Promise<CommandOutcome> {
+  const outcome = await context.queue.transaction(async (manager) => {
+    const job = await manager.findOneBy(Job, { id: jobId });
+    if (!job) throw notFound('That job');
+    const replay = await findReplay(manager, jobId, command);
+    if (replay) return { event: presentJobEvent(replay), job, replayed: true };
+    const draft = await handler(manager, job);
+    const event = await appendEvent(manager, job, command, draft, context.now());
+    return { event: presentJobEvent(event), job, replayed: false };
+  });
+  if (!outcome.replayed) context.realtime.publishJobEvent(outcome.event);
+  return outcome;
+}
+
+/** Creates a job and its first event in one transaction. */
+export async function createJobWithEvent(
+  context: AppContext,
+  command: JobCommand,
+  build: (manager: EntityManager) => Promise<{ job: Job; draft: EventDraft; after?: (manager: EntityManager) => Promise<void> }>,
+): Promise<CommandOutcome> {
+  return context.queue.transaction(async (manager) => {
+    const { job, draft, after } = await build(manager);
+    job.lastSeq = 0;
+    job.headHash = GENESIS_HASH;
+    await manager.save(Job, job);
+    // Rows that refer to the job (its first crew member) go in after it, before the event.
+    if (after) await after(manager);
+    const event = await appendEvent(manager, job, command, draft, context.now());
+    return { event: presentJobEvent(event), job, replayed: false };
+  });
+}
+
+async function findReplay(manager: EntityManager, jobId: string, command: JobCommand): Promise<JobEvent | null> {
+  if (!command.commandId) return null;
+  const earlier = await manager.findOneBy(JobEvent, { jobId, commandId: command.commandId });
+  if (!earlier) return null;
+  if (earlier.commandHash !== commandHash(command.body)) {
+    throw conflict('command_id_reused', 'This command id was already used for a different command. Send it again with a new id.');
+  }
+  return earlier;
+}
+
+async function appendEvent(manager: EntityManager, job: Job, command: JobCommand, draft: EventDraft, now: Date): Promise<JobEvent> {
+  const fields = {
+    jobId: job.id,
+    seq: job.lastSeq + 1,
+    commandId: command.commandId ?? randomUUID(),
+    type: draft.type,
+    byUserId: command.actor.id,
+    byName: command.actor.displayName,
+    role: draft.role,
+    at: now.toISOString(),
+    // A JSON round trip drops undefined fields, so the stored data hashes the same when read back.
+    data: JSON.parse(JSON.stringify(draft.data)) as Record<string, unknown>,
+  };
+  const hash = eventHash(job.headHash, fields);
+  const event = manager.create(JobEvent, { ...fields, commandHash: commandHash(command.body), prevHash: job.headHash, hash });
+  await manager.save(JobEvent, event);
+  job.lastSeq = fields.seq;
+  job.headHash = hash;
+  job.updatedAt = fields.at;
+  await manager.save(job);
+  return event;
+}

@@ -1,0 +1,213 @@
+import { randomUUID } from 'node:crypto';
+import { In, type EntityManager } from 'typeorm';
+import type { z } from 'zod';
+import { computeConfiguration } from '../../shared/planner/compute.js';
+import type { ConfigurationResults } from '../../shared/planner/types.js';
+import type { Configuration } from '../../shared/schemas/configuration.js';
+import { emptyCommsPlan, type CrewRole, type createJobSchema, type updateJobSchema } from '../../shared/schemas/jobs.js';
+import type { AppContext } from '../context.js';
+import { AssistCrane } from '../entities/AssistCrane.js';
+import { CraneModel } from '../entities/CraneModel.js';
+import { CraneUnit } from '../entities/CraneUnit.js';
+import { Job } from '../entities/Job.js';
+import { JobCrew } from '../entities/JobCrew.js';
+import { JobOverride } from '../entities/JobOverride.js';
+import { User } from '../entities/User.js';
+import { badRequest, conflict, forbidden, HttpError } from '../errors.js';
+import { can } from '../policies/index.js';
+import { unitInventory } from '../queries/fleet.js';
+import { createJobWithEvent, runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
+
+/** The roles a person holds on a job. */
+export async function crewRolesOf(manager: EntityManager, jobId: string, userId: string): Promise<CrewRole[]> {
+  return (await manager.findBy(JobCrew, { jobId, userId })).map((c) => c.role);
+}
+
+/** The role a planning change is recorded under: the job's supervisor, or an admin acting as such. */
+async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<string> {
+  const roles = await crewRolesOf(manager, job.id, actor.id);
+  if (can(actor, 'jobs.plan', { crewRoles: roles })) return roles.includes('supervisor') ? 'supervisor' : 'admin';
+  throw forbidden('Only this job’s supervisors or an administrator can change it.');
+}
+
+function requireState(job: Job, allowed: Job['state'][], doing: string): void {
+  if (!allowed.includes(job.state)) {
+    throw new HttpError(409, 'invalid_state', `The job is ${job.state}; you can ${doing} only while it is ${allowed.join(' or ')}.`);
+  }
+}
+
+/** Creates a job in planning; a creator qualified as supervisor joins its crew as supervisor. */
+export async function createJob(context: AppContext, actor: User, input: z.output<typeof createJobSchema>, commandId?: string): Promise<CommandOutcome> {
+  const now = context.now().toISOString();
+  return createJobWithEvent(context, { commandId, body: input, actor }, async (manager) => {
+    if (!(await manager.existsBy(CraneUnit, { id: input.craneUnitId }))) throw badRequest('Choose a crane unit that exists.', [{ path: 'craneUnitId', message: 'No such crane unit' }]);
+    const job = manager.create(Job, {
+      id: randomUUID(),
+      ...input,
+      state: 'planning',
+      configuration: null,
+      results: null,
+      distribution: [],
+      commsPlan: emptyCommsPlan,
+      planVersion: 0,
+      createdBy: actor.id,
+      createdAt: now,
+      updatedAt: now,
+    });
+    const joins = actor.qualifications.includes('supervisor');
+    return {
+      job,
+      draft: { type: 'job.created', role: joins ? 'supervisor' : 'admin', data: { job: { ...input, state: 'planning' }, crew: joins ? [{ userId: actor.id, role: 'supervisor' }] : [] } },
+      after: joins ? (m: EntityManager) => m.insert(JobCrew, { jobId: job.id, userId: actor.id, role: 'supervisor' }).then(() => undefined) : undefined,
+    };
+  });
+}
+
+/** Changes a job's name, site, kind, distribution list or communications plan. */
+export async function updateJob(context: AppContext, actor: User, jobId: string, changes: z.output<typeof updateJobSchema>, commandId?: string): Promise<CommandOutcome> {
+  return runJobCommand(context, jobId, { commandId, body: changes, actor }, async (manager, job) => {
+    const role = await planningRole(manager, job, actor);
+    requireState(job, changes.kind ? ['planning'] : ['planning', 'ready', 'live', 'stopped'], changes.kind ? 'change the kind of job' : 'change the job');
+    if (changes.commsPlan) await assertCrewIds(manager, job.id, [...changes.commsPlan.callSigns.map((c) => c.userId), ...changes.commsPlan.motionSignallers.map((m) => m.userId)]);
+    if (changes.commsPlan) {
+      const signallers = new Set((await manager.findBy(JobCrew, { jobId: job.id, role: 'signaller' })).map((c) => c.userId));
+      changes.commsPlan.motionSignallers.forEach((m, i) => {
+        if (!signallers.has(m.userId)) throw badRequest('Only the job’s signallers can direct a motion.', [{ path: `commsPlan.motionSignallers.${i}.userId`, message: 'Not a signaller on this job' }]);
+      });
+    }
+    Object.assign(job, changes);
+    return { type: 'job.updated', role, data: { changes } };
+  });
+}
+
+async function assertCrewIds(manager: EntityManager, jobId: string, userIds: string[]): Promise<void> {
+  if (userIds.length === 0) return;
+  const crew = new Set((await manager.findBy(JobCrew, { jobId })).map((c) => c.userId));
+  const missing = userIds.filter((id) => !crew.has(id));
+  if (missing.length) throw badRequest('The communications plan names someone who is not in the crew.', [{ path: 'commsPlan', message: 'Add them to the crew first' }]);
+}
+
+/** Replaces the crew. Each role must be one of the person's qualifications. */
+export async function setCrew(context: AppContext, actor: User, jobId: string, members: { userId: string; role: CrewRole }[], commandId?: string): Promise<CommandOutcome> {
+  return runJobCommand(context, jobId, { commandId, body: { members }, actor }, async (manager, job) => {
+    const role = await planningRole(manager, job, actor);
+    requireState(job, ['planning', 'ready', 'live', 'stopped'], 'change the crew');
+    const users = new Map((await manager.findBy(User, { id: In([...new Set(members.map((m) => m.userId))]) })).map((u) => [u.id, u]));
+    const fields = members.flatMap((m, i) => {
+      const user = users.get(m.userId);
+      if (!user) return [{ path: `members.${i}.userId`, message: 'No such person' }];
+      if (!user.active) return [{ path: `members.${i}.userId`, message: `${user.displayName} is deactivated` }];
+      if (!user.qualifications.includes(m.role)) return [{ path: `members.${i}.role`, message: `${user.displayName} is not qualified as ${m.role}` }];
+      return [];
+    });
+    if (fields.length) throw badRequest('Some crew assignments are not possible.', fields);
+    const unique = [...new Map(members.map((m) => [`${m.userId}:${m.role}`, m])).values()];
+    const before = await manager.findBy(JobCrew, { jobId: job.id });
+    await manager.delete(JobCrew, { jobId: job.id });
+    if (unique.length) await manager.insert(JobCrew, unique.map((m) => ({ jobId: job.id, userId: m.userId, role: m.role })));
+    const key = (m: { userId: string; role: string }) => `${m.userId}:${m.role}`;
+    const beforeKeys = new Set(before.map(key));
+    const afterKeys = new Set(unique.map(key));
+    return {
+      type: 'crew.set',
+      role,
+      data: {
+        crew: unique.map((m) => ({ userId: m.userId, name: users.get(m.userId)!.displayName, role: m.role })),
+        added: unique.filter((m) => !beforeKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
+        removed: before.filter((m) => !afterKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
+      },
+    };
+  });
+}
+
+/** Loads what the configuration is computed against. */
+export async function plannerInputsFor(manager: EntityManager, config: Configuration) {
+  const unit = await manager.findOneBy(CraneUnit, { id: config.craneUnitId });
+  if (!unit) throw badRequest('Choose a crane unit that exists.', [{ path: 'craneUnitId', message: 'No such crane unit' }]);
+  const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
+  const assist = config.assist.assistCraneId ? await manager.findOneBy(AssistCrane, { id: config.assist.assistCraneId }) : null;
+  if (config.assist.assistCraneId && !assist) throw badRequest('Choose an assist crane that exists.', [{ path: 'assist.assistCraneId', message: 'No such assist crane' }]);
+  if (assist && config.assist.chartId && !assist.data.charts.some((c) => c.id === config.assist.chartId)) {
+    throw badRequest('Choose one of the assist crane’s charts.', [{ path: 'assist.chartId', message: 'No such chart for this assist crane' }]);
+  }
+  return { unit, inputs: { arrangement: model.arrangement, inventory: await unitInventory(manager, unit), assistCrane: assist?.data ?? null } };
+}
+
+/** An override still stands only while its figure fails with the same value. */
+function overrideStillApplies(results: ConfigurationResults, override: JobOverride): boolean {
+  const figure = results.figures.find((f) => f.key === override.figureKey);
+  return !!figure && figure.status !== 'pass' && figure.status !== 'info' && figure.overridable && figure.value === override.figureValue;
+}
+
+/**
+ * Saves the configuration and the server's own computation of it; any figures a client sent are
+ * ignored. Overrides whose figure changed or no longer fails are withdrawn in the same event.
+ */
+export async function setConfiguration(context: AppContext, actor: User, jobId: string, config: Configuration, commandId?: string): Promise<CommandOutcome> {
+  return runJobCommand(context, jobId, { commandId, body: config, actor }, async (manager, job) => {
+    const role = await planningRole(manager, job, actor);
+    requireState(job, ['planning'], 'change the configuration');
+    const { inputs } = await plannerInputsFor(manager, config);
+    const results = computeConfiguration(config, inputs);
+    job.configuration = config;
+    job.results = results;
+    job.craneUnitId = config.craneUnitId;
+    const overrides = await manager.findBy(JobOverride, { jobId: job.id });
+    const dropped = overrides.filter((o) => !overrideStillApplies(results, o));
+    if (dropped.length) await manager.delete(JobOverride, { id: In(dropped.map((o) => o.id)) });
+    return {
+      type: 'configuration.set',
+      role,
+      data: {
+        configuration: config,
+        figures: results.figures.map((f) => ({ key: f.key, value: f.value, status: f.status, overridable: f.overridable })),
+        overridesWithdrawn: dropped.map((o) => ({ id: o.id, figureKey: o.figureKey })),
+      },
+    };
+  });
+}
+
+/** A job supervisor asks to override a failing figure that may be overridden. */
+export async function requestOverride(context: AppContext, actor: User, jobId: string, figureKey: string, reason: string, commandId?: string): Promise<CommandOutcome> {
+  return runJobCommand(context, jobId, { commandId, body: { action: 'request', figureKey, reason }, actor }, async (manager, job) => {
+    const role = await planningRole(manager, job, actor);
+    requireState(job, ['planning'], 'override a figure');
+    const figure = job.results?.figures.find((f) => f.key === figureKey);
+    if (!figure) throw badRequest('There is no such figure in the current configuration.', [{ path: 'figureKey', message: 'Unknown figure' }]);
+    if (figure.status === 'pass' || figure.status === 'info') throw conflict('not_failing', `${figure.label} does not fail; there is nothing to override.`);
+    if (!figure.overridable) throw conflict('not_overridable', `${figure.label} can never be overridden: change the configuration instead.`);
+    if (await manager.existsBy(JobOverride, { jobId: job.id, figureKey })) throw conflict('override_exists', `An override for ${figure.label} has already been asked for.`);
+    const override = manager.create(JobOverride, {
+      id: randomUUID(),
+      jobId: job.id,
+      figureKey,
+      figureLabel: figure.label,
+      figureValue: figure.value,
+      reason,
+      requestedBy: actor.id,
+      requestedAt: context.now().toISOString(),
+      approvedBy: null,
+      approvedAt: null,
+    });
+    await manager.save(override);
+    return { type: 'override.requested', role, data: { override: { id: override.id, figureKey, figureLabel: figure.label, figureValue: figure.value, reason } } };
+  });
+}
+
+/** A second person — another supervisor or an admin — approves an override. */
+export async function approveOverride(context: AppContext, actor: User, jobId: string, overrideId: string, commandId?: string): Promise<CommandOutcome> {
+  return runJobCommand(context, jobId, { commandId, body: { action: 'approve', overrideId }, actor }, async (manager, job) => {
+    requireState(job, ['planning'], 'approve an override');
+    const override = await manager.findOneBy(JobOverride, { id: overrideId, jobId: job.id });
+    if (!override) throw badRequest('There is no such override on this job.', [{ path: 'overrideId', message: 'Unknown override' }]);
+    if (override.approvedBy) throw conflict('already_approved', 'This override is already approved.');
+    if (override.requestedBy === actor.id) throw conflict('same_person', 'The person who asked for an override cannot approve it. Ask another supervisor or an administrator.');
+    override.approvedBy = actor.id;
+    override.approvedAt = context.now().toISOString();
+    await manager.save(override);
+    const role = actor.isAdmin ? 'admin' : 'supervisor';
+    return { type: 'override.approved', role, data: { overrideId, figureKey: override.figureKey } };
+  });
+}
+
+export type { EventDraft };

@@ -1,0 +1,60 @@
+import { Column, Entity, PrimaryColumn } from 'typeorm';
+import type { Configuration } from '../../shared/schemas/configuration.js';
+import type { CommsPlan, JobKind, JobState } from '../../shared/schemas/jobs.js';
+import type { ConfigurationResults } from '../../shared/planner/types.js';
+
+/**
+ * A job's current state: a projection of its event log, written in the same transaction as each
+ * event. `lastSeq` and `headHash` close the hash chain.
+ */
+@Entity('job')
+export class Job {
+  @PrimaryColumn('varchar', { length: 36 })
+  id!: string;
+
+  @Column('varchar', { length: 120 })
+  name!: string;
+
+  @Column('varchar', { length: 200 })
+  site!: string;
+
+  @Column('varchar', { length: 36, name: 'crane_unit_id' })
+  craneUnitId!: string;
+
+  @Column('varchar', { length: 12 })
+  kind!: JobKind;
+
+  @Column('varchar', { length: 12 })
+  state!: JobState;
+
+  @Column('simple-json', { nullable: true })
+  configuration!: Configuration | null;
+
+  /** The server's computation of the configuration. */
+  @Column('simple-json', { nullable: true })
+  results!: ConfigurationResults | null;
+
+  @Column('simple-json')
+  distribution!: string[];
+
+  @Column('simple-json', { name: 'comms_plan' })
+  commsPlan!: CommsPlan;
+
+  @Column('integer', { name: 'plan_version' })
+  planVersion!: number;
+
+  @Column('integer', { name: 'last_seq' })
+  lastSeq!: number;
+
+  @Column('varchar', { length: 64, name: 'head_hash' })
+  headHash!: string;
+
+  @Column('varchar', { length: 36, name: 'created_by' })
+  createdBy!: string;
+
+  @Column('varchar', { length: 30, name: 'created_at' })
+  createdAt!: string;
+
+  @Column('varchar', { length: 30, name: 'updated_at' })
+  updatedAt!: string;
+}

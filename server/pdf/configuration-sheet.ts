@@ -1,0 +1,81 @@
+import { boomMakeupSvg } from '../../shared/drawings/boom-makeup.js';
+import type { ArrangementData } from '../../shared/schemas/arrangement.js';
+import { groundSourceLabels } from '../../shared/schemas/configuration.js';
+import type { JobDto } from '../../shared/schemas/jobs.js';
+import type { ConfigurationResults } from '../../shared/planner/types.js';
+import { PdfWriter, SAFETY_TEXT, svgAspect } from './document.js';
+
+const statusWords = { pass: 'Pass', fail: 'FAIL', info: 'Info', unverified: 'UNVERIFIED' } as const;
+
+/** The configuration sheet: every input, every figure with its rule, overrides and the drawings. */
+export async function configurationSheetPdf(job: JobDto, results: ConfigurationResults | null, arrangement: ArrangementData, printedAt: Date): Promise<Buffer> {
+  const pdf = new PdfWriter(`Configuration sheet — ${job.name}`, `Holdline configuration sheet · ${job.name} · crane ${job.craneFleetNumber} · printed ${printedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC · log seq ${job.lastSeq}`);
+  pdf.title('Configuration sheet', `${job.name} — ${job.site}`);
+  pdf.facts([
+    ['Crane', `${job.craneFleetNumber} — ${arrangement.manufacturer} ${arrangement.model}`],
+    ['Job', `${job.kind === 'erection' ? 'Erection' : 'Dismantling'}, ${job.state}`],
+    ['Log', `event ${job.lastSeq}, head ${job.headHash.slice(0, 16)}…`],
+  ]);
+  pdf.notice(SAFETY_TEXT);
+
+  const c = job.configuration;
+  if (!c || !results) {
+    pdf.paragraph('No configuration has been planned for this job yet.');
+    return pdf.finish();
+  }
+
+  pdf.heading('Configuration');
+  pdf.facts([
+    ['Boom length', `${c.boomLengthM} m`],
+    ['Main hook', `${c.mainHook.hookBlockId}, ${c.mainHook.parts} parts of line`],
+    ['Auxiliary', c.auxiliary.enabled ? `auxiliary sheave with ${c.auxiliary.hookBlockId}` : 'not fitted'],
+    ['Heaviest load', `${c.heaviestLoad.description}: ${c.heaviestLoad.loadT} t + rigging ${c.heaviestLoad.riggingT} t at ${c.heaviestLoad.radiusM} m radius`],
+    ['Ground', `${c.ground.groundType || 'type not given'}, allowable ${c.ground.allowablePressureKpa} kPa — source: ${groundSourceLabels[c.ground.source.kind]}${c.ground.source.reference ? ` (${c.ground.source.reference})` : ''}`],
+    ['Mats', c.mats.used ? `${c.mats.lengthM} × ${c.mats.widthM} × ${c.mats.thicknessM} m, ${c.mats.weightKg} kg each` : 'none'],
+    ['Assist crane lifts', c.assist.lifts.length ? c.assist.lifts.map((l) => `${l.label} ${l.liftT} t + ${l.riggingT} t at ${l.radiusM} m`).join('; ') : 'none'],
+    ['Power lines', c.siteHazards.powerLines.length ? c.siteHazards.powerLines.map((p) => `${p.label}: ${p.voltageKv} kV at ${p.distanceM} m`).join('; ') : 'none recorded'],
+    ['Buried services', c.siteHazards.buriedServices || 'none recorded'],
+    ['Neighbours', c.siteHazards.neighbours || 'none recorded'],
+  ]);
+
+  pdf.heading('Boom make-up');
+  const m = results.makeup;
+  pdf.table(
+    ['Position', 'Section', 'Length', 'From foot', 'Serial'],
+    [0.12, 0.3, 0.16, 0.2, 0.22],
+    m.sections.map((s) => [String(s.position), s.typeId, `${s.lengthM} m`, `${s.startM}–${s.endM} m`, s.serial ?? 'none at hand']),
+  );
+  pdf.paragraph(`Total section weight ${(m.totalSectionWeightKg / 1000).toFixed(2)} t; ${m.pinCount.total} pins (${m.pinCount.jointPins} in joints, ${m.pinCount.guyLinePins} in guy lines). ${m.buildable ? 'Buildable from serviceable parts.' : `Not buildable: ${m.reasons.join('; ')}`}`);
+  const boomSvg = boomMakeupSvg(m, { sectionTypes: arrangement.sectionTypes, widthPx: 960 });
+  pdf.drawing(boomSvg, svgAspect(boomSvg));
+
+  pdf.heading('Computed figures');
+  for (const f of results.figures) {
+    pdf.table([], [0.4, 0.42, 0.18], [[f.label, f.value, statusWords[f.status] + (f.status === 'fail' && !f.overridable ? ', cannot be overridden' : '')]]);
+    pdf.paragraph(`Rule: ${f.rule}${f.detail ? ` — ${f.detail}` : ''}`, { size: 7.5, color: '#3b434c' });
+  }
+
+  pdf.heading('Overrides');
+  if (job.overrides.length === 0) pdf.paragraph('None.');
+  else
+    pdf.table(
+      ['Figure', 'Reason', 'Asked by', 'Approved by'],
+      [0.22, 0.4, 0.19, 0.19],
+      job.overrides.map((o) => [o.figureLabel, o.reason, `${o.requestedBy.name}, ${o.requestedAt.slice(0, 16).replace('T', ' ')}`, o.approvedBy ? `${o.approvedBy.name}, ${o.approvedAt!.slice(0, 16).replace('T', ' ')}` : 'NOT APPROVED']),
+    );
+
+  for (const extra of extraDrawings) {
+    const drawn = extra(job, results);
+    if (!drawn) continue;
+    pdf.heading(drawn.title);
+    pdf.drawing(drawn.svg, svgAspect(drawn.svg));
+  }
+  return pdf.finish();
+}
+
+/** Further drawings for the sheet (reeving, ground pressure, site plan), registered by their owners. */
+type ExtraDrawing = (job: JobDto, results: ConfigurationResults) => { title: string; svg: string } | null;
+const extraDrawings: ExtraDrawing[] = [];
+export function addConfigurationDrawing(drawing: ExtraDrawing): void {
+  extraDrawings.push(drawing);
+}
