@@ -50,5 +50,11 @@ export function usersRouter(context: AppContext): Router {
     res.status(202).json({ message: 'Invitation sent.' });
   });
 
+  router.get('/crew-candidates', async (req, res) => {
+    authorize(req.actor ?? null, 'people.candidates', {}, req.authProblem);
+    const people = await manager.find(User, { where: { active: true }, order: { displayName: 'ASC' } });
+    res.json({ items: people.map((u) => ({ id: u.id, displayName: u.displayName, qualifications: u.qualifications })) });
+  });
+
   return router;
 }

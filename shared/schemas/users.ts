@@ -55,3 +55,9 @@ export type UpdateUserRequest = z.infer<typeof updateUserSchema>;
 
 export const userListSchema = z.object({ items: z.array(userSchema) });
 export const userEnvelopeSchema = z.object({ user: userSchema });
+
+/** Answer of GET /api/crew-candidates: active people a supervisor may put in a crew. */
+export const crewCandidateListSchema = z.object({
+  items: z.array(z.object({ id: z.string(), displayName: z.string(), qualifications: z.array(qualificationSchema) })),
+});
+export type CrewCandidate = z.infer<typeof crewCandidateListSchema>['items'][number];

@@ -107,6 +107,15 @@ describe('people, invitations and password resets', () => {
     expect((await request(server.app).patch(`/api/users/${admin.user.id}`).set(asAdmin()).send({ active: false }).expect(409)).body.error.code).toBe('self_deactivate');
   });
 
+  it('supervisors see crew candidates (active people, no e-mails); riggers do not', async () => {
+    const sup = await signedInUser(server, { qualifications: ['supervisor'] });
+    const res = await request(server.app).get('/api/crew-candidates').set({ Authorization: `Bearer ${sup.token}` }).expect(200);
+    expect(res.body.items.length).toBeGreaterThan(1);
+    expect(JSON.stringify(res.body)).not.toContain('@');
+    const rig = await signedInUser(server, { qualifications: ['rigger'] });
+    await request(server.app).get('/api/crew-candidates').set({ Authorization: `Bearer ${rig.token}` }).expect(403);
+  });
+
   it('a non-admin is refused on every admin route with 403', async () => {
     const rigger = await signedInUser(server, { qualifications: ['rigger', 'supervisor'] });
     const auth = { Authorization: `Bearer ${rigger.token}` };
