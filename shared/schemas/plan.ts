@@ -1,0 +1,121 @@
+import { z } from 'zod';
+import { crewRoleSchema } from './jobs.js';
+
+const id = z.string().trim().min(1).max(64).regex(/^[A-Za-z0-9_.:-]+$/, 'Use letters, digits, dot, colon, dash or underscore');
+const text = (max: number) => z.string().trim().min(1).max(max);
+
+/** What a step records when it is completed. */
+export const stepRecordSchema = z.object({
+  kind: z.enum(['serial', 'reading']),
+  label: text(120),
+  /** For readings, e.g. "m/s", "kPa". */
+  unit: z.string().trim().max(20).nullable(),
+  /** For serials, the component kind and type expected at this position (the as-built record). */
+  componentKind: z.enum(['section', 'guy_line', 'hook_block', 'rope']).nullable(),
+  typeId: z.string().trim().max(64).nullable(),
+  /** The serial the plan expects here (from the boom make-up), for the record; any serviceable one of the type may be fitted. */
+  plannedSerial: z.string().trim().max(64).nullable(),
+});
+export type StepRecord = z.infer<typeof stepRecordSchema>;
+
+export const stepSchema = z.object({
+  id,
+  text: text(500),
+  /** Crew roles allowed to complete it. */
+  allowedRoles: z.array(crewRoleSchema).min(1),
+  requiresPhoto: z.boolean(),
+  records: stepRecordSchema.nullable(),
+  /** A caution shown with the step. */
+  caution: z.string().trim().max(500).nullable(),
+});
+export type PlanStep = z.infer<typeof stepSchema>;
+
+/** The controller values a value-check hold asks for. */
+export const valueCheckFields = ['boomLengthM', 'hookBlockId', 'parts', 'counterweightT', 'operatingMode'] as const;
+export const valueCheckFieldSchema = z.enum(valueCheckFields);
+export type ValueCheckField = z.infer<typeof valueCheckFieldSchema>;
+export const valueCheckFieldLabels: Record<ValueCheckField, string> = {
+  boomLengthM: 'Boom length (m)',
+  hookBlockId: 'Hook block',
+  parts: 'Parts of line',
+  counterweightT: 'Counterweight (t)',
+  operatingMode: 'Operating mode',
+};
+
+/**
+ * A value check: the person acknowledging types what the crane's controller shows. The expected
+ * values come from the configuration and are never sent to the people who acknowledge.
+ */
+export const valueCheckSchema = z.object({
+  fields: z.array(z.object({ field: valueCheckFieldSchema, expected: z.string().trim().min(1).max(64) })).min(1),
+});
+
+export const holdSchema = z.object({
+  id,
+  title: text(200),
+  instruction: text(1000),
+  /** Roles that must each acknowledge, by different people. */
+  requiredRoles: z.array(crewRoleSchema).min(1, 'A hold needs at least one acknowledging role'),
+  releasingRole: z.literal('supervisor'),
+  /** Can never be skipped, removed, or lose a required role. */
+  mandatory: z.boolean(),
+  valueCheck: valueCheckSchema.nullable(),
+});
+export type PlanHold = z.infer<typeof holdSchema>;
+
+export const stageSchema = z.object({
+  id,
+  title: text(200),
+  /** Why this stage exists, in a sentence. */
+  summary: z.string().trim().max(1000),
+  /** Stage ids that must be done (or skipped) before this one becomes active. */
+  dependsOn: z.array(id),
+  cautions: z.array(text(500)).max(20),
+  /** The crane or the assist crane moves in this stage: a radio check opens it. */
+  involvesCraneMovement: z.boolean(),
+  steps: z.array(stepSchema).max(200),
+  hold: holdSchema.nullable(),
+});
+export type PlanStage = z.infer<typeof stageSchema>;
+
+export const briefingSchema = z.object({
+  title: text(200),
+  sections: z.array(z.object({ heading: text(200), items: z.array(text(1000)) })),
+});
+export type Briefing = z.infer<typeof briefingSchema>;
+
+/** A job's plan: stages in order, each with steps and at most one hold, and the briefing. */
+export const planSchema = z.object({
+  kind: z.enum(['erection', 'dismantling']),
+  stages: z.array(stageSchema).min(1).max(120),
+  briefing: briefingSchema,
+});
+export type Plan = z.infer<typeof planSchema>;
+
+/** One problem that stops a plan being locked. */
+export interface PlanProblem {
+  code: 'cycle' | 'unknown_dependency' | 'unreachable' | 'duplicate_id' | 'mandatory_hold_removed' | 'mandatory_role_removed' | 'no_acknowledging_role' | 'holds_need_more_people';
+  message: string;
+  /** Where in the plan, as a path like "stages.3.dependsOn.0". */
+  path?: string;
+}
+
+export const planVersionSchema = z.object({
+  version: z.number().int(),
+  createdAt: z.string(),
+  createdBy: z.object({ userId: z.string(), name: z.string() }),
+  reason: z.string(),
+  plan: planSchema,
+});
+export type PlanVersionDto = z.infer<typeof planVersionSchema>;
+
+/** Answer of GET /api/jobs/:id/plan: the draft while planning, the locked version after. */
+export const planEnvelopeSchema = z.object({
+  version: z.number().int(),
+  locked: z.boolean(),
+  /** The draft was generated from another configuration than the current one. */
+  stale: z.boolean(),
+  plan: planSchema,
+  problems: z.array(z.object({ code: z.string(), message: z.string(), path: z.string().optional() })),
+});
+export const planVersionListSchema = z.object({ items: z.array(planVersionSchema) });
