@@ -4,3 +4,6 @@
  */
 export { AUX_SHEAVE_TIP_EXTENSION_M, computeConfiguration } from './compute.js';
 export type { AssistLiftResultRow, ConfigurationResults, LoadCaseResult, PlannerInputs, PowerLineResult } from './types.js';
+export { reevingSvg, sheavesUsed, type ReevingDrawingInput, type ReevingDrawingOptions } from '../drawings/reeving.js';
+export { groundPressureSvg, type GroundPressureDrawingOptions } from '../drawings/ground-pressure.js';
+export { sitePlanSvg, type SitePlanInput, type SitePlanDrawingOptions } from '../drawings/site-plan.js';
