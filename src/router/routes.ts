@@ -30,7 +30,14 @@ export const routes: RouteRecordRaw[] = [
     component: () => import('../layouts/MainLayout.vue'),
     children: [
       { path: '', redirect: { name: 'jobs' } },
-      { path: 'jobs', name: 'jobs', component: () => import('../pages/jobs/JobListPage.vue'), meta: { title: 'Jobs' } },
+      {
+        // Nested, so the navigation keeps Jobs marked on a job's page.
+        path: 'jobs',
+        children: [
+          { path: '', name: 'jobs', component: () => import('../pages/jobs/JobListPage.vue'), meta: { title: 'Jobs' } },
+          { path: ':id', name: 'job', component: () => import('../pages/jobs/JobPage.vue'), meta: { title: 'Job' } },
+        ],
+      },
       {
         path: 'fleet',
         children: [

@@ -36,47 +36,71 @@ export interface RequestOptions<S extends z.ZodType | undefined> {
   anonymous?: boolean;
 }
 
+/** Sends one request with the session's token, refreshing it once on a 401. */
+async function fetchWithToken(path: string, init: { method: string; body?: BodyInit; headers: Record<string, string> }, anonymous = false): Promise<Response> {
+  const send = async () => {
+    const headers = { ...init.headers };
+    if (!anonymous && tokens) {
+      const token = await tokens.getToken();
+      if (token) headers.Authorization = `Bearer ${token}`;
+    }
+    return fetch(`/api${path}`, { method: init.method, headers, body: init.body, credentials: 'same-origin' });
+  };
+  try {
+    const response = await send();
+    if (response.status === 401 && !anonymous && tokens && (await tokens.onUnauthorized())) return await send();
+    return response;
+  } catch {
+    throw new ApiRequestError(0, 'network', 'No connection to the Holdline server. Check the site network and try again.');
+  }
+}
+
+/** The server's refusal as an ApiRequestError, read from its JSON body when it sent one. */
+function refusal(response: Response, data: unknown): ApiRequestError {
+  const error = (data as { error?: ApiError } | undefined)?.error;
+  return new ApiRequestError(response.status, error?.code ?? 'http_' + response.status, error?.message ?? `The server answered ${response.status}.`, error?.fields ?? []);
+}
+
 /** The one way the client talks to /api. Errors become ApiRequestError with a readable message. */
 export async function api<S extends z.ZodType | undefined = undefined>(
   path: string,
   options: RequestOptions<S> = {},
 ): Promise<S extends z.ZodType ? z.infer<S> : unknown> {
-  const send = async () => {
-    const headers: Record<string, string> = { Accept: 'application/json' };
-    if (options.body !== undefined && !(options.body instanceof FormData)) headers['Content-Type'] = 'application/json';
-    if (!options.anonymous && tokens) {
-      const token = await tokens.getToken();
-      if (token) headers.Authorization = `Bearer ${token}`;
-    }
-    const body = options.body === undefined ? undefined : options.body instanceof FormData ? options.body : JSON.stringify(options.body);
-    return fetch(`/api${path}`, { method: options.method ?? 'GET', headers, body, credentials: 'same-origin' });
-  };
-
-  let response: Response;
-  try {
-    response = await send();
-    if (response.status === 401 && !options.anonymous && tokens && (await tokens.onUnauthorized())) response = await send();
-  } catch {
-    throw new ApiRequestError(0, 'network', 'No connection to the Holdline server. Check the site network and try again.');
-  }
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  if (options.body !== undefined && !(options.body instanceof FormData)) headers['Content-Type'] = 'application/json';
+  const body = options.body === undefined ? undefined : options.body instanceof FormData ? options.body : JSON.stringify(options.body);
+  const response = await fetchWithToken(path, { method: options.method ?? 'GET', headers, body }, options.anonymous);
 
   const text = await response.text();
   const data: unknown = text ? safeJson(text) : undefined;
-  if (!response.ok) {
-    const error = (data as { error?: ApiError } | undefined)?.error;
-    throw new ApiRequestError(
-      response.status,
-      error?.code ?? 'http_' + response.status,
-      error?.message ?? `The server answered ${response.status}.`,
-      error?.fields ?? [],
-    );
-  }
+  if (!response.ok) throw refusal(response, data);
   if (options.schema) {
     const parsed = options.schema.safeParse(data);
     if (!parsed.success) throw new ApiRequestError(response.status, 'bad_answer', 'The server sent an answer this screen does not understand. Reload the page.');
     return parsed.data as S extends z.ZodType ? z.infer<S> : unknown;
   }
   return data as S extends z.ZodType ? z.infer<S> : unknown;
+}
+
+/**
+ * Fetches a file (a PDF sheet, a CSV) with the session's token and hands it to the browser to
+ * save as `fileName`. A plain link cannot carry the token, which lives in memory only.
+ */
+export async function download(path: string, fileName: string): Promise<void> {
+  const response = await fetchWithToken(path, { method: 'GET', headers: { Accept: '*/*' } });
+  if (!response.ok) {
+    const text = await response.text();
+    throw refusal(response, text ? safeJson(text) : undefined);
+  }
+  const url = URL.createObjectURL(await response.blob());
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = fileName;
+  document.body.appendChild(link);
+  link.click();
+  link.remove();
+  // Revoked on the next turn: the click has started the download by then.
+  setTimeout(() => URL.revokeObjectURL(url), 0);
 }
 
 function safeJson(text: string): unknown {

@@ -1,0 +1,383 @@
+import { defineStore } from 'pinia';
+import { reactive, ref } from 'vue';
+import type { z } from 'zod';
+import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
+import type { FieldError } from '../../shared/schemas/errors';
+import {
+  createJobSchema,
+  jobEnvelopeSchema,
+  jobEventListSchema,
+  jobListSchema,
+  overrideActionSchema,
+  readinessSchema,
+  setCrewSchema,
+  updateJobSchema,
+  verifySchema,
+  type CrewMember,
+  type CrewRole,
+  type JobDto,
+  type JobEventDto,
+  type JobSummary,
+  type Readiness,
+} from '../../shared/schemas/jobs';
+import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
+import { api, ApiRequestError, describeError, download } from '../services/api';
+
+/** The roles without which a job can never leave planning. */
+export const requiredCrewRoles = ['supervisor', 'operator', 'signaller'] as const satisfies readonly CrewRole[];
+
+/** The required roles nobody in the crew holds yet. */
+export function missingCrewRoles(crew: readonly Pick<CrewMember, 'role'>[]): CrewRole[] {
+  return requiredCrewRoles.filter((role) => !crew.some((m) => m.role === role));
+}
+
+/** Field errors keyed by the full path ("heaviestLoad.radiusM"); the first message per path is kept. */
+export type FieldErrors = Partial<Record<string, string>>;
+
+/** A message for people from a zod issue: the schema's own words, or plain ones for the generic checks. */
+export function readableIssue(issue: z.core.$ZodIssue): string {
+  if (issue.code === 'invalid_type' && issue.expected === 'number') return 'Enter a number';
+  if (issue.code === 'too_small' && issue.origin === 'number') return issue.inclusive ? `Enter ${String(issue.minimum)} or more` : `Enter a number above ${String(issue.minimum)}`;
+  if (issue.code === 'too_big' && issue.origin === 'number') return `Enter ${String(issue.maximum)} or less`;
+  if (issue.code === 'too_small' && issue.origin === 'string') return 'Fill this in';
+  if (issue.code === 'invalid_format' && issue.format === 'email') return 'Enter a valid e-mail';
+  if (issue.code === 'invalid_format' && issue.format === 'uuid') return issue.message.startsWith('Invalid') ? 'Choose one' : issue.message;
+  return issue.message;
+}
+
+/** Zod issues as the server would name them. */
+export function fieldsFromZod(error: z.ZodError): FieldError[] {
+  return error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: readableIssue(i) }));
+}
+
+/** Field errors by full path, first message per path. */
+export function fieldErrorsFrom(fields: readonly FieldError[]): FieldErrors {
+  const out: FieldErrors = {};
+  for (const f of fields) out[f.path || '(body)'] ??= f.message;
+  return out;
+}
+
+/** The message for a field: its own path, or the first message of anything under it. */
+export function fieldErrorOf(errors: FieldErrors, path: string): string {
+  const own = errors[path];
+  if (own) return own;
+  const prefix = `${path}.`;
+  for (const [key, message] of Object.entries(errors)) if (key.startsWith(prefix) && message) return message;
+  return '';
+}
+
+/** One figure that reads differently on this device and on the server. */
+export interface FigureDifference {
+  key: string;
+  label: string;
+  local: string | null;
+  server: string | null;
+}
+
+/**
+ * Where the server's figures differ from those computed on this device. They should match (same
+ * code, same data), so a difference means the data changed in between, e.g. a part quarantined.
+ */
+export function figureDifferences(local: readonly Figure[], server: readonly Figure[]): FigureDifference[] {
+  const words = (f: Figure | undefined) => (f ? `${f.value} (${f.status})` : null);
+  const localByKey = new Map(local.map((f) => [f.key, f]));
+  const serverByKey = new Map(server.map((f) => [f.key, f]));
+  const keys = [...new Set([...server.map((f) => f.key), ...local.map((f) => f.key)])];
+  return keys.flatMap((key) => {
+    const l = localByKey.get(key);
+    const s = serverByKey.get(key);
+    if (words(l) === words(s)) return [];
+    return [{ key, label: (s ?? l)!.label, local: words(l), server: words(s) }];
+  });
+}
+
+/** The forms of the jobs screens; each keeps its own saving state and field errors. */
+export type JobForm = 'create' | 'details' | 'distribution' | 'crew' | 'comms' | 'configuration' | 'override';
+
+interface FormState {
+  saving: boolean;
+  problem: string;
+  fieldErrors: FieldErrors;
+}
+
+/** What the last save of a configuration showed: the server's figures against this device's. */
+export interface ServerCheck {
+  at: string;
+  differences: FigureDifference[];
+}
+
+const id = (value: string) => encodeURIComponent(value);
+
+/** Jobs: the list, each job with its readiness and event log, and every change a planner makes. */
+export const useJobsStore = defineStore('jobs', () => {
+  const items = ref<JobSummary[]>([]);
+  const listLoaded = ref(false);
+  const details = reactive<Record<string, JobDto>>({});
+  const readiness = reactive<Record<string, Readiness>>({});
+  const events = reactive<Record<string, JobEventDto[]>>({});
+  const verification = reactive<Record<string, z.infer<typeof verifySchema>>>({});
+  const serverChecks = reactive<Record<string, ServerCheck>>({});
+  const candidates = ref<CrewCandidate[]>([]);
+  /** GET /api/crew-candidates answered 403: this person cannot choose people for a crew. */
+  const candidatesRefused = ref(false);
+
+  // Loading state and the last problem per resource key ("list", "job:<id>", ...), as the fleet store does.
+  const loadingKeys = reactive(new Set<string>());
+  const problems = reactive<Record<string, string>>({});
+  const inFlight = new Map<string, Promise<unknown>>();
+
+  function track<T>(key: string, work: () => Promise<T>): Promise<T | null> {
+    const running = inFlight.get(key) as Promise<T | null> | undefined;
+    if (running) return running;
+    const promise = (async () => {
+      loadingKeys.add(key);
+      delete problems[key];
+      try {
+        return await work();
+      } catch (error) {
+        problems[key] = describeError(error);
+        return null;
+      } finally {
+        loadingKeys.delete(key);
+        inFlight.delete(key);
+      }
+    })();
+    inFlight.set(key, promise);
+    return promise;
+  }
+  const isLoading = (key: string) => loadingKeys.has(key);
+  const problemOf = (key: string) => problems[key] ?? '';
+
+  const forms = reactive<Record<JobForm, FormState>>({
+    create: { saving: false, problem: '', fieldErrors: {} },
+    details: { saving: false, problem: '', fieldErrors: {} },
+    distribution: { saving: false, problem: '', fieldErrors: {} },
+    crew: { saving: false, problem: '', fieldErrors: {} },
+    comms: { saving: false, problem: '', fieldErrors: {} },
+    configuration: { saving: false, problem: '', fieldErrors: {} },
+    override: { saving: false, problem: '', fieldErrors: {} },
+  });
+
+  function resetForm(form: JobForm) {
+    forms[form] = { saving: false, problem: '', fieldErrors: {} };
+  }
+  function errorOf(form: JobForm, path: string): string {
+    return fieldErrorOf(forms[form].fieldErrors, path);
+  }
+  function refuse(form: JobForm, fields: FieldError[], message: string) {
+    forms[form].fieldErrors = fieldErrorsFrom(fields);
+    forms[form].problem = message;
+  }
+
+  /** Runs one submission; answers null when refused, the reasons kept on the form. */
+  async function submit<T>(form: JobForm, work: () => Promise<T>): Promise<T | null> {
+    const state = forms[form];
+    state.saving = true;
+    state.problem = '';
+    state.fieldErrors = {};
+    try {
+      return await work();
+    } catch (error) {
+      if (error instanceof ApiRequestError && error.fields.length > 0) refuse(form, error.fields, error.message);
+      else state.problem = describeError(error);
+      return null;
+    } finally {
+      state.saving = false;
+    }
+  }
+
+  /** Keeps the list line of a job in step with its detail. */
+  function accept(job: JobDto): JobDto {
+    details[job.id] = job;
+    items.value = items.value.map((s) =>
+      s.id === job.id ? { ...s, name: job.name, site: job.site, craneUnitId: job.craneUnitId, craneFleetNumber: job.craneFleetNumber, kind: job.kind, state: job.state, planVersion: job.planVersion, updatedAt: job.updatedAt } : s,
+    );
+    return job;
+  }
+
+  /** After a change: readiness and, when it is being shown, the event log follow. */
+  function followUp(jobId: string) {
+    void loadReadiness(jobId);
+    if (events[jobId]) void loadEvents(jobId);
+  }
+
+  function loadList() {
+    return track('list', async () => {
+      items.value = (await api('/jobs', { schema: jobListSchema })).items;
+      listLoaded.value = true;
+    });
+  }
+
+  function loadJob(jobId: string) {
+    return track(`job:${jobId}`, async () => accept((await api(`/jobs/${id(jobId)}`, { schema: jobEnvelopeSchema })).job));
+  }
+
+  function loadReadiness(jobId: string) {
+    return track(`readiness:${jobId}`, async () => {
+      readiness[jobId] = await api(`/jobs/${id(jobId)}/readiness`, { schema: readinessSchema });
+      return readiness[jobId];
+    });
+  }
+
+  /** Loads the events after the last one held, so reopening the log fetches only what is new. */
+  function loadEvents(jobId: string) {
+    return track(`events:${jobId}`, async () => {
+      let held = events[jobId] ?? [];
+      // The server answers at most one page at a time: ask again until the last seq is reached.
+      for (;;) {
+        const after = held.length ? held[held.length - 1].seq : 0;
+        const page = await api(`/jobs/${id(jobId)}/events?after=${after}`, { schema: jobEventListSchema });
+        held = [...held, ...page.items.filter((e) => e.seq > after)];
+        if (page.items.length === 0 || held[held.length - 1].seq >= page.lastSeq) break;
+      }
+      events[jobId] = held;
+      return held;
+    });
+  }
+
+  function verifyRecord(jobId: string) {
+    return track(`verify:${jobId}`, async () => {
+      verification[jobId] = await api(`/jobs/${id(jobId)}/record/verify`, { schema: verifySchema });
+      return verification[jobId];
+    });
+  }
+
+  /** People who may be put in a crew; a 403 is not a failure but says this person cannot choose. */
+  function loadCandidates() {
+    return track('candidates', async () => {
+      try {
+        candidates.value = (await api('/crew-candidates', { schema: crewCandidateListSchema })).items;
+        candidatesRefused.value = false;
+      } catch (error) {
+        if (error instanceof ApiRequestError && error.status === 403) {
+          candidatesRefused.value = true;
+          return;
+        }
+        throw error;
+      }
+    });
+  }
+
+  async function createJob(input: z.input<typeof createJobSchema>): Promise<JobDto | null> {
+    const parsed = createJobSchema.safeParse(input);
+    if (!parsed.success) {
+      refuse('create', fieldsFromZod(parsed.error), '');
+      return null;
+    }
+    return submit('create', async () => {
+      const { job } = await api('/jobs', { method: 'POST', body: parsed.data, schema: jobEnvelopeSchema });
+      details[job.id] = job;
+      void loadList();
+      return job;
+    });
+  }
+
+  /** Name, site, kind, distribution list or communications plan; `form` says which editor asked. */
+  async function updateJob(jobId: string, patch: z.input<typeof updateJobSchema>, form: 'details' | 'distribution' | 'comms'): Promise<JobDto | null> {
+    const parsed = updateJobSchema.safeParse(patch);
+    if (!parsed.success) {
+      refuse(form, fieldsFromZod(parsed.error), '');
+      return null;
+    }
+    return submit(form, async () => {
+      const job = accept((await api(`/jobs/${id(jobId)}`, { method: 'PATCH', body: parsed.data, schema: jobEnvelopeSchema })).job);
+      followUp(jobId);
+      return job;
+    });
+  }
+
+  async function setCrew(jobId: string, members: { userId: string; role: CrewRole }[]): Promise<JobDto | null> {
+    const parsed = setCrewSchema.safeParse({ members });
+    if (!parsed.success) {
+      refuse('crew', fieldsFromZod(parsed.error), '');
+      return null;
+    }
+    return submit('crew', async () => {
+      const job = accept((await api(`/jobs/${id(jobId)}/crew`, { method: 'PUT', body: parsed.data, schema: jobEnvelopeSchema })).job);
+      followUp(jobId);
+      return job;
+    });
+  }
+
+  /**
+   * Saves the configuration. The server computes every figure again and its figures replace the
+   * ones this device computed (`localFigures`); where they differ, the difference is kept to show.
+   */
+  async function saveConfiguration(jobId: string, configuration: Configuration, localFigures: readonly Figure[]): Promise<JobDto | null> {
+    const parsed = configurationSchema.safeParse(configuration);
+    if (!parsed.success) {
+      refuse('configuration', fieldsFromZod(parsed.error), 'Some fields need fixing before the configuration can be saved.');
+      return null;
+    }
+    return submit('configuration', async () => {
+      const job = accept((await api(`/jobs/${id(jobId)}/configuration`, { method: 'PUT', body: parsed.data, schema: jobEnvelopeSchema })).job);
+      serverChecks[jobId] = { at: job.updatedAt, differences: figureDifferences(localFigures, job.figures) };
+      followUp(jobId);
+      return job;
+    });
+  }
+
+  async function overrideAction(jobId: string, body: z.input<typeof overrideActionSchema>): Promise<JobDto | null> {
+    const parsed = overrideActionSchema.safeParse(body);
+    if (!parsed.success) {
+      refuse('override', fieldsFromZod(parsed.error), '');
+      return null;
+    }
+    return submit('override', async () => {
+      const job = accept((await api(`/jobs/${id(jobId)}/overrides`, { method: 'POST', body: parsed.data, schema: jobEnvelopeSchema })).job);
+      followUp(jobId);
+      return job;
+    });
+  }
+
+  /** Asks to override a failing figure, with the reason in a sentence. */
+  function requestOverride(jobId: string, figureKey: string, reason: string) {
+    return overrideAction(jobId, { action: 'request', figureKey, reason });
+  }
+
+  /** Approves another person's override request. */
+  function approveOverride(jobId: string, overrideId: string) {
+    return overrideAction(jobId, { action: 'approve', overrideId });
+  }
+
+  /** Saves the configuration sheet PDF; answers a sentence when it could not. */
+  async function downloadConfigurationSheet(job: Pick<JobDto, 'id' | 'craneFleetNumber' | 'name'>): Promise<string> {
+    const safeName = `${job.craneFleetNumber} ${job.name}`.replace(/[^\w.-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'job';
+    try {
+      await download(`/jobs/${id(job.id)}/configuration.pdf`, `configuration-${safeName}.pdf`);
+      return '';
+    } catch (error) {
+      return describeError(error);
+    }
+  }
+
+  return {
+    items,
+    listLoaded,
+    details,
+    readiness,
+    events,
+    verification,
+    serverChecks,
+    candidates,
+    candidatesRefused,
+    forms,
+    isLoading,
+    problemOf,
+    resetForm,
+    errorOf,
+    loadList,
+    loadJob,
+    loadReadiness,
+    loadEvents,
+    verifyRecord,
+    loadCandidates,
+    createJob,
+    updateJob,
+    setCrew,
+    saveConfiguration,
+    requestOverride,
+    approveOverride,
+    downloadConfigurationSheet,
+  };
+});
