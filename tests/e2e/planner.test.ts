@@ -1,0 +1,146 @@
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { TEST_PASSWORD } from '../factories.js';
+import { signedInUser, type SignedInUser } from '../helpers/auth.js';
+import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
+import { startTestServer, type TestServer } from '../helpers/server.js';
+import { launchBrowser, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+
+type Viewport = (typeof viewports)[keyof typeof viewports];
+
+/** Signs in through the real form and lands on `next`. */
+async function signIn(browser: Browser, baseUrl: string, viewport: Viewport, email: string, next: string): Promise<Page> {
+  const context = await browser.newContext({ viewport });
+  const page = await context.newPage();
+  await page.goto(`${baseUrl}${next}`);
+  await page.waitForURL(/\/sign-in/);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.pathname === next.split('?')[0]);
+  return page;
+}
+
+/** The value line of one figure in the results panel. */
+function figureValue(page: Page, label: string) {
+  return page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: label }) }).first().locator('.figure-value');
+}
+
+describe('configuration planner', () => {
+  let server: TestServer;
+  let chromium: LaunchedBrowser;
+  let supervisor: SignedInUser;
+  let jobId: string;
+
+  beforeAll(async () => {
+    server = await startTestServer({ withClient: true });
+    chromium = await launchBrowser();
+    // No demo data on the test server: people, the fleet and the job are made here through the real API.
+    supervisor = await signedInUser(server, { qualifications: ['supervisor'], email: 'maren.holt@crew.test' });
+    const { model, unit } = await seedModelAndUnit(server, supervisor.token, 'CC-11');
+    await addParts18m(server, supervisor.token, model.id, unit.id, 'CC11');
+    const created = await request(server.app)
+      .post('/api/jobs')
+      .set({ Authorization: `Bearer ${supervisor.token}` })
+      .send({ name: 'Boom erection for the pump house', site: 'Riverside works, pad 2', craneUnitId: unit.id, kind: 'erection' })
+      .expect(201);
+    jobId = created.body.job.id as string;
+  });
+  afterAll(async () => {
+    await chromium?.close();
+    await server?.stop();
+  });
+
+  it('lets a supervisor fill the planner on a tablet, see figures change as they type, and save them checked by the server', async () => {
+    const page = await signIn(chromium.browser, server.url, viewports.tablet, supervisor.user.email, `/jobs/${jobId}?tab=planner`);
+    await expect.poll(() => page.getByRole('heading', { name: 'Crane and boom' }).isVisible()).toBe(true);
+    expect(await page.getByText("The crane's manual, its load chart and its rated capacity limiter govern.").isVisible()).toBe(true);
+
+    // Only the 18 m kit is at hand: 18 m can be chosen, 21 m (needs a 6 m insert) cannot.
+    const lengths = page.getByRole('radiogroup', { name: 'Boom length' });
+    await expect.poll(() => lengths.getByRole('radio', { name: /^18 m/ }).isEnabled()).toBe(true);
+    expect(await lengths.getByRole('radio', { name: /^21 m/ }).isDisabled()).toBe(true);
+    await page.getByText(/lengths? cannot be built from this unit's serviceable parts/).click();
+    expect(await page.getByText(/21 m:.*ins6/).isVisible()).toBe(true);
+
+    // Nothing is computed until the fields the figures need are filled in.
+    expect(await page.getByText('Fill in these to see the figures:').isVisible()).toBe(true);
+
+    await lengths.getByRole('radio', { name: /^18 m/ }).click();
+    expect(await lengths.getByRole('radio', { name: /^18 m/ }).getAttribute('aria-checked')).toBe('true');
+    await page.getByLabel('Main hook block').click();
+    await page.getByRole('option', { name: /HB120/ }).click();
+    await page.getByLabel('Parts of line').fill('6');
+    const load = page.getByRole('region', { name: 'Heaviest load' });
+    await load.getByLabel('What it is').fill('Pump house roof truss');
+    await load.getByLabel('Load', { exact: true }).fill('20');
+    await load.getByLabel('Rigging', { exact: true }).fill('0.8');
+    await load.getByLabel('Radius', { exact: true }).fill('8');
+    await page.getByLabel('Ground type').fill('Compacted crushed stone over firm clay');
+    await page.getByLabel('Allowable ground pressure').fill('400');
+
+    // Ground without a source reads Unverified, never Pass.
+    const raising = figureValue(page, 'Ground pressure: raising');
+    await expect.poll(() => raising.isVisible()).toBe(true);
+    const raisingRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Ground pressure: raising' }) }).first();
+    expect(await raisingRow.locator('.tone-badge').textContent()).toContain('Unverified');
+    expect(await page.getByText('On this device, not saved').isVisible()).toBe(true);
+
+    await page.getByRole('radio', { name: 'Ground investigation' }).click();
+    await page.getByLabel('Report or design reference').fill('GI report PH-204 rev A');
+    await expect.poll(async () => (await raisingRow.locator('.tone-badge').textContent()) ?? '').toContain('Pass');
+
+    // Changing the radius changes the boom angle as the supervisor types.
+    const angle = figureValue(page, 'Boom angle for the heaviest lift');
+    await expect.poll(async () => (await angle.textContent()) ?? '').toContain('at 8 m radius');
+    const before = await angle.textContent();
+    await load.getByLabel('Radius', { exact: true }).fill('12');
+    await expect.poll(async () => (await angle.textContent()) ?? '').toContain('at 12 m radius');
+    expect(await angle.textContent()).not.toBe(before);
+
+    // The rule behind a figure opens on demand.
+    const pullRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Lead-line pull' }) }).first();
+    expect(await pullRow.getByText(/permissible line pull of the main hoist drum/).isVisible()).toBe(false);
+    await pullRow.getByText(/^Rule/).click();
+    expect(await pullRow.getByText(/permissible line pull of the main hoist drum/).isVisible()).toBe(true);
+
+    await page.getByRole('button', { name: 'Save configuration' }).click();
+    await expect.poll(() => page.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
+    expect(await page.getByText("The server's figures match those computed on this device.").isVisible()).toBe(true);
+    expect(await figureValue(page, 'Boom angle for the heaviest lift').textContent()).toContain('at 12 m radius');
+    expect(await page.getByRole('button', { name: 'Save configuration' }).isDisabled()).toBe(true);
+
+    // The drawings are on the page once the figures are.
+    await expect.poll(() => page.getByText('Reeving of the main hoist').isVisible()).toBe(true);
+    expect(await page.locator('.planner-drawings svg').count()).toBeGreaterThanOrEqual(4);
+    await screenshot(page, 'planner-tablet');
+    // What a tablet shows at once: the form beside the figures, then the drawings further down.
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'planner-tablet-view.png') });
+    await page.getByText('Ground pressure under the heavier track, per load case').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'planner-tablet-drawings.png') });
+
+    // What the server holds is what the screen showed.
+    const saved = await request(server.app).get(`/api/jobs/${jobId}`).set({ Authorization: `Bearer ${supervisor.token}` }).expect(200);
+    expect(saved.body.job.configuration.heaviestLoad.radiusM).toBe(12);
+    expect(saved.body.job.configuration.ground.source.reference).toBe('GI report PH-204 rev A');
+    await page.context().close();
+  });
+
+  it('shows the job page at phone width with the missing crew roles as reasons to act on', async () => {
+    const page = await signIn(chromium.browser, server.url, viewports.phone, supervisor.user.email, `/jobs/${jobId}`);
+    await expect.poll(() => page.getByText('Ready to leave planning?').isVisible()).toBe(true);
+    await expect.poll(() => page.getByText('The crew has no operator. Add at least one.').isVisible()).toBe(true);
+    expect(await page.getByText('The crew has no signaller. Add at least one.').isVisible()).toBe(true);
+    expect(await page.getByText('CC-11', { exact: true }).first().isVisible()).toBe(true);
+    expect(await page.locator('.job-head .tone-badge').textContent()).toContain('Planning');
+    await screenshot(page, 'job-overview-phone');
+
+    await page.getByRole('tab', { name: 'Crew' }).click();
+    await expect.poll(() => page.getByText('Operator: MISSING').isVisible()).toBe(true);
+    expect(await page.getByText('Supervisor: in the crew').isVisible()).toBe(true);
+    await screenshot(page, 'job-crew-phone');
+    await page.context().close();
+  });
+});
