@@ -174,7 +174,7 @@ function siteHazardSteps(draft: StageDraft, ctx: Context): void {
 
 function commsStepsInto(draft: StageDraft, ctx: Context): void {
   const words = commsWords(ctx.cfg, ctx.input.commsPlan, ctx.input.crewNames);
-  if (words.channel) draft.add('comms-channel', commsSteps.channel, { callSigns: words.callSigns });
+  if (words.channel) draft.add('comms-channel', commsSteps.channel, { channel: words.channel, callSigns: words.callSigns });
   else draft.add('comms-channel', commsSteps.channelMissing, { callSigns: words.callSigns });
   draft.add('comms-motions', commsSteps.motions, { motions: words.motions });
   draft.add('comms-hand-signals', commsSteps.handSignals, { handSignals: words.handSignals });
