@@ -278,8 +278,8 @@ function createContext(input: GeneratePlanInput): Context {
       boomLengthM: input.configuration.boomLengthM,
       hookBlockId: input.configuration.mainHook.hookBlockId,
       parts: input.configuration.mainHook.parts,
-      counterweightT: listed ? tonnes(listed.raising.counterweightKg) : 'not listed for this length',
-      gaugeM: listed ? num(listed.raising.trackGaugeM) : 'not listed for this length',
+      counterweight: listed ? `${tonnes(listed.raising.counterweightKg)} t` : 'not listed for this boom length',
+      gauge: listed ? `${num(listed.raising.trackGaugeM)} m` : 'not listed for this boom length',
     },
   };
 }

@@ -94,6 +94,7 @@ describe('generatePlan: what the configuration needs', () => {
     ['18 m with auxiliary hoist and assist crane', withAssist({ auxiliary: { enabled: true, hookBlockId: 'BALL12' } })],
     ['60 m', config({ boomLengthM: 60, mainHook: { hookBlockId: 'HB250', parts: 10 } })],
     ['66 m', config({ boomLengthM: 66 })],
+    ['19 m, a length the data does not list', config({ boomLengthM: 19 })],
     ['90 m with mats, no ground source', config({ boomLengthM: 90, mats: { used: true, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 }, ground: { groundType: 'made ground', allowablePressureKpa: 150, source: { kind: 'none', reference: '' } } })],
   ];
 
@@ -104,6 +105,17 @@ describe('generatePlan: what the configuration needs', () => {
       expect(p.kind).toBe(kind);
       expect(JSON.stringify(p)).not.toMatch(/\{[A-Za-z]+\}/);
     }
+  });
+
+  it('a length the data does not list gives a plan without joints, guy lines or counterweight steps, and says why', () => {
+    const cfg = config({ boomLengthM: 19 });
+    expect(compute(cfg).makeup.arrangement).toBeNull();
+    const er = plan('erection', cfg);
+    expect(stage(er, 'er-joints').steps.map((s) => s.id)).toEqual(['er-joints.radio-check', 'er-joints.slings']);
+    expect(stage(er, 'er-guys').steps.map((s) => s.id)).toEqual(['er-guys.radio-check']);
+    expect(stage(er, 'er-upper').steps.some((s) => s.id.startsWith('er-upper.cw-'))).toBe(false);
+    expect(stage(er, 'er-upper').hold?.instruction).toContain('not listed for this boom length');
+    expect(er.briefing.sections[0].items.join(' ')).toMatch(/cannot be built as planned: 19 m is not a boom length/);
   });
 
   it('plates appear from the model threshold (66 m) up and not below it', () => {

@@ -224,7 +224,7 @@ export const dismantlingStages = {
     involvesCraneMovement: true,
     steps: {
       confirm: {
-        text: 'Check the counterweight on the crane is the planned {counterweightT} t. If more is fitted, stop and get the order for taking it off from the manual.',
+        text: 'Check the counterweight on the crane is the planned {counterweight}. If more is fitted, stop and get the order for taking it off from the manual.',
         roles: ['operator', 'supervisor'],
       },
       block: {

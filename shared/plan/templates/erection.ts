@@ -58,7 +58,7 @@ export const erectionStages = {
         record: { kind: 'reading', label: 'Slope', unit: '%' },
       },
       gauge: {
-        text: 'Set the crawlers to a gauge of {gaugeM} m, as the crane data asks for to raise a {boomLengthM} m boom.',
+        text: 'Set the crawlers to a gauge of {gauge}, as the crane data asks for to raise a {boomLengthM} m boom.',
         roles: ['operator', 'rigger'],
       },
       block: {
@@ -73,7 +73,7 @@ export const erectionStages = {
     },
     hold: {
       title: 'Counterweight and gauge as planned',
-      instruction: 'Counterweight {counterweightT} t is on in the stated order and the crawlers are at {gaugeM} m.',
+      instruction: 'Counterweight {counterweight} is on in the stated order and the crawlers are at {gauge}.',
       roles: ['operator', 'rigger'],
       mandatory: false,
     },
@@ -338,7 +338,7 @@ export const erectionStages = {
     involvesCraneMovement: false,
     steps: {
       enter: {
-        text: 'Key in the configuration: {boomLengthM} m boom, hook block {hookBlockId} on {parts} parts of line, counterweight {counterweightT} t, operating mode “{operatingMode}”.',
+        text: 'Key in the configuration: {boomLengthM} m boom, hook block {hookBlockId} on {parts} parts of line, counterweight {counterweight}, operating mode “{operatingMode}”.',
         roles: ['operator'],
       },
       mode: {
