@@ -23,7 +23,9 @@ import { componentsRouter } from './routes/components.js';
 import { craneModelsRouter } from './routes/crane-models.js';
 import { craneUnitsRouter } from './routes/crane-units.js';
 import { healthRouter } from './routes/health.js';
+import { boardRouter } from './routes/board.js';
 import { jobsRouter } from './routes/jobs.js';
+import { plansRouter } from './routes/plans.js';
 import { usersRouter } from './routes/users.js';
 import { uploadsRouter } from './routes/uploads.js';
 import { LocalDiskStorage } from './storage/local-disk.js';
@@ -67,7 +69,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     storage: deps.storage ?? new LocalDiskStorage(path.join(config.dataDir, 'uploads')),
     secret: resolveSecret(config.secret, config.dataDir),
     now: deps.now ?? (() => new Date()),
-    realtime: { endSessions: () => undefined, publishJobEvent: () => undefined },
+    realtime: { endSessions: () => undefined, publishJobEvent: () => undefined, presenceOf: () => [] },
   };
 
   const app = express();
@@ -112,6 +114,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(componentsRouter(context));
   api.use(uploadsRouter(context));
   api.use(jobsRouter(context));
+  api.use(plansRouter(context));
+  api.use(boardRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -120,11 +124,12 @@ export function createApp(deps: AppDeps): HoldlineApp {
 
   const httpServer = http.createServer(app);
   const io: HoldlineServer = new SocketServer(httpServer, { serveClient: false });
-  attachSockets(io, context);
+  const stopSockets = attachSockets(io, context);
 
   let closing: Promise<void> | undefined;
   const close = () => {
     closing ??= (async () => {
+      stopSockets();
       // io.close() also closes the HTTP server, so no new requests or sockets are accepted.
       await new Promise<void>((resolve) => io.close(() => resolve()));
       httpServer.closeAllConnections();

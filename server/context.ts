@@ -1,4 +1,5 @@
 import type { DataSource } from 'typeorm';
+import type { PresenceEntry } from '../shared/board/types.js';
 import type { JobEventDto } from '../shared/schemas/jobs.js';
 import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
@@ -12,6 +13,8 @@ export interface Realtime {
   endSessions(userId: string, reason: string): void;
   /** Broadcasts a committed job event to everyone on that job's board. */
   publishJobEvent(event: JobEventDto): void;
+  /** Who is connected to a job's board now. */
+  presenceOf(jobId: string): PresenceEntry[];
 }
 
 /** What every router, socket handler and command receives: the app's collaborators. */

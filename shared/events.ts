@@ -1,16 +1,20 @@
+import type { BoardSnapshot, PresenceEntry } from './board/types.js';
+import type { BoardCommand } from './schemas/commands.js';
+import type { JobEventDto } from './schemas/jobs.js';
+
 /** Acknowledgment of every client-to-server event: success with data, or a readable refusal. */
 export type Ack<T = Record<string, never>> =
   | ({ ok: true } & T)
   | { ok: false; error: { code: string; message: string; fields?: { path: string; message: string }[] } };
 
 /** Events the server sends. */
-export interface ServerToClientEvents {
+export interface ServerToClientEvents extends BoardServerEvents {
   /** The session behind this socket ended (deactivated, signed out); the socket is closed next. */
   'session:ended': (payload: { reason: string }) => void;
 }
 
 /** Events the client sends. */
-export interface ClientToServerEvents {
+export interface ClientToServerEvents extends BoardClientEvents {
   /** Hands a refreshed access token to a live socket so it keeps its right to send commands. */
   'session:renew': (payload: { token: string }, ack: (answer: Ack<{ expiresAt: string }>) => void) => void;
 }
@@ -20,3 +24,54 @@ export const handshakeErrors = {
   unauthenticated: 'unauthenticated',
   inactive: 'account_inactive',
 } as const;
+
+
+/** Event types the board log may carry, planning included. */
+export const jobEventTypes = [
+  'job.created',
+  'job.updated',
+  'crew.set',
+  'configuration.set',
+  'override.requested',
+  'override.approved',
+  'plan.generated',
+  'plan.edited',
+  'job.ready',
+  'job.started',
+  'briefing.acknowledged',
+  'step.completed',
+  'step.reopened',
+  'hold.acknowledged',
+  'hold.withdrawn',
+  'hold.released',
+  'stage.skipped',
+  'job.stopped',
+  'job.stop.noted',
+  'job.resumed',
+  'weather.recorded',
+  'defect.reported',
+  'plan.revised',
+  'job.completed',
+  'job.cancelled',
+] as const;
+export type JobEventType = (typeof jobEventTypes)[number];
+
+/** Answer to a board command. */
+export type CommandAnswer = Ack<{ seq: number; event: JobEventDto }>;
+
+/** Answer to `board:join`: the missed events, or a snapshot when too many were missed. */
+export type JoinAnswer = Ack<{ mode: 'events'; events: JobEventDto[]; seq: number } | { mode: 'snapshot'; snapshot: BoardSnapshot; seq: number }>;
+
+/** Board events from the server. */
+export interface BoardServerEvents {
+  'board:event': (event: JobEventDto) => void;
+  'board:tick': (payload: { jobId: string; seq: number; at: string }) => void;
+  'board:presence': (payload: { jobId: string; joined: PresenceEntry[]; left: string[] }) => void;
+}
+
+/** Board events from clients. */
+export interface BoardClientEvents {
+  'board:join': (payload: { jobId: string; afterSeq?: number }, ack: (answer: JoinAnswer) => void) => void;
+  'board:leave': (payload: { jobId: string }) => void;
+  'board:command': (payload: { jobId: string; command: BoardCommand }, ack: (answer: CommandAnswer) => void) => void;
+}

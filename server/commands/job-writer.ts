@@ -8,6 +8,8 @@ import type { User } from '../entities/User.js';
 import { conflict, notFound } from '../errors.js';
 import { commandHash, eventHash, GENESIS_HASH } from '../events/chain.js';
 import { presentJobEvent } from '../presenters/job-event.js';
+import { applyEvent } from '../../shared/board/apply.js';
+import { boardEffects } from '../../shared/board/effects.js';
 
 /** What a command handler decided: the event to append. The handler has already changed the job row. */
 export interface EventDraft {
@@ -87,7 +89,7 @@ async function findReplay(manager: EntityManager, jobId: string, command: JobCom
 }
 
 async function appendEvent(manager: EntityManager, job: Job, command: JobCommand, draft: EventDraft, now: Date): Promise<JobEvent> {
-  const fields = {
+  const base = {
     jobId: job.id,
     seq: job.lastSeq + 1,
     commandId: command.commandId ?? randomUUID(),
@@ -99,11 +101,18 @@ async function appendEvent(manager: EntityManager, job: Job, command: JobCommand
     // A JSON round trip drops undefined fields, so the stored data hashes the same when read back.
     data: JSON.parse(JSON.stringify(draft.data)) as Record<string, unknown>,
   };
+  // The board moves with the event: the same reducer the clients run. The stage and hold states it
+  // changes go into the event as `effects`, so the record says what each command set in motion.
+  const board = applyEvent(job.board, presentJobEvent({ ...base, id: 0 } as JobEvent));
+  const effects = boardEffects(job.board, board);
+  const fields = { ...base, data: effects ? { ...base.data, effects } : base.data };
   const hash = eventHash(job.headHash, fields);
   const event = manager.create(JobEvent, { ...fields, commandHash: commandHash(command.body), prevHash: job.headHash, hash });
   await manager.save(JobEvent, event);
   job.lastSeq = fields.seq;
   job.headHash = hash;
+  job.board = board;
+  job.state = board.job.state;
   job.updatedAt = fields.at;
   await manager.save(job);
   return event;

@@ -16,6 +16,7 @@ import { User } from '../entities/User.js';
 import { badRequest, conflict, forbidden, HttpError } from '../errors.js';
 import { can } from '../policies/index.js';
 import { unitInventory } from '../queries/fleet.js';
+import { refreshGeneratedDraft } from './plan-drafts.js';
 import { createJobWithEvent, runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
 
 /** The roles a person holds on a job. */
@@ -24,13 +25,13 @@ export async function crewRolesOf(manager: EntityManager, jobId: string, userId:
 }
 
 /** The role a planning change is recorded under: the job's supervisor, or an admin acting as such. */
-async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<string> {
+export async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<string> {
   const roles = await crewRolesOf(manager, job.id, actor.id);
   if (can(actor, 'jobs.plan', { crewRoles: roles })) return roles.includes('supervisor') ? 'supervisor' : 'admin';
   throw forbidden('Only this job’s supervisors or an administrator can change it.');
 }
 
-function requireState(job: Job, allowed: Job['state'][], doing: string): void {
+export function requireState(job: Job, allowed: Job['state'][], doing: string): void {
   if (!allowed.includes(job.state)) {
     throw new HttpError(409, 'invalid_state', `The job is ${job.state}; you can ${doing} only while it is ${allowed.join(' or ')}.`);
   }
@@ -40,7 +41,8 @@ function requireState(job: Job, allowed: Job['state'][], doing: string): void {
 export async function createJob(context: AppContext, actor: User, input: z.output<typeof createJobSchema>, commandId?: string): Promise<CommandOutcome> {
   const now = context.now().toISOString();
   return createJobWithEvent(context, { commandId, body: input, actor }, async (manager) => {
-    if (!(await manager.existsBy(CraneUnit, { id: input.craneUnitId }))) throw badRequest('Choose a crane unit that exists.', [{ path: 'craneUnitId', message: 'No such crane unit' }]);
+    const unit = await manager.findOneBy(CraneUnit, { id: input.craneUnitId });
+    if (!unit) throw badRequest('Choose a crane unit that exists.', [{ path: 'craneUnitId', message: 'No such crane unit' }]);
     const job = manager.create(Job, {
       id: randomUUID(),
       ...input,
@@ -57,7 +59,11 @@ export async function createJob(context: AppContext, actor: User, input: z.outpu
     const joins = actor.qualifications.includes('supervisor');
     return {
       job,
-      draft: { type: 'job.created', role: joins ? 'supervisor' : 'admin', data: { job: { ...input, state: 'planning' }, crew: joins ? [{ userId: actor.id, role: 'supervisor' }] : [] } },
+      draft: {
+        type: 'job.created',
+        role: joins ? 'supervisor' : 'admin',
+        data: { job: { ...input, state: 'planning' }, craneFleetNumber: unit.fleetNumber, crew: joins ? [{ userId: actor.id, name: actor.displayName, role: 'supervisor' }] : [] },
+      },
       after: joins ? (m: EntityManager) => m.insert(JobCrew, { jobId: job.id, userId: actor.id, role: 'supervisor' }).then(() => undefined) : undefined,
     };
   });
@@ -76,7 +82,8 @@ export async function updateJob(context: AppContext, actor: User, jobId: string,
       });
     }
     Object.assign(job, changes);
-    return { type: 'job.updated', role, data: { changes } };
+    const planRegenerated = changes.commsPlan || changes.kind ? await refreshGeneratedDraft(manager, job, actor, context.now()) : false;
+    return { type: 'job.updated', role, data: { changes, planRegenerated } };
   });
 }
 
@@ -155,10 +162,13 @@ export async function setConfiguration(context: AppContext, actor: User, jobId: 
     const overrides = await manager.findBy(JobOverride, { jobId: job.id });
     const dropped = overrides.filter((o) => !overrideStillApplies(results, o));
     if (dropped.length) await manager.delete(JobOverride, { id: In(dropped.map((o) => o.id)) });
+    const planRegenerated = await refreshGeneratedDraft(manager, job, actor, context.now());
     return {
       type: 'configuration.set',
       role,
       data: {
+        planRegenerated,
+        windLimits: results.windLimits,
         configuration: config,
         figures: results.figures.map((f) => ({ key: f.key, value: f.value, status: f.status, overridable: f.overridable })),
         overridesWithdrawn: dropped.map((o) => ({ id: o.id, figureKey: o.figureKey })),

@@ -2,6 +2,7 @@ import { Column, Entity, PrimaryColumn } from 'typeorm';
 import type { Configuration } from '../../shared/schemas/configuration.js';
 import type { CommsPlan, JobKind, JobState } from '../../shared/schemas/jobs.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
+import type { BoardState } from '../../shared/board/types.js';
 
 /**
  * A job's current state: a projection of its event log, written in the same transaction as each
@@ -36,6 +37,10 @@ export class Job {
 
   @Column('simple-json')
   distribution!: string[];
+
+  /** The board as the shared reducer builds it from the log; the snapshot clients start from. */
+  @Column('simple-json', { nullable: true })
+  board!: BoardState | null;
 
   @Column('simple-json', { name: 'comms_plan' })
   commsPlan!: CommsPlan;

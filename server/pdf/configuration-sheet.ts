@@ -1,4 +1,7 @@
 import { boomMakeupSvg } from '../../shared/drawings/boom-makeup.js';
+import { groundPressureSvg } from '../../shared/drawings/ground-pressure.js';
+import { reevingSvg } from '../../shared/drawings/reeving.js';
+import { sitePlanSvg } from '../../shared/drawings/site-plan.js';
 import type { ArrangementData } from '../../shared/schemas/arrangement.js';
 import { groundSourceLabels } from '../../shared/schemas/configuration.js';
 import type { JobDto } from '../../shared/schemas/jobs.js';
@@ -64,18 +67,25 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
       job.overrides.map((o) => [o.figureLabel, o.reason, `${o.requestedBy.name}, ${o.requestedAt.slice(0, 16).replace('T', ' ')}`, o.approvedBy ? `${o.approvedBy.name}, ${o.approvedAt!.slice(0, 16).replace('T', ' ')}` : 'NOT APPROVED']),
     );
 
-  for (const extra of extraDrawings) {
-    const drawn = extra(job, results);
-    if (!drawn) continue;
+  const drawings: { title: string; svg: string }[] = [];
+  if (results.reeving) {
+    const r = results.reeving;
+    drawings.push({ title: 'Reeving of the main hook', svg: reevingSvg({ parts: r.parts, sheaveCount: r.sheaveCount, hookBlockId: r.hookBlockId, leadLinePullKn: r.leadLinePullKn }) });
+  }
+  if (results.loadCases.length) {
+    drawings.push({
+      title: 'Pressure under the tracks',
+      svg: groundPressureSvg(results.loadCases, c.ground.allowablePressureKpa, { trackLengthM: arrangement.tracks.lengthM, unverified: c.ground.source.kind === 'none' }),
+    });
+  }
+  const gaugeM = results.makeup.arrangement?.raising.trackGaugeM ?? arrangement.tracks.gaugeOptionsM[0];
+  drawings.push({
+    title: 'Site plan: fall zone and power lines',
+    svg: sitePlanSvg({ boomLengthM: c.boomLengthM, fallZoneRadiusM: results.fallZoneRadiusM, powerLines: results.powerLines, trackLengthM: arrangement.tracks.lengthM, gaugeM, trackWidthM: arrangement.tracks.shoeWidthM }),
+  });
+  for (const drawn of drawings) {
     pdf.heading(drawn.title);
     pdf.drawing(drawn.svg, svgAspect(drawn.svg));
   }
   return pdf.finish();
-}
-
-/** Further drawings for the sheet (reeving, ground pressure, site plan), registered by their owners. */
-type ExtraDrawing = (job: JobDto, results: ConfigurationResults) => { title: string; svg: string } | null;
-const extraDrawings: ExtraDrawing[] = [];
-export function addConfigurationDrawing(drawing: ExtraDrawing): void {
-  extraDrawings.push(drawing);
 }

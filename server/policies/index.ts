@@ -87,13 +87,35 @@ export const policyTable = [
       'GET /api/jobs/:jobId/readiness',
       'GET /api/jobs/:jobId/record/verify',
       'GET /api/jobs/:jobId/configuration.pdf',
+      'GET /api/jobs/:jobId/plan',
+      'GET /api/jobs/:jobId/plan/versions',
+      'GET /api/jobs/:jobId/plan.pdf',
     ],
   },
   {
     // Only the job's own supervisors (or an admin) change a job.
     action: 'jobs.plan',
     allow: ['admin', 'crew:supervisor'],
-    routes: ['PATCH /api/jobs/:jobId', 'PUT /api/jobs/:jobId/crew', 'PUT /api/jobs/:jobId/configuration'],
+    routes: [
+      'PATCH /api/jobs/:jobId',
+      'PUT /api/jobs/:jobId/crew',
+      'PUT /api/jobs/:jobId/configuration',
+      'PUT /api/jobs/:jobId/plan',
+      'POST /api/jobs/:jobId/plan/generate',
+      'POST /api/jobs/:jobId/ready',
+    ],
+  },
+  {
+    // The crew watch the board (viewers too); admins may watch any board.
+    action: 'board.watch',
+    allow: ['admin', 'crew:any'],
+    routes: ['GET /api/jobs/:jobId/board'],
+  },
+  {
+    // Acting on the board: the command layer then checks the role each command needs.
+    action: 'board.command',
+    allow: ['crew:supervisor', 'crew:operator', 'crew:signaller', 'crew:rigger'],
+    routes: ['POST /api/jobs/:jobId/commands'],
   },
   {
     // The job's supervisors ask for an override; another supervisor or an admin approves it.

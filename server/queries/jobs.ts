@@ -7,6 +7,7 @@ import { CraneUnit } from '../entities/CraneUnit.js';
 import { User } from '../entities/User.js';
 import { can } from '../policies/index.js';
 import { presentJob } from '../presenters/job.js';
+import { planReadinessReasons } from './plans.js';
 
 /** A job with its crew, overrides and the names they need, presented for one person. */
 export async function jobFor(manager: EntityManager, job: Job, viewer: User): Promise<JobDto> {
@@ -54,19 +55,10 @@ export async function jobsVisibleTo(manager: EntityManager, viewer: User): Promi
   }));
 }
 
-/** Extra readiness checks contributed by other parts (the plan adds its own). */
-export type ReadinessCheck = (manager: EntityManager, job: Job) => Promise<Readiness['reasons']>;
-const extraChecks: ReadinessCheck[] = [];
-
-/** Registers a readiness check (called once at module load by the part that owns it). */
-export function addReadinessCheck(check: ReadinessCheck): void {
-  extraChecks.push(check);
-}
-
 /**
  * Everything that stops a job leaving planning, each reason in words: the three crew roles, a
  * configuration, failing figures (never the ones that cannot be overridden; the others only
- * with an approved override), and what other parts add.
+ * with an approved override), and the plan's own problems.
  */
 export async function readinessOf(manager: EntityManager, job: Job): Promise<Readiness> {
   const reasons: Readiness['reasons'] = [];
@@ -86,6 +78,6 @@ export async function readinessOf(manager: EntityManager, job: Job): Promise<Rea
       else if (!approved.has(figure.key)) reasons.push({ code: 'figure_failing', message: `${figure.label} ${what}. Change the configuration, or override it with a reason and a second person's approval.` });
     }
   }
-  for (const check of extraChecks) reasons.push(...(await check(manager, job)));
+  reasons.push(...(await planReadinessReasons(manager, job)));
   return { ready: reasons.length === 0, reasons };
 }

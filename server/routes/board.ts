@@ -1,0 +1,30 @@
+import { Router } from 'express';
+import { boardCommandSchema } from '../../shared/schemas/commands.js';
+import { runBoardCommand } from '../commands/board.js';
+import type { AppContext } from '../context.js';
+import { Job } from '../entities/Job.js';
+import { HttpError, parseOrThrow } from '../errors.js';
+import { loadJobFor } from './job-access.js';
+
+/** The board over HTTP: the same command path as the socket, and the snapshot. */
+export function boardRouter(context: AppContext): Router {
+  const router = Router();
+  const { manager } = context.dataSource;
+
+  router.post('/jobs/:jobId/commands', async (req, res) => {
+    const { job, actor } = await loadJobFor(context, req, 'board.command');
+    const command = parseOrThrow(boardCommandSchema, req.body, 'command');
+    const { event } = await runBoardCommand(context, actor, job.id, command);
+    res.json({ ok: true, seq: event.seq, event });
+  });
+
+  // Read through the queue so the snapshot never shows a half-applied command.
+  router.get('/jobs/:jobId/board', async (req, res) => {
+    const { job } = await loadJobFor(context, req, 'board.watch');
+    const current = await context.queue.run(() => manager.findOneByOrFail(Job, { id: job.id }));
+    if (!current.board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
+    res.json({ ...current.board, presence: context.realtime.presenceOf(job.id) });
+  });
+
+  return router;
+}

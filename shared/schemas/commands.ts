@@ -1,0 +1,79 @@
+import { z } from 'zod';
+import { crewRoleSchema } from './jobs.js';
+import { planSchema, valueCheckFieldSchema } from './plan.js';
+
+const commandId = z.uuid('commandId must be a UUID made by the client');
+const reason = z.string().trim().min(3, 'Give a reason').max(1000);
+const speedMs = z.number().finite().min(0).max(80);
+
+/** Every command the live board accepts, one schema per type. */
+export const boardCommandSchema = z.discriminatedUnion('type', [
+  z.object({ commandId, type: z.literal('job.start') }),
+  z.object({ commandId, type: z.literal('job.complete') }),
+  z.object({ commandId, type: z.literal('job.cancel'), reason }),
+  z.object({ commandId, type: z.literal('briefing.acknowledge') }),
+  z.object({
+    commandId,
+    type: z.literal('step.complete'),
+    stepId: z.string().min(1).max(64),
+    value: z.string().trim().min(1).max(200).optional(),
+    photoId: z.uuid().optional(),
+  }),
+  z.object({ commandId, type: z.literal('step.reopen'), stepId: z.string().min(1).max(64) }),
+  z.object({
+    commandId,
+    type: z.literal('hold.acknowledge'),
+    holdId: z.string().min(1).max(64),
+    role: crewRoleSchema,
+    values: z.record(valueCheckFieldSchema, z.string().trim().max(64)).optional(),
+    photoId: z.uuid().optional(),
+  }),
+  z.object({ commandId, type: z.literal('hold.withdraw'), holdId: z.string().min(1).max(64), role: crewRoleSchema }),
+  z.object({ commandId, type: z.literal('hold.release'), holdId: z.string().min(1).max(64) }),
+  z.object({ commandId, type: z.literal('stage.skip'), stageId: z.string().min(1).max(64), reason }),
+  z.object({ commandId, type: z.literal('job.stop'), reason: z.string().trim().max(1000).optional(), pressedAt: z.iso.datetime() }),
+  z.object({ commandId, type: z.literal('job.stop.note'), reason: z.string().trim().min(1).max(1000) }),
+  z.object({ commandId, type: z.literal('job.resume'), reason }),
+  z.object({
+    commandId,
+    type: z.literal('weather.record'),
+    meanMs: speedMs,
+    gustMs: speedMs,
+    lightning: z.boolean().optional(),
+    poorVisibility: z.boolean().optional(),
+    ice: z.boolean().optional(),
+  }),
+  z
+    .object({
+      commandId,
+      type: z.literal('defect.report'),
+      componentId: z.uuid().optional(),
+      stepId: z.string().min(1).max(64).optional(),
+      description: z.string().trim().min(5, 'Describe the defect').max(2000),
+      photoId: z.uuid(),
+    })
+    .refine((c) => c.componentId || c.stepId, { message: 'Name the component or the step', path: ['componentId'] }),
+  z.object({ commandId, type: z.literal('plan.revise'), plan: planSchema, reason }),
+]);
+export type BoardCommand = z.infer<typeof boardCommandSchema>;
+export type BoardCommandType = BoardCommand['type'];
+
+/** Commands accepted while the job is stopped; everything else waits for the resume. */
+export const commandsWhileStopped: ReadonlySet<BoardCommandType> = new Set(['job.stop', 'job.stop.note', 'weather.record', 'defect.report', 'job.resume']);
+
+/** The codes a refusal carries, so clients can react without parsing words. */
+export const refusalCodes = [
+  'not_crew',
+  'role_not_allowed',
+  'invalid_state',
+  'job_stopped',
+  'one_person_two_roles',
+  'briefing_required',
+  'values_mismatch',
+  'mandatory_hold',
+  'command_id_reused',
+  'validation',
+  'stage_blocked',
+  'weather_required',
+  'token_expired',
+] as const;
