@@ -34,14 +34,19 @@ export function missingCrewRoles(crew: readonly Pick<CrewMember, 'role'>[]): Cre
 /** Field errors keyed by the full path ("heaviestLoad.radiusM"); the first message per path is kept. */
 export type FieldErrors = Partial<Record<string, string>>;
 
-/** A message for people from a zod issue: the schema's own words, or plain ones for the generic checks. */
+/** Zod's own wording for its generic checks; a message a schema wrote itself never starts like these. */
+const GENERIC_MESSAGE = /^(Invalid|Too small|Too big)/;
+
+/** A message for people from a zod issue: the schema's own words, or plain ones for zod's generic checks. */
 export function readableIssue(issue: z.core.$ZodIssue): string {
+  if (!GENERIC_MESSAGE.test(issue.message)) return issue.message;
   if (issue.code === 'invalid_type' && issue.expected === 'number') return 'Enter a number';
   if (issue.code === 'too_small' && issue.origin === 'number') return issue.inclusive ? `Enter ${String(issue.minimum)} or more` : `Enter a number above ${String(issue.minimum)}`;
   if (issue.code === 'too_big' && issue.origin === 'number') return `Enter ${String(issue.maximum)} or less`;
   if (issue.code === 'too_small' && issue.origin === 'string') return 'Fill this in';
+  if (issue.code === 'too_big' && issue.origin === 'string') return `Use at most ${String(issue.maximum)} characters`;
   if (issue.code === 'invalid_format' && issue.format === 'email') return 'Enter a valid e-mail';
-  if (issue.code === 'invalid_format' && issue.format === 'uuid') return issue.message.startsWith('Invalid') ? 'Choose one' : issue.message;
+  if (issue.code === 'invalid_format' && issue.format === 'uuid') return 'Choose one';
   return issue.message;
 }
 

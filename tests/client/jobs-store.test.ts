@@ -221,3 +221,18 @@ describe('jobs store', () => {
     expect(fieldErrorOf({ 'siteHazards.powerLines.0.voltageKv': 'Enter a number' }, 'siteHazards.powerLines')).toBe('Enter a number');
   });
 });
+
+describe('field messages', () => {
+  it("keeps a schema's own words and replaces zod's generic ones", async () => {
+    setActivePinia(createPinia());
+    const fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
+    vi.stubGlobal('fetch', fetchMock);
+    const jobs = useJobsStore();
+    expect(await jobs.requestOverride(JOB_ID, 'ground.raising', 'Short')).toBeNull();
+    expect(jobs.errorOf('override', 'reason')).toBe('Give the reason in a sentence');
+    expect(await jobs.saveConfiguration(JOB_ID, configuration({ fallZoneMarginM: -1 }), [])).toBeNull();
+    expect(jobs.errorOf('configuration', 'fallZoneMarginM')).toBe('Enter 0 or more');
+    expect(fetchMock).not.toHaveBeenCalled();
+    vi.unstubAllGlobals();
+  });
+});

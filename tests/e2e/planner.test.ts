@@ -1,19 +1,28 @@
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { TEST_PASSWORD } from '../factories.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
+import { configuration18m } from '../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
 
 type Viewport = (typeof viewports)[keyof typeof viewports];
 
+/** Uncaught errors of every page, so a screen that breaks while rendering fails the test. */
+const pageErrors: string[] = [];
+
 /** Signs in through the real form and lands on `next`. */
 async function signIn(browser: Browser, baseUrl: string, viewport: Viewport, email: string, next: string): Promise<Page> {
   const context = await browser.newContext({ viewport });
   const page = await context.newPage();
+  page.on('pageerror', (error) => pageErrors.push(`${next}: ${error.message}`));
+  // Refused requests (the 401 of the session check before signing in) are expected; script errors are not.
+  page.on('console', (message) => {
+    if (message.text().includes('[Vue warn]') || (message.type() === 'error' && !message.text().startsWith('Failed to load resource'))) pageErrors.push(`${next}: ${message.text()}`);
+  });
   await page.goto(`${baseUrl}${next}`);
   await page.waitForURL(/\/sign-in/);
   await page.getByLabel('E-mail').fill(email);
@@ -33,6 +42,7 @@ describe('configuration planner', () => {
   let chromium: LaunchedBrowser;
   let supervisor: SignedInUser;
   let jobId: string;
+  let unitId: string;
 
   beforeAll(async () => {
     server = await startTestServer({ withClient: true });
@@ -41,12 +51,18 @@ describe('configuration planner', () => {
     supervisor = await signedInUser(server, { qualifications: ['supervisor'], email: 'maren.holt@crew.test' });
     const { model, unit } = await seedModelAndUnit(server, supervisor.token, 'CC-11');
     await addParts18m(server, supervisor.token, model.id, unit.id, 'CC11');
+    unitId = unit.id;
     const created = await request(server.app)
       .post('/api/jobs')
       .set({ Authorization: `Bearer ${supervisor.token}` })
       .send({ name: 'Boom erection for the pump house', site: 'Riverside works, pad 2', craneUnitId: unit.id, kind: 'erection' })
       .expect(201);
     jobId = created.body.job.id as string;
+  });
+  afterEach(() => {
+    // Read, then cleared, so one test's errors are not blamed on the next.
+    const errors = pageErrors.splice(0);
+    expect(errors).toEqual([]);
   });
   afterAll(async () => {
     await chromium?.close();
@@ -67,6 +83,8 @@ describe('configuration planner', () => {
 
     // Nothing is computed until the fields the figures need are filled in.
     expect(await page.getByText('Fill in these to see the figures:').isVisible()).toBe(true);
+    expect(await page.getByText('Heaviest load: radius — enter a number').isVisible()).toBe(true);
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'planner-tablet-empty.png') });
 
     await lengths.getByRole('radio', { name: /^18 m/ }).click();
     expect(await lengths.getByRole('radio', { name: /^18 m/ }).getAttribute('aria-checked')).toBe('true');
@@ -142,5 +160,62 @@ describe('configuration planner', () => {
     expect(await page.getByText('Supervisor: in the crew').isVisible()).toBe(true);
     await screenshot(page, 'job-crew-phone');
     await page.context().close();
+  });
+
+  it('lets one supervisor ask for an override of a failing ground figure and another approve it, while a rigger only reads', async () => {
+    const second = await signedInUser(server, { qualifications: ['supervisor'], email: 'odile.brandt@crew.test' });
+    const rigger = await signedInUser(server, { qualifications: ['rigger'], email: 'kofi.mensah@crew.test' });
+    const auth = { Authorization: `Bearer ${supervisor.token}` };
+    const created = await request(server.app)
+      .post('/api/jobs')
+      .set(auth)
+      .send({ name: 'Dismantling after the pump house', site: 'Riverside works, pad 2', craneUnitId: unitId, kind: 'dismantling' })
+      .expect(201);
+    const otherJobId = created.body.job.id as string;
+    // 150 kPa allowable: the raising case (about 193 kPa) fails, and a ground figure may be overridden.
+    const config = configuration18m(unitId);
+    await request(server.app).put(`/api/jobs/${otherJobId}/configuration`).set(auth).send({ ...config, ground: { ...config.ground, allowablePressureKpa: 150 } }).expect(200);
+    await request(server.app)
+      .put(`/api/jobs/${otherJobId}/crew`)
+      .set(auth)
+      .send({ members: [{ userId: supervisor.user.id, role: 'supervisor' }, { userId: rigger.user.id, role: 'rigger' }] })
+      .expect(200);
+
+    const page = await signIn(chromium.browser, server.url, viewports.tablet, supervisor.user.email, `/jobs/${otherJobId}?tab=planner`);
+    const raisingRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Ground pressure: raising' }) }).first();
+    await expect.poll(() => raisingRow.isVisible()).toBe(true);
+    expect(await page.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
+    expect(await raisingRow.locator('.tone-badge').textContent()).toContain('FAIL');
+    await raisingRow.getByRole('button', { name: 'Request override' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByLabel('Why it is safe to go on').fill('Short');
+    await dialog.getByRole('button', { name: 'Request override' }).click();
+    await expect.poll(() => dialog.getByText('Give the reason in a sentence').isVisible()).toBe(true);
+    await dialog.getByLabel('Why it is safe to go on').fill('Temporary-works design TW-88 covers raising on this pad with 300 kPa.');
+    await dialog.getByRole('button', { name: 'Request override' }).click();
+    await expect.poll(() => raisingRow.getByText(/Override asked for by .*, waiting for a second person/).isVisible()).toBe(true);
+    // Nobody approves their own override.
+    const overrides = page.getByRole('region', { name: 'Overrides' });
+    expect(await overrides.getByText('Waiting for approval').isVisible()).toBe(true);
+    expect(await overrides.getByRole('button', { name: 'Approve' }).count()).toBe(0);
+    await page.context().close();
+
+    const approver = await signIn(chromium.browser, server.url, viewports.tablet, second.user.email, `/jobs/${otherJobId}?tab=planner`);
+    const theirs = approver.getByRole('region', { name: 'Overrides' });
+    await expect.poll(() => theirs.getByRole('button', { name: 'Approve' }).isVisible()).toBe(true);
+    await theirs.getByRole('button', { name: 'Approve' }).click();
+    await expect.poll(() => theirs.getByText('Approved', { exact: true }).isVisible()).toBe(true);
+    await expect.poll(() => approver.locator('.figure-row').getByText(/Override approved by/).first().isVisible()).toBe(true);
+    await screenshot(approver, 'planner-override-approved');
+    await approver.context().close();
+
+    const reader = await signIn(chromium.browser, server.url, viewports.phone, rigger.user.email, `/jobs/${otherJobId}?tab=planner`);
+    await expect.poll(() => reader.getByText('Read only: the job’s supervisors change the plan.').isVisible()).toBe(true);
+    await expect.poll(() => reader.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
+    expect(await reader.getByRole('button', { name: 'Save configuration' }).count()).toBe(0);
+    expect(await reader.getByRole('button', { name: 'Request override' }).count()).toBe(0);
+    expect(await reader.getByRole('region', { name: 'Heaviest load' }).getByLabel('Radius', { exact: true }).getAttribute('readonly')).not.toBeNull();
+    await screenshot(reader, 'planner-read-only-phone');
+    await reader.context().close();
   });
 });

@@ -35,3 +35,11 @@ export function fieldName(path: string): string {
   if (line) return `Power line ${Number(line[1]) + 1}: ${lineFields[line[2]] ?? line[2]}`;
   return path;
 }
+
+/** Fields filled by choosing from a list or buttons: "choose one" reads better than "fill this in". */
+const chosen = new Set(['craneUnitId', 'boomLengthM', 'mainHook.hookBlockId', 'auxiliary.hookBlockId', 'assist.assistCraneId', 'assist.chartId']);
+
+/** What still needs doing for a field, in lower case to follow its name. */
+export function missingWords(path: string, message: string): string {
+  return chosen.has(path) ? 'choose one' : message.charAt(0).toLowerCase() + message.slice(1);
+}
