@@ -213,6 +213,10 @@ describe('configuration planner', () => {
     await expect.poll(() => reader.getByText('Read only: the job’s supervisors change the plan.').isVisible()).toBe(true);
     await expect.poll(() => reader.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
     expect(await reader.getByRole('button', { name: 'Save configuration' }).count()).toBe(0);
+    // On a phone a reader gets the figures before the form.
+    const figuresTop = (await reader.getByRole('heading', { name: 'Figures' }).boundingBox())?.y ?? Infinity;
+    const formTop = (await reader.getByRole('heading', { name: 'Crane and boom' }).boundingBox())?.y ?? -Infinity;
+    expect(figuresTop).toBeLessThan(formTop);
     expect(await reader.getByRole('button', { name: 'Request override' }).count()).toBe(0);
     expect(await reader.getByRole('region', { name: 'Heaviest load' }).getByLabel('Radius', { exact: true }).getAttribute('readonly')).not.toBeNull();
     await screenshot(reader, 'planner-read-only-phone');
