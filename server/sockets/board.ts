@@ -84,6 +84,16 @@ function refusal(error: unknown, context: AppContext): { ok: false; error: { cod
 
 /** The live board over Socket.IO: join with resync, commands with acknowledgments, ticks and presence. */
 export function attachBoard(io: HoldlineServer, context: AppContext): () => void {
+  const hub = createBoardHub(io, context);
+  io.on('connection', (socket: HoldlineSocket) => hub.register(socket));
+  return hub.stop;
+}
+
+/**
+ * The board's shared state (presence, last sequence numbers, ticks) and the per-socket handlers,
+ * apart from the server so that handler tests can drive a mocked socket.
+ */
+export function createBoardHub(io: HoldlineServer, context: AppContext): { register(socket: HoldlineSocket): void; stop(): void } {
   const presence = new PresenceBook();
   context.realtime.presenceOf = (jobId) => presence.list(jobId);
   const lastSeq = new Map<string, number>();
@@ -101,7 +111,7 @@ export function attachBoard(io: HoldlineServer, context: AppContext): () => void
     return { ...job.board, presence: presence.list(jobId) };
   }
 
-  io.on('connection', (socket: HoldlineSocket) => {
+  function register(socket: HoldlineSocket): void {
     const joined = new Set<string>();
 
     socket.on('board:join', async (payload, ack) => {
@@ -167,7 +177,7 @@ export function attachBoard(io: HoldlineServer, context: AppContext): () => void
       for (const jobId of joined) presence.leave(jobId, socket.id);
       joined.clear();
     });
-  });
+  }
 
   const timer = setInterval(() => {
     const at = new Date().toISOString();
@@ -175,5 +185,5 @@ export function attachBoard(io: HoldlineServer, context: AppContext): () => void
     for (const jobId of presence.jobs()) io.to(jobRoom(jobId)).emit('board:tick', { jobId, seq: lastSeq.get(jobId) ?? 0, at });
   }, TICK_MS);
   timer.unref();
-  return () => clearInterval(timer);
+  return { register, stop: () => clearInterval(timer) };
 }

@@ -1,0 +1,139 @@
+import { randomUUID } from 'node:crypto';
+import sharp from 'sharp';
+import { io as connect, type Socket } from 'socket.io-client';
+import request from 'supertest';
+import type { BoardState } from '../../shared/board/types.js';
+import type { ClientToServerEvents, CommandAnswer, JoinAnswer, ServerToClientEvents } from '../../shared/events.js';
+import type { BoardCommand } from '../../shared/schemas/commands.js';
+import type { CrewRole, JobEventDto } from '../../shared/schemas/jobs.js';
+import { Component } from '../../server/entities/Component.js';
+import type { SignedInUser } from './auth.js';
+import type { TestServer } from './server.js';
+
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+/** A command without its id; the helpers add a fresh UUID. */
+export type CommandBody = DistributiveOmit<BoardCommand, 'commandId'>;
+
+/** A real Socket.IO client on a board, recording every event and tick it receives. */
+export class BoardClient {
+  readonly socket: Socket<ServerToClientEvents, ClientToServerEvents>;
+  readonly events: JobEventDto[] = [];
+  readonly ticks: { seq: number; at: string }[] = [];
+
+  constructor(url: string, token: string) {
+    this.socket = connect(url, { transports: ['websocket'], auth: { token }, reconnection: false, forceNew: true });
+    this.socket.on('board:event', (e) => this.events.push(e));
+    this.socket.on('board:tick', (t) => this.ticks.push(t));
+  }
+
+  connected(): Promise<void> {
+    if (this.socket.connected) return Promise.resolve();
+    return new Promise((resolve, reject) => {
+      this.socket.once('connect', () => resolve());
+      this.socket.once('connect_error', reject);
+    });
+  }
+
+  async join(jobId: string, afterSeq?: number): Promise<JoinAnswer> {
+    await this.connected();
+    return this.socket.emitWithAck('board:join', afterSeq === undefined ? { jobId } : { jobId, afterSeq });
+  }
+
+  command(jobId: string, command: CommandBody, commandId = randomUUID()): Promise<CommandAnswer> {
+    return this.socket.emitWithAck('board:command', { jobId, command: { ...command, commandId } as BoardCommand });
+  }
+
+  /** Waits until an event with this seq has arrived. */
+  async waitForSeq(seq: number, timeoutMs = 5000): Promise<void> {
+    const until = Date.now() + timeoutMs;
+    while (!this.events.some((e) => e.seq >= seq)) {
+      if (Date.now() > until) throw new Error(`no event ${seq}; have ${this.events.map((e) => e.seq).join(',')}`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+  }
+
+  close(): void {
+    this.socket.close();
+  }
+}
+
+/** Sends a command over HTTP (the same command path) and returns the answer body and status. */
+export async function httpCommand(server: TestServer, who: SignedInUser, jobId: string, command: CommandBody, commandId = randomUUID()) {
+  const res = await request(server.app).post(`/api/jobs/${jobId}/commands`).set('Authorization', `Bearer ${who.token}`).send({ ...command, commandId });
+  return { status: res.status, body: res.body as { ok?: boolean; seq?: number; error?: { code: string; message: string; fields?: { path: string }[] } } };
+}
+
+/** Uploads a small generated photo and returns its id. */
+export async function uploadPhoto(server: TestServer, who: SignedInUser): Promise<string> {
+  const png = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#557799' } }).png().toBuffer();
+  const res = await request(server.app).post('/api/uploads').set('Authorization', `Bearer ${who.token}`).attach('file', png, 'photo.png').expect(201);
+  return res.body.id as string;
+}
+
+/** The board as the server holds it now. */
+export async function boardOf(server: TestServer, who: SignedInUser, jobId: string): Promise<BoardState & { presence: unknown[] }> {
+  return (await request(server.app).get(`/api/jobs/${jobId}/board`).set('Authorization', `Bearer ${who.token}`).expect(200)).body;
+}
+
+export type CrewByRole = Record<Exclude<CrewRole, 'viewer'>, SignedInUser>;
+
+/** Completes every open step of a stage with a person allowed to, adding the photos and values it asks for. */
+export async function completeSteps(server: TestServer, crew: CrewByRole, jobId: string, stageId: string): Promise<void> {
+  const board = await boardOf(server, crew.supervisor, jobId);
+  const stage = board.stages.find((s) => s.id === stageId)!;
+  for (const step of stage.steps.filter((s) => s.state === 'open')) {
+    const role = step.allowedRoles.find((r) => r !== 'viewer') as keyof CrewByRole;
+    const who = crew[role];
+    let value: string | undefined;
+    if (step.records?.kind === 'reading') value = '5';
+    if (step.records?.kind === 'serial') {
+      value = step.records.plannedSerial ?? undefined;
+      if (!value) {
+        const c = await server.context.dataSource.manager.findOneBy(Component, { typeId: step.records.typeId ?? '', status: 'serviceable' });
+        value = c?.serial;
+      }
+    }
+    const photoId = step.requiresPhoto ? await uploadPhoto(server, who) : undefined;
+    const answer = await httpCommand(server, who, jobId, { type: 'step.complete', stepId: step.id, ...(value ? { value } : {}), ...(photoId ? { photoId } : {}) });
+    if (answer.status !== 200) throw new Error(`step ${step.id}: ${JSON.stringify(answer.body)}`);
+  }
+}
+
+/** The values the configuration-entry hold expects for the 18 m test configuration. */
+export const controllerValues18m = { boomLengthM: '18', hookBlockId: 'HB120', parts: '6', counterweightT: '65', operatingMode: 'lifting' };
+
+/** Acknowledges a stage's open hold with each required role, by different people, then releases it. */
+export async function acknowledgeAndRelease(server: TestServer, crew: CrewByRole, jobId: string, stageId: string): Promise<void> {
+  const board = await boardOf(server, crew.supervisor, jobId);
+  const hold = board.stages.find((s) => s.id === stageId)!.hold;
+  if (!hold) return;
+  for (const role of hold.requiredRoles) {
+    const who = crew[role as keyof CrewByRole];
+    const extra = hold.valueCheck ? { values: controllerValues18m, photoId: await uploadPhoto(server, who) } : {};
+    const answer = await httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role, ...extra });
+    if (answer.status !== 200) throw new Error(`ack ${hold.id} as ${role}: ${JSON.stringify(answer.body)}`);
+  }
+  const released = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
+  if (released.status !== 200) throw new Error(`release ${hold.id}: ${JSON.stringify(released.body)}`);
+}
+
+/** Works the board forward, stage by stage in plan order, until `target` is active (or everything is done). */
+export async function advanceUntilActive(server: TestServer, crew: CrewByRole, jobId: string, target?: string): Promise<void> {
+  for (let guard = 0; guard < 100; guard++) {
+    const board = await boardOf(server, crew.supervisor, jobId);
+    if (target && board.stages.find((s) => s.id === target)?.state === 'active') return;
+    const next = board.stages.find((s) => s.state === 'active' || s.state === 'holding');
+    if (!next) return;
+    if (next.state === 'active') await completeSteps(server, crew, jobId, next.id);
+    else await acknowledgeAndRelease(server, crew, jobId, next.id);
+  }
+  throw new Error('board did not settle');
+}
+
+/** Everyone in the crew acknowledges the briefing for the current plan version. */
+export async function briefEveryone(server: TestServer, crew: CrewByRole, jobId: string): Promise<void> {
+  for (const who of Object.values(crew)) {
+    const answer = await httpCommand(server, who, jobId, { type: 'briefing.acknowledge' });
+    if (answer.status !== 200 && answer.body.error?.code !== 'already_briefed') throw new Error(JSON.stringify(answer.body));
+  }
+}
