@@ -143,6 +143,17 @@ describe('configuration planner', () => {
     const saved = await request(server.app).get(`/api/jobs/${jobId}`).set({ Authorization: `Bearer ${supervisor.token}` }).expect(200);
     expect(saved.body.job.configuration.heaviestLoad.radiusM).toBe(12);
     expect(saved.body.job.configuration.ground.source.reference).toBe('GI report PH-204 rev A');
+
+    // The configuration sheet downloads with the session's token.
+    await page.getByRole('tab', { name: 'Overview' }).click();
+    const downloading = page.waitForEvent('download');
+    await page.getByRole('button', { name: 'Download the configuration sheet (PDF)' }).click();
+    const download = await downloading;
+    expect(download.suggestedFilename()).toBe('configuration-CC-11-Boom-erection-for-the-pump-house.pdf');
+    const stream = await download.createReadStream();
+    const head = await new Promise<string>((resolve) => stream.once('data', (chunk: Buffer) => resolve(chunk.subarray(0, 5).toString('latin1'))));
+    stream.destroy();
+    expect(head).toBe('%PDF-');
     await page.context().close();
   });
 
