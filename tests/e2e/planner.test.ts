@@ -170,6 +170,14 @@ describe('configuration planner', () => {
     await expect.poll(() => page.getByText('Operator: MISSING').isVisible()).toBe(true);
     expect(await page.getByText('Supervisor: in the crew').isVisible()).toBe(true);
     await screenshot(page, 'job-crew-phone');
+
+    // The night theme for the cab: the same words and marks on a dim page.
+    await page.getByRole('button', { name: 'Switch to night theme' }).click();
+    await expect.poll(() => page.evaluate(() => document.body.classList.contains('body--dark'))).toBe(true);
+    await page.getByRole('tab', { name: 'Planner' }).click();
+    await expect.poll(() => page.getByRole('heading', { name: 'Figures' }).isVisible()).toBe(true);
+    await expect.poll(() => page.getByRole('heading', { name: 'Crane and boom' }).isVisible()).toBe(true);
+    await screenshot(page, 'job-planner-phone-night');
     await page.context().close();
   });
 
