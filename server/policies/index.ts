@@ -162,7 +162,7 @@ export function can(actor: User | null, action: Action, target: PolicyTarget = {
 }
 
 /** May this person see this photo? Decided by what it belongs to, after `uploads.read` admitted them. */
-export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedBy' | 'ownerKind'>): boolean {
+export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedBy' | 'ownerKind'>, jobCrewRoles: readonly Qualification[] = []): boolean {
   if (!actor || !actor.active) return false;
   if (actor.isAdmin || upload.uploadedBy === actor.id) return true;
   switch (upload.ownerKind) {
@@ -175,8 +175,8 @@ export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedB
     case 'step':
     case 'hold':
     case 'defect':
-      // For now admin or uploader only; a later issue admits the job's crew.
-      return false;
+      // Board photos belong to a job (their owner id is the job's): its crew and watchers see them.
+      return can(actor, 'board.watch', { crewRoles: jobCrewRoles });
   }
 }
 

@@ -7,6 +7,7 @@ import { MAX_UPLOAD_BYTES, storeUpload } from '../commands/uploads.js';
 import type { AppContext } from '../context.js';
 import { Upload } from '../entities/Upload.js';
 import { badRequest, forbidden, HttpError, notFound } from '../errors.js';
+import { crewRolesOf } from '../commands/jobs.js';
 import { authorize, canSeeUpload } from '../policies/index.js';
 import { presentUpload } from '../presenters/upload.js';
 
@@ -82,7 +83,8 @@ export function uploadsRouter(context: AppContext): Router {
 
     const upload = UUID.test(uploadId) ? await manager.findOneBy(Upload, { id: uploadId.toLowerCase() }) : null;
     if (!upload) throw notFound('That photo');
-    if (!bySignature && !canSeeUpload(req.actor ?? null, upload)) throw forbidden('You cannot see this photo. It belongs to a record you do not have access to.');
+    const jobRoles = req.actor && upload.ownerId && upload.ownerKind !== 'inspection' && upload.ownerKind !== null ? await crewRolesOf(context.dataSource.manager, upload.ownerId, req.actor.id) : [];
+    if (!bySignature && !canSeeUpload(req.actor ?? null, upload, jobRoles)) throw forbidden('You cannot see this photo. It belongs to a record you do not have access to.');
 
     const stored = await context.storage.get(variant === 'photo' ? upload.storedName : upload.thumbnailName);
     if (!stored) {
