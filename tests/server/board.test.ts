@@ -323,6 +323,19 @@ describe('the live board engine', () => {
     expect(replay(events)).toEqual(snapshot);
   });
 
+  it('a step’s photo is seen by the job’s crew and not by someone outside it', async () => {
+    const jobId = await liveJob();
+    const stage = (await boardOf(server, crew.supervisor, jobId)).stages[0];
+    const step = stage.steps.find((s) => s.requiresPhoto) ?? stage.steps[0];
+    const who = crew[step.allowedRoles[0] as keyof CrewByRole];
+    const photoId = await uploadPhoto(server, who);
+    const value = step.records ? { value: '5' } : {};
+    expect((await httpCommand(server, who, jobId, { type: 'step.complete', stepId: step.id, photoId, ...value })).status).toBe(200);
+    await request(server.app).get(`/api/uploads/${photoId}/thumbnail`).set('Authorization', `Bearer ${crew.operator.token}`).expect(200);
+    await request(server.app).get(`/api/uploads/${photoId}/thumbnail`).set('Authorization', `Bearer ${viewer.token}`).expect(200);
+    await request(server.app).get(`/api/uploads/${photoId}/thumbnail`).set('Authorization', `Bearer ${outsider.token}`).expect(403);
+  });
+
   it('refuses a step completion without the photo or value it asks for, and a quarantined serial', async () => {
     const jobId = await liveJob();
     await advanceUntilActive(server, crew, jobId, 'er-check');
