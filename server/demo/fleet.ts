@@ -61,7 +61,7 @@ export async function seedDemoFleet(context: AppContext, people: { supervisor: U
       serials.set(serial, component.id);
     }
   }
-  for (const [kind, typeId] of [['section', 'base'], ['section', 'ins6'], ['section', 'tip'], ['guy_line', 'GT'], ['guy_line', 'GT'], ['guy_line', 'G6'], ['guy_line', 'G6'], ['guy_line', 'GB'], ['guy_line', 'GB']] as const) {
+  for (const [kind, typeId] of [['section', 'base'], ['section', 'ins6'], ['section', 'tip'], ['guy_line', 'GT'], ['guy_line', 'GT'], ['guy_line', 'G6'], ['guy_line', 'G6'], ['guy_line', 'GB'], ['guy_line', 'GB'], ['hook_block', 'HB45'], ['rope', 'R28-hoist']] as const) {
     const n = [...serials.keys()].filter((s) => s.startsWith(`F12-${typeId.toUpperCase()}-`)).length + 1;
     const serial = `F12-${typeId.toUpperCase()}-${String(n).padStart(2, '0')}`;
     const component = await createComponent(context, { serial, kind, typeId, modelId: model.id, unitId: second.id, location: 'Fenwold depot' });
@@ -76,7 +76,7 @@ export async function seedDemoFleet(context: AppContext, people: { supervisor: U
   };
 
   // Pre-delivery inspections of the whole kit, then the finds that quarantined three parts.
-  for (const serial of serials.keys()) if (serial.startsWith('F07-')) await inspect(serial, 'serviceable', 'Pre-delivery check: no findings.', people.supervisor, undefined, 6);
+  for (const serial of serials.keys()) await inspect(serial, 'serviceable', 'Pre-delivery check: no findings.', people.supervisor, undefined, 6);
   await inspect('F07-INS12-06', 'damaged', 'Dent about 8 mm deep in a top chord, 1.2 m from the foot end. Out of service until assessed.', people.rigger, { caption: 'F07-INS12-06 top chord dent', mark: 'dent' });
   await inspect('F07-G12-12', 'damaged', 'Three broken wires in one lay next to the socket.', people.rigger, { caption: 'F07-G12-12 broken wires at socket', mark: 'wires' });
   await inspect('F07-BALL12-01', 'damaged', 'Crack indication in the weld at the swivel housing; sent for testing.', people.supervisor, { caption: 'F07-BALL12-01 weld crack', mark: 'weld' });

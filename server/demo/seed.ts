@@ -2,6 +2,7 @@ import type { AppContext } from '../context.js';
 import { createUser } from '../commands/users.js';
 import { User } from '../entities/User.js';
 import { seedDemoFleet } from './fleet.js';
+import { seedDemoJobs } from './jobs.js';
 import { DEMO_PASSWORD, demoPeople } from './people.js';
 
 /**
@@ -18,6 +19,16 @@ export async function seedDemoIfEmpty(context: AppContext): Promise<boolean> {
   });
   if (!people) return false;
   const person = (email: string) => people.get(email)!;
-  await seedDemoFleet(context, { supervisor: person('supervisor@holdline.test'), rigger: person('rigger@holdline.test') });
+  const fleet = await seedDemoFleet(context, { supervisor: person('supervisor@holdline.test'), rigger: person('rigger@holdline.test') });
+  await seedDemoJobs(context, {
+    admin: person('admin@holdline.test'),
+    supervisor: person('supervisor@holdline.test'),
+    supervisor2: person('supervisor2@holdline.test'),
+    operator: person('operator@holdline.test'),
+    signaller: person('signaller@holdline.test'),
+    rigger: person('rigger@holdline.test'),
+    rigger2: person('rigger2@holdline.test'),
+    viewer: person('viewer@holdline.test'),
+  }, fleet);
   return true;
 }

@@ -62,6 +62,9 @@ describe('the server process', () => {
     const quarantined = db.prepare("SELECT serial FROM component WHERE status = 'quarantined' ORDER BY serial").all() as { serial: string }[];
     expect(quarantined.map((r) => r.serial)).toEqual(['F07-BALL12-01', 'F07-G12-12', 'F07-INS12-06']);
     expect((db.prepare('SELECT COUNT(*) AS n FROM upload WHERE owner_kind = ?').get('inspection') as { n: number }).n).toBe(3);
+    // The jobs too: one complete, one live at a hold, one being planned.
+    const jobs = db.prepare('SELECT state FROM job ORDER BY state').all() as { state: string }[];
+    expect(jobs.map((j) => j.state)).toEqual(['complete', 'live', 'planning']);
 
     const second = boot(env);
     await waitFor(() => second.output().includes('Holdline is serving'));

@@ -1,0 +1,92 @@
+import { randomUUID } from 'node:crypto';
+import type { BoardCommand } from '../../shared/schemas/commands.js';
+import type { CrewRole } from '../../shared/schemas/jobs.js';
+import type { ValueCheckField } from '../../shared/schemas/plan.js';
+import type { AppContext } from '../context.js';
+import { runBoardCommand } from '../commands/board.js';
+import { storeUpload } from '../commands/uploads.js';
+import { Component } from '../entities/Component.js';
+import { Job } from '../entities/Job.js';
+import { JobPlan } from '../entities/JobPlan.js';
+import type { User } from '../entities/User.js';
+import { demoPhoto } from './photos.js';
+
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+
+/**
+ * Works a demo job's board forward with the same commands a crew sends, so its log is genuine:
+ * each step by someone allowed to, with the photo or serial it asks for; each hold acknowledged by
+ * different people and released by the supervisor.
+ */
+export class DemoBoardDriver {
+  constructor(
+    private readonly context: AppContext,
+    private readonly jobId: string,
+    private readonly crew: Partial<Record<CrewRole, User>>,
+  ) {}
+
+  async send(who: User, command: DistributiveOmit<BoardCommand, 'commandId'>): Promise<void> {
+    await runBoardCommand(this.context, who, this.jobId, { ...command, commandId: randomUUID() } as BoardCommand);
+  }
+
+  private async board() {
+    const job = await this.context.dataSource.manager.findOneByOrFail(Job, { id: this.jobId });
+    return { job, board: job.board! };
+  }
+
+  private async photo(who: User, caption: string): Promise<string> {
+    return (await storeUpload(this.context, who, { buffer: await demoPhoto(caption, 'weld') })).id;
+  }
+
+  /** Completes the open steps of a stage. */
+  async completeSteps(stageId: string): Promise<void> {
+    const { board } = await this.board();
+    const stage = board.stages.find((s) => s.id === stageId)!;
+    for (const step of stage.steps.filter((s) => s.state === 'open')) {
+      const role = step.allowedRoles.find((r) => this.crew[r])!;
+      const who = this.crew[role]!;
+      let value: string | undefined;
+      if (step.records?.kind === 'reading') value = step.records.unit === 'm/s' ? '4.5' : 'checked';
+      if (step.records?.kind === 'serial') {
+        value = step.records.plannedSerial ?? (await this.context.dataSource.manager.findOneBy(Component, { typeId: step.records.typeId ?? '', status: 'serviceable' }))?.serial;
+      }
+      const photoId = step.requiresPhoto ? await this.photo(who, step.text.slice(0, 40)) : undefined;
+      await this.send(who, { type: 'step.complete', stepId: step.id, ...(value ? { value } : {}), ...(photoId ? { photoId } : {}) });
+    }
+  }
+
+  /** Acknowledges a stage's hold with the given roles (all required roles by default). */
+  async acknowledge(stageId: string, roles?: CrewRole[]): Promise<void> {
+    const { job, board } = await this.board();
+    const hold = board.stages.find((s) => s.id === stageId)!.hold!;
+    const plan = await this.context.dataSource.manager.findOneByOrFail(JobPlan, { jobId: job.id, version: job.planVersion });
+    const expected = plan.plan.stages.find((s) => s.id === stageId)?.hold?.valueCheck?.fields ?? [];
+    for (const role of roles ?? hold.requiredRoles) {
+      const who = this.crew[role]!;
+      const extra = hold.valueCheck ? { values: Object.fromEntries(expected.map((f) => [f.field, f.expected])) as Record<ValueCheckField, string>, photoId: await this.photo(who, 'Controller screen') } : {};
+      await this.send(who, { type: 'hold.acknowledge', holdId: hold.id, role, ...extra });
+    }
+  }
+
+  async release(stageId: string): Promise<void> {
+    const { board } = await this.board();
+    await this.send(this.crew.supervisor!, { type: 'hold.release', holdId: board.stages.find((s) => s.id === stageId)!.hold!.id });
+  }
+
+  /** Works stages in plan order until `stopAt` is active or holding (or the board is finished). */
+  async runUntil(stopAt?: string): Promise<void> {
+    for (let guard = 0; guard < 200; guard++) {
+      const { board } = await this.board();
+      const target = stopAt ? board.stages.find((s) => s.id === stopAt) : undefined;
+      if (target && (target.state === 'active' || target.state === 'holding')) return;
+      const next = board.stages.find((s) => s.state === 'active' || s.state === 'holding');
+      if (!next) return;
+      if (next.state === 'active') await this.completeSteps(next.id);
+      else {
+        await this.acknowledge(next.id);
+        await this.release(next.id);
+      }
+    }
+    throw new Error('demo board did not settle');
+  }
+}

@@ -1,0 +1,154 @@
+import type { Configuration } from '../../shared/schemas/configuration.js';
+import type { CommsPlan } from '../../shared/schemas/jobs.js';
+import type { AppContext } from '../context.js';
+import { createJob, setConfiguration, setCrew, updateJob } from '../commands/jobs.js';
+import { makeReady } from '../commands/plans.js';
+import type { User } from '../entities/User.js';
+import { DemoBoardDriver } from './board-driver.js';
+import type { DemoFleet } from './fleet.js';
+
+export interface DemoPeople {
+  admin: User;
+  supervisor: User;
+  supervisor2: User;
+  operator: User;
+  signaller: User;
+  rigger: User;
+  rigger2: User;
+  viewer: User;
+}
+
+const ground = (kpa: number, reference: string): Configuration['ground'] => ({
+  groundType: 'medium dense sand and gravel',
+  allowablePressureKpa: kpa,
+  source: { kind: 'ground_investigation', reference },
+});
+
+function liftConfiguration(fleet: DemoFleet): Configuration {
+  return {
+    craneUnitId: fleet.unitId,
+    boomLengthM: 60,
+    mainHook: { hookBlockId: 'HB120', parts: 6 },
+    auxiliary: { enabled: false, hookBlockId: null },
+    heaviestLoad: { description: 'Transformer T2 (45 t) on its lifting beam', loadT: 45, riggingT: 1.6, radiusM: 14 },
+    ground: ground(300, 'Harrowmere GI report GI-0142 rev B'),
+    mats: { used: true, lengthM: 6, widthM: 1.5, thicknessM: 0.3, weightKg: 2400 },
+    assist: {
+      assistCraneId: fleet.assistCraneId,
+      chartId: 'boom-11.6m-full-cw',
+      lifts: [
+        { label: 'Boom base onto blocking', liftT: 7.8, riggingT: 0.3, radiusM: 6 },
+        { label: '12 m inserts, one at a time', liftT: 3.5, riggingT: 0.2, radiusM: 8 },
+        { label: 'Boom tip', liftT: 4.1, riggingT: 0.2, radiusM: 7 },
+      ],
+    },
+    siteHazards: {
+      powerLines: [{ label: '11 kV overhead line, east boundary', voltageKv: 11, distanceM: 82 }],
+      buriedServices: 'Earthing grid and cable trench along the north fence: mats bridge the trench, no outrigger or track on its cover slabs.',
+      neighbours: 'Public footpath 40 m west: marshal closes it while the boom is raised or lowered.',
+    },
+    fallZoneMarginM: 5,
+  };
+}
+
+function comms(p: DemoPeople, channel: string): CommsPlan {
+  return {
+    radioChannel: channel,
+    callSigns: [
+      { userId: p.supervisor.id, callSign: 'Lift One' },
+      { userId: p.operator.id, callSign: 'Crane' },
+      { userId: p.signaller.id, callSign: 'Banksman' },
+      { userId: p.rigger.id, callSign: 'Rigger One' },
+      { userId: p.rigger2.id, callSign: 'Rigger Two' },
+    ],
+    motionSignallers: [
+      { motion: 'boom hoist', userId: p.signaller.id },
+      { motion: 'main hoist', userId: p.signaller.id },
+      { motion: 'swing', userId: p.signaller.id },
+      { motion: 'travel', userId: p.signaller.id },
+      { motion: 'assist crane', userId: p.supervisor2.id },
+    ],
+    fallbackHandSignals: 'Hand signals as in ASME B30.5; the signaller wears the orange vest. Loss of radio: stop at once and wait for hand signals.',
+  };
+}
+
+const crewOf = (p: DemoPeople) => [
+  { userId: p.supervisor.id, role: 'supervisor' as const },
+  { userId: p.supervisor2.id, role: 'supervisor' as const },
+  { userId: p.supervisor2.id, role: 'signaller' as const },
+  { userId: p.operator.id, role: 'operator' as const },
+  { userId: p.signaller.id, role: 'signaller' as const },
+  { userId: p.rigger.id, role: 'rigger' as const },
+  { userId: p.rigger2.id, role: 'rigger' as const },
+  { userId: p.viewer.id, role: 'viewer' as const },
+];
+
+/** A context whose clock starts at `start` and moves on by `stepMs` at each reading, for history. */
+function pastContext(context: AppContext, start: Date, stepMs: number): AppContext {
+  let t = start.getTime();
+  return { ...context, now: () => new Date((t += stepMs)) };
+}
+
+/**
+ * The invented jobs, all made by running the real commands:
+ * - a 21 m trial erection on FL-12 at the depot, run to completion three days ago;
+ * - the 60 m erection on FL-07 for the transformer lift, live, at the guy-line tensioning hold,
+ *   acknowledged by the operator and waiting for the signaller;
+ * - the dismantling of FL-07 after the lift, being planned.
+ */
+export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: DemoFleet): Promise<void> {
+  // The completed trial erection, dated three days ago.
+  const past = pastContext(context, new Date(context.now().getTime() - 3 * 86_400_000), 90_000);
+  const trial = await createJob(past, p.supervisor, { name: 'Depot trial erection, 21 m', site: 'Fenwold depot, yard 2', craneUnitId: fleet.secondUnitId, kind: 'erection' });
+  const trialId = trial.job.id;
+  await setCrew(past, p.supervisor, trialId, crewOf(p).filter((m) => m.userId !== p.supervisor2.id));
+  const depotComms = comms(p, 'Depot channel 2');
+  await updateJob(past, p.supervisor, trialId, {
+    commsPlan: { ...depotComms, motionSignallers: depotComms.motionSignallers.filter((m) => m.userId === p.signaller.id) },
+    distribution: ['records@fenwold-lifting.test'],
+  });
+  await setConfiguration(past, p.supervisor, trialId, {
+    ...liftConfiguration(fleet),
+    craneUnitId: fleet.secondUnitId,
+    boomLengthM: 21,
+    mainHook: { hookBlockId: 'HB45', parts: 4 },
+    heaviestLoad: { description: 'Test weights, 12 t', loadT: 12, riggingT: 0.4, radiusM: 9 },
+    ground: ground(250, 'Depot slab design note DS-7'),
+    mats: { ...liftConfiguration(fleet).mats, used: false },
+    assist: { assistCraneId: null, chartId: null, lifts: [] },
+    siteHazards: { powerLines: [], buriedServices: 'None in yard 2.', neighbours: 'Workshop doors kept shut during the raise.' },
+  });
+  await makeReady(past, p.supervisor, trialId);
+  const trialCrew = { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger };
+  const trialDriver = new DemoBoardDriver(past, trialId, trialCrew);
+  await trialDriver.send(p.supervisor, { type: 'job.start' });
+  for (const who of [p.supervisor, p.operator, p.signaller, p.rigger, p.rigger2]) await trialDriver.send(who, { type: 'briefing.acknowledge' });
+  await trialDriver.send(p.rigger, { type: 'weather.record', meanMs: 4, gustMs: 7 });
+  await trialDriver.runUntil();
+  await trialDriver.send(p.supervisor, { type: 'job.complete' });
+
+  // The live erection for the transformer lift, started this morning.
+  const morning = pastContext(context, new Date(context.now().getTime() - 4 * 3_600_000), 40_000);
+  const lift = await createJob(morning, p.supervisor, { name: 'Transformer T2 lift: boom erection', site: 'Harrowmere substation', craneUnitId: fleet.unitId, kind: 'erection' });
+  const liftId = lift.job.id;
+  await setCrew(morning, p.supervisor, liftId, crewOf(p));
+  await updateJob(morning, p.supervisor, liftId, { commsPlan: comms(p, 'Site channel 4'), distribution: ['records@fenwold-lifting.test', 'site.manager@harrowmere-works.test'] });
+  await setConfiguration(morning, p.supervisor, liftId, liftConfiguration(fleet));
+  await makeReady(morning, p.supervisor, liftId);
+  const liftCrew = { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger };
+  const driver = new DemoBoardDriver(morning, liftId, liftCrew);
+  await driver.send(p.supervisor, { type: 'job.start' });
+  for (const who of [p.supervisor, p.supervisor2, p.operator, p.signaller, p.rigger, p.rigger2]) await driver.send(who, { type: 'briefing.acknowledge' });
+  await driver.send(p.signaller, { type: 'weather.record', meanMs: 5, gustMs: 8 });
+  await driver.runUntil('er-tension');
+  await driver.completeSteps('er-tension');
+  await driver.acknowledge('er-tension', ['operator']);
+  // Fresh readings for the crew arriving now (a resume or a raise needs one from the last 15 minutes).
+  await new DemoBoardDriver(context, liftId, liftCrew).send(p.signaller, { type: 'weather.record', meanMs: 4, gustMs: 7 });
+
+  // The dismantling after the lift, being planned.
+  const dismantle = await createJob(context, p.supervisor2, { name: 'Transformer T2 lift: boom dismantling', site: 'Harrowmere substation', craneUnitId: fleet.unitId, kind: 'dismantling' });
+  await setCrew(context, p.supervisor2, dismantle.job.id, crewOf(p));
+  await updateJob(context, p.supervisor2, dismantle.job.id, { commsPlan: comms(p, 'Site channel 4') });
+  await setConfiguration(context, p.supervisor2, dismantle.job.id, liftConfiguration(fleet));
+}
