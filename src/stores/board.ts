@@ -1,0 +1,191 @@
+import { defineStore } from 'pinia';
+import { computed, ref, shallowRef } from 'vue';
+import { BoardFollower } from '../../shared/board/follower';
+import type { BoardSnapshot } from '../../shared/board/types';
+import type { CommandAnswer } from '../../shared/events';
+import type { BoardCommand } from '../../shared/schemas/commands';
+import { jobEventListSchema, type CrewRole, type JobEventDto } from '../../shared/schemas/jobs';
+import { api } from '../services/api';
+import { connectSocket, type HoldlineSocket } from '../services/socket';
+import { useSessionStore } from './session';
+
+type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
+/** A command as a view sends it; the store adds the id. */
+export type CommandInput = DistributiveOmit<BoardCommand, 'commandId'>;
+
+/** A stop pressed while the board was not live: kept until the server has it. */
+export interface QueuedStop {
+  commandId: string;
+  pressedAt: string;
+  reason?: string;
+}
+
+const QUEUED_STOP_KEY = 'holdline.queuedStop';
+const COMMAND_TIMEOUT_MS = 8000;
+
+/** Plain words for a command that failed without an answer. */
+const NO_ANSWER = 'No answer from the server. Check the connection; the command was not confirmed.';
+
+/**
+ * The live board of one job for every view: joins through the socket, applies server events with
+ * the shared reducer strictly in seq order (via BoardFollower), watches the ticks, and sends
+ * commands without changing anything until the server answers.
+ */
+export const useBoardStore = defineStore('board', () => {
+  const session = useSessionStore();
+  const jobId = ref<string | null>(null);
+  const board = shallowRef<BoardSnapshot | null>(null);
+  const live = ref(false);
+  const lastSyncAt = ref(0);
+  const loading = ref(false);
+  const error = ref('');
+  /** Ids of commands sent and not yet answered, so buttons can show they are waiting. */
+  const waiting = ref(new Set<string>());
+  const queuedStop = ref<QueuedStop | null>(null);
+  /** The last event applied, for flashes, sounds and announcements. */
+  const lastEvent = shallowRef<JobEventDto | null>(null);
+
+  let socket: HoldlineSocket | null = null;
+  let follower: BoardFollower | null = null;
+  let livenessTimer: ReturnType<typeof setInterval> | undefined;
+  const detach: (() => void)[] = [];
+
+  const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === session.user?.id).map((c) => c.role));
+  const briefed = computed(() => !!board.value && board.value.briefed.some((b) => b.userId === session.user?.id && b.planVersion === board.value!.planVersion));
+
+  function refresh() {
+    if (!follower) return;
+    board.value = follower.board ? { ...follower.board } : null;
+    const wasLive = live.value;
+    live.value = follower.live;
+    lastSyncAt.value = follower.lastSyncAt;
+    if (live.value && !wasLive) void sendQueuedStop();
+  }
+
+  /** Opens a job's board; opening another closes the first. */
+  async function open(id: string) {
+    if (jobId.value === id && follower) return;
+    close();
+    jobId.value = id;
+    queuedStop.value = readQueuedStop(id);
+    loading.value = true;
+    error.value = '';
+    socket = connectSocket(() => session.token);
+    const s = socket;
+    follower = new BoardFollower(
+      id,
+      {
+        join: (job, afterSeq) => s.timeout(COMMAND_TIMEOUT_MS).emitWithAck('board:join', afterSeq === undefined ? { jobId: job } : { jobId: job, afterSeq }),
+        fetchEvents: async (job, afterSeq) => jobEventListSchema.parse(await api(`/jobs/${job}/events?after=${afterSeq}`)).items,
+      },
+      {
+        onChange: refresh,
+        onEvent: (event) => {
+          lastEvent.value = event;
+        },
+      },
+    );
+    const f = follower;
+    const onEvent = (e: JobEventDto) => f.onEvent(e);
+    const onTick = (t: { jobId: string; seq: number }) => f.onTick(t);
+    const onPresence = (p: Parameters<BoardFollower['onPresence']>[0]) => f.onPresence(p);
+    const onConnect = () => void join();
+    s.on('board:event', onEvent);
+    s.on('board:tick', onTick);
+    s.on('board:presence', onPresence);
+    s.on('connect', onConnect);
+    detach.push(() => {
+      s.off('board:event', onEvent);
+      s.off('board:tick', onTick);
+      s.off('board:presence', onPresence);
+      s.off('connect', onConnect);
+    });
+    livenessTimer = setInterval(() => f.checkLiveness(), 500);
+    if (s.connected) await join();
+    else loading.value = true;
+  }
+
+  async function join() {
+    if (!follower) return;
+    try {
+      await follower.join();
+      error.value = '';
+    } catch (e) {
+      error.value = e instanceof Error ? e.message : 'Could not open the board.';
+    } finally {
+      loading.value = false;
+      refresh();
+    }
+  }
+
+  function close() {
+    clearInterval(livenessTimer);
+    for (const off of detach.splice(0)) off();
+    if (socket && jobId.value) socket.emit('board:leave', { jobId: jobId.value });
+    follower = null;
+    board.value = null;
+    live.value = false;
+    jobId.value = null;
+  }
+
+  /**
+   * Sends a command and waits for the server. Nothing on the board changes until the server's event
+   * arrives; the answer's refusal is returned in plain words.
+   */
+  async function send(command: CommandInput, commandId: string = crypto.randomUUID()): Promise<CommandAnswer> {
+    if (!socket || !jobId.value) return { ok: false, error: { code: 'not_open', message: 'The board is not open.' } };
+    waiting.value = new Set(waiting.value).add(commandId);
+    try {
+      const answer = await socket.timeout(COMMAND_TIMEOUT_MS).emitWithAck('board:command', { jobId: jobId.value, command: { ...command, commandId } as BoardCommand });
+      if (answer.ok) follower?.onEvent(answer.event);
+      return answer;
+    } catch {
+      return { ok: false, error: { code: 'no_answer', message: NO_ANSWER } };
+    } finally {
+      const next = new Set(waiting.value);
+      next.delete(commandId);
+      waiting.value = next;
+    }
+  }
+
+  /**
+   * The stop control. Works while not live: the stop is kept with the time it was pressed and sent
+   * the moment the board is live again (same command id, so it is never recorded twice).
+   */
+  async function stop(reason?: string): Promise<CommandAnswer | null> {
+    const pending: QueuedStop = { commandId: crypto.randomUUID(), pressedAt: new Date().toISOString(), ...(reason ? { reason } : {}) };
+    if (!live.value) {
+      queuedStop.value = pending;
+      localStorage.setItem(QUEUED_STOP_KEY, JSON.stringify({ ...pending, jobId: jobId.value }));
+      return null;
+    }
+    return send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(reason ? { reason } : {}) }, pending.commandId);
+  }
+
+  async function sendQueuedStop() {
+    const pending = queuedStop.value;
+    if (!pending || !live.value) return;
+    const answer = await send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(pending.reason ? { reason: pending.reason } : {}) }, pending.commandId);
+    if (answer.ok || answer.error.code !== 'no_answer') {
+      queuedStop.value = null;
+      localStorage.removeItem(QUEUED_STOP_KEY);
+    }
+  }
+
+  function isWaiting(commandId: string) {
+    return waiting.value.has(commandId);
+  }
+
+  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, open, close, send, stop, isWaiting };
+});
+
+/** A stop queued on this device for this job (it survives a reload while offline). */
+function readQueuedStop(jobId: string): QueuedStop | null {
+  try {
+    const raw = localStorage.getItem(QUEUED_STOP_KEY);
+    const stored = raw ? (JSON.parse(raw) as QueuedStop & { jobId: string }) : null;
+    return stored && stored.jobId === jobId ? { commandId: stored.commandId, pressedAt: stored.pressedAt, ...(stored.reason ? { reason: stored.reason } : {}) } : null;
+  } catch {
+    return null;
+  }
+}
