@@ -1,11 +1,11 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { createAssistCraneSchema } from '../../shared/schemas/fleet.js';
 import { createAssistCrane } from '../commands/fleet.js';
 import type { AppContext } from '../context.js';
 import { AssistCrane } from '../entities/AssistCrane.js';
-import { notFound, parseOrThrow } from '../errors.js';
+import { parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
+import { findByIdOr404 } from './find.js';
 import { presentAssistCrane } from '../presenters/fleet.js';
 
 /** Assist cranes with their charts. */
@@ -20,9 +20,7 @@ export function assistCranesRouter(context: AppContext): Router {
 
   router.get('/assist-cranes/:assistCraneId', async (req, res) => {
     authorize(req.actor ?? null, 'fleet.read', {}, req.authProblem);
-    const id = req.params.assistCraneId;
-    const crane = z.uuid().safeParse(id).success ? await manager.findOneBy(AssistCrane, { id }) : null;
-    if (!crane) throw notFound('That assist crane');
+    const crane = await findByIdOr404(manager, AssistCrane, req.params.assistCraneId, 'That assist crane');
     res.json({ assistCrane: presentAssistCrane(crane) });
   });
 

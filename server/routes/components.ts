@@ -1,11 +1,11 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { componentFilterSchema, createComponentSchema, createInspectionSchema, updateComponentSchema } from '../../shared/schemas/fleet.js';
 import { createComponent, recordInspection, updateComponent } from '../commands/fleet.js';
 import type { AppContext } from '../context.js';
 import { Component } from '../entities/Component.js';
-import { notFound, parseOrThrow } from '../errors.js';
+import { parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
+import { findByIdOr404 } from './find.js';
 import { componentDetail, inspectionsOf, listComponents, presentComponents } from '../queries/fleet.js';
 
 /** Physical components by serial, and their inspections. */
@@ -13,11 +13,7 @@ export function componentsRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
 
-  async function load(componentId: string): Promise<Component> {
-    const component = z.uuid().safeParse(componentId).success ? await manager.findOneBy(Component, { id: componentId }) : null;
-    if (!component) throw notFound('That component');
-    return component;
-  }
+  const load = (id: string) => findByIdOr404(manager, Component, id, 'That component');
 
   router.get('/components', async (req, res) => {
     authorize(req.actor ?? null, 'fleet.read', {}, req.authProblem);

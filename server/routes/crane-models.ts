@@ -6,8 +6,9 @@ import { saveCraneModel, updateCraneModel } from '../commands/fleet.js';
 import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
-import { notFound, parseOrThrow } from '../errors.js';
+import { parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
+import { findByIdOr404 } from './find.js';
 import { presentCraneModel, presentCraneModelSummary } from '../presenters/fleet.js';
 
 const importQuerySchema = z.object({ replace: z.enum(['0', '1', 'true', 'false']).optional() });
@@ -18,11 +19,7 @@ export function craneModelsRouter(context: AppContext): Router {
   const { manager } = context.dataSource;
   const unitCount = (modelId: string) => manager.countBy(CraneUnit, { modelId });
 
-  async function load(modelId: string): Promise<CraneModel> {
-    const model = z.uuid().safeParse(modelId).success ? await manager.findOneBy(CraneModel, { id: modelId }) : null;
-    if (!model) throw notFound('That crane model');
-    return model;
-  }
+  const load = (id: string) => findByIdOr404(manager, CraneModel, id, 'That crane model');
 
   router.get('/crane-models', async (req, res) => {
     authorize(req.actor ?? null, 'fleet.read', {}, req.authProblem);

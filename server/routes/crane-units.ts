@@ -1,13 +1,13 @@
 import { Router } from 'express';
-import { z } from 'zod';
 import { boomMakeup } from '../../shared/calc/boom.js';
 import { boomMakeupQuerySchema, createCraneUnitSchema, updateCraneUnitSchema } from '../../shared/schemas/fleet.js';
 import { createCraneUnit, updateCraneUnit } from '../commands/fleet.js';
 import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
-import { notFound, parseOrThrow } from '../errors.js';
+import { parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
+import { findByIdOr404 } from './find.js';
 import { presentUnits, unitInventory } from '../queries/fleet.js';
 
 /** Crane units by fleet number, and what boom each can build from its serviceable parts. */
@@ -15,11 +15,7 @@ export function craneUnitsRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
 
-  async function load(unitId: string): Promise<CraneUnit> {
-    const unit = z.uuid().safeParse(unitId).success ? await manager.findOneBy(CraneUnit, { id: unitId }) : null;
-    if (!unit) throw notFound('That crane unit');
-    return unit;
-  }
+  const load = (id: string) => findByIdOr404(manager, CraneUnit, id, 'That crane unit');
 
   router.get('/crane-units', async (req, res) => {
     authorize(req.actor ?? null, 'fleet.read', {}, req.authProblem);

@@ -5,8 +5,9 @@ import { crewRolesOf } from '../commands/jobs.js';
 import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import type { User } from '../entities/User.js';
-import { badRequest, notFound, unauthorized } from '../errors.js';
+import { badRequest, unauthorized } from '../errors.js';
 import { authorize, type Action } from '../policies/index.js';
+import { findByIdOr404 } from './find.js';
 
 /**
  * Loads the job named in the path and checks the action against the policy with the person's
@@ -15,9 +16,7 @@ import { authorize, type Action } from '../policies/index.js';
 export async function loadJobFor(context: AppContext, req: Request, action: Action): Promise<{ job: Job; actor: User; crewRoles: CrewRole[] }> {
   const actor = req.actor ?? null;
   if (!actor) throw req.authProblem ?? unauthorized();
-  const jobId = String(req.params.jobId);
-  const job = z.uuid().safeParse(jobId).success ? await context.dataSource.manager.findOneBy(Job, { id: jobId }) : null;
-  if (!job) throw notFound('That job');
+  const job = await findByIdOr404(context.dataSource.manager, Job, String(req.params.jobId), 'That job');
   const crewRoles = await crewRolesOf(context.dataSource.manager, job.id, actor.id);
   authorize(actor, action, { crewRoles });
   return { job, actor, crewRoles };
