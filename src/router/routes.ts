@@ -58,5 +58,19 @@ export const routes: RouteRecordRaw[] = [
       { path: 'people', name: 'people', component: () => import('../pages/people/PeoplePage.vue'), meta: { title: 'People', admin: true } },
     ],
   },
+  {
+    // The live board's views of one job; /jobs/:id itself stays the planning page above.
+    path: '/jobs/:id',
+    component: () => import('../layouts/BoardLayout.vue'),
+    children: [
+      { path: 'board', name: 'board', component: () => import('../pages/board/BoardPage.vue'), meta: { title: 'Board' } },
+      { path: 'cab', name: 'cab', component: () => import('../pages/board/CabPage.vue'), meta: { title: 'Cab' } },
+      { path: 'signaller', name: 'signaller', component: () => import('../pages/board/SignallerPage.vue'), meta: { title: 'Signaller' } },
+      { path: 'rigger', name: 'rigger', component: () => import('../pages/board/RiggerPage.vue'), meta: { title: 'Rigger checklist' } },
+      { path: 'console', name: 'console', component: () => import('../pages/board/ConsolePage.vue'), meta: { title: 'Supervisor console' } },
+      { path: 'display', name: 'display', component: () => import('../pages/board/DisplayPage.vue'), meta: { title: 'Site display' } },
+    ],
+  },
+  { path: '/jobs/:id/open', name: 'board-open', component: () => import('../pages/board/BoardEntryPage.vue'), meta: { title: 'Opening job' } },
   { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('../pages/NotFoundPage.vue'), meta: { public: true, title: 'Not found' } },
 ];

@@ -103,6 +103,16 @@ export async function download(path: string, fileName: string): Promise<void> {
   setTimeout(() => URL.revokeObjectURL(url), 0);
 }
 
+/** Fetches a file (a photo thumbnail) with the session's token, for an object URL a screen can show. */
+export async function fetchBlob(path: string): Promise<Blob> {
+  const response = await fetchWithToken(path, { method: 'GET', headers: { Accept: '*/*' } });
+  if (!response.ok) {
+    const text = await response.text();
+    throw refusal(response, text ? safeJson(text) : undefined);
+  }
+  return response.blob();
+}
+
 function safeJson(text: string): unknown {
   try {
     return JSON.parse(text);
