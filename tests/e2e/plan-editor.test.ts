@@ -134,6 +134,14 @@ describe('plan editor', () => {
     await card.getByRole('button', { name: `Move stage “${edited.title}” down` }).click();
     await expect.poll(async () => (await card.getAttribute('aria-label')) ?? '').toBe(`Stage ${editIndex + 2}: ${edited.title}`);
 
+    // A blank step is named before anything is sent, next to the field and in the list above.
+    await added.fill('');
+    await page.getByRole('button', { name: 'Save plan' }).click();
+    await expect.poll(() => page.getByText('Some fields need fixing before the plan can be saved.').isVisible()).toBe(true);
+    expect(await card.getByText('Fill this in').isVisible()).toBe(true);
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'plan-editor-tablet-refused.png') });
+    await added.fill('Photograph the counterweight stack from the operator’s side.');
+
     await screenshot(page, 'plan-editor-tablet');
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'plan-editor-tablet-view.png') });
     await page.getByRole('button', { name: 'Save plan' }).click();
@@ -200,8 +208,11 @@ describe('plan editor', () => {
     const head = await new Promise<string>((resolve) => stream.once('data', (chunk: Buffer) => resolve(chunk.subarray(0, 5).toString('latin1'))));
     stream.destroy();
     expect(head).toBe('%PDF-');
+    // The button has finished its work before the picture is taken.
+    await expect.poll(() => page.locator('.plan-read .banner .q-spinner').count()).toBe(0);
 
     await screenshot(page, 'plan-read-only-phone');
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'plan-read-only-phone-view.png') });
     await page.context().close();
   });
 });
