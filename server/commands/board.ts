@@ -14,7 +14,7 @@ import { JobPlan } from '../entities/JobPlan.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
-import { referencePlan } from '../queries/plans.js';
+import { referencePlan, withFreshBriefing } from '../queries/plans.js';
 import { recordInspection } from './fleet.js';
 import { crewRolesOf } from './jobs.js';
 import { runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
@@ -281,8 +281,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (mandatory.length) throw refuse(409, 'mandatory_hold', 'Mandatory holds and their required roles cannot be removed.', mandatory.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
     if (problems.length) throw badRequest('The revised plan has problems.', problems.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
     const version = job.planVersion + 1;
-    await manager.save(JobPlan, { jobId: job.id, version, plan: c.plan, sourceHash: '', edited: true, reason: c.reason, createdBy: actor.id, createdAt: now.toISOString() });
+    const plan = await withFreshBriefing(manager, job, c.plan);
+    await manager.save(JobPlan, { jobId: job.id, version, plan, sourceHash: '', edited: true, reason: c.reason, createdBy: actor.id, createdAt: now.toISOString() });
     job.planVersion = version;
-    return { type: 'plan.revised', role: 'supervisor', data: { planVersion: version, plan: redactPlan(c.plan), reason: c.reason } };
+    return { type: 'plan.revised', role: 'supervisor', data: { planVersion: version, plan: redactPlan(plan), reason: c.reason } };
   },
 };

@@ -6,7 +6,7 @@ import type { User } from '../entities/User.js';
 import { badRequest, conflict, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
 import { readinessOf } from '../queries/jobs.js';
-import { referencePlan } from '../queries/plans.js';
+import { referencePlan, withFreshBriefing } from '../queries/plans.js';
 import { saveDraft } from './plan-drafts.js';
 import { runJobCommand, type CommandOutcome } from './job-writer.js';
 import { planningRole, requireState } from './jobs.js';
@@ -42,8 +42,9 @@ export async function editDraft(context: AppContext, actor: User, jobId: string,
         refused.map((p) => ({ path: p.path ?? 'plan', message: p.message })),
       );
     }
-    await saveDraft(manager, job, plan, actor, true, context.now());
-    return { type: 'plan.edited', role, data: { plan: redactPlan(plan), problems: problems.map((p) => p.code) } };
+    const briefed = await withFreshBriefing(manager, job, plan);
+    await saveDraft(manager, job, briefed, actor, true, context.now());
+    return { type: 'plan.edited', role, data: { plan: redactPlan(briefed), problems: problems.map((p) => p.code) } };
   });
 }
 

@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import canonicalize from 'canonicalize';
 import type { EntityManager } from 'typeorm';
-import { generatePlan, holdsNeedPeople, planProblems } from '../../shared/plan/index.js';
+import { buildBriefing, generatePlan, holdsNeedPeople, planProblems, type GeneratePlanInput } from '../../shared/plan/index.js';
 import type { Plan, PlanProblem } from '../../shared/schemas/plan.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
@@ -16,10 +16,22 @@ export function planSourceHash(job: Job): string {
 
 /** The plan the configuration generates now: the reference a hand-edited draft is checked against. */
 export async function referencePlan(manager: EntityManager, job: Job): Promise<Plan | null> {
+  const input = await generateInputOf(manager, job);
+  return input ? generatePlan(input) : null;
+}
+
+/** What plans for this job are generated from; null before a configuration is saved. */
+async function generateInputOf(manager: EntityManager, job: Job): Promise<GeneratePlanInput | null> {
   if (!job.configuration || !job.results) return null;
   const unit = await manager.findOneByOrFail(CraneUnit, { id: job.craneUnitId });
   const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
-  return generatePlan({ kind: job.kind, configuration: job.configuration, results: job.results, arrangement: model.arrangement, commsPlan: job.commsPlan });
+  return { kind: job.kind, configuration: job.configuration, results: job.results, arrangement: model.arrangement, commsPlan: job.commsPlan };
+}
+
+/** A hand-edited plan with its briefing rebuilt from its own stages, so holds are listed as edited. */
+export async function withFreshBriefing(manager: EntityManager, job: Job, plan: Plan): Promise<Plan> {
+  const input = await generateInputOf(manager, job);
+  return input ? { ...plan, briefing: buildBriefing(input, plan.stages) } : plan;
 }
 
 /** The problems of a draft: its structure against the generated reference, and whether the crew can acknowledge every hold. */

@@ -67,6 +67,17 @@ describe('plans: draft, edits, mandatory holds, ready and versions', () => {
     expect((await getPlan(job.id)).plan.stages[0].steps[0].text).toBe('Walk the whole site with the client’s engineer first');
   });
 
+  it('a hand edit rebuilds the briefing from the edited stages', async () => {
+    const job = await plannedJob(server, crew, unitId);
+    const { plan } = await getPlan(job.id);
+    const edited: Plan = structuredClone(plan);
+    const stage = edited.stages.find((s) => s.hold && !s.hold.mandatory)!;
+    stage.hold!.title = 'Counterweight and gauge checked against the plan, both sides';
+    await request(server.app).put(`/api/jobs/${job.id}/plan`).set(as(crew.supervisor)).send(edited).expect(200);
+    const saved = await getPlan(job.id);
+    expect(JSON.stringify(saved.plan.briefing)).toContain('Counterweight and gauge checked against the plan, both sides');
+  });
+
   it('mandatory holds and their required roles cannot be removed', async () => {
     const job = await plannedJob(server, crew, unitId);
     const { plan } = await getPlan(job.id);
