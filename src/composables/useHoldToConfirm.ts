@@ -13,6 +13,7 @@ export function useHoldToConfirm(onConfirm: () => void, durationMs: number = HOL
   const holding = ref(false);
   let startedAt = 0;
   let timer: ReturnType<typeof setInterval> | undefined;
+  let resetTimer: ReturnType<typeof setTimeout> | undefined;
 
   function stopTimer() {
     clearInterval(timer);
@@ -25,12 +26,15 @@ export function useHoldToConfirm(onConfirm: () => void, durationMs: number = HOL
       stopTimer();
       holding.value = false;
       onConfirm();
+      // The full ring shows for a moment that it counted, then empties for the next press.
+      resetTimer = setTimeout(() => (progress.value = 0), 800);
     }
   }
 
   /** Starts the hold; a second start while holding (key repeat) changes nothing. */
   function start() {
     if (holding.value) return;
+    clearTimeout(resetTimer);
     holding.value = true;
     startedAt = now();
     progress.value = 0;
@@ -46,6 +50,9 @@ export function useHoldToConfirm(onConfirm: () => void, durationMs: number = HOL
     progress.value = 0;
   }
 
-  onBeforeUnmount(stopTimer);
+  onBeforeUnmount(() => {
+    stopTimer();
+    clearTimeout(resetTimer);
+  });
   return { progress, holding, start, cancel };
 }
