@@ -95,6 +95,12 @@ export class BoardFollower {
     this.changed();
   }
 
+  /** The connection dropped: not live at once, without waiting for the ticks to be missed. */
+  onDisconnect(): void {
+    this.lastTickAt = 0;
+    this.changed();
+  }
+
   /** Call on a timer (e.g. every 500 ms) so liveness changes show without any message arriving. */
   checkLiveness(): void {
     this.changed();

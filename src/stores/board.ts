@@ -90,6 +90,8 @@ export const useBoardStore = defineStore('board', () => {
     const onTick = (t: { jobId: string; seq: number }) => f.onTick(t);
     const onPresence = (p: Parameters<BoardFollower['onPresence']>[0]) => f.onPresence(p);
     const onConnect = () => void join();
+    const onDisconnect = () => f.onDisconnect();
+    s.on('disconnect', onDisconnect);
     s.on('board:event', onEvent);
     s.on('board:tick', onTick);
     s.on('board:presence', onPresence);
@@ -99,8 +101,9 @@ export const useBoardStore = defineStore('board', () => {
       s.off('board:tick', onTick);
       s.off('board:presence', onPresence);
       s.off('connect', onConnect);
+      s.off('disconnect', onDisconnect);
     });
-    livenessTimer = setInterval(() => f.checkLiveness(), 500);
+    livenessTimer = setInterval(() => f.checkLiveness(), 250);
     if (s.connected) await join();
     else loading.value = true;
   }

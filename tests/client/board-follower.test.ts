@@ -92,6 +92,15 @@ describe('the board follower', () => {
     expect(follower.live).toBe(true);
   });
 
+  it('is not live at once when the connection drops', async () => {
+    const follower = new BoardFollower(jobId, fakeTransport(log(2), 2));
+    await follower.join();
+    follower.onTick({ jobId, seq: 2 });
+    expect(follower.live).toBe(true);
+    follower.onDisconnect();
+    expect(follower.live).toBe(false);
+  });
+
   it('after a reconnect it rejoins with the seq it holds and applies only what it missed', async () => {
     const events = log(7);
     const transport = fakeTransport(events, 4);
