@@ -25,7 +25,7 @@ export const boardCommandSchema = z.discriminatedUnion('type', [
     type: z.literal('hold.acknowledge'),
     holdId: z.string().min(1).max(64),
     role: crewRoleSchema,
-    values: z.record(valueCheckFieldSchema, z.string().trim().max(64)).optional(),
+    values: z.partialRecord(valueCheckFieldSchema, z.string().trim().max(64)).optional(),
     photoId: z.uuid().optional(),
   }),
   z.object({ commandId, type: z.literal('hold.withdraw'), holdId: z.string().min(1).max(64), role: crewRoleSchema }),

@@ -18,6 +18,8 @@ export function connectSocket(getToken: () => string | null): HoldlineSocket {
     transports: ['websocket'],
     reconnectionDelay: 500,
     reconnectionDelayMax: 3_000,
+    // A site network can swallow a connection attempt without refusing it: give up and retry soon.
+    timeout: 5_000,
     auth: (cb) => cb({ token: tokenOf() }),
   });
   return socket;
