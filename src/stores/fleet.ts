@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia';
+import { useLoadTracker } from '../composables/useLoadTracker';
 import { computed, reactive, ref } from 'vue';
 import { z } from 'zod';
 import { arrangementDataSchema, boomArrangementSchema, type ArrangementData } from '../../shared/schemas/arrangement';
@@ -137,33 +138,7 @@ export const useFleetStore = defineStore('fleet', () => {
   const componentsLoaded = ref(false);
 
   // Loading state and the last problem per resource key ("units", "model:<id>", ...).
-  const loadingKeys = reactive(new Set<string>());
-  const problems = reactive<Record<string, string>>({});
-  const inFlight = new Map<string, Promise<unknown>>();
-
-  /** Runs one load; callers asking for the same key at the same time share one request. */
-  function track<T>(key: string, work: () => Promise<T>): Promise<T | null> {
-    const running = inFlight.get(key) as Promise<T | null> | undefined;
-    if (running) return running;
-    const promise = (async () => {
-      loadingKeys.add(key);
-      delete problems[key];
-      try {
-        return await work();
-      } catch (error) {
-        problems[key] = describeError(error);
-        return null;
-      } finally {
-        loadingKeys.delete(key);
-        inFlight.delete(key);
-      }
-    })();
-    inFlight.set(key, promise);
-    return promise;
-  }
-
-  const isLoading = (key: string) => loadingKeys.has(key);
-  const problemOf = (key: string) => problems[key] ?? '';
+  const { loadingKeys, problems, track, isLoading, problemOf } = useLoadTracker();
 
   function loadModels() {
     return track('models', async () => {

@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia';
+import { useLoadTracker } from '../composables/useLoadTracker';
 import { reactive, ref } from 'vue';
 import type { z } from 'zod';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
@@ -127,31 +128,7 @@ export const useJobsStore = defineStore('jobs', () => {
   const candidatesRefused = ref(false);
 
   // Loading state and the last problem per resource key ("list", "job:<id>", ...), as the fleet store does.
-  const loadingKeys = reactive(new Set<string>());
-  const problems = reactive<Record<string, string>>({});
-  const inFlight = new Map<string, Promise<unknown>>();
-
-  function track<T>(key: string, work: () => Promise<T>): Promise<T | null> {
-    const running = inFlight.get(key) as Promise<T | null> | undefined;
-    if (running) return running;
-    const promise = (async () => {
-      loadingKeys.add(key);
-      delete problems[key];
-      try {
-        return await work();
-      } catch (error) {
-        problems[key] = describeError(error);
-        return null;
-      } finally {
-        loadingKeys.delete(key);
-        inFlight.delete(key);
-      }
-    })();
-    inFlight.set(key, promise);
-    return promise;
-  }
-  const isLoading = (key: string) => loadingKeys.has(key);
-  const problemOf = (key: string) => problems[key] ?? '';
+  const { track, isLoading, problemOf } = useLoadTracker();
 
   const forms = reactive<Record<JobForm, FormState>>({
     create: { saving: false, problem: '', fieldErrors: {} },

@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia';
+import { useLoadTracker } from '../composables/useLoadTracker';
 import { reactive, toRaw } from 'vue';
 import type { z } from 'zod';
 import type { FieldError } from '../../shared/schemas/errors';
@@ -327,31 +328,7 @@ export const usePlanStore = defineStore('plan', () => {
   const generating = reactive(new Set<string>());
 
   // Loading and the last problem per resource key, as the other stores keep them.
-  const loadingKeys = reactive(new Set<string>());
-  const problems = reactive<Record<string, string>>({});
-  const inFlight = new Map<string, Promise<unknown>>();
-
-  function track<T>(key: string, work: () => Promise<T>): Promise<T | null> {
-    const running = inFlight.get(key) as Promise<T | null> | undefined;
-    if (running) return running;
-    const promise = (async () => {
-      loadingKeys.add(key);
-      delete problems[key];
-      try {
-        return await work();
-      } catch (error) {
-        problems[key] = describeError(error);
-        return null;
-      } finally {
-        loadingKeys.delete(key);
-        inFlight.delete(key);
-      }
-    })();
-    inFlight.set(key, promise);
-    return promise;
-  }
-  const isLoading = (key: string) => loadingKeys.has(key);
-  const problemOf = (key: string) => problems[key] ?? '';
+  const { problems, track, isLoading, problemOf } = useLoadTracker();
 
   function saveState(jobId: string): SaveState {
     saves[jobId] ??= { saving: false, problem: '', fieldErrors: {} };
