@@ -5,7 +5,7 @@ import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, screenshot, viewports, type LaunchedBrowser, signInThroughForm } from './browser.js';
 
 type Viewport = { width: number; height: number };
 
@@ -29,11 +29,7 @@ async function signIn(browser: Browser, baseUrl: string, email: string, start: s
     const expected = message.text().startsWith('Failed to load resource') || message.text().includes('ERR_INTERNET_DISCONNECTED');
     if (message.text().includes('[Vue warn]') || (message.type() === 'error' && !expected)) pageErrors.push(`${email}: ${message.text()}`);
   });
-  await page.goto(`${baseUrl}${start}`);
-  await page.waitForURL(/\/sign-in/);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+  await signInThroughForm(page, `${baseUrl}${start}`, email, DEMO_PASSWORD);
   await page.waitForURL((url) => landing.test(url.pathname));
   return { context, page };
 }

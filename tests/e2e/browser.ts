@@ -54,3 +54,12 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   await page.screenshot({ path: file, fullPage: true });
   return file;
 }
+
+/** Opens `url`, which redirects to the sign-in page, and signs in through the real form. */
+export async function signInThroughForm(page: Page, url: string, email: string, password: string): Promise<void> {
+  await page.goto(url);
+  await page.waitForURL(/\/sign-in/);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}

@@ -7,7 +7,7 @@ import { TEST_PASSWORD } from '../factories.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import path from 'node:path';
-import { launchBrowser, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, signInThroughForm, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
 
 type Viewport = (typeof viewports)[keyof typeof viewports];
 
@@ -15,11 +15,7 @@ type Viewport = (typeof viewports)[keyof typeof viewports];
 async function signIn(browser: Browser, baseUrl: string, viewport: Viewport, email: string, next: string): Promise<Page> {
   const context = await browser.newContext({ viewport });
   const page = await context.newPage();
-  await page.goto(`${baseUrl}${next}`);
-  await page.waitForURL(/\/sign-in/);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+  await signInThroughForm(page, `${baseUrl}${next}`, email, TEST_PASSWORD);
   await page.waitForURL((url) => url.pathname === next.split('?')[0]);
   return page;
 }

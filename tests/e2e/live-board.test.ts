@@ -6,7 +6,7 @@ import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, screenshot, viewports, type LaunchedBrowser, signInThroughForm } from './browser.js';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 type Who = 'supervisor' | 'operator' | 'signaller' | 'rigger' | 'viewer';
@@ -33,11 +33,7 @@ describe('the live board across devices', () => {
   async function openView(who: Who, viewport: { width: number; height: number } = viewports.phone, view = views[who]): Promise<{ context: BrowserContext; page: Page }> {
     const context = await chromium.browser.newContext({ viewport });
     const page = await context.newPage();
-    await page.goto(`${server.url}/jobs/${jobId}/${view}`);
-    await page.waitForURL(/\/sign-in/);
-    await page.getByLabel('E-mail').fill(`${who}@holdline.test`);
-    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInThroughForm(page, `${server.url}/jobs/${jobId}/${view}`, `${who}@holdline.test`, DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname.endsWith(`/${view}`));
     await page.locator('.board-header .fleet').waitFor();
     await expect.poll(() => page.getByTestId('not-live').count(), { timeout: 10_000 }).toBe(0);
@@ -171,11 +167,7 @@ describe('the live board across devices', () => {
     });
     const page = await context.newPage();
     open.push({ context, page });
-    await page.goto(`${server.url}/jobs/${jobId}/rigger`);
-    await page.waitForURL(/\/sign-in/);
-    await page.getByLabel('E-mail').fill('rigger@holdline.test');
-    await page.getByLabel('Password', { exact: true }).fill(DEMO_PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
+    await signInThroughForm(page, `${server.url}/jobs/${jobId}/rigger`, 'rigger@holdline.test', DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname.endsWith('/rigger'));
     await expect.poll(() => page.getByTestId('not-live').count(), { timeout: 10_000 }).toBe(0);
     const openStep = (await boardNow()).stages.find((s) => s.id === 'er-reeve')!.steps.find((s) => s.state === 'open' && s.allowedRoles.includes('rigger') && !s.records && !s.requiresPhoto)!;

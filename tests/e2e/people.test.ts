@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { insertUser, TEST_PASSWORD } from '../factories.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, signInThroughForm, screenshot, viewports, type LaunchedBrowser } from './browser.js';
 
 type Viewport = (typeof viewports)[keyof typeof viewports];
 
@@ -11,11 +11,7 @@ type Viewport = (typeof viewports)[keyof typeof viewports];
 async function signIn(browser: Browser, baseUrl: string, viewport: Viewport, email: string, next: string): Promise<Page> {
   const context = await browser.newContext({ viewport });
   const page = await context.newPage();
-  await page.goto(`${baseUrl}${next}`);
-  await page.waitForURL(/\/sign-in/);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+  await signInThroughForm(page, `${baseUrl}${next}`, email, TEST_PASSWORD);
   return page;
 }
 

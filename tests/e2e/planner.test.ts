@@ -7,7 +7,7 @@ import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
 import { configuration18m } from '../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, signInThroughForm, SCREENSHOT_DIR, screenshot, viewports, type LaunchedBrowser } from './browser.js';
 
 type Viewport = (typeof viewports)[keyof typeof viewports];
 
@@ -23,11 +23,7 @@ async function signIn(browser: Browser, baseUrl: string, viewport: Viewport, ema
   page.on('console', (message) => {
     if (message.text().includes('[Vue warn]') || (message.type() === 'error' && !message.text().startsWith('Failed to load resource'))) pageErrors.push(`${next}: ${message.text()}`);
   });
-  await page.goto(`${baseUrl}${next}`);
-  await page.waitForURL(/\/sign-in/);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(TEST_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+  await signInThroughForm(page, `${baseUrl}${next}`, email, TEST_PASSWORD);
   await page.waitForURL((url) => url.pathname === next.split('?')[0]);
   return page;
 }
