@@ -165,6 +165,13 @@ export const useBoardStore = defineStore('board', () => {
     return send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(reason ? { reason } : {}) }, pending.commandId);
   }
 
+  /** A reason picked while the stop is still queued travels with it. */
+  function setQueuedStopReason(reason: string) {
+    if (!queuedStop.value) return;
+    queuedStop.value = { ...queuedStop.value, reason };
+    localStorage.setItem(QUEUED_STOP_KEY, JSON.stringify({ ...queuedStop.value, jobId: jobId.value }));
+  }
+
   async function sendQueuedStop() {
     const pending = queuedStop.value;
     if (!pending || !live.value) return;
@@ -179,7 +186,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, open, close, send, stop, isWaiting };
+  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

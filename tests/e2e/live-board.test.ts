@@ -193,6 +193,9 @@ describe('the live board across devices', () => {
     const pressedBy = Date.now();
     expect(await page.getByTestId('queued-stop').textContent()).toContain('Stop not sent, use radio and signal');
     expect((await boardNow()).job.state).toBe('live');
+    // A reason picked while the stop waits goes with it.
+    await page.getByRole('button', { name: 'Radio lost' }).first().click();
+    await page.getByText('Reason kept with the stop: Radio lost').waitFor();
     await screenshot(page, 'live-rigger-queued-stop-tablet');
 
     cut = false;
@@ -200,6 +203,7 @@ describe('the live board across devices', () => {
     const board = await boardNow();
     expect(board.job.state).toBe('stopped');
     expect(board.job.stop?.raisedBy.name).toBe('Callum Frey');
+    expect(board.job.stop?.reason).toBe('Radio lost');
     const pressedAt = Date.parse(board.job.stop!.pressedAt);
     expect(pressedAt).toBeLessThanOrEqual(pressedBy);
     expect(pressedAt).toBeGreaterThan(cutAt);
