@@ -305,6 +305,26 @@ export const useFleetStore = defineStore('fleet', () => {
     });
   }
 
+  /**
+   * Adds an assist crane from its fleet number, its operator and its chart file (our assist-crane
+   * JSON format). The server checks the charts and names every failing path.
+   */
+  async function createAssistCrane(input: { fleetNumber: string; operatorName: string; location: string; chartFileText: string }): Promise<AssistCraneUnitDto | null> {
+    let data: unknown;
+    try {
+      data = JSON.parse(input.chartFileText);
+    } catch {
+      refuseWith([{ path: 'data', message: 'The chart file is not valid JSON' }], 'The chart file could not be read.');
+      return null;
+    }
+    return submit(async () => {
+      const body = { fleetNumber: input.fleetNumber, operatorName: input.operatorName, location: input.location, data };
+      const { assistCrane } = await api('/assist-cranes', { method: 'POST', body, schema: assistCraneEnvelopeSchema });
+      assistCranes.value = [...assistCranes.value.filter((a) => a.id !== assistCrane.id), assistCrane];
+      return assistCrane;
+    });
+  }
+
   /** Changes a unit's fleet number, serial, location or notes. */
   async function updateUnit(unitId: string, patch: z.input<typeof updateCraneUnitSchema>): Promise<CraneUnitDto | null> {
     const parsed = updateCraneUnitSchema.safeParse(patch);
@@ -453,6 +473,7 @@ export const useFleetStore = defineStore('fleet', () => {
     createUnit,
     updateUnit,
     importModel,
+    createAssistCrane,
     fetchArrangementFile,
     retireComponent,
     recordInspection,

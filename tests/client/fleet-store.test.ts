@@ -231,4 +231,20 @@ describe('fleet store', () => {
     signInAs({ qualifications: ['operator', 'signaller'] });
     expect([fleet.canChangeFleet, fleet.canInspect]).toEqual([false, false]);
   });
+
+  it('adds an assist crane from its chart file, and keeps every failing path of a refused chart', async () => {
+    const fleet = useFleetStore();
+    expect(await fleet.createAssistCrane({ fleetNumber: 'AC-9', operatorName: 'Ola', location: '', chartFileText: '{not json' })).toBeNull();
+    expect(fleet.fieldList.map((f) => f.path)).toEqual(['data']);
+    expect(fetchMock).not.toHaveBeenCalled();
+
+    fetchMock.mockResolvedValueOnce(
+      json(400, { error: { code: 'validation', message: 'The assist crane has invalid fields.', fields: [{ path: 'data.charts.0.points.1.radiusM', message: 'radii must increase down the chart' }, { path: 'operatorName', message: 'Enter the name' }] } }),
+    );
+    expect(await fleet.createAssistCrane({ fleetNumber: 'AC-9', operatorName: '', location: '', chartFileText: '{"charts":[]}' })).toBeNull();
+    expect(fleet.fieldList.map((f) => f.path)).toEqual(['data.charts.0.points.1.radiusM', 'operatorName']);
+    expect(fleet.fieldErrors.operatorName).toBe('Enter the name');
+    const sent = JSON.parse(String(fetchMock.mock.calls[0][1]?.body)) as { fleetNumber: string; data: unknown };
+    expect(sent).toMatchObject({ fleetNumber: 'AC-9', data: { charts: [] } });
+  });
 });
