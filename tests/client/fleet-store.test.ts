@@ -4,6 +4,7 @@ import type { ComponentDto, InspectionDto } from '../../shared/schemas/fleet';
 import type { UserDto } from '../../shared/schemas/users';
 import { componentQuery, countByStatus, isQuarantined, useFleetStore } from '../../src/stores/fleet';
 import { useSessionStore } from '../../src/stores/session';
+import { json } from './helpers';
 
 const UNIT_ID = '6f1c2d7e-3a4b-4c5d-8e9f-0a1b2c3d4e5f';
 const MODEL_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
@@ -27,10 +28,6 @@ function component(overrides: Partial<ComponentDto>): ComponentDto {
     updatedAt: '2026-10-01T07:00:00.000Z',
     ...overrides,
   };
-}
-
-function json(status: number, body: unknown): Response {
-  return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
 }
 
 type FetchArgs = [input: string, init?: RequestInit];

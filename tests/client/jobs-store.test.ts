@@ -4,9 +4,8 @@ import type { Configuration, Figure } from '../../shared/schemas/configuration';
 import type { JobDto, JobEventDto } from '../../shared/schemas/jobs';
 import { eventSummary } from '../../src/components/jobs/words';
 import { fieldErrorOf, figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
+import { buildJob, JOB_ID, json, UNIT_ID } from './helpers';
 
-const JOB_ID = '3d6a1f0e-5b7c-4d8e-9f01-2a3b4c5d6e7f';
-const UNIT_ID = '6f1c2d7e-3a4b-4c5d-8e9f-0a1b2c3d4e5f';
 const SUPERVISOR_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
 
 function configuration(overrides: Partial<Configuration> = {}): Configuration {
@@ -30,32 +29,7 @@ function figure(overrides: Partial<Figure>): Figure {
 }
 
 function job(overrides: Partial<JobDto> = {}): JobDto {
-  return {
-    id: JOB_ID,
-    name: 'Boom erection for the pump house',
-    site: 'Riverside works',
-    craneUnitId: UNIT_ID,
-    craneFleetNumber: 'CC-11',
-    kind: 'erection',
-    state: 'planning',
-    configuration: null,
-    figures: [],
-    crew: [{ userId: SUPERVISOR_ID, name: 'Maren Holt', role: 'supervisor' }],
-    distribution: [],
-    commsPlan: { radioChannel: '', callSigns: [], motionSignallers: [], fallbackHandSignals: '' },
-    overrides: [],
-    lastSeq: 1,
-    headHash: 'abc',
-    planVersion: 0,
-    createdAt: '2026-10-01T07:00:00.000Z',
-    updatedAt: '2026-10-01T07:00:00.000Z',
-    can: { edit: true, approveOverrides: true },
-    ...overrides,
-  };
-}
-
-function json(status: number, body: unknown): Response {
-  return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
+  return buildJob({ crew: [{ userId: SUPERVISOR_ID, name: 'Maren Holt', role: 'supervisor' }], ...overrides });
 }
 
 type FetchArgs = [input: string, init?: RequestInit];

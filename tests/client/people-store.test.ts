@@ -2,6 +2,7 @@ import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { UserDto } from '../../shared/schemas/users';
 import { filterPeople, personStatus, usePeopleStore, useTestInboxStore } from '../../src/stores/people';
+import { json } from './helpers';
 
 function person(overrides: Partial<UserDto>): UserDto {
   return {
@@ -22,10 +23,6 @@ const crew = [
   person({ id: 'b', displayName: 'Jonah Mbeki', email: 'jonah.mbeki@hire.test', qualifications: ['operator'] }),
   person({ id: 'c', displayName: 'Lise Arnaud', email: 'l.arnaud@hire.test', hasPassword: false }),
 ];
-
-function json(status: number, body: unknown): Response {
-  return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
-}
 
 type FetchArgs = [input: string, init?: RequestInit];
 

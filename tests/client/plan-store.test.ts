@@ -1,10 +1,8 @@
 import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import type { JobDto } from '../../shared/schemas/jobs';
 import type { Plan, PlanHold, PlanStage, PlanStep } from '../../shared/schemas/plan';
 import { comparePlans, moveStage, newPlanId, removeHold, removeStage, usePlanStore } from '../../src/stores/plan';
-
-const JOB_ID = '3d6a1f0e-5b7c-4d8e-9f01-2a3b4c5d6e7f';
+import { buildJob, JOB_ID, json } from './helpers';
 
 function step(id: string, text: string, overrides: Partial<PlanStep> = {}): PlanStep {
   return { id, text, allowedRoles: ['rigger'], requiresPhoto: false, records: null, caution: null, ...overrides };
@@ -41,34 +39,7 @@ function envelope(p: Plan = plan(), overrides: Record<string, unknown> = {}) {
   return { version: 0, locked: false, stale: false, plan: p, problems: [], ...overrides };
 }
 
-function job(overrides: Partial<JobDto> = {}): JobDto {
-  return {
-    id: JOB_ID,
-    name: 'Boom erection for the pump house',
-    site: 'Riverside works',
-    craneUnitId: '6f1c2d7e-3a4b-4c5d-8e9f-0a1b2c3d4e5f',
-    craneFleetNumber: 'CC-11',
-    kind: 'erection',
-    state: 'planning',
-    configuration: null,
-    figures: [],
-    crew: [],
-    distribution: [],
-    commsPlan: { radioChannel: '', callSigns: [], motionSignallers: [], fallbackHandSignals: '' },
-    overrides: [],
-    lastSeq: 1,
-    headHash: 'abc',
-    planVersion: 0,
-    createdAt: '2026-10-01T07:00:00.000Z',
-    updatedAt: '2026-10-01T07:00:00.000Z',
-    can: { edit: true, approveOverrides: true },
-    ...overrides,
-  };
-}
-
-function json(status: number, body: unknown): Response {
-  return new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
-}
+const job = buildJob;
 
 /** Every id of the plan, with repeats: a duplicate shows as a longer list than the set. */
 function allIds(p: Plan): string[] {
