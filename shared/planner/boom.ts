@@ -1,0 +1,140 @@
+/** The boom: make-up from the arrangement data, weight, pins, guy lines, plates, auxiliary sheave, radius. */
+import { boomMakeup, platesRequired, type BoomMakeup } from '../calc/boom.js';
+import type { BoomArrangement } from '../schemas/arrangement.js';
+import type { Configuration, Figure } from '../schemas/configuration.js';
+import { emptyMakeup, figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import type { PlannerInputs } from './types.js';
+
+export interface BoomOutcome {
+  makeup: BoomMakeup;
+  listed: BoomArrangement | null;
+  /** Centre of gravity of all sections along the boom from the foot; null without sections. */
+  boomCogFromFootM: number | null;
+  boomWeightKn: number;
+  platesRequired: boolean;
+  /** cos of the boom angle that puts the tip over the planned radius; null when out of reach. */
+  cosBoomAngle: number | null;
+}
+
+const ARRANGEMENT_RULE = 'manufacturer arrangement data for this boom length';
+
+/** The boom's figures; its outcome feeds the ground and site checks. */
+export function computeBoom(config: Configuration, inputs: PlannerInputs, figures: Figure[]): BoomOutcome {
+  const { arrangement, inventory } = inputs;
+  const lengthM = config.boomLengthM;
+  const makeup = guarded(figures, 'boom.makeup', 'boom', 'Boom make-up', emptyMakeup(lengthM, 'the make-up could not be worked out'), () => {
+    const m = boomMakeup(arrangement, lengthM, inventory);
+    const sequence = m.sections.map((s) => `${s.typeId} ${plain(s.lengthM)} m`).join(', ');
+    if (m.buildable) {
+      const serials = m.sections.map((s) => `${s.position}: ${s.serial ?? 'none'}`).join('; ');
+      figures.push(figure('boom.makeup', 'boom', 'Boom make-up', `${plain(m.boomLengthM)} m: ${sequence}`, 'pass', false, m.rule, `serials foot to tip: ${serials}`));
+    } else {
+      const value = m.arrangement === null ? `${plain(lengthM)} m is not a listed length` : 'Not buildable from the parts at hand';
+      figures.push(figure('boom.makeup', 'boom', 'Boom make-up', value, 'fail', false, m.rule, m.reasons.join('; ')));
+    }
+    return m;
+  });
+  const listed = makeup.arrangement;
+
+  const weightKg = makeup.sections.reduce((sum, s) => sum + s.weightKg, 0);
+  const boomCogFromFootM =
+    makeup.sections.length > 0 && weightKg > 0 ? makeup.sections.reduce((sum, s) => sum + s.weightKg * s.cogFromBoomFootM, 0) / weightKg : null;
+  const boomWeightKn = makeup.sections.length === 0 ? 0 : guarded(figures, 'boom.sectionWeight', 'boom', 'Boom section weight', 0, () => {
+    const kn = kgToKn(weightKg);
+    figures.push(
+      figure(
+        'boom.sectionWeight',
+        'boom',
+        'Boom section weight',
+        `${fmt(weightKg / 1000, 2)} t (${fmt(kn)} kN)`,
+        'info',
+        false,
+        `sum of the section weights, foot to tip (${ARRANGEMENT_RULE}); centre of gravity ${fmt(boomCogFromFootM ?? 0, 2)} m from the boom foot = Σ weight × section CoG ÷ Σ weight`,
+      ),
+    );
+    return kn;
+  });
+
+  if (makeup.sections.length > 0) {
+    figures.push(
+      figure(
+        'boom.pins',
+        'boom',
+        'Connecting pins',
+        `${makeup.pinCount.total} pins (${makeup.pinCount.jointPins} in joints, ${makeup.pinCount.guyLinePins} in guy lines)`,
+        'info',
+        false,
+        makeup.rule,
+      ),
+    );
+  }
+
+  if (listed) {
+    const lines = listed.guyLines.map((g) => `${g.mark} ${plain(g.lengthM)} m ×${g.quantity}`).join(', ');
+    figures.push(figure('boom.guyLines', 'boom', 'Guy-line set', `${lines} (${makeup.totalGuyLineCount} lines)`, 'info', false, `guy-line set (${ARRANGEMENT_RULE})`));
+    figures.push(
+      figure('boom.counterweight', 'boom', 'Counterweight for raising', `${fmt(listed.raising.counterweightKg / 1000, 1)} t`, 'info', false, `counterweight before raising (${ARRANGEMENT_RULE})`),
+    );
+    figures.push(figure('boom.trackGauge', 'boom', 'Track gauge for raising', `${plain(listed.raising.trackGaugeM)} m`, 'info', false, `track gauge before raising (${ARRANGEMENT_RULE})`));
+    const l = listed.raising.limits;
+    figures.push(
+      figure(
+        'boom.raisingLimits',
+        'boom',
+        'Raising limits',
+        `ground slope ≤ ${plain(l.maxGroundSlopePercent)} %, boom hoist line pull ≤ ${plain(l.maxBoomHoistLinePullKn)} kN, ${l.tipSupportRequired ? 'tip must be carried while the boom leaves the ground' : 'no tip support needed'}`,
+        'info',
+        false,
+        `raising limits (${ARRANGEMENT_RULE})`,
+      ),
+    );
+  }
+
+  const plates = guarded(figures, 'boom.plates', 'boom', 'Plates under the crawler ends', false, () => {
+    const p = platesRequired(lengthM, arrangement.platesThresholdBoomLengthM);
+    figures.push(figure('boom.plates', 'boom', 'Plates under the crawler ends', p.required ? 'Plates required under the crawler ends' : 'Not required', 'info', false, p.rule));
+    return p.required;
+  });
+
+  const auxRule = `auxiliary sheave only on the boom lengths listed for it (${ARRANGEMENT_RULE})`;
+  if (!config.auxiliary.enabled) {
+    figures.push(figure('boom.auxSheave', 'boom', 'Auxiliary sheave', 'Not fitted', 'info', false, auxRule));
+  } else if (makeup.auxSheaveAllowed) {
+    figures.push(figure('boom.auxSheave', 'boom', 'Auxiliary sheave', `Allowed on ${plain(lengthM)} m`, 'pass', false, auxRule));
+  } else {
+    const allowed = [...arrangement.auxSheaveBoomLengthsM].sort((a, b) => a - b).map(plain).join(', ');
+    figures.push(
+      figure('boom.auxSheave', 'boom', 'Auxiliary sheave', `Not allowed on ${plain(lengthM)} m`, 'fail', false, auxRule, `allowed on ${allowed} m; remove the auxiliary sheave or choose one of those lengths`),
+    );
+  }
+
+  // The boom angle that puts the tip over the planned radius. The boom foot is taken at the
+  // slewing centre and at ground level: a simplification, since the real foot pin sits ahead of
+  // the centre and above the ground; the crane's own range of boom angles is not checked here.
+  const radiusRule =
+    'radius = boom length × cos(boom angle), the boom foot taken at the slewing centre (simplification: the real foot pin sits ahead of it; the crane’s own boom-angle range is not checked)';
+  const radiusM = config.heaviestLoad.radiusM;
+  let cosBoomAngle: number | null = null;
+  if (radiusM <= lengthM) {
+    cosBoomAngle = radiusM / lengthM;
+    const angleDeg = (Math.acos(cosBoomAngle) * 180) / Math.PI;
+    figures.push(figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${fmt(angleDeg)}° at ${plain(radiusM)} m radius`, 'info', false, radiusRule));
+  } else {
+    figures.push(
+      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is beyond the ${plain(lengthM)} m boom`, 'fail', false, radiusRule, 'the planned radius is longer than the boom: choose a longer boom or a shorter radius'),
+    );
+  }
+  figures.push(
+    figure(
+      'boom.loadChart',
+      'boom',
+      'Crane load chart',
+      'Not checked here',
+      'info',
+      false,
+      'Holdline holds no load chart for this model: the crane’s own load chart and rated capacity limiter govern every lift (manufacturer)',
+    ),
+  );
+
+  return { makeup, listed, boomCogFromFootM, boomWeightKn, platesRequired: plates, cosBoomAngle };
+}

@@ -1,0 +1,89 @@
+/**
+ * The small helpers every part of the planner uses to build its figures: one figure with its rule,
+ * number formats for people, and a guard that turns a refused input into a failing figure.
+ */
+import type { BoomMakeup } from '../calc/boom.js';
+import { CalcInputError } from '../calc/errors.js';
+import { tonnesForceToKn } from '../calc/units.js';
+import type { InventoryItem } from '../schemas/arrangement.js';
+import type { Figure, FigureStatus } from '../schemas/configuration.js';
+
+/** The group a figure is listed under. */
+export type Group = Figure['group'];
+
+export function figure(
+  key: string,
+  group: Group,
+  label: string,
+  value: string,
+  status: FigureStatus,
+  overridable: boolean,
+  rule: string,
+  detail?: string,
+): Figure {
+  const f: Figure = { key, group, label, value, status, overridable: status === 'fail' ? overridable : false, rule };
+  if (detail !== undefined && detail.length > 0) f.detail = detail;
+  return f;
+}
+
+/** A number for people: fixed decimals, no "-0". */
+export function fmt(value: number, decimals = 1): string {
+  const s = value.toFixed(decimals);
+  return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s;
+}
+
+/** A number without trailing zeros (lengths and counts from the data). */
+export function plain(value: number): string {
+  return String(Math.round(value * 1000) / 1000);
+}
+
+/** Kilograms to kilonewtons through tonne-force (1 tf = 9.80665 kN). */
+export function kgToKn(weightKg: number): number {
+  return tonnesForceToKn(weightKg / 1000);
+}
+
+/** Runs one check; a refused input or an unexpected error becomes a failing figure instead of a throw. */
+export function guarded<T>(figures: Figure[], key: string, group: Group, label: string, fallback: T, run: () => T): T {
+  try {
+    return run();
+  } catch (error) {
+    figures.push(failureFromError(key, group, label, error));
+    return fallback;
+  }
+}
+
+function failureFromError(key: string, group: Group, label: string, error: unknown): Figure {
+  if (error instanceof CalcInputError) {
+    return figure(key, group, label, 'Cannot compute', 'fail', false, `input refused: ${error.field}`, error.message);
+  }
+  const message = error instanceof Error ? error.message : String(error);
+  return figure(key, group, label, 'Cannot compute', 'fail', false, 'the calculation stopped with an error; the plan cannot be checked', message);
+}
+
+export function emptyMakeup(boomLengthM: number, reason: string): BoomMakeup {
+  return {
+    boomLengthM,
+    buildable: false,
+    reasons: [reason],
+    sections: [],
+    guyLines: [],
+    totalSectionWeightKg: 0,
+    totalGuyLineCount: 0,
+    pinCount: { jointPins: 0, guyLinePins: 0, total: 0 },
+    arrangement: null,
+    platesRequired: false,
+    auxSheaveAllowed: false,
+    rule: 'no make-up: the boom could not be worked out',
+  };
+}
+
+export function serviceableAtHand(inventory: readonly InventoryItem[], kind: InventoryItem['kind'], typeId: string): {
+  serviceable: string[];
+  unusable: string[];
+} {
+  const ofType = inventory.filter((i) => i.kind === kind && i.typeId === typeId);
+  return {
+    serviceable: ofType.filter((i) => i.status === 'serviceable').map((i) => i.serial),
+    unusable: ofType.filter((i) => i.status !== 'serviceable').map((i) => `${i.serial} (${i.status})`),
+  };
+}
