@@ -15,6 +15,24 @@ export const stepRecordSchema = z.object({
   typeId: z.string().trim().max(64).nullable(),
   /** The serial the plan expects here (from the boom make-up), for the record; any serviceable one of the type may be fitted. */
   plannedSerial: z.string().trim().max(64).nullable(),
+  /**
+   * What a reading is held to. A reading outside it marks the step out of limit and blocks the
+   * release of a mandatory hold until the step is redone or the plan revised. Absent (old plans)
+   * or null: recorded only.
+   */
+  check: z
+    .discriminatedUnion('kind', [
+      /** Must equal the plan's figure (parts of line, counterweight, pin count...), within an absolute tolerance. */
+      z.object({ kind: z.literal('plan'), planned: z.number().finite(), tolerance: z.number().finite().nonnegative(), source: z.string().trim().max(200) }),
+      /** Must not exceed a limit (slope of the ground...). */
+      z.object({ kind: z.literal('max'), limit: z.number().finite(), source: z.string().trim().max(200) }),
+      /** Must reach at least a limit. */
+      z.object({ kind: z.literal('min'), limit: z.number().finite(), source: z.string().trim().max(200) }),
+      /** A wind gust, held to the job's wind limit for the phase, by the board's one wind rule. */
+      z.object({ kind: z.literal('wind'), phase: z.enum(['assembly', 'raising']) }),
+    ])
+    .nullable()
+    .optional(),
 });
 export type StepRecord = z.infer<typeof stepRecordSchema>;
 
@@ -27,6 +45,13 @@ export const stepSchema = z.object({
   records: stepRecordSchema.nullable(),
   /** A caution shown with the step. */
   caution: z.string().trim().max(500).nullable(),
+  /**
+   * The template marks this step as one that protects a mandatory hold: it cannot be removed
+   * from the plan. Absent in old plans: false.
+   */
+  required: z.boolean().optional(),
+  /** Step ids of the same stage that must be done before this one. Absent in old plans: none. */
+  after: z.array(id).max(50).optional(),
 });
 export type PlanStep = z.infer<typeof stepSchema>;
 
