@@ -18,7 +18,7 @@ export interface TestServer extends HoldlineApp {
 }
 
 export interface TestServerOptions {
-  /** Serve the built client from dist/ (browser tests). */
+  /** Serve the built client from dist/, or from HOLDLINE_TEST_CLIENT_DIR when set (browser tests). */
   withClient?: boolean;
   env?: Record<string, string>;
 }
@@ -40,7 +40,7 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     config,
     dataSource,
     logger: createLogger(config.logLevel),
-    clientDir: options.withClient ? path.resolve(import.meta.dirname, '..', '..', 'dist') : undefined,
+    clientDir: options.withClient ? path.resolve(import.meta.dirname, '..', '..', process.env.HOLDLINE_TEST_CLIENT_DIR ?? 'dist') : undefined,
   });
   await new Promise<void>((resolve) => holdline.httpServer.listen(0, '127.0.0.1', resolve));
   const port = (holdline.httpServer.address() as AddressInfo).port;
