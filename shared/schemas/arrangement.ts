@@ -36,13 +36,44 @@ export const guyLineSchema = z.object({
   quantity: z.number().int().min(1).max(64),
   /** Connecting pins each line of this mark brings. */
   pinsEach: z.number().int().min(0).max(8),
+  /** Weight of one line of this mark; null when the data does not give it (shown as "not included"). */
+  weightKg: positive.max(20_000).nullable(),
 });
 
 /** A wind limit as gust and mean speed. */
 export const windLimitSchema = z.object({
-  gustMs: positive,
-  meanMs: positive,
+  gustMs: positive.max(60),
+  meanMs: positive.max(60),
 }).refine((w) => w.gustMs >= w.meanMs, { message: 'gust limit is lower than the mean limit', path: ['gustMs'] });
+
+/** One row of a rated capacity chart. */
+export const capacityPointSchema = z.object({
+  radiusM: positive.max(300),
+  capacityT: nonNegative.max(5_000),
+});
+
+/** Rows of a chart: radii rising, capacity never rising with radius. */
+function chartRowsInOrder(points: readonly { radiusM: number; capacityT: number }[], ctx: z.RefinementCtx): void {
+  points.forEach((p, i) => {
+    if (i === 0) return;
+    const prev = points[i - 1];
+    if (p.radiusM <= prev.radiusM) ctx.addIssue({ code: 'custom', message: 'radii must increase down the chart', path: ['points', i, 'radiusM'] });
+    if (p.capacityT > prev.capacityT) ctx.addIssue({ code: 'custom', message: 'capacity must not rise with radius', path: ['points', i, 'capacityT'] });
+  });
+}
+
+/**
+ * The crane's own rated capacity chart for one boom length and counterweight, as the manufacturer
+ * publishes it. Read at the next longer listed radius, never between or beyond its rows.
+ */
+export const capacityChartSchema = z
+  .object({
+    counterweightKg: nonNegative,
+    /** What the chart covers, in the manufacturer's words (e.g. "360°, crawlers extended"). */
+    description: z.string().trim().min(1).max(200),
+    points: z.array(capacityPointSchema).min(1).max(200),
+  })
+  .superRefine((chart, ctx) => chartRowsInOrder(chart.points, ctx));
 
 /** The arrangement for one allowed boom length. */
 export const boomArrangementSchema = z.object({
@@ -60,8 +91,15 @@ export const boomArrangementSchema = z.object({
       maxBoomHoistLinePullKn: positive,
       /** The tip must be carried (assist crane or tip dolly) while the boom leaves the ground. */
       tipSupportRequired: z.boolean(),
+      /**
+       * The most that may hang at the tip (hook blocks, overhaul ball, auxiliary sheave) while the
+       * boom is raised from the ground without help; null when the data does not give it.
+       */
+      maxTipLoadKg: positive.max(100_000).nullable(),
     }),
   }),
+  /** Rated capacity charts for this boom length, one per counterweight; empty when the data has none. */
+  capacityCharts: z.array(capacityChartSchema).max(20),
   wind: z.object({
     assembly: windLimitSchema,
     raising: windLimitSchema,
@@ -94,6 +132,8 @@ export const ropeSchema = z.object({
   /** From the rope certificate. */
   minimumBreakingForceKn: positive,
   rotationResistant: z.boolean(),
+  /** Mass per metre from the rope certificate; null when the data does not give it. */
+  massKgPerM: positive.max(100).nullable(),
 });
 
 /** A winch drum. */
@@ -107,6 +147,8 @@ export const drumSchema = z.object({
   widthM: positive,
   /** Rope installed on the drum. */
   ropeLengthM: positive,
+  /** Rope run from the drum to the boom foot (first sheave); null when the data does not give it. */
+  leadToBoomFootM: positive.max(100).nullable(),
   permissibleLinePullKn: positive,
 });
 
@@ -142,6 +184,13 @@ export const machineSchema = z.object({
     /** Horizontal CoG of the counterweight, negative = behind the slewing centre. */
     cogFromSlewCentreM: z.number().finite(),
   }),
+  /**
+   * Where the boom foot pin sits: horizontally ahead of the slewing centre (towards the boom) and
+   * above the ground. Null when the data does not give it.
+   */
+  boomFoot: z.object({ aheadOfSlewCentreM: z.number().finite().min(-10).max(20), heightM: nonNegative.max(30) }).nullable(),
+  /** The mast or gantry as it stands for raising and working; null when the data does not give it. */
+  mast: z.object({ weightKg: positive.max(200_000), cogFromSlewCentreM: z.number().finite().min(-30).max(30) }).nullable(),
 });
 
 function duplicates(values: readonly string[]): string[] {
@@ -151,10 +200,39 @@ function duplicates(values: readonly string[]): string[] {
   return [...dup];
 }
 
+/**
+ * Brings arrangement data written before version 2 up to it: every value that version 1 did not
+ * have becomes null (the planner shows "not included", never zero) and charts become empty.
+ * Anything that is not a version-1 object passes through untouched for the schema to judge.
+ */
+export function upgradeArrangementData(input: unknown): unknown {
+  if (typeof input !== 'object' || input === null || (input as { schemaVersion?: unknown }).schemaVersion !== 1) return input;
+  const v1 = input as Record<string, unknown>;
+  const list = (v: unknown): Record<string, unknown>[] => (Array.isArray(v) ? (v as Record<string, unknown>[]) : []);
+  const obj = (v: unknown): Record<string, unknown> => (typeof v === 'object' && v !== null ? (v as Record<string, unknown>) : {});
+  return {
+    ...v1,
+    schemaVersion: 2,
+    arrangements: list(v1.arrangements).map((a) => {
+      const raising = obj(a.raising);
+      return {
+        ...a,
+        guyLines: list(a.guyLines).map((g) => ({ weightKg: null, ...g })),
+        raising: { ...raising, limits: { maxTipLoadKg: null, ...obj(raising.limits) } },
+        capacityCharts: [],
+      };
+    }),
+    drums: list(v1.drums).map((d) => ({ leadToBoomFootM: null, ...d })),
+    ropes: list(v1.ropes).map((r) => ({ massKgPerM: null, ...r })),
+    machine: { boomFoot: null, mast: null, ...obj(v1.machine) },
+    auxSheave: null,
+  };
+}
+
 /** The whole arrangement data of a crane model. */
-export const arrangementDataSchema = z
+const arrangementDataV2Schema = z
   .object({
-    schemaVersion: z.literal(1),
+    schemaVersion: z.literal(2),
     id,
     manufacturer: z.string().trim().min(1).max(120),
     model: z.string().trim().min(1).max(120),
@@ -170,6 +248,8 @@ export const arrangementDataSchema = z
     platesThresholdBoomLengthM: positive,
     /** Boom lengths that take the auxiliary sheave. */
     auxSheaveBoomLengthsM: z.array(positive),
+    /** The auxiliary sheave head: its weight and how far it reaches beyond the main tip; null when the data does not give it. */
+    auxSheave: z.object({ weightKg: positive.max(50_000), reachBeyondTipM: nonNegative.max(20) }).nullable(),
   })
   .superRefine((data, ctx) => {
     const types = new Map(data.sectionTypes.map((t) => [t.id, t]));
@@ -245,6 +325,9 @@ export const arrangementDataSchema = z
       for (const d of duplicates(a.guyLines.map((g) => g.mark))) {
         ctx.addIssue({ code: 'custom', message: `guy-line mark "${d}" is listed twice`, path: ['arrangements', i, 'guyLines'] });
       }
+      for (const d of duplicates(a.capacityCharts.map((c) => String(c.counterweightKg)))) {
+        ctx.addIssue({ code: 'custom', message: `two capacity charts for ${d} kg of counterweight`, path: ['arrangements', i, 'capacityCharts'] });
+      }
     });
     const listed = new Set(lengths);
     data.auxSheaveBoomLengthsM.forEach((l, i) => {
@@ -253,6 +336,9 @@ export const arrangementDataSchema = z
       }
     });
   });
+
+/** The whole arrangement data of a crane model; version 1 files are upgraded on the way in. */
+export const arrangementDataSchema = z.preprocess(upgradeArrangementData, arrangementDataV2Schema);
 
 /** A section type. */
 export type SectionType = z.infer<typeof sectionTypeSchema>;
@@ -264,6 +350,8 @@ export type WindLimit = z.infer<typeof windLimitSchema>;
 export type BoomArrangement = z.infer<typeof boomArrangementSchema>;
 /** A hook block or overhaul ball. */
 export type HookBlock = z.infer<typeof hookBlockSchema>;
+/** One rated capacity chart of the crane. */
+export type CapacityChart = z.infer<typeof capacityChartSchema>;
 /** A rope type. */
 export type Rope = z.infer<typeof ropeSchema>;
 /** A winch drum. */
@@ -293,18 +381,7 @@ export const assistChartSchema = z
     counterweightKg: nonNegative,
     points: z.array(assistChartPointSchema).min(1),
   })
-  .superRefine((chart, ctx) => {
-    chart.points.forEach((p, i) => {
-      if (i === 0) return;
-      const prev = chart.points[i - 1];
-      if (p.radiusM <= prev.radiusM) {
-        ctx.addIssue({ code: 'custom', message: 'radii must increase down the chart', path: ['points', i, 'radiusM'] });
-      }
-      if (p.capacityT > prev.capacityT) {
-        ctx.addIssue({ code: 'custom', message: 'capacity must not rise with radius', path: ['points', i, 'capacityT'] });
-      }
-    });
-  });
+  .superRefine((chart, ctx) => chartRowsInOrder(chart.points, ctx));
 
 /** An assist crane with its charts, one per configuration. */
 export const assistCraneSchema = z.object({

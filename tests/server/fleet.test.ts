@@ -66,7 +66,7 @@ describe('fleet: models, units, assist cranes, components and inspections', () =
       await request(server.app).post('/api/crane-models/import').set(as(rigger)).send(demoArrangement()).expect(403);
       await request(server.app).get('/api/crane-models/00000000-0000-4000-8000-000000000000').set(as(viewer)).expect(404);
       await request(server.app).get('/api/crane-models/not-an-id').set(as(viewer)).expect(404);
-      const badPost = await request(server.app).post('/api/crane-models').set(as(supervisor)).send({ arrangement: { schemaVersion: 2 } }).expect(400);
+      const badPost = await request(server.app).post('/api/crane-models').set(as(supervisor)).send({ arrangement: { schemaVersion: 3 } }).expect(400);
       expect(badPost.body.error.fields.length).toBeGreaterThan(3);
     });
   });
