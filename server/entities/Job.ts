@@ -1,5 +1,5 @@
 import { Column, Entity, PrimaryColumn } from 'typeorm';
-import type { Configuration } from '../../shared/schemas/configuration.js';
+import { configurationSchema, type Configuration } from '../../shared/schemas/configuration.js';
 import type { CommsPlan, JobKind, JobState } from '../../shared/schemas/jobs.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
 import type { BoardState } from '../../shared/board/types.js';
@@ -28,7 +28,21 @@ export class Job {
   @Column('varchar', { length: 12 })
   state!: JobState;
 
-  @Column('simple-json', { nullable: true })
+  /**
+   * Read through the shared schema so that a configuration saved before a field existed gains
+   * that field's default; one that no longer parses is left as stored for the planner to refuse.
+   */
+  @Column('simple-json', {
+    nullable: true,
+    transformer: {
+      to: (value: Configuration | null) => value,
+      from: (value: unknown) => {
+        if (value === null || value === undefined) return null;
+        const parsed = configurationSchema.safeParse(value);
+        return parsed.success ? parsed.data : value;
+      },
+    },
+  })
   configuration!: Configuration | null;
 
   /** The server's computation of the configuration. */
