@@ -8,7 +8,7 @@ import type { JobDto } from '../../shared/schemas/jobs.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
 import { PdfWriter, SAFETY_TEXT, svgAspect } from './document.js';
 
-const statusWords = { pass: 'Pass', fail: 'FAIL', info: 'Info', unverified: 'UNVERIFIED' } as const;
+const statusWords = { pass: 'Pass', fail: 'FAIL', info: 'Info', unverified: 'UNVERIFIED', caution: 'CAUTION' } as const;
 
 /** The configuration sheet: every input, every figure with its rule, overrides and the drawings. */
 export async function configurationSheetPdf(job: JobDto, results: ConfigurationResults | null, arrangement: ArrangementData, printedAt: Date): Promise<Buffer> {
@@ -54,7 +54,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
 
   pdf.heading('Computed figures');
   for (const f of results.figures) {
-    pdf.table([], [0.4, 0.42, 0.18], [[f.label, f.value, statusWords[f.status] + (f.status === 'fail' && !f.overridable ? ', cannot be overridden' : '')]]);
+    pdf.table([], [0.4, 0.42, 0.18], [[f.label, f.value, statusWords[f.status] + ((f.status === 'fail' || f.status === 'caution') && !f.overridable ? ', cannot be overridden' : '')]]);
     pdf.paragraph(`Rule: ${f.rule}${f.detail ? ` — ${f.detail}` : ''}`, { size: 7.5, color: '#3b434c' });
   }
 

@@ -72,8 +72,8 @@ export async function readinessOf(manager: EntityManager, job: Job): Promise<Rea
   } else {
     const approved = new Set((await manager.findBy(JobOverride, { jobId: job.id })).filter((o) => o.approvedBy).map((o) => o.figureKey));
     for (const figure of job.results.figures) {
-      if (figure.status !== 'fail' && figure.status !== 'unverified') continue;
-      const what = figure.status === 'fail' ? `fails (${figure.value})` : 'is unverified';
+      if (figure.status !== 'fail' && figure.status !== 'unverified' && figure.status !== 'caution') continue;
+      const what = figure.status === 'fail' ? `fails (${figure.value})` : figure.status === 'caution' ? `needs care (${figure.value})` : 'is unverified';
       if (!figure.overridable) reasons.push({ code: 'figure_not_overridable', message: `${figure.label} ${what} and can never be overridden. Change the configuration.` });
       else if (!approved.has(figure.key)) reasons.push({ code: 'figure_failing', message: `${figure.label} ${what}. Change the configuration, or override it with a reason and a second person's approval.` });
     }

@@ -7,6 +7,7 @@ import { CalcInputError } from '../calc/errors.js';
 import { tonnesForceToKn } from '../calc/units.js';
 import type { InventoryItem } from '../schemas/arrangement.js';
 import type { Figure, FigureStatus } from '../schemas/configuration.js';
+import { overrideReason } from './overrides.js';
 
 /** The group a figure is listed under. */
 export type Group = Figure['group'];
@@ -21,7 +22,9 @@ export function figure(
   rule: string,
   detail?: string,
 ): Figure {
-  const f: Figure = { key, group, label, value, status, overridable: status === 'fail' ? overridable : false, rule };
+  // Only a failing or caution figure whose key is in the one list of matters of judgement may be overridden.
+  const mayOverride = (status === 'fail' || status === 'caution') && overridable && overrideReason(key) !== null;
+  const f: Figure = { key, group, label, value, status, overridable: mayOverride, rule };
   if (detail !== undefined && detail.length > 0) f.detail = detail;
   return f;
 }

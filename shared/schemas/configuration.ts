@@ -98,8 +98,11 @@ export const configurationSchema = z
 export type Configuration = z.infer<typeof configurationSchema>;
 export type PowerLine = z.infer<typeof powerLineSchema>;
 
-/** Pass, fail, for information, or not checkable yet (e.g. ground without a source). */
-export const figureStatuses = ['pass', 'fail', 'info', 'unverified'] as const;
+/**
+ * Pass, fail, for information, not checkable yet (e.g. ground without a source), or caution:
+ * within the rating but above the site's caution share, so it needs a second person's approval.
+ */
+export const figureStatuses = ['pass', 'fail', 'info', 'unverified', 'caution'] as const;
 export type FigureStatus = (typeof figureStatuses)[number];
 
 /** One computed figure of a configuration, with the rule that produced it. */

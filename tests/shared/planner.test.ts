@@ -238,13 +238,13 @@ describe('failures and what may be overridden', () => {
     expect(r.windLimits).toBeNull();
   });
 
-  it('too few parts: 2 parts → design factor 3.10 < 5 (ASME B30.5), not overridable; the pull above the drum limit is overridable', () => {
+  it('too few parts: 2 parts → design factor 3.10 < 5 (ASME B30.5), not overridable; nor is the pull above the drum's permissible line pull (a winch rating)', () => {
     // MA = E(1 − E²)/(1 − E) = E(1 + E) = 0.962 × 1.962 = 1.887444
     // pull = 428.5506 / 1.887444 / 0.925444 = 245.345 kN; design factor = 760 / 245.345 = 3.098
     const r = run(plan((c) => (c.mainHook.parts = 2)));
     expect(relErr(r.reeving!.leadLinePullKn, 245.345)).toBeLessThan(1e-5);
     expect(fig(r, 'rope.designFactor')).toMatchObject({ status: 'fail', overridable: false, value: '3.10, below 5' });
-    expect(fig(r, 'rope.leadLinePull')).toMatchObject({ status: 'fail', overridable: true });
+    expect(fig(r, 'rope.leadLinePull')).toMatchObject({ status: 'fail', overridable: false });
   });
 
   it('more parts than the block takes → not overridable', () => {
@@ -293,10 +293,10 @@ describe('failures and what may be overridden', () => {
     expect(r.assistLifts).toEqual([]);
   });
 
-  it('high ground pressure → fail, overridable', () => {
+  it('high ground pressure → fail, never overridable: mats or a temporary-works design change the figures, not an override', () => {
     // allowable 140 kPa: raising 171.0, over the end 144.8, unloaded 246.5 kPa all exceed it; over the side 138.1 does not
     const r = run(plan((c) => (c.ground.allowablePressureKpa = 140)));
-    for (const k of ['ground.raising', 'ground.overEnd', 'ground.unloaded']) expect(fig(r, k)).toMatchObject({ status: 'fail', overridable: true });
+    for (const k of ['ground.raising', 'ground.overEnd', 'ground.unloaded']) expect(fig(r, k)).toMatchObject({ status: 'fail', overridable: false });
     expect(fig(r, 'ground.overSide').status).toBe('pass');
   });
 
@@ -359,9 +359,9 @@ describe('failures and what may be overridden', () => {
     expect(fig(r2, 'boom.makeup').rule).toMatch(/inventory/);
   });
 
-  it('wraps: a 90 m boom on 10 parts pays out 10 × 90 + 90 = 990 m of a 640 m rope → fail, overridable', () => {
+  it('wraps: a 90 m boom on 10 parts pays out 10 × 90 + 90 = 990 m of a 640 m rope → fail, never overridable (two dead wraps: ASME B30.5, from memory)', () => {
     const r = run(plan((c) => ((c.boomLengthM = 90), (c.mainHook.parts = 10))));
-    expect(fig(r, 'rope.wraps')).toMatchObject({ status: 'fail', overridable: true });
+    expect(fig(r, 'rope.wraps')).toMatchObject({ status: 'fail', overridable: false });
   });
 });
 

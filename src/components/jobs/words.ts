@@ -26,6 +26,7 @@ export const figureStatusWords: Record<FigureStatus, { label: string; icon: stri
   fail: { label: 'FAIL', icon: 'cancel', tone: 'stop' },
   info: { label: 'Info', icon: 'info', tone: 'info' },
   unverified: { label: 'Unverified', icon: 'help', tone: 'hold' },
+  caution: { label: 'Caution', icon: 'warning', tone: 'hold' },
 };
 
 /** Headings of the figure groups, in the order the results panel shows them. */
@@ -97,8 +98,9 @@ export function eventSummary(event: Pick<JobEventDto, 'type' | 'data'>, job?: Pi
       const figures = list(data.figures).map(record);
       const failing = figures.filter((f) => f.status === 'fail').length;
       const unverified = figures.filter((f) => f.status === 'unverified').length;
+      const caution = figures.filter((f) => f.status === 'caution').length;
       const withdrawn = list(data.overridesWithdrawn).length;
-      const bits = [`${failing} failing`, unverified ? `${unverified} unverified` : '', withdrawn ? `${withdrawn} override${withdrawn === 1 ? '' : 's'} withdrawn` : ''].filter(Boolean);
+      const bits = [`${failing} failing`, caution ? `${caution} needing care` : '', unverified ? `${unverified} unverified` : '', withdrawn ? `${withdrawn} override${withdrawn === 1 ? '' : 's'} withdrawn` : ''].filter(Boolean);
       return `Configuration saved: ${text(config.boomLengthM)} m boom; ${bits.join(', ')}`;
     }
     case 'override.requested': {
