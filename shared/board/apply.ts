@@ -1,6 +1,8 @@
 import type { JobEventDto } from '../schemas/jobs.js';
-import type { Plan } from '../schemas/plan.js';
-import type { BoardStage, BoardState, StageState } from './types.js';
+import type { Plan, ValueCheckField } from '../schemas/plan.js';
+import { readingOutOfLimit } from './readings.js';
+import { CHECK_FAILURES_BEFORE_REVIEW, stepsAfter } from './rules.js';
+import type { BoardHold, BoardStage, BoardState, StageState } from './types.js';
 
 /**
  * The one reducer of a job's board, used by the server (to keep its projection and answer
@@ -34,7 +36,7 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
     case 'job.ready':
       next.job.state = 'ready';
       next.planVersion = d.planVersion as number;
-      next.stages = stagesFromPlan(d.plan as Plan, []);
+      next.stages = stagesFromPlan(d.plan as Plan, [], next.windLimits);
       break;
     case 'job.started':
       next.job.state = 'live';
@@ -47,14 +49,20 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       const step = findStep(next, d.stepId as string);
       step.state = 'done';
       step.doneBy = { ...by, value: (d.value as string | null) ?? null, photoId: (d.photoId as string | null) ?? null };
+      step.outOfLimit = readingOutOfLimit(step.records, step.doneBy.value, next.windLimits);
       settle(next);
       break;
     }
     case 'step.reopened': {
       const stage = findStage(next, d.stageId as string);
       const step = findStep(next, d.stepId as string);
-      step.state = 'open';
-      step.doneBy = null;
+      // Steps that were to come after it are open again too: the order is kept when the work is redone.
+      for (const id of [step.id, ...stepsAfter(stage, step.id)]) {
+        const s = findStep(next, id);
+        s.state = 'open';
+        s.doneBy = null;
+        s.outOfLimit = null;
+      }
       if (stage.state === 'holding' && stage.hold) {
         stage.state = 'active';
         stage.hold.state = 'waiting';
@@ -74,6 +82,20 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       hold.state = 'open';
       break;
     }
+    case 'hold.check.failed': {
+      const hold = holdOf(next, d.stageId as string);
+      hold.checkFailures = [...(hold.checkFailures ?? []), { userId: by.userId, name: by.name, role: by.role, at: by.at, fields: (d.fields as ValueCheckField[] | null | undefined) ?? null }];
+      hold.failuresSinceReview = (hold.failuresSinceReview ?? 0) + 1;
+      hold.checkLocked = hold.failuresSinceReview >= CHECK_FAILURES_BEFORE_REVIEW;
+      break;
+    }
+    case 'hold.check.reviewed': {
+      const hold = holdOf(next, d.stageId as string);
+      hold.failuresSinceReview = 0;
+      hold.checkLocked = false;
+      hold.lastReview = { userId: by.userId, name: by.name, at: by.at, note: d.note as string };
+      break;
+    }
     case 'hold.released': {
       const stage = findStage(next, d.stageId as string);
       stage.hold!.state = 'released';
@@ -91,8 +113,14 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     }
     case 'job.stopped':
+      if (state.job.state === 'stopped' && next.job.stop) {
+        // A second press keeps the first stop and its cause; the press is kept beside it.
+        next.job.stop.alsoPressedBy = [...(next.job.stop.alsoPressedBy ?? []), { userId: by.userId, name: by.name, role: by.role, pressedAt: d.pressedAt as string, at: by.at }];
+        if (!next.job.stop.reason && d.reason) next.job.stop.reason = d.reason as string;
+        break;
+      }
       next.job.state = 'stopped';
-      next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: d.pressedAt as string, at: by.at, reason: (d.reason as string | null) ?? null };
+      next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: d.pressedAt as string, at: by.at, reason: (d.reason as string | null) ?? null, alsoPressedBy: [] };
       break;
     case 'job.stop.noted':
       if (next.job.stop) next.job.stop.reason = d.reason as string;
@@ -104,12 +132,12 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       settle(next);
       break;
     case 'weather.recorded': {
-      const r = d.reading as { meanMs: number; gustMs: number; lightning: boolean; poorVisibility: boolean; ice: boolean };
-      next.weather = { ...r, at: by.at, by: { userId: by.userId, name: by.name } };
+      const r = d.reading as { meanMs: number; gustMs: number; lightning: boolean; poorVisibility: boolean; ice: boolean; heightM?: number | null };
+      next.weather = { ...r, heightM: r.heightM ?? null, at: by.at, by: { userId: by.userId, name: by.name } };
       const stop = d.stop as { reason: string } | null;
       if (stop) {
         next.job.state = 'stopped';
-        next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: by.at, at: by.at, reason: stop.reason };
+        next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: by.at, at: by.at, reason: stop.reason, alsoPressedBy: [] };
       }
       break;
     }
@@ -128,7 +156,7 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
     }
     case 'plan.revised':
       next.planVersion = d.planVersion as number;
-      next.stages = stagesFromPlan(d.plan as Plan, state.stages);
+      next.stages = stagesFromPlan(d.plan as Plan, state.stages, next.windLimits);
       if (next.job.state === 'live' || next.job.state === 'stopped') settle(next);
       break;
     case 'job.completed':
@@ -162,14 +190,18 @@ function created(event: JobEventDto): BoardState {
 
 /**
  * Board stages for a plan. For a revision, steps and stages whose id and wording are unchanged
- * keep their progress; everything else starts again.
+ * keep their progress; everything else starts again. A kept reading is compared again with what
+ * the revised step is held to, so a revision that changes the plan's figure settles it. A hold
+ * that keeps its id keeps its failed value checks and its lock: only the supervisor's review
+ * clears them.
  */
-export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[]): BoardStage[] {
+export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[], windLimits: BoardState['windLimits'] = null): BoardStage[] {
   const before = new Map(previous.map((s) => [s.id, s]));
   return plan.stages.map((stage, i): BoardStage => {
     const old = before.get(stage.id);
     const steps = stage.steps.map((step) => {
       const oldStep = old?.steps.find((s) => s.id === step.id && s.text === step.text);
+      const doneBy = oldStep?.doneBy ?? null;
       return {
         id: step.id,
         text: step.text,
@@ -178,10 +210,14 @@ export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[]): Boa
         requiresPhoto: step.requiresPhoto,
         records: step.records,
         caution: step.caution,
-        doneBy: oldStep?.doneBy ?? null,
+        doneBy,
+        required: step.required ?? false,
+        after: step.after ?? [],
+        outOfLimit: oldStep?.state === 'done' ? readingOutOfLimit(step.records, doneBy?.value ?? null, windLimits) : null,
       };
     });
     const unchangedHold = old?.hold && stage.hold && old.hold.id === stage.hold.id && old.hold.title === stage.hold.title;
+    const sameHold = old?.hold && stage.hold && old.hold.id === stage.hold.id ? old.hold : null;
     const finished = old && (old.state === 'done' || old.state === 'skipped') && steps.every((s) => s.state === 'done' || old.state === 'skipped') && (!stage.hold || unchangedHold);
     return {
       id: stage.id,
@@ -204,6 +240,10 @@ export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[]): Boa
             valueCheck: stage.hold.valueCheck ? { fields: stage.hold.valueCheck.fields.map((f) => f.field) } : null,
             acknowledgments: finished && old.hold ? old.hold.acknowledgments : [],
             releasedBy: finished && old.hold ? old.hold.releasedBy : null,
+            checkFailures: sameHold?.checkFailures ?? [],
+            failuresSinceReview: sameHold?.failuresSinceReview ?? 0,
+            checkLocked: sameHold?.checkLocked ?? false,
+            lastReview: sameHold?.lastReview ?? null,
           }
         : null,
       skipReason: finished ? old.skipReason : null,
@@ -248,6 +288,13 @@ export function findStage(state: BoardState, stageId: string): BoardStage {
   const stage = state.stages.find((s) => s.id === stageId);
   if (!stage) throw new Error(`no stage ${stageId}`);
   return stage;
+}
+
+/** The hold of a stage; throws when the stage has none (a bug, not a user error). */
+function holdOf(state: BoardState, stageId: string): BoardHold {
+  const hold = findStage(state, stageId).hold;
+  if (!hold) throw new Error(`stage ${stageId} has no hold`);
+  return hold;
 }
 
 /** The step with this id anywhere on the board. */

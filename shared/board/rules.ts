@@ -1,12 +1,41 @@
 import type { WindLimit } from '../schemas/arrangement.js';
-import type { BoardState } from './types.js';
+import type { BoardHold, BoardStage, BoardState, WeatherReading } from './types.js';
+
+/**
+ * The board's rules that both sides need: the one wind rule (the weather panel, wind `check`
+ * steps, the holds before a raise and the resume all use it), step order within a stage, and the
+ * retry rules of the blind configuration check. Pure: time comes in as a parameter.
+ */
 
 /** Stages during which the boom goes up or comes down: the raising wind limit applies. */
 const RAISING_STAGE = /(^|-)(preraise|raise|lower)$/;
+/** Stages in which the boom itself goes up or comes down (not the checks before it). */
+const BOOM_MOVING_STAGE = /(^|-)(raise|lower)$/;
 
 /** Which wind limit applies now: raising while the boom is raised or lowered, assembly otherwise. */
 export function windPhase(state: BoardState): 'assembly' | 'raising' {
   return state.stages.some((s) => (s.state === 'active' || s.state === 'holding') && RAISING_STAGE.test(s.id)) ? 'raising' : 'assembly';
+}
+
+/** Does the boom go up or come down in this stage (erection's raise, dismantling's lowering)? */
+export function movesBoom(stage: Pick<BoardStage, 'id'>): boolean {
+  return BOOM_MOVING_STAGE.test(stage.id);
+}
+
+/**
+ * Does releasing this stage's hold let a stage that raises or lowers the boom start? Such a hold
+ * (the pre-raise hold, the site hold before lowering) needs a fresh reading within the raising limit.
+ */
+export function holdGatesBoomMovement(state: BoardState, stageId: string): boolean {
+  return state.stages.some((s) => movesBoom(s) && s.dependsOn.includes(stageId));
+}
+
+/** Why a gust is over a wind limit, or null when it is within it (at the limit counts as within). */
+export function gustOverLimit(gustMs: number, limit: WindLimit | null, phase?: 'assembly' | 'raising'): string | null {
+  const words = phase ? `the ${phase} limit` : 'the limit';
+  if (!limit) return `No wind limit is known${phase ? ` for ${phase}` : ''}: get the manufacturer’s limit before going on`;
+  if (gustMs > limit.gustMs) return `Gust ${gustMs} m/s is over ${words} of ${limit.gustMs} m/s`;
+  return null;
 }
 
 /** Why a reading is over the limit for the phase, or null when it is within it. */
@@ -18,13 +47,126 @@ export function weatherOverLimit(
   if (reading.ice) return 'Ice reported on the boom or the ground';
   if (reading.poorVisibility) return 'Visibility too poor to see the signaller';
   if (!limit) return null;
-  if (reading.gustMs > limit.gustMs) return `Gust ${reading.gustMs} m/s is over the limit of ${limit.gustMs} m/s`;
+  const gust = gustOverLimit(reading.gustMs, limit);
+  if (gust) return gust;
   if (reading.meanMs > limit.meanMs) return `Mean wind ${reading.meanMs} m/s is over the limit of ${limit.meanMs} m/s`;
   return null;
 }
 
-/** A resume needs a reading this recent. */
+/**
+ * How old a weather reading may be for a raise, a lowering, the hold before them and a resume.
+ * Every job uses this default today (there is no per-job setting yet): 15 minutes, the figure the
+ * board's screens state. Common practice, no source: a reading is taken just before the boom moves.
+ */
 export const WEATHER_FRESH_MS = 15 * 60 * 1000;
+
+/** The freshness limit of a job's weather readings (the default for every job until jobs carry their own). */
+export function weatherFreshMs(_state: BoardState): number {
+  return WEATHER_FRESH_MS;
+}
+
+/**
+ * Height below which a wind reading is flagged: wind speed is specified at 10 m above ground for
+ * surface observations (WMO Guide to Instruments and Methods of Observation, WMO-No. 8, part I,
+ * chapter 5, from memory), and crane wind limits usually mean the gust at the boom tip (from memory),
+ * so a reading lower down reads low.
+ */
+export const WIND_READING_REFERENCE_HEIGHT_M = 10;
+
+/** The one verdict on the weather, for the panel, the raise, the hold before it and the resume. */
+export interface WeatherVerdict {
+  phase: 'assembly' | 'raising';
+  limit: WindLimit | null;
+  reading: WeatherReading | null;
+  /** Milliseconds since the reading; null without one. */
+  ageMs: number | null;
+  freshMs: number;
+  fresh: boolean;
+  /** Why the reading is over the limit for the phase (or lightning, ice, visibility); null when within it. */
+  overLimit: string | null;
+  /** Wind readings typed into steps that are over their limit (the panel shows them too). */
+  stepsOverLimit: { stageId: string; stepId: string; text: string; reason: string }[];
+  /** A caution about the reading that does not refuse anything (taken low down, or with no height). */
+  caution: string | null;
+  /** Fresh, within the limit for the phase, and a limit is known: a raise or lowering may go on. */
+  ok: boolean;
+  /** When not ok, what to do, in a sentence. */
+  problem: string | null;
+}
+
+/** The weather against the job's limit for `phase` (the current phase by default) at time `nowMs`. */
+export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembly' | 'raising' = windPhase(state)): WeatherVerdict {
+  const limit = state.windLimits ? state.windLimits[phase] : null;
+  const reading = state.weather;
+  const freshMs = weatherFreshMs(state);
+  const ageMs = reading ? Math.max(0, nowMs - Date.parse(reading.at)) : null;
+  const fresh = ageMs !== null && ageMs <= freshMs;
+  const overLimit = reading ? weatherOverLimit(reading, limit) : null;
+  const stepsOverLimit = state.stages.flatMap((stage) =>
+    stage.steps
+      .filter((s) => s.outOfLimit?.kind === 'wind')
+      .map((s) => ({ stageId: stage.id, stepId: s.id, text: s.text, reason: s.outOfLimit!.reason })),
+  );
+  const height = reading ? (reading.heightM ?? null) : null;
+  const caution = !reading
+    ? null
+    : height === null
+      ? 'The height of this reading was not recorded; the limit is for the gust at the boom tip.'
+      : height < WIND_READING_REFERENCE_HEIGHT_M
+        ? `Read at ${height} m above ground: wind near the ground reads lower than at the boom tip, which the limit is for.`
+        : null;
+  const minutes = Math.round(freshMs / 60_000);
+  let problem: string | null = null;
+  if (!reading) problem = `Record a weather reading first: there is none yet, and one from the last ${minutes} minutes is needed.`;
+  else if (!fresh) problem = `Record a new weather reading: the last one is older than ${minutes} minutes.`;
+  else if (overLimit) problem = `The latest reading is over the limits (${overLimit}). Wait and record a new reading.`;
+  else if (!limit) problem = `No ${phase} wind limit is known for this configuration: get the manufacturer’s limit first.`;
+  return { phase, limit, reading, ageMs, freshMs, fresh, overLimit, stepsOverLimit, caution, ok: problem === null, problem };
+}
+
+/** The steps of the same stage that must be done before this one and are not yet; empty when it may be done. */
+export function stepsNeededFirst(stage: BoardStage, stepId: string): { id: string; text: string }[] {
+  const step = stage.steps.find((s) => s.id === stepId);
+  if (!step) return [];
+  return (step.after ?? [])
+    .map((id) => stage.steps.find((s) => s.id === id))
+    .filter((s): s is BoardStage['steps'][number] => !!s && s.state !== 'done')
+    .map((s) => ({ id: s.id, text: s.text }));
+}
+
+/** Steps that must be reopened with this one: every step of the stage that was to come after it, directly or not. */
+export function stepsAfter(stage: BoardStage, stepId: string): string[] {
+  const out = new Set<string>();
+  const queue = [stepId];
+  while (queue.length) {
+    const id = queue.shift()!;
+    for (const s of stage.steps) {
+      if (!out.has(s.id) && s.id !== stepId && (s.after ?? []).includes(id)) {
+        out.add(s.id);
+        queue.push(s.id);
+      }
+    }
+  }
+  return [...out];
+}
+
+/** Failed value checks after which the hold is locked until the supervisor reviews it. */
+export const CHECK_FAILURES_BEFORE_REVIEW = 3;
+
+/**
+ * After a failed value check the same person waits this long before trying again, with a new
+ * photo of the controller: time to read the screen again rather than type the next guess.
+ * Common practice, no source.
+ */
+export const CHECK_RETRY_MS = 30_000;
+
+/** When this person may try the hold's value check again (ISO time), or null when they may now. */
+export function checkRetryAt(hold: Pick<BoardHold, 'checkFailures'>, userId: string, nowMs: number): string | null {
+  const last = [...(hold.checkFailures ?? [])].reverse().find((f) => f.userId === userId);
+  if (!last) return null;
+  const at = Date.parse(last.at) + CHECK_RETRY_MS;
+  return at > nowMs ? new Date(at).toISOString() : null;
+}
 
 /** The stages whose dependencies are all done or skipped, for people planning who does what next. */
 export function stagesReadyToStart(state: BoardState): string[] {

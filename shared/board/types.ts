@@ -23,6 +23,45 @@ export interface BoardStep {
   records: StepRecord | null;
   caution: string | null;
   doneBy: (Actor & { value: string | null; photoId: string | null }) | null;
+  /** The template marks it as protecting a mandatory hold: a revision cannot remove it. */
+  required: boolean;
+  /** Step ids of the same stage that must be done before this one can be. */
+  after: string[];
+  /** The recorded value against what the step is held to (`records.check`); null when within it or not compared. */
+  outOfLimit: OutOfLimit | null;
+}
+
+/**
+ * Why a recorded reading is out of limit, from `readingOutOfLimit` (shared/board/readings.ts):
+ * a sentence for people, and the figures it was compared with for screens that lay them out.
+ */
+export interface OutOfLimit {
+  /** A sentence naming the value and the planned value or limit. */
+  reason: string;
+  /** What the step is held to. */
+  kind: 'plan' | 'max' | 'min' | 'wind';
+  /** The value as it was typed. */
+  value: string;
+  /** The typed value as a number; null when it is not a number (which is out of limit). */
+  valueNumber: number | null;
+  /** The plan's figure (kind plan) and its absolute tolerance. */
+  planned: number | null;
+  tolerance: number | null;
+  /** The limit (kinds max, min, wind). */
+  limit: number | null;
+  unit: string | null;
+  /** Where the figure comes from (the plan's `source`, or the wind limit's phase). */
+  source: string | null;
+}
+
+/** One failed blind configuration check. The values typed are never kept, only which fields differed. */
+export interface CheckFailure {
+  userId: string;
+  name: string;
+  role: string;
+  at: string;
+  /** The fields that differed; null on the copy sent to people who do not plan the job (see redaction in server/presenters/board.ts). */
+  fields: ValueCheckField[] | null;
 }
 
 export interface BoardHold {
@@ -36,6 +75,14 @@ export interface BoardHold {
   valueCheck: { fields: ValueCheckField[] } | null;
   acknowledgments: { role: CrewRole; userId: string; name: string; at: string }[];
   releasedBy: Actor | null;
+  /** Every failed value check on this hold, kept for the record (never the values). */
+  checkFailures: CheckFailure[];
+  /** Failed value checks since the supervisor last reviewed the hold. */
+  failuresSinceReview: number;
+  /** Three failures since the last review: nobody can try the value check until the supervisor reviews it. */
+  checkLocked: boolean;
+  /** The supervisor's last review of the failed checks. */
+  lastReview: { userId: string; name: string; at: string; note: string } | null;
 }
 
 export interface BoardStage {
@@ -60,6 +107,8 @@ export interface WeatherReading {
   lightning: boolean;
   poorVisibility: boolean;
   ice: boolean;
+  /** Height above ground at which the wind was read, metres; null for readings recorded before the height was asked. */
+  heightM: number | null;
   at: string;
   by: { userId: string; name: string };
 }
@@ -70,7 +119,10 @@ export interface StopInfo {
   pressedAt: string;
   /** When the server recorded it. */
   at: string;
+  /** The cause; the supervisor cannot resume until it is recorded (by whoever pressed a stop, or a supervisor). */
   reason: string | null;
+  /** Others who pressed stop while the job was already stopped. */
+  alsoPressedBy: { userId: string; name: string; role: string; pressedAt: string; at: string }[];
 }
 
 /** The event-sourced state of a job's board: what the shared reducer builds from the log. */

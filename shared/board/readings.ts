@@ -1,0 +1,137 @@
+import type { StepRecord } from '../schemas/plan.js';
+import { gustOverLimit } from './rules.js';
+import type { BoardStage, BoardState, OutOfLimit } from './types.js';
+
+/**
+ * Readings compared with what they are held to. One pure function decides whether a recorded
+ * value is out of limit; the reducer stores its answer on the step, so every screen and the
+ * server's refusals say the same thing.
+ */
+
+const NUMBER = /^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/;
+
+/**
+ * A typed reading as a number: digits with an optional decimal point or comma, optionally
+ * followed by the step's own unit ("6", "6.5", "6,5", "6.5 t" for a step in t). Anything else
+ * (words, two numbers, another unit) is not a number: null.
+ */
+export function parseReading(value: string, unit: string | null): number | null {
+  let text = value.trim();
+  if (unit) {
+    const u = unit.trim().toLowerCase();
+    if (u && text.toLowerCase().endsWith(u)) text = text.slice(0, text.length - u.length).trim();
+  }
+  if (!NUMBER.test(text)) return null;
+  const n = Number(text.replace(',', '.'));
+  return Number.isFinite(n) ? n : null;
+}
+
+/** Typed decimals are not exact in binary: 6.4 − 6.5 is 0.1000000000000005. Differences this small are the representation, not the reading. */
+const REPRESENTATION_EPSILON = 1e-9;
+
+function fmt(n: number, unit: string | null): string {
+  const text = String(Number(n.toPrecision(12)));
+  return unit ? `${text} ${unit}` : text;
+}
+
+/**
+ * Whether a value recorded on a step is out of what the step is held to; null when it is within
+ * it or the step compares nothing. A value that is not a number is out of limit for every numeric
+ * check. At a max or min limit counts as within it; a plan figure allows its stated tolerance.
+ * Wind gusts go through the board's one wind rule (`gustOverLimit`).
+ */
+export function readingOutOfLimit(
+  records: StepRecord | null,
+  value: string | null,
+  windLimits: BoardState['windLimits'],
+): OutOfLimit | null {
+  const check = records?.check;
+  if (!records || !check || value === null) return null;
+  const unit = check.kind === 'wind' ? 'm/s' : records.unit;
+  const n = parseReading(value, unit);
+  const base = { kind: check.kind, value, valueNumber: n, unit, planned: null, tolerance: null, limit: null } as const;
+  const typed = n === null ? `“${value}” is not a number` : `${fmt(n, unit)} was recorded`;
+  switch (check.kind) {
+    case 'plan': {
+      const within = n !== null && Math.abs(n - check.planned) <= check.tolerance + REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.planned));
+      if (within) return null;
+      const tol = check.tolerance > 0 ? ` (±${fmt(check.tolerance, unit)})` : '';
+      return { ...base, planned: check.planned, tolerance: check.tolerance, source: check.source || null, reason: `${typed}; the plan says ${fmt(check.planned, unit)}${tol}.` };
+    }
+    case 'max': {
+      if (n !== null && n <= check.limit + REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.limit))) return null;
+      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; the limit is at most ${fmt(check.limit, unit)}.` };
+    }
+    case 'min': {
+      if (n !== null && n >= check.limit - REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.limit))) return null;
+      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; it must be at least ${fmt(check.limit, unit)}.` };
+    }
+    case 'wind': {
+      const limit = windLimits ? windLimits[check.phase] : null;
+      const source = `${check.phase} wind limit from the crane data`;
+      if (n === null) return { ...base, limit: limit?.gustMs ?? null, source, reason: `${typed}; record the gust in m/s.` };
+      const over = gustOverLimit(n, limit, check.phase);
+      return over ? { ...base, limit: limit?.gustMs ?? null, source, reason: `${over}.` } : null;
+    }
+  }
+}
+
+/** One out-of-limit step, where it is and who recorded it. */
+export interface OutOfLimitEntry {
+  stageId: string;
+  stageTitle: string;
+  stepId: string;
+  text: string;
+  by: { userId: string; name: string; role: string; at: string } | null;
+  outOfLimit: OutOfLimit;
+}
+
+function entries(stages: readonly BoardStage[]): OutOfLimitEntry[] {
+  return stages.flatMap((stage) =>
+    stage.steps
+      .filter((s) => s.state === 'done' && s.outOfLimit)
+      .map((s) => ({
+        stageId: stage.id,
+        stageTitle: stage.title,
+        stepId: s.id,
+        text: s.text,
+        by: s.doneBy ? { userId: s.doneBy.userId, name: s.doneBy.name, role: s.doneBy.role, at: s.doneBy.at } : null,
+        outOfLimit: s.outOfLimit!,
+      })),
+  );
+}
+
+/** Every done step whose reading is out of limit, in plan order: the supervisor console's list. */
+export function outOfLimitSteps(state: BoardState): OutOfLimitEntry[] {
+  return entries(state.stages);
+}
+
+/** The stage and every stage it waits for, directly or not (plan order). */
+export function stageAndUpstream(state: BoardState, stageId: string): BoardStage[] {
+  const byId = new Map(state.stages.map((s) => [s.id, s]));
+  const seen = new Set<string>();
+  const queue = [stageId];
+  while (queue.length) {
+    const id = queue.shift()!;
+    if (seen.has(id) || !byId.has(id)) continue;
+    seen.add(id);
+    queue.push(...byId.get(id)!.dependsOn);
+  }
+  return state.stages.filter((s) => seen.has(s.id));
+}
+
+/**
+ * The out-of-limit readings that stand before a stage's hold: its own steps and those of every
+ * stage it waits for. For a mandatory hold, any of them blocks the release until the step is
+ * redone within limit or the plan is revised.
+ */
+export function outOfLimitBeforeHold(state: BoardState, stageId: string): OutOfLimitEntry[] {
+  return entries(stageAndUpstream(state, stageId));
+}
+
+/** Why the supervisor cannot release this stage's hold because of readings (mandatory holds only); empty when nothing blocks it. */
+export function readingsBlockingRelease(state: BoardState, stageId: string): OutOfLimitEntry[] {
+  const stage = state.stages.find((s) => s.id === stageId);
+  if (!stage?.hold?.mandatory) return [];
+  return outOfLimitBeforeHold(state, stageId);
+}
