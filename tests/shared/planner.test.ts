@@ -238,7 +238,7 @@ describe('failures and what may be overridden', () => {
     expect(r.windLimits).toBeNull();
   });
 
-  it('too few parts: 2 parts → design factor 3.10 < 5 (ASME B30.5), not overridable; nor is the pull above the drum's permissible line pull (a winch rating)', () => {
+  it('too few parts: 2 parts → design factor 3.10 < 5 (ASME B30.5), not overridable; nor is the pull above the drum’s permissible line pull (a winch rating)', () => {
     // MA = E(1 − E²)/(1 − E) = E(1 + E) = 0.962 × 1.962 = 1.887444
     // pull = 428.5506 / 1.887444 / 0.925444 = 245.345 kN; design factor = 760 / 245.345 = 3.098
     const r = run(plan((c) => (c.mainHook.parts = 2)));
