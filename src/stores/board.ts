@@ -3,10 +3,11 @@ import { computed, ref, shallowRef } from 'vue';
 import { BoardFollower } from '../../shared/board/follower';
 import type { BoardSnapshot } from '../../shared/board/types';
 import type { CommandAnswer } from '../../shared/events';
-import type { BoardCommand } from '../../shared/schemas/commands';
+import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
 import { jobEventListSchema, type CrewRole, type JobEventDto } from '../../shared/schemas/jobs';
 import { api } from '../services/api';
 import { connectSocket, type HoldlineSocket } from '../services/socket';
+import { BLOCKED_WORDS } from '../components/board/words';
 import { useSessionStore } from './session';
 
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
@@ -52,6 +53,17 @@ export const useBoardStore = defineStore('board', () => {
 
   const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === session.user?.id).map((c) => c.role));
   const briefed = computed(() => !!board.value && board.value.briefed.some((b) => b.userId === session.user?.id && b.planVersion === board.value!.planVersion));
+  const stopped = computed(() => board.value?.job.state === 'stopped');
+
+  /**
+   * Why a command cannot be sent now, in words to show beside its control, or '' when it can: the
+   * board is not live, or the job is stopped and the server accepts only the stop's own commands.
+   */
+  function blockReason(type: BoardCommand['type']): string {
+    if (!live.value) return BLOCKED_WORDS.notLive;
+    if (stopped.value && !commandsWhileStopped.has(type)) return BLOCKED_WORDS.stopped;
+    return '';
+  }
 
   function refresh() {
     if (!follower) return;
@@ -186,7 +198,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, open, close, send, stop, setQueuedStopReason, isWaiting };
+  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, blockReason, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

@@ -16,11 +16,11 @@ import { openJobTarget, viewForRoles, viewsForRoles } from '../../src/components
 import { boardEventLine, describeChange } from '../../src/components/board/words';
 
 function step(id: string, overrides: Partial<BoardStep> = {}): BoardStep {
-  return { id, text: `Step ${id}`, state: 'open', allowedRoles: ['rigger'], requiresPhoto: false, records: null, caution: null, doneBy: null, ...overrides };
+  return { id, text: `Step ${id}`, state: 'open', allowedRoles: ['rigger'], requiresPhoto: false, records: null, caution: null, doneBy: null, required: false, after: [], outOfLimit: null, ...overrides };
 }
 
 function hold(id: string, overrides: Partial<BoardHold> = {}): BoardHold {
-  return { id, state: 'waiting', title: `Hold ${id}`, instruction: 'Check it', mandatory: false, requiredRoles: ['operator', 'signaller'], valueCheck: null, acknowledgments: [], releasedBy: null, ...overrides };
+  return { id, state: 'waiting', title: `Hold ${id}`, instruction: 'Check it', mandatory: false, requiredRoles: ['operator', 'signaller'], valueCheck: null, acknowledgments: [], releasedBy: null, checkFailures: [], failuresSinceReview: 0, checkLocked: false, lastReview: null, ...overrides };
 }
 
 function stage(id: string, order: number, overrides: Partial<BoardStage> = {}): BoardStage {
@@ -168,7 +168,7 @@ describe('words for changes', () => {
     const before = board([stage('t', 7, { state: 'active', steps: [step('t.1')], hold: hold('t.hold') })]);
     const opened = board([stage('t', 7, { state: 'holding', steps: [step('t.1', { state: 'done' })], hold: hold('t.hold', { state: 'open', title: 'Tip still on the ground' }) })]);
     const released = board([stage('t', 7, { state: 'done', steps: [step('t.1', { state: 'done' })], hold: hold('t.hold', { state: 'released', title: 'Tip still on the ground' }) })]);
-    const stopped: BoardState = { ...opened, job: { ...opened.job, state: 'stopped', stop: { raisedBy: { userId: 'u', name: 'Callum Frey', role: 'rigger' }, pressedAt: '', at: '', reason: null } } };
+    const stopped: BoardState = { ...opened, job: { ...opened.job, state: 'stopped', stop: { raisedBy: { userId: 'u', name: 'Callum Frey', role: 'rigger' }, pressedAt: '', at: '', reason: null, alsoPressedBy: [] } } };
 
     const sentences = [describeChange(before, opened), describeChange(opened, released), describeChange(opened, stopped)];
     expect(sentences).toEqual(['Hold point open: Tip still on the ground.', 'Hold point released: Tip still on the ground.', 'Job stopped on the board by Callum Frey.']);

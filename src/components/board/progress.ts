@@ -96,3 +96,47 @@ export function ageWords(iso: string, nowMs: number): string {
   const hours = Math.floor(minutes / 60);
   return `${hours} h ${minutes % 60} min ago`;
 }
+
+/** A reading out of limit, said in words beside the planned value or the limit. */
+export interface OutOfLimitLine {
+  stageId: string;
+  stageOrder: number;
+  stepId: string;
+  /** "Stage 9, Reeve the main hoist: Parts of line 5, planned 6." */
+  words: string;
+}
+
+function limitLine(stage: BoardStage, step: BoardStep): OutOfLimitLine | null {
+  const o = step.outOfLimit;
+  if (!o) return null;
+  return { stageId: stage.id, stageOrder: stage.order, stepId: step.id, words: `Stage ${stage.order}, ${step.text.replace(/\.+$/, '')}: ${o.reason.replace(/\.+$/, '')}.` };
+}
+
+/** Every step recorded out of limit on the board, in plan order (the supervisor's list). */
+export function outOfLimitAll(board: Pick<BoardState, 'stages'>): OutOfLimitLine[] {
+  return [...board.stages]
+    .sort((a, b) => a.order - b.order)
+    .flatMap((stage) => stage.steps.map((step) => limitLine(stage, step)).filter((l): l is OutOfLimitLine => l !== null));
+}
+
+/**
+ * The readings out of limit that a stage's hold would let pass: its own steps and those of every
+ * stage it waits for, back to (not past) a hold already released, which covered them.
+ */
+export function outOfLimitBefore(board: Pick<BoardState, 'stages'>, stage: BoardStage): OutOfLimitLine[] {
+  const byId = new Map(board.stages.map((s) => [s.id, s]));
+  const seen = new Set<string>();
+  const queue = [stage.id];
+  while (queue.length) {
+    const id = queue.shift()!;
+    if (seen.has(id)) continue;
+    seen.add(id);
+    const s = byId.get(id);
+    if (!s) continue;
+    for (const dep of s.dependsOn) {
+      const d = byId.get(dep);
+      if (d && d.hold?.state !== 'released') queue.push(dep);
+    }
+  }
+  return outOfLimitAll(board).filter((l) => seen.has(l.stageId));
+}

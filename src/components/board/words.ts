@@ -48,6 +48,45 @@ export const SIGNAL_RULE = 'Move only on the signaller’s signal.';
 /** What every stop control says, so nobody takes it for the crane's stop. */
 export const STOP_RULE = 'Stop by radio and signal first. This records an all stop and alerts the crew; it does not stop the crane.';
 
+/** The mark on a step whose reading is outside its limit or differs from the plan. */
+export const OUT_OF_LIMIT = 'Out of limit';
+
+/** Words of the press-and-hold buttons that let work go on (release, resume). */
+export const HOLD_WORDS = {
+  howLong: 'Press and hold 1.5 s',
+  keyboard: '(or hold Space)',
+  keepHolding: 'Keep holding…',
+  sending: 'Sending…',
+  release: 'Hold to release',
+  resume: 'Hold to resume the job',
+} as const;
+
+/** Why a control cannot act now, said beside it (never a blue button that fails on tap). */
+export const BLOCKED_WORDS = {
+  notLive: 'The board is not live: wait for it to reconnect.',
+  stopped: 'Job stopped: wait for the supervisor’s resume.',
+} as const;
+
+/**
+ * Joins sentences, each ending with exactly one full stop: text from the plan or typed by a person
+ * may already end with one, and a doubled stop reads as a typo in the record.
+ */
+export function sentences(...parts: (string | null | undefined | false)[]): string {
+  return parts
+    .map((p) => (p || '').trim())
+    .filter(Boolean)
+    .map((p) => (/[.!?…]$/.test(p) ? p : `${p}.`))
+    .join(' ');
+}
+
+/** Text without its closing full stop, for putting inside a longer sentence. */
+export function clause(text: string | null | undefined): string {
+  return (text ?? '').trim().replace(/\.+$/, '');
+}
+
+/** The same rule in one line, for the fixed bar on a phone (the full rule is read out to screen readers). */
+export const STOP_RULE_SHORT = 'Radio and signal first: this does not stop the crane.';
+
 /** A value-check field in words. */
 export function fieldLabel(field: ValueCheckField): string {
   return valueCheckFieldLabels[field];
