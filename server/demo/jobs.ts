@@ -21,14 +21,14 @@ export interface DemoPeople {
 const ground = (kpa: number, reference: string): Configuration['ground'] => ({
   groundType: 'medium dense sand and gravel',
   allowablePressureKpa: kpa,
-  source: { kind: 'ground_investigation', reference },
+  source: { kind: 'ground_investigation', reference, designer: '' },
 });
 
 function liftConfiguration(fleet: DemoFleet): Configuration {
   return {
     craneUnitId: fleet.unitId,
     boomLengthM: 60,
-    mainHook: { hookBlockId: 'HB120', parts: 6 },
+    mainHook: { hookBlockId: 'HB120', parts: 6, lowestHookPositionM: 0 },
     auxiliary: { enabled: false, hookBlockId: null },
     heaviestLoad: { description: 'Transformer T2 (45 t) on its lifting beam', loadT: 45, riggingT: 1.6, radiusM: 14 },
     ground: ground(300, 'Harrowmere GI report GI-0142 rev B'),
@@ -43,9 +43,14 @@ function liftConfiguration(fleet: DemoFleet): Configuration {
       ],
     },
     siteHazards: {
-      powerLines: [{ label: '11 kV overhead line, east boundary', voltageKv: 11, distanceM: 82 }],
+      // The assist crane works on the boom laydown, west of the crane: 48 m from the line.
+      powerLines: [
+        { label: '11 kV overhead line, east boundary', voltageKv: 11, distanceM: 82, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: 48 },
+      ],
       buriedServices: 'Earthing grid and cable trench along the north fence: mats bridge the trench, no outrigger or track on its cover slabs.',
       neighbours: 'Public footpath 40 m west: marshal closes it while the boom is raised or lowered.',
+      loadAndTagLineAllowanceM: 3,
+      swayAllowanceM: 2,
     },
     fallZoneMarginM: 5,
   };
@@ -111,19 +116,21 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
     ...liftConfiguration(fleet),
     craneUnitId: fleet.secondUnitId,
     boomLengthM: 21,
-    mainHook: { hookBlockId: 'HB45', parts: 4 },
+    mainHook: { hookBlockId: 'HB45', parts: 4, lowestHookPositionM: 0 },
     heaviestLoad: { description: 'Test weights, 12 t', loadT: 12, riggingT: 0.4, radiusM: 9 },
     ground: ground(250, 'Depot slab design note DS-7'),
     mats: { ...liftConfiguration(fleet).mats, used: false },
     assist: { assistCraneId: null, chartId: null, lifts: [] },
-    siteHazards: { powerLines: [], buriedServices: 'None in yard 2.', neighbours: 'Workshop doors kept shut during the raise.' },
+    siteHazards: { ...liftConfiguration(fleet).siteHazards, powerLines: [], buriedServices: 'None in yard 2.', neighbours: 'Workshop doors kept shut during the raise.' },
   });
   await makeReady(past, p.supervisor, trialId);
   const trialCrew = { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger };
   const trialDriver = new DemoBoardDriver(past, trialId, trialCrew);
   await trialDriver.send(p.supervisor, { type: 'job.start' });
   for (const who of [p.supervisor, p.operator, p.signaller, p.rigger, p.rigger2]) await trialDriver.send(who, { type: 'briefing.acknowledge' });
-  await trialDriver.send(p.rigger, { type: 'weather.record', meanMs: 4, gustMs: 7 });
+  await trialDriver.send(p.rigger, { type: 'weather.record', meanMs: 4, gustMs: 7, heightM: 10 });
+  // The rigger reads the wind again before the boom leaves the ground (a raise needs a fresh reading).
+  trialDriver.weatherBy(p.rigger, { meanMs: 4.2, gustMs: 6.8, heightM: 10 });
   await trialDriver.runUntil();
   await trialDriver.send(p.supervisor, { type: 'job.complete' });
 
@@ -139,12 +146,12 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   const driver = new DemoBoardDriver(morning, liftId, liftCrew);
   await driver.send(p.supervisor, { type: 'job.start' });
   for (const who of [p.supervisor, p.supervisor2, p.operator, p.signaller, p.rigger, p.rigger2]) await driver.send(who, { type: 'briefing.acknowledge' });
-  await driver.send(p.signaller, { type: 'weather.record', meanMs: 5, gustMs: 8 });
+  await driver.send(p.signaller, { type: 'weather.record', meanMs: 5, gustMs: 8, heightM: 10 });
   await driver.runUntil('er-tension');
   await driver.completeSteps('er-tension');
   await driver.acknowledge('er-tension', ['operator']);
   // Fresh readings for the crew arriving now (a resume or a raise needs one from the last 15 minutes).
-  await new DemoBoardDriver(context, liftId, liftCrew).send(p.signaller, { type: 'weather.record', meanMs: 4, gustMs: 7 });
+  await new DemoBoardDriver(context, liftId, liftCrew).send(p.signaller, { type: 'weather.record', meanMs: 4, gustMs: 7, heightM: 10 });
 
   // The dismantling after the lift, being planned.
   const dismantle = await createJob(context, p.supervisor2, { name: 'Transformer T2 lift: boom dismantling', site: 'Harrowmere substation', craneUnitId: fleet.unitId, kind: 'dismantling' });

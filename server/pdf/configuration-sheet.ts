@@ -36,7 +36,18 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
     ['Ground', `${c.ground.groundType || 'type not given'}, allowable ${c.ground.allowablePressureKpa} kPa — source: ${groundSourceLabels[c.ground.source.kind]}${c.ground.source.reference ? ` (${c.ground.source.reference})` : ''}`],
     ['Mats', c.mats.used ? `${c.mats.lengthM} × ${c.mats.widthM} × ${c.mats.thicknessM} m, ${c.mats.weightKg} kg each` : 'none'],
     ['Assist crane lifts', c.assist.lifts.length ? c.assist.lifts.map((l) => `${l.label} ${l.liftT} t + ${l.riggingT} t at ${l.radiusM} m`).join('; ') : 'none'],
-    ['Power lines', c.siteHazards.powerLines.length ? c.siteHazards.powerLines.map((p) => `${p.label}: ${p.voltageKv} kV at ${p.distanceM} m`).join('; ') : 'none recorded'],
+    [
+      'Power lines',
+      c.siteHazards.powerLines.length
+        ? c.siteHazards.powerLines
+            .map(
+              (p) =>
+                `${p.label}: ${p.voltageKv === null ? 'voltage unknown' : `${p.voltageKv} kV${p.voltageConfirmedByOwner ? ' (confirmed by the owner)' : ''}`} at ${p.distanceM} m` +
+                `${p.encroachmentPreventionInPlace ? ', encroachment prevention in place' : ''}${p.assistDistanceM === null ? '' : `, assist crane ${p.assistDistanceM} m from it`}`,
+            )
+            .join('; ') + `. Allowances: hook, load and tag lines ${c.siteHazards.loadAndTagLineAllowanceM} m, sway ${c.siteHazards.swayAllowanceM} m`
+        : 'none recorded',
+    ],
     ['Buried services', c.siteHazards.buriedServices || 'none recorded'],
     ['Neighbours', c.siteHazards.neighbours || 'none recorded'],
   ]);
@@ -81,7 +92,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
   const gaugeM = results.makeup.arrangement?.raising.trackGaugeM ?? arrangement.tracks.gaugeOptionsM[0];
   drawings.push({
     title: 'Site plan: fall zone and power lines',
-    svg: sitePlanSvg({ boomLengthM: c.boomLengthM, fallZoneRadiusM: results.fallZoneRadiusM, powerLines: results.powerLines, trackLengthM: arrangement.tracks.lengthM, gaugeM, trackWidthM: arrangement.tracks.shoeWidthM }),
+    svg: sitePlanSvg({ boomLengthM: c.boomLengthM, fallZoneRadiusM: results.fallZoneRadiusM, reachM: results.powerLines[0]?.reachM, powerLines: results.powerLines, trackLengthM: arrangement.tracks.lengthM, gaugeM, trackWidthM: arrangement.tracks.shoeWidthM }),
   });
   for (const drawn of drawings) {
     pdf.heading(drawn.title);

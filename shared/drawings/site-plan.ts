@@ -15,6 +15,11 @@ import { escapeXml } from './boom-makeup';
 export interface SitePlanInput {
   boomLengthM: number;
   fallZoneRadiusM: number;
+  /**
+   * The crane's reach toward the power lines (boom foot, boom, auxiliary sheave, hook, load, tag
+   * lines and sway); without it the boom length is drawn as the reach.
+   */
+  reachM?: number;
   powerLines: readonly PowerLineResult[];
   trackLengthM: number;
   /** Track gauge, centre to centre. */
@@ -114,25 +119,27 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const size = options.sizePx ?? 640;
   if (!Number.isFinite(size) || size < 320) throw new CalcInputError('sizePx', `must be at least 320, got ${String(size)}`);
   const boomM = positive('boomLengthM', input.boomLengthM);
+  const reachM = input.reachM === undefined ? boomM : positive('reachM', input.reachM);
+  const reachWords = input.reachM === undefined ? 'Boom' : 'Reach';
   const fallM = positive('fallZoneRadiusM', input.fallZoneRadiusM);
   const trackM = positive('trackLengthM', input.trackLengthM);
   const gaugeM = positive('gaugeM', input.gaugeM);
   const shoeM = input.trackWidthM === undefined ? gaugeM / 6 : positive('trackWidthM', input.trackWidthM);
   input.powerLines.forEach((l, i) => {
     positive(`powerLines.${i}.distanceM`, l.distanceM);
-    positive(`powerLines.${i}.voltageKv`, l.voltageKv);
+    if (l.voltageKv !== null) positive(`powerLines.${i}.voltageKv`, l.voltageKv);
     if (l.requiredClearanceM !== null) positive(`powerLines.${i}.requiredClearanceM`, l.requiredClearanceM);
     if (!Number.isFinite(l.availableClearanceM)) throw new CalcInputError(`powerLines.${i}.availableClearanceM`, 'must be a finite number');
   });
 
-  const extentM = Math.max(fallM, boomM, trackM / 2 + gaugeM, ...input.powerLines.map((l) => l.distanceM)) * 1.12;
+  const extentM = Math.max(fallM, reachM, trackM / 2 + gaugeM, ...input.powerLines.map((l) => l.distanceM)) * 1.12;
   const header = 64;
-  const footer = 60 + input.powerLines.length * 18;
+  const footer = 60 + input.powerLines.length * 36;
   const height = size + header + footer;
   const cx = size / 2;
   const cy = header + size / 2;
   const scale = (size / 2 - 16) / extentM;
-  const title = `Site plan: boom ${boomM} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
+  const title = `Site plan: boom ${boomM} m, reach ${reachM.toFixed(1)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
 
   const out: string[] = [];
 
@@ -140,12 +147,12 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   out.push(
     `<circle cx="${px(cx)}" cy="${px(cy)}" r="${px(fallM * scale)}" fill="${p.fallZoneFill}" stroke="${p.fallZone}" stroke-width="2" stroke-dasharray="10 6" data-fall-zone-m="${px(fallM)}"/>`,
   );
-  out.push(`<circle cx="${px(cx)}" cy="${px(cy)}" r="${px(boomM * scale)}" fill="none" stroke="${p.reach}" stroke-width="1.5" data-boom-length-m="${px(boomM)}"/>`);
+  out.push(`<circle cx="${px(cx)}" cy="${px(cy)}" r="${px(reachM * scale)}" fill="none" stroke="${p.reach}" stroke-width="2" data-reach-m="${px(reachM)}" data-boom-length-m="${px(boomM)}"/>`);
   // Labels on the lower-left diagonal, where the lines are spread last.
   const diag = Math.SQRT1_2;
   const labels: string[] = [
     plate(cx - fallM * scale * diag, cy + fallM * scale * diag + 4, `Fall zone ${fallM.toFixed(1)} m`, 12, p.background, `font-weight="700" fill="${p.fallZone}"`),
-    plate(cx - boomM * scale * diag, cy + boomM * scale * diag - 14, `Boom ${boomM.toFixed(1)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
+    plate(cx - reachM * scale * diag, cy + reachM * scale * diag - 14, `${reachWords} ${reachM.toFixed(1)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
   ];
 
   // Tracks: two rectangles either side of the centre, to scale.
@@ -190,7 +197,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
     out.push(`<line x1="${px(cx)}" y1="${px(cy)}" x2="${px(lx)}" y2="${px(ly)}" stroke="${p.muted}" stroke-width="1" stroke-dasharray="3 3"/>`);
     const tagX = Math.min(Math.max(lx + ux * 30, 40), size - 40);
     const tagY = Math.min(Math.max(ly + uy * 14 + 4, header + 12), header + size - 4);
-    labels.push(plate(tagX, tagY, `${i + 1}: ${l.voltageKv} kV`, 13, p.background, `font-weight="700" fill="${p.line}"`));
+    labels.push(plate(tagX, tagY, `${i + 1}: ${l.voltageKv === null ? '? kV' : `${l.voltageKv} kV`}`, 13, p.background, `font-weight="700" fill="${p.line}"`));
   });
   out.push(...labels);
   // The long power lines run past the plan; the header and footer are painted over them.
@@ -209,11 +216,17 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   out.push(text(24 + barPx, fy + 27, `${barM} m`, `font-size="12" font-weight="700" fill="${p.ink}"`));
   out.push(text(size - 16, fy + 27, `tracks ${trackM} m long, gauge ${gaugeM} m`, `font-size="12" text-anchor="end" fill="${p.muted}"`));
   input.powerLines.forEach((l, i) => {
-    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${l.requiredClearanceM.toFixed(2)} m`;
-    const words = `${i + 1}. ${l.label}: ${l.voltageKv} kV, ${l.distanceM} m away, ${req}, ${l.availableClearanceM.toFixed(1)} m available`;
-    const y = fy + 50 + i * 18;
-    out.push(text(16, y, `${l.pass ? 'CLEAR' : 'TOO CLOSE'}`, `font-size="12" font-weight="700" fill="${l.pass ? p.pass : p.stop}"`));
-    out.push(text(100, y, words, `font-size="12" fill="${p.ink}"`));
+    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${l.requiredClearanceM.toFixed(2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
+    const volts = l.voltageKv === null ? 'voltage unknown' : `${l.voltageKv} kV`;
+    // Rounded down: the drawing never shows more room than there is.
+    const down = (m: number) => (Math.floor(m * 10) / 10).toFixed(1);
+    // Results stored before the assist crane was checked have no `assist`: read as not planned.
+    const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${down(l.assist.availableClearanceM)} m available`}`;
+    const clear = l.pass && (!l.assist || l.assist.pass);
+    const y = fy + 50 + i * 36;
+    out.push(text(16, y, `${clear ? 'CLEAR' : 'TOO CLOSE'}`, `font-size="12" font-weight="700" fill="${clear ? p.pass : p.stop}"`));
+    out.push(text(100, y, `${i + 1}. ${l.label}: ${volts}, ${l.distanceM} m away`, `font-size="12" fill="${p.ink}"`));
+    out.push(text(100, y + 16, `${req}, ${down(l.availableClearanceM)} m available${assist}`, `font-size="12" fill="${p.ink}"`));
   });
 
   return (

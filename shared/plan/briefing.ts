@@ -5,7 +5,7 @@
  */
 import type { Briefing, PlanStage } from '../schemas/plan.js';
 import { qualificationLabels } from '../schemas/users.js';
-import { listWords, num, tonnes } from './format.js';
+import { listWords, num, tidy, tonnes } from './format.js';
 import { commsWords } from './comms.js';
 import type { GeneratePlanInput } from './generate.js';
 
@@ -36,9 +36,11 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
 
   const job: string[] = [];
   const sectionList = makeup.sections.map((s) => s.typeId).join(', ');
+  // The boom foot pins are the crane data's pins at the foot of the base section (as in the plan).
+  const footPins = makeup.sections[0] ? (arrangement.sectionTypes.find((t) => t.id === makeup.sections[0].typeId)?.pinsPerJoint ?? 0) : 0;
   job.push(
     `${jobWord} of a ${num(cfg.boomLengthM)} m boom${sectionList ? `: ${sectionList}, foot to tip` : ''}. ` +
-      `${makeup.pinCount.total} connecting pins: ${makeup.pinCount.jointPins} in ${Math.max(makeup.sections.length - 1, 0)} joints and ${makeup.pinCount.guyLinePins} in ${makeup.totalGuyLineCount} guy lines.`,
+      `${footPins + makeup.pinCount.total} connecting pins: ${footPins} at the boom foot, ${makeup.pinCount.jointPins} in ${Math.max(makeup.sections.length - 1, 0)} joints and ${makeup.pinCount.guyLinePins} in ${makeup.totalGuyLineCount} guy lines.`,
   );
   if (!makeup.buildable && makeup.reasons.length > 0) job.push(`This boom cannot be built as planned: ${makeup.reasons.join('; ')}.`);
   job.push(`Main hook: ${cfg.mainHook.hookBlockId} on ${cfg.mainHook.parts} parts of line.`);
@@ -67,8 +69,8 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   cfg.siteHazards.powerLines.forEach((line, i) => {
     const r = results.powerLines[i];
     const required = r && r.requiredClearanceM !== null ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m` : 'to be given by the line’s owner';
-    const left = r ? ` ${num(Math.round(r.availableClearanceM * 10) / 10)} m left between the line and the boom’s farthest reach.` : '';
-    hazards.push(`Overhead line “${line.label}”, ${num(line.voltageKv)} kV, ${num(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}`);
+    const left = r ? ` ${num(Math.floor(r.availableClearanceM * 10) / 10)} m left between the line and the farthest reach of the boom, hook and load.` : '';
+    hazards.push(`Overhead line “${line.label}”, ${line.voltageKv === null ? 'voltage unknown' : `${num(line.voltageKv)} kV`}, ${num(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}`);
   });
   hazards.push(`Exclusion zone: ${num(Math.ceil(results.fallZoneRadiusM * 10) / 10)} m around the slewing centre, the fall zone of the boom. Only the crew inside.`);
   hazards.push(`Buried services: ${cfg.siteHazards.buriedServices.trim() || 'none recorded; confirm with the site'}.`);
@@ -107,11 +109,12 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
 
   return {
     title: `Toolbox talk: ${jobWord.toLowerCase()} of a ${num(cfg.boomLengthM)} m boom`,
+    // Items built from what people typed may end their own sentence: no doubled full stops.
     sections: [
-      { heading: 'The job', items: job },
-      { heading: 'Hazards', items: hazards },
-      { heading: 'Hold points, in order', items: holds },
-      { heading: 'Communications', items: comms },
+      { heading: 'The job', items: job.map(tidy) },
+      { heading: 'Hazards', items: hazards.map(tidy) },
+      { heading: 'Hold points, in order', items: holds.map(tidy) },
+      { heading: 'Communications', items: comms.map(tidy) },
       { heading: 'Stop rules', items: STOP_RULES },
       { heading: 'Safety notice', items: SAFETY_NOTICE },
     ],

@@ -6,6 +6,10 @@
  * Deterministic, with ids that name the thing rather than its place in a list ("er-joints.joint-3",
  * "er-guys.line-G12-4"), because a later plan version keeps the progress of every step whose id it
  * still has.
+ *
+ * Every reading a template declares is given what it is held to (`records.check`): the figure from
+ * the configuration or the crane data, a limit, or the wind phase. Steps the template marks
+ * required keep `required: true`, and in-stage order becomes `after` with full step ids.
  */
 import type { BoomPosition } from '../calc/boom.js';
 import type { ConfigurationResults } from '../planner/types.js';
@@ -16,7 +20,7 @@ import type { Plan, PlanHold, PlanStage, PlanStep, StepRecord } from '../schemas
 import { buildBriefing } from './briefing.js';
 import { commsWords } from './comms.js';
 import { fill, idPart, num, plural, tonnes, type Vars } from './format.js';
-import { assistLiftFails, assistStage, commsSteps, powerLineTooClose, radioCheckStep, siteSteps } from './templates/common.js';
+import { assistLiftFails, assistLiftsStage, assistStage, commsSteps, powerLineTooClose, radioCheckStep, siteSteps } from './templates/common.js';
 import { dismantlingStages } from './templates/dismantling.js';
 import { erectionStages } from './templates/erection.js';
 import type { StageWording, StepWording } from './templates/types.js';
@@ -61,9 +65,25 @@ function uniqueId(ctx: Context, wanted: string): string {
   return id;
 }
 
-function makeStep(ctx: Context, id: string, w: StepWording, vars: Vars, extra: { caution?: string | null; record?: Partial<StepRecord> } = {}): PlanStep {
+/** What a step gets beyond its wording: a caution, record fields, its check, and more step suffixes it comes after. */
+interface StepExtra {
+  caution?: string | null;
+  record?: Partial<Omit<StepRecord, 'check'>>;
+  /** What the reading is held to; required exactly when the wording declares a check kind. */
+  check?: NonNullable<StepRecord['check']>;
+  /** Suffixes of steps of the same stage, added to the wording's own `after`. */
+  after?: readonly string[];
+}
+
+function makeStep(ctx: Context, id: string, w: StepWording, vars: Vars, extra: StepExtra, after: string[]): PlanStep {
   let records: StepRecord | null = null;
   if (w.record) {
+    const declared = w.record.check;
+    if (declared !== null && extra.check?.kind !== declared) {
+      // A template reading without its figure would be recorded and never compared: a generator bug.
+      throw new Error(`plan wording: step ${id} declares a ${declared} check and the generator gave ${extra.check?.kind ?? 'none'}`);
+    }
+    if (declared === null && extra.check) throw new Error(`plan wording: step ${id} declares no check and the generator gave one`);
     records = {
       kind: w.record.kind,
       label: w.record.label,
@@ -72,6 +92,7 @@ function makeStep(ctx: Context, id: string, w: StepWording, vars: Vars, extra: {
       typeId: null,
       plannedSerial: null,
       ...extra.record,
+      check: declared === null ? null : (extra.check ?? null),
     };
   }
   const caution = extra.caution !== undefined ? extra.caution : w.caution !== undefined ? fill(w.caution, vars) : null;
@@ -82,7 +103,14 @@ function makeStep(ctx: Context, id: string, w: StepWording, vars: Vars, extra: {
     requiresPhoto: w.photo === true,
     records,
     caution,
+    required: w.required === true,
+    after,
   };
+}
+
+/** A check against the plan's own figure: counts are exact, so no tolerance. */
+function planCheck(planned: number, source: string): NonNullable<StepRecord['check']> {
+  return { kind: 'plan', planned, tolerance: 0, source };
 }
 
 /** A stage being assembled: a crane-movement stage always opens with the radio check. */
@@ -103,9 +131,16 @@ class StageDraft {
     if (movement) this.add('radio-check', radioCheckStep);
   }
 
-  /** Adds one step; its id is the stage id and the suffix. */
-  add(suffix: string, w: StepWording, vars: Vars = {}, extra: { caution?: string | null; record?: Partial<StepRecord> } = {}): this {
-    this.steps.push(makeStep(this.ctx, `${this.id}.${suffix}`, w, { ...this.vars, ...vars }, extra));
+  /**
+   * Adds one step; its id is the stage id and the suffix. Its `after` holds the steps already in
+   * this stage that the wording or `extra.after` name; a name the stage does not have (an optional
+   * step left out for this configuration) is dropped.
+   */
+  add(suffix: string, w: StepWording, vars: Vars = {}, extra: StepExtra = {}): this {
+    const wanted = [...(w.after ?? []), ...(extra.after ?? [])].map((s) => `${this.id}.${s}`);
+    const present = new Set(this.steps.map((s) => s.id));
+    const after = [...new Set(wanted)].filter((id) => present.has(id));
+    this.steps.push(makeStep(this.ctx, `${this.id}.${suffix}`, w, { ...this.vars, ...vars }, extra, after));
     return this;
   }
 
@@ -138,13 +173,15 @@ class StageDraft {
 // ---------------------------------------------------------------------------------------------
 // Shared pieces
 
-function windSteps(draft: StageDraft, ctx: Context, which: 'assembly' | 'raising', phase: string): void {
+/** The wind step: its gust is held to the job's limit for `which` by the board's one wind rule. */
+function windSteps(draft: StageDraft, ctx: Context, which: 'assembly' | 'raising', phase: string, extra: StepExtra = {}): void {
   const limits = ctx.results.windLimits;
+  const check = { kind: 'wind', phase: which } as const;
   if (limits) {
     const l = limits[which];
-    draft.add('wind', siteSteps.wind, { phase, gustMs: l.gustMs, meanMs: l.meanMs });
+    draft.add('wind', siteSteps.wind, { phase, gustMs: l.gustMs, meanMs: l.meanMs }, { ...extra, check });
   } else {
-    draft.add('wind', siteSteps.windUnknown);
+    draft.add('wind', siteSteps.windUnknown, {}, { ...extra, check });
   }
 }
 
@@ -156,11 +193,11 @@ function siteHazardSteps(draft: StageDraft, ctx: Context): void {
     const clearance = r && r.requiredClearanceM !== null
       ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m`
       : 'not in the table for this voltage: get the distance from the line’s owner';
-    const tooClose = r ? !r.pass : true;
+    const tooClose = r ? !r.pass || r.assist?.pass === false : true;
     draft.add(
       `power-line-${i + 1}`,
       siteSteps.powerLine,
-      { label: line.label, voltageKv: line.voltageKv, distanceM: line.distanceM, clearance },
+      { label: line.label, voltageKv: line.voltageKv ?? 'unknown', distanceM: line.distanceM, clearance },
       tooClose ? { caution: powerLineTooClose } : {},
     );
   });
@@ -187,20 +224,27 @@ function hasAssist(cfg: Configuration): boolean {
   return cfg.assist.assistCraneId !== null || cfg.assist.lifts.length > 0;
 }
 
+/** The assist crane's set-up stage, ending in its mandatory hold. */
 function assistStageFor(ctx: Context, id: string, dependsOn: string[]): PlanStage {
-  const draft = new StageDraft(ctx, id, assistStage, {});
-  draft.add('set-up', assistStage.steps.setUp, { chartId: ctx.cfg.assist.chartId ?? 'not chosen yet' });
+  const draft = new StageDraft(ctx, id, assistStage, { chartId: ctx.cfg.assist.chartId ?? 'not chosen yet' });
+  const t = assistStage.steps;
+  draft.add('set-up', t.setUp).add('ground', t.ground).add('limiter', t.limiter);
+  return draft.build(dependsOn);
+}
+
+/** The assist crane's lifts: each lift's check just before it, and the lifts in the planned order. */
+function assistLiftsStageFor(ctx: Context, id: string, dependsOn: string[]): PlanStage {
+  const draft = new StageDraft(ctx, id, assistLiftsStage, {});
+  const t = assistLiftsStage.steps;
   ctx.cfg.assist.lifts.forEach((lift, i) => {
     const r = ctx.results.assistLifts[i];
     const share = r && r.sharePercent !== null && r.chartRadiusM !== null
       ? `${num(Math.round(r.sharePercent * 10) / 10)} % of the chart capacity read at ${num(r.chartRadiusM)} m`
       : 'no chart capacity found for it';
-    draft.add(
-      `lift-${i + 1}`,
-      assistStage.steps.lift,
-      { n: i + 1, label: lift.label, totalT: num(lift.liftT + lift.riggingT), radiusM: lift.radiusM, share },
-      r && !r.pass ? { caution: fill(assistLiftFails, { reason: r.reason }) } : r ? {} : { caution: fill(assistLiftFails, { reason: 'not computed' }) },
-    );
+    const vars = { n: i + 1, label: lift.label, totalT: num(lift.liftT + lift.riggingT), radiusM: lift.radiusM, share };
+    const fails = r && !r.pass ? fill(assistLiftFails, { reason: r.reason }) : r ? null : fill(assistLiftFails, { reason: 'not computed' });
+    draft.add(`check-${i + 1}`, t.check, vars, { ...(fails ? { caution: fails } : {}), after: i > 0 ? [`lift-${i}`] : [] });
+    draft.add(`lift-${i + 1}`, t.lift, vars, { ...(fails ? { caution: fails } : {}), after: [`check-${i + 1}`] });
   });
   return draft.build(dependsOn);
 }
@@ -262,6 +306,20 @@ function raisingBlocks(ctx: Context): { id: string; weightKg: number; cumulative
   return out;
 }
 
+/**
+ * The boom foot pins: the crane data's pins in the joint at the foot of the base section, which for
+ * the base is the joint with the upper works. Zero when the boom is not listed.
+ */
+function footPins(ctx: Context): number {
+  const base = ctx.sections[0];
+  return base ? (ctx.pinsPerJoint.get(base.typeId) ?? 0) : 0;
+}
+
+/** Every pin of the plan: boom foot, joints and guy lines. */
+function allPins(ctx: Context): number {
+  return footPins(ctx) + ctx.results.makeup.pinCount.total;
+}
+
 function createContext(input: GeneratePlanInput): Context {
   const words = commsWords(input.configuration, input.commsPlan, input.crewNames);
   const listed = input.results.makeup.arrangement;
@@ -293,6 +351,10 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   const listed = results.makeup.arrangement;
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
+  const aux = cfg.auxiliary.enabled;
+  const boomWords = `a ${num(cfg.boomLengthM)} m boom`;
+  const blocks = raisingBlocks(ctx);
+  const raisingT = listed ? Number(tonnes(listed.raising.counterweightKg)) : null;
 
   const ground = new StageDraft(ctx, t.ground.id, t.ground, {});
   siteHazardSteps(ground, ctx);
@@ -315,24 +377,51 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   commsStepsInto(ground, ctx);
   stages.push(ground.build([]));
 
-  if (assist) stages.push(assistStageFor(ctx, 'er-assist', [ground.id]));
+  // The assist crane's set-up hold gates everything it lifts: the component check and lay-down,
+  // and through them the boom. Its lifts run beside the assembly, each checked just before it.
+  if (assist) {
+    stages.push(assistStageFor(ctx, 'er-assist', [ground.id]));
+    if (cfg.assist.lifts.length > 0) stages.push(assistLiftsStageFor(ctx, 'er-assist-lifts', ['er-assist']));
+  }
+  const assistLifts = assist && cfg.assist.lifts.length > 0;
 
   const upper = new StageDraft(ctx, t.upper.id, t.upper, {});
-  if (listed) upper.add('level', t.upper.steps.level, { slopePercent: listed.raising.limits.maxGroundSlopePercent });
+  if (listed) {
+    const slope = listed.raising.limits.maxGroundSlopePercent;
+    upper.add('level', t.upper.steps.level, { slopePercent: slope }, { check: { kind: 'max', limit: slope, source: `crane data: ground slope limit for raising ${boomWords}` } });
+  }
   upper.add('gauge', t.upper.steps.gauge);
-  const blocks = raisingBlocks(ctx);
+  const mast = ctx.input.arrangement.machine.mast;
+  upper.add('mast', t.upper.steps.mast, { mastWeight: mast ? `; the mast weighs ${tonnes(mast.weightKg)} t in the crane data` : '' });
   blocks.forEach((b, i) =>
-    upper.add(`cw-${idPart(b.id)}`, t.upper.steps.block, { blockId: b.id, weightT: tonnes(b.weightKg), n: i + 1, count: blocks.length, cumulativeT: tonnes(b.cumulativeKg) }),
+    upper.add(
+      `cw-${idPart(b.id)}`,
+      t.upper.steps.block,
+      { blockId: b.id, weightT: tonnes(b.weightKg), n: i + 1, count: blocks.length, cumulativeT: tonnes(b.cumulativeKg), raisingT: raisingT ?? 0 },
+      { after: i > 0 ? [`cw-${idPart(blocks[i - 1].id)}`] : [] },
+    ),
   );
+  if (raisingT !== null && blocks.length > 0) {
+    upper.add('cw-count', t.upper.steps.cwCount, { count: blocks.length }, {
+      check: planCheck(raisingT, `crane data: counterweight to raise ${boomWords}, ${blocks.length} blocks in the fitting order`),
+      after: blocks.map((b) => `cw-${idPart(b.id)}`),
+    });
+  }
   upper.add('limiter-mode', t.upper.steps.limiterMode);
   stages.push(upper.build([ground.id]));
 
+  const pinCounts = results.makeup.pinCount;
+  const foot = footPins(ctx);
   const check = new StageDraft(ctx, t.check.id, t.check, {});
   check.add('sections', t.check.steps.sections);
-  check.add('pins', t.check.steps.pins, { pinCount: results.makeup.pinCount.total });
+  check.add('pins', t.check.steps.pins, { pinCount: allPins(ctx), footPins: foot, jointPins: pinCounts.jointPins, guyPins: pinCounts.guyLinePins });
   check.add('guy-lines', t.check.steps.guyLines, { lineCount: results.makeup.totalGuyLineCount });
+  check.add('ropes', t.check.steps.ropes, { auxRope: aux ? ', and the auxiliary hoist' : '' });
+  check.add('wedge-sockets', t.check.steps.wedgeSockets);
+  check.add('sheaves', t.check.steps.sheaves);
+  check.add('over-hoist', t.check.steps.overHoist, { auxSwitch: aux ? ', and the auxiliary one' : '' });
   check.add('hook-block', t.check.steps.hookBlock, {}, { record: { componentKind: 'hook_block', typeId: cfg.mainHook.hookBlockId } });
-  if (cfg.auxiliary.enabled && cfg.auxiliary.hookBlockId) {
+  if (aux && cfg.auxiliary.hookBlockId) {
     check.add('aux-hook', t.check.steps.auxHook, { hookBlockId: cfg.auxiliary.hookBlockId }, { record: { componentKind: 'hook_block', typeId: cfg.auxiliary.hookBlockId } });
   }
   for (const s of ctx.sections) {
@@ -346,27 +435,54 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   stages.push(check.build(assist ? [ground.id, 'er-assist'] : [ground.id]));
 
   const js = joints(ctx);
-  const jointStage = new StageDraft(ctx, t.joints.id, t.joints, { jointCount: js.length, jointPins: results.makeup.pinCount.jointPins });
+  const jointStage = new StageDraft(ctx, t.joints.id, t.joints, {
+    jointCount: js.length,
+    footPins: plural(foot, 'pin'),
+    jointPinsWords: plural(pinCounts.jointPins, 'pin'),
+    allPins: plural(foot + pinCounts.jointPins, 'pin'),
+  });
   jointStage.add('slings', t.joints.steps.slings);
+  const base = ctx.sections[0];
+  if (base) {
+    jointStage.add('foot', t.joints.steps.foot, { typeId: base.typeId, pins: plural(foot, 'pin') }, {
+      check: planCheck(foot, `crane data: ${plural(foot, 'pin')} at the foot of the ${base.typeId} section, the boom foot`),
+    });
+    jointStage.add('backstops', t.joints.steps.backstops);
+  }
   for (const j of js) {
-    jointStage.add(`joint-${j.n}`, t.joints.steps.joint, { n: j.n, below: sectionLabel(j.below), above: sectionLabel(j.above), pins: plural(j.pins, 'pin') });
+    jointStage.add(`joint-${j.n}`, t.joints.steps.joint, { n: j.n, below: sectionLabel(j.below), above: sectionLabel(j.above), pins: plural(j.pins, 'pin') }, {
+      check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} in the joint at the foot of a ${j.above.typeId} section`),
+    });
   }
   stages.push(jointStage.build([upper.id, check.id]));
 
   const lines = guyLineUnits(ctx);
-  const guys = new StageDraft(ctx, t.guys.id, t.guys, { guyPins: results.makeup.pinCount.guyLinePins, lineCount: lines.length });
+  // Laying out needs only the component check, so it may run while the sections are pinned.
+  const layout = new StageDraft(ctx, t.guyLayout.id, t.guyLayout, {});
   for (const g of lines) {
-    guys.add(
+    layout.add(
       `line-${idPart(g.mark)}-${g.n}`,
-      t.guys.steps.line,
-      { mark: g.mark, n: g.n, quantity: g.quantity, lengthM: g.lengthM, pins: plural(g.pins, 'pin') },
+      t.guyLayout.steps.line,
+      { mark: g.mark, n: g.n, quantity: g.quantity, lengthM: g.lengthM },
       { record: { componentKind: 'guy_line', typeId: g.mark, plannedSerial: g.plannedSerial } },
     );
   }
-  // Guy lines need only the component check: they are laid out while the sections are pinned.
-  stages.push(guys.build([check.id]));
+  stages.push(layout.build([check.id]));
 
-  const aux = cfg.auxiliary.enabled;
+  const guys = new StageDraft(ctx, t.guys.id, t.guys, { guyPins: plural(pinCounts.guyLinePins, 'pin'), lineCount: lines.length });
+  const lineSuffixes: string[] = [];
+  for (const g of lines) {
+    const suffix = `line-${idPart(g.mark)}-${g.n}`;
+    lineSuffixes.push(suffix);
+    guys.add(suffix, t.guys.steps.line, { mark: g.mark, n: g.n, quantity: g.quantity, pins: plural(g.pins, 'pin') }, {
+      check: planCheck(g.pins, `crane data: guy line ${g.mark}, ${plural(g.pins, 'pin')} each`),
+    });
+  }
+  // The bridle goes on once every line is pinned (`after` allows at most 50 ids; no listed set comes near).
+  guys.add('bridle', t.guys.steps.bridle, {}, { after: lineSuffixes.length <= 50 ? lineSuffixes : [] });
+  // Pinning the guy lines waits for every joint to be pinned and for the lines to be laid out.
+  stages.push(guys.build([jointStage.id, layout.id]));
+
   // The auxiliary sheave is lifted onto the tip, so the tip stage moves a crane only when it is fitted.
   const tip = new StageDraft(ctx, t.tip.id, t.tip, {}, aux);
   tip.add('guides', t.tip.steps.guides);
@@ -374,20 +490,22 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   stages.push(tip.build([jointStage.id]));
 
   const tension = new StageDraft(ctx, t.tension.id, t.tension, {});
-  tension.add('clear', t.tension.steps.clear).add('signaller', t.tension.steps.signaller).add('draw', t.tension.steps.draw).add('look', t.tension.steps.look);
-  // Tensioning needs the whole boom pinned (the tip stage follows the joints) and every guy line on.
+  tension.add('clear', t.tension.steps.clear).add('signaller', t.tension.steps.signaller).add('draw', t.tension.steps.draw).add('lock', t.tension.steps.lock).add('look', t.tension.steps.look);
+  // Tensioning needs the whole boom pinned (the tip stage follows the joints) and every guy line pinned.
   stages.push(tension.build([tip.id, guys.id]));
 
+  // Reeving (main and auxiliary) only after the tensioning hold: never beside it.
   const reeve = new StageDraft(ctx, t.reeve.id, t.reeve, {});
-  reeve.add('block', t.reeve.steps.block).add('pay-out', t.reeve.steps.payOut).add('count', t.reeve.steps.count).add('over-hoist', t.reeve.steps.overHoist).add('socket', t.reeve.steps.socket);
-  // Reeving needs only the tip: it can run beside the tensioning with its own riggers.
-  stages.push(reeve.build([tip.id]));
+  reeve.add('block', t.reeve.steps.block).add('pay-out', t.reeve.steps.payOut);
+  reeve.add('count', t.reeve.steps.count, {}, { check: planCheck(cfg.mainHook.parts, `configuration: hook block ${cfg.mainHook.hookBlockId} on ${cfg.mainHook.parts} parts of line`) });
+  reeve.add('over-hoist', t.reeve.steps.overHoist).add('socket', t.reeve.steps.socket);
+  stages.push(reeve.build([tension.id]));
 
-  const beforeElectrics = [tension.id, reeve.id];
+  const beforeElectrics = [reeve.id];
   if (aux) {
     const auxStage = new StageDraft(ctx, t.aux.id, t.aux, { hookBlockId: cfg.auxiliary.hookBlockId ?? 'the auxiliary hook' });
     auxStage.add('line', t.aux.steps.line).add('limit', t.aux.steps.limit).add('socket', t.aux.steps.socket);
-    stages.push(auxStage.build([tip.id]));
+    stages.push(auxStage.build([tension.id]));
     beforeElectrics.push(auxStage.id);
   }
 
@@ -395,7 +513,12 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   electrics.add('cable', t.electrics.steps.cable).add('limits', t.electrics.steps.limits).add('sensors', t.electrics.steps.sensors).add('anemometer', t.electrics.steps.anemometer);
   stages.push(electrics.build(beforeElectrics));
 
-  const config = new StageDraft(ctx, t.config.id, t.config, { operatingMode: OPERATING_MODE_EXPECTED });
+  const config = new StageDraft(ctx, t.config.id, t.config, { operatingMode: OPERATING_MODE_EXPECTED, count: blocks.length });
+  if (raisingT !== null && blocks.length > 0) {
+    config.add('cw-blocks', t.config.steps.cwBlocks, {}, { check: planCheck(raisingT, `crane data: counterweight to raise ${boomWords}`) });
+  }
+  config.add('parts', t.config.steps.parts, {}, { check: planCheck(cfg.mainHook.parts, `configuration: hook block ${cfg.mainHook.hookBlockId} on ${cfg.mainHook.parts} parts of line`) });
+  config.add('hook-block', t.config.steps.hookBlock, {}, { record: { componentKind: 'hook_block', typeId: cfg.mainHook.hookBlockId } });
   config.add('enter', t.config.steps.enter).add('mode', t.config.steps.mode).add('photo', t.config.steps.photo);
   stages.push(config.build([electrics.id], configurationValueCheck(ctx)));
 
@@ -405,18 +528,31 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   if (results.platesRequired) pre.add('plates', p.plates);
   pre.add('travel', p.travel);
   if (listed?.raising.limits.tipSupportRequired) pre.add('tip-support', p.tipSupport);
-  windSteps(pre, ctx, 'raising', `raising a ${num(cfg.boomLengthM)} m boom`);
+  windSteps(pre, ctx, 'raising', `raising ${boomWords}`);
   stages.push(pre.build([config.id]));
 
-  const raise = new StageDraft(ctx, t.raise.id, t.raise, {});
-  raise.add('raise', t.raise.steps.raise).add('over-hoist', t.raise.steps.overHoist);
+  const block = ctx.input.arrangement.hookBlocks.find((b) => b.id === cfg.mainHook.hookBlockId);
+  const knownLoad = block ? `hook block ${block.id}, ${tonnes(block.weightKg)} t` : 'a weighed load';
+  const raise = new StageDraft(ctx, t.raise.id, t.raise, { knownLoad });
+  raise.add('lift-off', t.raise.steps.liftOff).add('stop-check', t.raise.steps.stopCheck).add('raise', t.raise.steps.raise).add('over-hoist', t.raise.steps.overHoist);
   if (aux) raise.add('aux-over-hoist', t.raise.steps.auxOverHoist);
-  raise.add('boom-limits', t.raise.steps.boomLimits).add('limiter', t.raise.steps.limiter);
+  raise.add('boom-limits', t.raise.steps.boomLimits);
+  if (block) {
+    const blockT = block.weightKg / 1000;
+    // The upper figure in the text is rounded down, so the band it states is never wider than 110 %.
+    const blockMaxT = Math.floor(blockT * 1.1 * 100) / 100;
+    raise.add('limiter', t.raise.steps.limiter, { blockT: tonnes(block.weightKg), blockMaxT }, {
+      check: { kind: 'min', limit: blockT, source: `crane data: hook block ${block.id} weighs ${tonnes(block.weightKg)} t; a load indicator never reads below the load (SAE J159, from memory)` },
+    });
+  } else {
+    raise.add('limiter', t.raise.steps.limiterNoKnownLoad);
+  }
   stages.push(raise.build([pre.id]));
 
   const handover = new StageDraft(ctx, t.handover.id, t.handover, {});
   handover.add('examination', t.handover.steps.examination).add('record', t.handover.steps.record).add('handover', t.handover.steps.handover);
-  stages.push(handover.build([raise.id]));
+  // Every planned assist lift is made before the crane is handed over.
+  stages.push(handover.build(assistLifts ? [raise.id, 'er-assist-lifts'] : [raise.id]));
   return stages;
 }
 
@@ -443,22 +579,35 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
   const listed = results.makeup.arrangement;
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
+  const assistLifts = assist && cfg.assist.lifts.length > 0;
+  const boomWords = `a ${num(cfg.boomLengthM)} m boom`;
 
   const site = new StageDraft(ctx, t.site.id, t.site, {});
   siteHazardSteps(site, ctx);
   site.add('lay-down-area', t.site.steps.layDownArea);
   if (results.platesRequired) site.add('plates', t.site.steps.plates);
-  windSteps(site, ctx, 'raising', `lowering a ${num(cfg.boomLengthM)} m boom (the crane data’s raising limit)`);
+  // The site hold lets the lowering start, so its wind step is held to the raising (and lowering) limit.
+  windSteps(site, ctx, 'raising', `lowering ${boomWords} (the crane data’s raising limit)`);
   commsStepsInto(site, ctx);
   stages.push(site.build([]));
 
-  if (assist) stages.push(assistStageFor(ctx, 'dm-assist', [site.id]));
+  if (assist) {
+    stages.push(assistStageFor(ctx, 'dm-assist', [site.id]));
+    if (assistLifts) stages.push(assistLiftsStageFor(ctx, 'dm-assist-lifts', ['dm-assist']));
+  }
   const tipSupport = listed?.raising.limits.tipSupportRequired === true;
 
   const lower = new StageDraft(ctx, t.lower.id, t.lower, {});
-  lower.add('unload', t.lower.steps.unload).add('blocking', t.lower.steps.blocking).add('limiter-mode', t.lower.steps.limiterMode);
+  lower.add('unload', t.lower.steps.unload);
+  if (listed) {
+    const slope = listed.raising.limits.maxGroundSlopePercent;
+    lower.add('ground', t.lower.steps.ground, { slopePercent: slope }, { check: { kind: 'max', limit: slope, source: `crane data: ground slope limit for raising ${boomWords}, used for lowering it` } });
+  }
+  lower.add('blocking', t.lower.steps.blocking).add('limiter-mode', t.lower.steps.limiterMode);
   if (tipSupport) lower.add('tip-support', t.lower.steps.tipSupport);
-  lower.add('lower', t.lower.steps.lower);
+  // A fresh reading just before the boom comes down, held to the raising limit.
+  windSteps(lower, ctx, 'raising', `lowering ${boomWords}`);
+  lower.add('land-hook', t.lower.steps.landHook).add('lower', t.lower.steps.lower);
   // When the tip must be carried down, the assist crane has to be set up first.
   stages.push(lower.build(tipSupport && assist ? [site.id, 'dm-assist'] : [site.id]));
 
@@ -473,11 +622,12 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
   stages.push(electrics.build([lower.id]));
 
   const slacken = new StageDraft(ctx, t.slacken.id, t.slacken, {});
-  slacken.add('clear', t.slacken.steps.clear).add('pay-out', t.slacken.steps.payOut).add('look', t.slacken.steps.look);
+  slacken.add('clear', t.slacken.steps.clear).add('pay-out', t.slacken.steps.payOut).add('lock', t.slacken.steps.lock).add('look', t.slacken.steps.look);
   stages.push(slacken.build([unreeve.id, electrics.id]));
 
   const lines = guyLineUnits(ctx);
-  const guys = new StageDraft(ctx, t.guys.id, t.guys, { guyPins: results.makeup.pinCount.guyLinePins });
+  const guys = new StageDraft(ctx, t.guys.id, t.guys, { guyPins: plural(results.makeup.pinCount.guyLinePins, 'pin') });
+  guys.add('bridle', t.guys.steps.bridle);
   for (const g of lines) {
     guys.add(
       `line-${idPart(g.mark)}-${g.n}`,
@@ -488,17 +638,29 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
   }
   stages.push(guys.build(assist ? [slacken.id, 'dm-assist'] : [slacken.id]));
 
-  // Tip first: each joint gets a support stage (its hold comes before any pin is drawn) and then
-  // the stage that draws the pins.
+  const mast = new StageDraft(ctx, t.mast.id, t.mast, {});
+  mast.add('clear', t.mast.steps.clear).add('lower', t.mast.steps.lower);
+  stages.push(mast.build([guys.id]));
+
+  // Tip first: each joint gets a stage that blocks both sides of it (its hold comes before any pin
+  // is drawn) and then the stage that draws the pins.
   let previous = guys.id;
   for (const j of [...joints(ctx)].reverse()) {
-    const vars = { n: j.n, position: j.above.position, typeId: j.above.typeId, weightT: tonnes(j.above.weightKg), pins: plural(j.pins, 'pin') };
+    const vars = {
+      n: j.n,
+      position: j.above.position,
+      typeId: j.above.typeId,
+      weightT: tonnes(j.above.weightKg),
+      pins: plural(j.pins, 'pin'),
+      below: sectionLabel(j.below),
+      above: sectionLabel(j.above),
+    };
     const support = new StageDraft(ctx, t.support.id, t.support, vars);
-    support.add('support', t.support.steps.support).add('clear', t.support.steps.clear);
+    support.add('blocking', t.support.steps.blocking).add('support', t.support.steps.support).add('clear', t.support.steps.clear);
     stages.push(support.build([previous]));
     const joint = new StageDraft(ctx, t.joint.id, t.joint, vars);
     joint
-      .add('pins', t.joint.steps.pins, { below: sectionLabel(j.below), above: sectionLabel(j.above) })
+      .add('pins', t.joint.steps.pins, {}, { check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} in the joint at the foot of a ${j.above.typeId} section`) })
       .add('set-down', t.joint.steps.setDown)
       .add('serial', t.joint.steps.serial, { plannedSerial: j.above.serial ?? 'none recorded' }, { record: { componentKind: 'section', typeId: j.above.typeId, plannedSerial: j.above.serial } })
       .add('stow', t.joint.steps.stow);
@@ -506,24 +668,27 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
     previous = joint.id;
   }
 
-  const cw = new StageDraft(ctx, t.counterweight.id, t.counterweight, {});
-  cw.add('confirm', t.counterweight.steps.confirm);
   const blocks = raisingBlocks(ctx);
+  const cw = new StageDraft(ctx, t.counterweight.id, t.counterweight, {});
+  if (listed) {
+    cw.add('confirm', t.counterweight.steps.confirm, {}, { check: planCheck(Number(tonnes(listed.raising.counterweightKg)), `crane data: counterweight to raise ${boomWords}`) });
+  }
   // Off in the stated order: the reverse of the fitting order, last block fitted first.
-  [...blocks].reverse().forEach((b, i) =>
-    cw.add(`off-${idPart(b.id)}`, t.counterweight.steps.block, {
-      blockId: b.id,
-      weightT: tonnes(b.weightKg),
-      n: i + 1,
-      count: blocks.length,
-      remainingT: tonnes(b.cumulativeKg - b.weightKg),
-    }),
+  const off = [...blocks].reverse();
+  off.forEach((b, i) =>
+    cw.add(
+      `off-${idPart(b.id)}`,
+      t.counterweight.steps.block,
+      { blockId: b.id, weightT: tonnes(b.weightKg), n: i + 1, count: blocks.length, remainingT: tonnes(b.cumulativeKg - b.weightKg) },
+      { after: i > 0 ? [`off-${idPart(off[i - 1].id)}`] : [] },
+    ),
   );
-  stages.push(cw.build([previous]));
+  stages.push(cw.build([previous, mast.id]));
 
   const close = new StageDraft(ctx, t.close.id, t.close, {});
   close.add('damage', t.close.steps.damage).add('transport', t.close.steps.transport).add('site', t.close.steps.site);
-  stages.push(close.build([cw.id]));
+  // Every planned assist lift is made before the site is handed back.
+  stages.push(close.build(assistLifts ? [cw.id, 'dm-assist-lifts'] : [cw.id]));
   return stages;
 }
 

@@ -78,7 +78,7 @@ describe('jobs, crews, configuration and the event log', () => {
 
   it("the server's figures win over figures a client sends", async () => {
     const job = await newJob();
-    const config = configuration18m(unitId, { ground: { groundType: 'soft clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-2' } } });
+    const config = configuration18m(unitId, { ground: { groundType: 'soft clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-2', designer: '' } } });
     const res = await request(server.app)
       .put(`/api/jobs/${job.id}/configuration`)
       .set(as(supervisor))
@@ -95,8 +95,8 @@ describe('jobs, crews, configuration and the event log', () => {
     const job = await newJob();
     await crewUp(job.id);
     const config = configuration18m(unitId, {
-      ground: { groundType: 'firm clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-3' } },
-      siteHazards: { powerLines: [{ label: '33 kV feeder', voltageKv: 33, distanceM: 19 }], buriedServices: '', neighbours: '' },
+      ground: { groundType: 'firm clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-3', designer: '' } },
+      siteHazards: { powerLines: [{ label: '33 kV feeder', voltageKv: 33, distanceM: 19, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: null }], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     });
     const saved = jobEnvelopeSchema.parse((await request(server.app).put(`/api/jobs/${job.id}/configuration`).set(as(supervisor)).send(config).expect(200)).body).job;
     const ground = saved.figures.find((f) => f.group === 'ground' && f.status === 'fail' && f.overridable)!;

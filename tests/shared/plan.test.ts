@@ -26,7 +26,7 @@ function fullKit(): InventoryItem[] {
   const kit: [InventoryItem['kind'], string, number][] = [
     ['section', 'base', 1], ['section', 'ins3', 1], ['section', 'ins6', 1], ['section', 'ins12', 6], ['section', 'tip', 1],
     ['guy_line', 'GT', 2], ['guy_line', 'GB', 2], ['guy_line', 'G3', 2], ['guy_line', 'G6', 2], ['guy_line', 'G12', 12],
-    ['hook_block', 'HB250', 1], ['hook_block', 'HB120', 1], ['hook_block', 'BALL12', 1],
+    ['hook_block', 'HB160', 1], ['hook_block', 'HB120', 1], ['hook_block', 'BALL12', 1],
   ];
   return kit.flatMap(([kind, typeId, count]) =>
     Array.from({ length: count }, (_, i) => ({ serial: `T-${typeId.toUpperCase()}-${String(i + 1).padStart(2, '0')}`, kind, typeId, status: 'serviceable' as const })),
@@ -84,7 +84,16 @@ function allIds(p: Plan): string[] {
 const withAssist = (over: Partial<Configuration> = {}) =>
   config({
     assist: { assistCraneId: ASSIST_ID, chartId: 'boom-20.5m-full-cw', lifts: [{ label: 'Tip onto dollies', liftT: 4.1, riggingT: 0.2, radiusM: 9 }, { label: 'Base into the foot pins', liftT: 7.8, riggingT: 0.3, radiusM: 7 }] },
-    siteHazards: { powerLines: [{ label: '33 kV line, east fence', voltageKv: 33, distanceM: 120 }, { label: '400 kV line, north', voltageKv: 400, distanceM: 150 }], buriedServices: 'Gas main 4 m west of the track line', neighbours: 'School next door: lifts outside 08:30-09:00 and 15:00-15:30' },
+    siteHazards: {
+      powerLines: [
+        { label: '33 kV line, east fence', voltageKv: 33, distanceM: 120, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: 100 },
+        { label: '400 kV line, north', voltageKv: 400, distanceM: 150, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: 130 },
+      ],
+      buriedServices: 'Gas main 4 m west of the track line',
+      neighbours: 'School next door: lifts outside 08:30-09:00 and 15:00-15:30',
+      loadAndTagLineAllowanceM: 3,
+      swayAllowanceM: 2,
+    },
     ...over,
   });
 
@@ -92,10 +101,10 @@ describe('generatePlan: what the configuration needs', () => {
   const cases: [string, Configuration][] = [
     ['18 m', config()],
     ['18 m with auxiliary hoist and assist crane', withAssist({ auxiliary: { enabled: true, hookBlockId: 'BALL12' } })],
-    ['60 m', config({ boomLengthM: 60, mainHook: { hookBlockId: 'HB250', parts: 10 } })],
+    ['60 m', config({ boomLengthM: 60, mainHook: { hookBlockId: 'HB160', parts: 10, lowestHookPositionM: 0 } })],
     ['66 m', config({ boomLengthM: 66 })],
     ['19 m, a length the data does not list', config({ boomLengthM: 19 })],
-    ['90 m with mats, no ground source', config({ boomLengthM: 90, mats: { used: true, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 }, ground: { groundType: 'made ground', allowablePressureKpa: 150, source: { kind: 'none', reference: '' } } })],
+    ['90 m with mats, no ground source', config({ boomLengthM: 90, mats: { used: true, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 }, ground: { groundType: 'made ground', allowablePressureKpa: 150, source: { kind: 'none', reference: '', designer: '' } } })],
   ];
 
   it.each(cases)('%s: both plans pass the plan schema and leave no placeholder unfilled', (_name, cfg) => {
@@ -290,13 +299,13 @@ describe('generatePlan: holds', () => {
   });
 
   it('the configuration-entry value check expects the configuration’s values', () => {
-    const cfg = config({ boomLengthM: 60, mainHook: { hookBlockId: 'HB250', parts: 10 } });
+    const cfg = config({ boomLengthM: 60, mainHook: { hookBlockId: 'HB160', parts: 10, lowestHookPositionM: 0 } });
     const hold = stage(plan('erection', cfg), 'er-config').hold;
     const raisingKg = crane.arrangements.find((a) => a.boomLengthM === 60)?.raising.counterweightKg;
     expect(raisingKg).toBe(95000);
     expect(hold?.valueCheck?.fields).toEqual([
       { field: 'boomLengthM', expected: '60' },
-      { field: 'hookBlockId', expected: 'HB250' },
+      { field: 'hookBlockId', expected: 'HB160' },
       { field: 'parts', expected: '10' },
       { field: 'counterweightT', expected: '95' },
       { field: 'operatingMode', expected: OPERATING_MODE_EXPECTED },

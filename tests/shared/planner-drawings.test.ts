@@ -181,36 +181,38 @@ describe('groundPressureSvg', () => {
 });
 
 describe('sitePlanSvg', () => {
-  const input = { boomLengthM: 36, fallZoneRadiusM: results.fallZoneRadiusM, powerLines: results.powerLines, trackLengthM: 9.2, gaugeM: 7, trackWidthM: 1.2 };
+  // Demo crane: boom foot 1.4 m ahead of the slewing centre; default allowances 3 m (hook, load,
+  // tag lines) and 2 m (sway). Fall zone 1.4 + 36 + 3 = 40.4 m; reach 1.4 + 36 + 3 + 2 = 42.4 m.
+  const input = { boomLengthM: 36, fallZoneRadiusM: results.fallZoneRadiusM, reachM: results.powerLines[0].reachM, powerLines: results.powerLines, trackLengthM: 9.2, gaugeM: 7, trackWidthM: 1.2 };
 
-  it('draws the fall zone, boom reach, power lines and scale bar at one scale', () => {
+  it('draws the fall zone, the reach, power lines and scale bar at one scale', () => {
     const doc = wellFormed(sitePlanSvg(input));
     const fall = doc.querySelector('circle[data-fall-zone-m]');
-    const boom = doc.querySelector('circle[data-boom-length-m]');
+    const reach = doc.querySelector('circle[data-reach-m]');
     const bar = doc.querySelector('line[data-scale-bar-m]');
-    const pxPerM = num(fall, 'r') / 39;
-    expect(num(boom, 'r') / 36).toBeCloseTo(pxPerM, 2);
+    const pxPerM = num(fall, 'r') / 40.4;
+    expect(num(reach, 'r') / 42.4).toBeCloseTo(pxPerM, 2);
     expect((num(bar, 'x2') - num(bar, 'x1')) / num(bar, 'data-scale-bar-m')).toBeCloseTo(pxPerM, 2);
     // Line 1 (50 m) is drawn to the right of the centre at 50 m × scale.
     const cx = num(fall, 'cx');
     const line = doc.querySelector('line[data-power-line="0"]');
     expect((num(line, 'x1') - cx) / 50).toBeCloseTo(pxPerM, 2);
-    // Its clearance band is 10 ft = 3.048 m deep (29 CFR 1926.1408 Table A), on the crane side.
+    // Its clearance band is the 20 ft = 6.096 m default (29 CFR 1926.1408, from memory) deep, on the crane side.
     const band = doc.querySelector('polygon[data-clearance-m]');
     const bandXs = (band?.getAttribute('points') ?? '').split(' ').map((pt) => Number(pt.split(',')[0]));
-    expect((Math.max(...bandXs) - Math.min(...bandXs)) / 3.048).toBeCloseTo(pxPerM, 2);
+    expect((Math.max(...bandXs) - Math.min(...bandXs)) / 6.096).toBeCloseTo(pxPerM, 2);
     // Tracks to scale: 9.2 m long.
     const track = doc.querySelector('rect[data-track]');
     expect(num(track, 'width') / 9.2).toBeCloseTo(pxPerM, 2);
   });
 
   it('the fall-zone circle grows with the number', () => {
-    // Without lines farther out, the extent follows the fall zone; compare with the boom circle at a fixed boom length.
+    // Without lines farther out, the extent follows the fall zone; compare with the reach circle at a fixed reach.
     const small = wellFormed(sitePlanSvg({ ...input, powerLines: [], fallZoneRadiusM: 40 }));
     const large = wellFormed(sitePlanSvg({ ...input, powerLines: [], fallZoneRadiusM: 80 }));
-    const ratio = (d: Document) => num(d.querySelector('circle[data-fall-zone-m]'), 'r') / num(d.querySelector('circle[data-boom-length-m]'), 'r');
-    expect(ratio(small)).toBeCloseTo(40 / 36, 3);
-    expect(ratio(large)).toBeCloseTo(80 / 36, 3);
+    const ratio = (d: Document) => num(d.querySelector('circle[data-fall-zone-m]'), 'r') / num(d.querySelector('circle[data-reach-m]'), 'r');
+    expect(ratio(small)).toBeCloseTo(40 / 42.4, 3);
+    expect(ratio(large)).toBeCloseTo(80 / 42.4, 3);
   });
 
   it('labels each line with voltage, clearance and a word, escaped, and says it is a plan without a bearing', () => {
@@ -218,17 +220,20 @@ describe('sitePlanSvg', () => {
     expect(svg).toContain('&lt;east&gt; &amp; &quot;yard&quot;');
     const t = texts(wellFormed(svg));
     expect(t).toContain('Plan, distances from the slewing centre');
-    expect(t.some((x) => x.includes('33 kV line <east> & "yard": 33 kV, 50 m away, clearance 3.05 m, 14.0 m available'))).toBe(true);
-    expect(t.some((x) => x.includes('220 kV line: 220 kV, 40 m away, clearance 6.10 m, 4.0 m available'))).toBe(true);
+    expect(t.some((x) => x.includes('33 kV line <east> & "yard": 33 kV, 50 m away'))).toBe(true);
+    // 50 − 42.4 = 7.6 m left; 40 − 42.4 = −2.4 m: the boom reaches past the 220 kV line.
+    expect(t).toContain('clearance 6.10 m (20 ft default, up to 350 kV), 7.6 m available');
+    expect(t).toContain('clearance 6.10 m (20 ft default, up to 350 kV), -2.4 m available');
+    expect(t).toContain('Reach 42.4 m');
     expect(t).toContain('CLEAR');
     expect(t).toContain('TOO CLOSE');
     expect(t).toContain('1: 33 kV');
-    expect(t).toContain('Fall zone 39.0 m');
+    expect(t).toContain('Fall zone 40.4 m');
     expect(t.some((x) => /^\d+ m$/.test(x))).toBe(true); // the scale bar's length
   });
 
   it('shows a line above the table as needing the owner’s distance, and refuses a non-finite distance', () => {
-    const above: PowerLineResult = { label: 'HVDC', voltageKv: 1200, distanceM: 80, requiredClearanceM: null, availableClearanceM: 44, pass: false };
+    const above: PowerLineResult = { label: 'HVDC', voltageKv: 1200, distanceM: 80, requiredClearanceM: null, availableClearanceM: 44, reachM: 36, basis: 'owner', basisWords: 'over 1,000 kV', pass: false, assist: null };
     const t = texts(wellFormed(sitePlanSvg({ ...input, powerLines: [above] })));
     expect(t.some((x) => x.includes('clearance: ask the line owner'))).toBe(true);
     expect(() => sitePlanSvg({ ...input, powerLines: [{ ...above, distanceM: Number.POSITIVE_INFINITY }] })).toThrow(CalcInputError);

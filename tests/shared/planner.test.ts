@@ -56,7 +56,7 @@ function basePlan(): Configuration {
     ground: { groundType: 'Compacted crushed stone over stiff clay', allowablePressureKpa: 260, source: { kind: 'ground_investigation', reference: 'GI report R-0001 rev A' } },
     mats: { used: false, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1500 },
     assist: { assistCraneId: ASSIST_ID, chartId: 'boom-20.5m-full-cw', lifts: [{ label: 'Tip section onto dollies', liftT: 4, riggingT: 0.2, radiusM: 9 }] },
-    siteHazards: { powerLines: [{ label: '33 kV overhead line, east fence', voltageKv: 33, distanceM: 50 }], buriedServices: '', neighbours: '' },
+    siteHazards: { powerLines: [{ label: '33 kV overhead line, east fence', voltageKv: 33, distanceM: 50, assistDistanceM: 40 }], buriedServices: '', neighbours: '' },
     fallZoneMarginM: 3,
   });
 }
@@ -204,18 +204,27 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(fig(r, 'assist.lift.0').status).toBe('pass');
   });
 
-  it('site: fall zone 36 + 0 + 3 = 39 m; 33 kV needs 10 ft = 3.048 m (29 CFR 1926.1408 Table A), 50 − 36 = 14 m available', () => {
-    expect(r.fallZoneRadiusM).toBe(39);
+  it('site: fall zone 1.4 (foot) + 36 + 3 = 40.4 m; 33 kV without the owner’s confirmation needs the 20 ft default = 6.096 m (29 CFR 1926.1408, from memory); 50 − 42.4 = 7.6 m available', () => {
+    // Reach: foot 1.4 m ahead of the slewing centre (demo data) + 36 m boom + 3 m hook, load and
+    // tag lines + 2 m sway (default settings, common practice, no source) = 42.4 m.
+    expect(r.fallZoneRadiusM).toBeCloseTo(40.4, 9);
     expect(fig(r, 'site.fallZone').status).toBe('info');
-    expect(r.powerLines[0].requiredClearanceM).toBeCloseTo(3.048, 9);
-    expect(r.powerLines[0].availableClearanceM).toBe(14);
+    expect(r.powerLines[0].requiredClearanceM).toBeCloseTo(6.096, 9);
+    expect(r.powerLines[0].reachM).toBeCloseTo(42.4, 9);
+    expect(r.powerLines[0].availableClearanceM).toBeCloseTo(7.6, 9);
+    expect(r.powerLines[0].basis).toBe('default');
     expect(fig(r, 'powerLine.0').status).toBe('pass');
-    expect(fig(r, 'powerLine.0').rule).toMatch(/1926\.1408 Table A/);
+    expect(fig(r, 'powerLine.0').value).toBe('7.6 m available, 6.10 m required (20 ft default, up to 350 kV; 33 kV)');
+    expect(fig(r, 'powerLine.0').rule).toMatch(/1926\.1408.*from memory/);
     expect(fig(r, 'powerLine.0').rule).toMatch(/common practice, no source/);
+    // The assist crane (20.5 m boom + 2 m foot and head allowance + 3 + 2 = 27.5 m) 40 m from the line: 12.5 m.
+    expect(r.powerLines[0].assist).toMatchObject({ distanceM: 40, pass: true });
+    expect(r.powerLines[0].assist?.availableClearanceM).toBeCloseTo(12.5, 9);
+    expect(fig(r, 'powerLine.0.assist').status).toBe('pass');
   });
 
   it('wind: the assembly and raising limits for 36 m from the data', () => {
-    expect(fig(r, 'wind.assembly').value).toBe('gust ≤ 13 m/s, mean ≤ 9 m/s');
+    expect(fig(r, 'wind.assembly').value).toBe('gust ≤ 13 m/s, mean ≤ 9 m/s (usually the 3-second gust at the boom’s highest point)');
     expect(fig(r, 'wind.raising').status).toBe('info');
     expect(r.windLimits).toEqual({ assembly: { gustMs: 13, meanMs: 9 }, raising: { gustMs: 13, meanMs: 9 } });
   });
@@ -252,24 +261,33 @@ describe('failures and what may be overridden', () => {
     expect(fig(r, 'rope.hookBlock')).toMatchObject({ status: 'fail', overridable: false });
   });
 
-  it('a power line too close → not overridable: 38 − 36 = 2 m < 3.048 m; 220 kV at 40 m with the aux sheave: 40 − 37.5 = 2.5 m < 20 ft = 6.096 m', () => {
+  it('a power line too close → not overridable; the reach counts the boom foot, the auxiliary sheave, the hook, load, tag lines and sway', () => {
+    const line = (label: string, voltageKv: number | null, distanceM: number, confirmed = false) =>
+      ({ label, voltageKv, distanceM, voltageConfirmedByOwner: confirmed, encroachmentPreventionInPlace: confirmed, assistDistanceM: 100 });
     const r = run(
       plan((c) => {
         c.auxiliary = { enabled: true, hookBlockId: 'HB250' };
-        c.siteHazards.powerLines = [
-          { label: '33 kV line', voltageKv: 33, distanceM: 39.5 },
-          { label: '220 kV line', voltageKv: 220, distanceM: 40 },
-        ];
+        c.siteHazards.powerLines = [line('33 kV line', 33, 49.9), line('33 kV line, owner-confirmed', 33, 47, true), line('Unknown line', null, 58), line('400 kV line', 400, 60)];
       }),
     );
-    // with the auxiliary sheave the reach is 36 + 1.5 = 37.5 m (common practice, no source)
-    expect(r.powerLines[0].availableClearanceM).toBeCloseTo(2, 9);
+    // Reach 1.4 (foot, demo data) + 36 + 1.5 (auxiliary sheave, demo data) + 3 + 2 (default allowances,
+    // common practice, no source) = 43.9 m. Minimum distances per 29 CFR 1926.1407-1409 (from memory).
+    // 33 kV at 49.9 m: 6.0 m left < 20 ft = 6.096 m → fails (the old Table A-only rule passed it at 12.4 m).
+    expect(r.powerLines[0].availableClearanceM).toBeCloseTo(6, 9);
     expect(fig(r, 'powerLine.0')).toMatchObject({ status: 'fail', overridable: false });
-    expect(r.powerLines[1].requiredClearanceM).toBeCloseTo(6.096, 9);
-    expect(r.powerLines[1].availableClearanceM).toBeCloseTo(2.5, 9);
-    expect(fig(r, 'powerLine.1')).toMatchObject({ status: 'fail', overridable: false });
-    // fall zone with the auxiliary sheave: 36 + 1.5 + 3 = 40.5 m
-    expect(r.fallZoneRadiusM).toBeCloseTo(40.5, 9);
+    // Owner-confirmed with encroachment prevention: Table A 10 ft = 3.048 m, 3.1 m left → passes.
+    expect(r.powerLines[1]).toMatchObject({ basis: 'table_a', pass: true });
+    expect(r.powerLines[1].requiredClearanceM).toBeCloseTo(3.048, 9);
+    // Voltage unknown: 50 ft = 15.24 m; 58 − 43.9 = 14.1 m → fails.
+    expect(r.powerLines[2]).toMatchObject({ basis: 'default_unknown_voltage', pass: false });
+    expect(r.powerLines[2].requiredClearanceM).toBeCloseTo(15.24, 9);
+    expect(fig(r, 'powerLine.2')).toMatchObject({ status: 'fail', overridable: false });
+    expect(fig(r, 'powerLine.2').value).toMatch(/14\.1 m available, 15\.24 m required \(50 ft, voltage unknown; voltage unknown\)/);
+    // 400 kV: 50 ft default over 350 kV; 60 − 43.9 = 16.1 m → passes.
+    expect(r.powerLines[3]).toMatchObject({ basis: 'default', pass: true });
+    expect(r.powerLines[3].requiredClearanceM).toBeCloseTo(15.24, 9);
+    // fall zone with the auxiliary sheave: 1.4 + 36 + 1.5 + 3 = 41.9 m
+    expect(r.fallZoneRadiusM).toBeCloseTo(41.9, 9);
   });
 
   it('a 110 % assist lift → not overridable; off the chart → not overridable', () => {

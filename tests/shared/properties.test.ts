@@ -259,10 +259,22 @@ const entries: Entry[] = [
   },
   { name: 'powerLineClearanceM', base: { kv: 33 }, fields: { kv: 'positive' }, call: (i) => calc.powerLineClearanceM(i.kv) },
   {
+    name: 'powerLineMinimumDistance',
+    base: { voltageKv: 33 },
+    fields: { voltageKv: 'positive' },
+    call: (i) => calc.powerLineMinimumDistance({ voltageKv: i.voltageKv, voltageConfirmedByOwner: true, encroachmentPreventionInPlace: true }),
+  },
+  {
+    name: 'powerLineClearanceCheck',
+    base: { distanceM: 80, reachM: 66, requiredM: 6 },
+    fields: { distanceM: 'positive', reachM: 'nonNegative', requiredM: 'positive' },
+    call: (i) => calc.powerLineClearanceCheck({ distanceM: i.distanceM, reachM: i.reachM, requiredM: i.requiredM }),
+  },
+  {
     name: 'fallZoneRadiusM',
-    base: { boomLengthM: 60, tipExtensionM: 1, marginM: 5 },
-    fields: { boomLengthM: 'positive', tipExtensionM: 'nonNegative', marginM: 'nonNegative' },
-    call: (i) => calc.fallZoneRadiusM({ boomLengthM: i.boomLengthM, tipExtensionM: i.tipExtensionM, marginM: i.marginM }),
+    base: { boomFootAheadM: 1.4, boomLengthM: 60, tipExtensionM: 1, marginM: 5 },
+    fields: { boomFootAheadM: 'nonNegative', boomLengthM: 'positive', tipExtensionM: 'nonNegative', marginM: 'nonNegative' },
+    call: (i) => calc.fallZoneRadiusM({ boomFootAheadM: i.boomFootAheadM, boomLengthM: i.boomLengthM, tipExtensionM: i.tipExtensionM, marginM: i.marginM }),
   },
   {
     name: 'platesRequired',
