@@ -1,4 +1,4 @@
-import { planProblems } from '../../shared/plan/index.js';
+import { planProblems, protectsMandatoryHold } from '../../shared/plan/index.js';
 import type { Plan } from '../../shared/schemas/plan.js';
 import type { AppContext } from '../context.js';
 import { JobPlan } from '../entities/JobPlan.js';
@@ -33,12 +33,13 @@ export async function editDraft(context: AppContext, actor: User, jobId: string,
     requireState(job, ['planning'], 'edit the plan (after ready, the plan changes only by a new version)');
     if (plan.kind !== job.kind) throw badRequest('The plan is for another kind of job.', [{ path: 'kind', message: `This job is ${job.kind}` }]);
     const problems = planProblems(plan, await referencePlan(manager, job));
-    const refused = problems.filter((p) => p.code === 'mandatory_hold_removed' || p.code === 'mandatory_role_removed' || p.code === 'duplicate_id');
+    // Anything that weakens a mandatory hold (removed, a role gone, moved, bypassed, a required step gone) is refused outright.
+    const refused = problems.filter((p) => protectsMandatoryHold(p) || p.code === 'duplicate_id');
     if (refused.length) {
       throw new HttpError(
         refused[0].code === 'duplicate_id' ? 400 : 409,
         refused[0].code === 'duplicate_id' ? 'validation' : 'mandatory_hold',
-        refused[0].code === 'duplicate_id' ? 'Two parts of the plan share an id.' : 'Mandatory holds and their required roles cannot be removed.',
+        refused[0].code === 'duplicate_id' ? 'Two parts of the plan share an id.' : `Mandatory holds keep their roles, their place and their required steps: ${refused[0].message}`,
         refused.map((p) => ({ path: p.path ?? 'plan', message: p.message })),
       );
     }

@@ -36,11 +36,28 @@ function liftConfiguration(fleet: DemoFleet): Configuration {
     assist: {
       assistCraneId: fleet.assistCraneId,
       chartId: 'boom-11.6m-full-cw',
+      // Everything on the assist crane's hook counts against its chart: its own 0.6 t hook block,
+      // the slings and the shackles (invented weights).
       lifts: [
-        { label: 'Boom base onto blocking', liftT: 7.8, riggingT: 0.3, radiusM: 6 },
-        { label: '12 m inserts, one at a time', liftT: 3.5, riggingT: 0.2, radiusM: 8 },
-        { label: 'Boom tip', liftT: 4.1, riggingT: 0.2, radiusM: 7 },
+        {
+          label: 'Boom base onto blocking',
+          liftT: 7.8,
+          riggingT: 0,
+          radiusM: 6,
+          hookBlockT: 0.6,
+          slingsT: 0.2,
+          shacklesT: 0.1,
+          deductionsT: 0,
+          // The base's centre of gravity is 3.4 m from its foot: lugs at 1.0 m and 6.5 m, hook 4 m above them.
+          legs: { toCogAM: 2.4, toCogBM: 3.1, hookHeightM: 4, legRatedLoadT: 8 },
+        },
+        { label: '12 m inserts, one at a time', liftT: 3.5, riggingT: 0, radiusM: 8, hookBlockT: 0.6, slingsT: 0.15, shacklesT: 0.05, deductionsT: 0, legs: null },
+        { label: 'Boom tip', liftT: 4.1, riggingT: 0, radiusM: 7, hookBlockT: 0.6, slingsT: 0.15, shacklesT: 0.05, deductionsT: 0, legs: null },
       ],
+      // Largest outrigger load over these lifts from the assist crane's outrigger-load table, on 1.2 m timber pads.
+      pads: { kind: 'outrigger', loadT: 26, lengthM: 1.2, widthM: 1.2, weightKg: 250 },
+      // The 60 m boom needs no tip support while it is raised: no tandem.
+      tandem: { alongFromTipM: null, sideM: null, releaseAngleDeg: null, hookBlockT: 0, slingsT: 0, shacklesT: 0, deductionsT: 0 },
     },
     siteHazards: {
       // The assist crane works on the boom laydown, west of the crane: 48 m from the line.
@@ -53,6 +70,7 @@ function liftConfiguration(fleet: DemoFleet): Configuration {
       swayAllowanceM: 2,
     },
     fallZoneMarginM: 5,
+    chartCautionPercent: 75,
   };
 }
 
@@ -61,6 +79,8 @@ function comms(p: DemoPeople, channel: string): CommsPlan {
     radioChannel: channel,
     callSigns: [
       { userId: p.supervisor.id, callSign: 'Lift One' },
+      // She directs the assist crane: every motion's director has a call sign.
+      { userId: p.supervisor2.id, callSign: 'Lift Two' },
       { userId: p.operator.id, callSign: 'Crane' },
       { userId: p.signaller.id, callSign: 'Banksman' },
       { userId: p.rigger.id, callSign: 'Rigger One' },
@@ -109,7 +129,11 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   await setCrew(past, p.supervisor, trialId, crewOf(p).filter((m) => m.userId !== p.supervisor2.id));
   const depotComms = comms(p, 'Depot channel 2');
   await updateJob(past, p.supervisor, trialId, {
-    commsPlan: { ...depotComms, motionSignallers: depotComms.motionSignallers.filter((m) => m.userId === p.signaller.id) },
+    commsPlan: {
+      ...depotComms,
+      callSigns: depotComms.callSigns.filter((c) => c.userId !== p.supervisor2.id),
+      motionSignallers: depotComms.motionSignallers.filter((m) => m.userId === p.signaller.id),
+    },
     distribution: ['records@fenwold-lifting.test'],
   });
   await setConfiguration(past, p.supervisor, trialId, {
@@ -120,7 +144,7 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
     heaviestLoad: { description: 'Test weights, 12 t', loadT: 12, riggingT: 0.4, radiusM: 9 },
     ground: ground(250, 'Depot slab design note DS-7'),
     mats: { ...liftConfiguration(fleet).mats, used: false },
-    assist: { assistCraneId: null, chartId: null, lifts: [] },
+    assist: { ...liftConfiguration(fleet).assist, assistCraneId: null, chartId: null, lifts: [] },
     siteHazards: { ...liftConfiguration(fleet).siteHazards, powerLines: [], buriedServices: 'None in yard 2.', neighbours: 'Workshop doors kept shut during the raise.' },
   });
   await makeReady(past, p.supervisor, trialId);

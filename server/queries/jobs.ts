@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import { commsProblems } from '../../shared/plan/comms.js';
 import type { CrewRole, JobDto, JobSummary, Readiness } from '../../shared/schemas/jobs.js';
 import { Job } from '../entities/Job.js';
 import { JobCrew } from '../entities/JobCrew.js';
@@ -78,6 +79,8 @@ export async function readinessOf(manager: EntityManager, job: Job): Promise<Rea
       else if (!approved.has(figure.key)) reasons.push({ code: 'figure_failing', message: `${figure.label} ${what}. Change the configuration, or override it with a reason and a second person's approval.` });
     }
   }
+  // Every motion directed by a crew member with a call sign.
+  if (job.configuration) reasons.push(...commsProblems(job.configuration, job.commsPlan, crew));
   reasons.push(...(await planReadinessReasons(manager, job)));
   return { ready: reasons.length === 0, reasons };
 }

@@ -3,17 +3,22 @@
  * who directs which motion (only the motions this job has), and the fallback hand signals.
  */
 import type { Configuration } from '../schemas/configuration.js';
-import type { CommsPlan } from '../schemas/jobs.js';
+import type { CommsPlan, CrewRole } from '../schemas/jobs.js';
 import { motions as allMotions } from '../schemas/jobs.js';
 import { listWords } from './format.js';
 
 type Motion = (typeof allMotions)[number];
 
+/**
+ * A person as the plan names them: name and call sign, or what is known. A person without a call
+ * sign is said to have none (readiness flags it); the plan never calls anyone a stranger.
+ */
 function personLabel(userId: string, comms: CommsPlan, names: Record<string, string>): string {
   const name = names[userId];
   const callSign = comms.callSigns.find((c) => c.userId === userId)?.callSign;
   if (name && callSign) return `${name} (${callSign})`;
-  return name ?? callSign ?? 'a person not in the crew list';
+  if (callSign) return callSign;
+  return name ? `${name} (no call sign yet)` : 'someone with no call sign yet';
 }
 
 /** The motions this job has: the assist crane and auxiliary hoist only when planned. */
@@ -52,3 +57,31 @@ export function commsWords(cfg: Configuration, comms: CommsPlan, names: Record<s
   };
 }
 
+
+/** One reason the communications plan is not ready, for the job's readiness list. */
+export interface CommsProblem {
+  code: 'comms_motion_unassigned' | 'comms_motion_no_call_sign';
+  message: string;
+}
+
+/**
+ * Every motion this job has is directed by a crew member with a call sign: a signal on the radio is
+ * obeyed only from a known voice (common practice, no source). Viewers do not direct motions.
+ */
+export function commsProblems(cfg: Configuration, comms: CommsPlan, crew: readonly { userId: string; role: CrewRole }[]): CommsProblem[] {
+  const problems: CommsProblem[] = [];
+  const inCrew = new Set(crew.filter((c) => c.role !== 'viewer').map((c) => c.userId));
+  const withCallSign = new Set(comms.callSigns.filter((c) => c.callSign.trim().length > 0).map((c) => c.userId));
+  for (const motion of motionsFor(cfg)) {
+    const who = comms.motionSignallers.filter((m) => m.motion === motion).map((m) => m.userId);
+    if (who.length === 0) {
+      problems.push({ code: 'comms_motion_unassigned', message: `Nobody directs the ${motion}. Assign a crew member with a call sign to it in the communications plan.` });
+    } else if (!who.some((id) => inCrew.has(id) && withCallSign.has(id))) {
+      problems.push({
+        code: 'comms_motion_no_call_sign',
+        message: `The ${motion} is assigned to someone who is not in the crew or has no call sign. Give them a call sign and a place in the crew, or assign someone who has both.`,
+      });
+    }
+  }
+  return problems;
+}

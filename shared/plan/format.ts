@@ -28,13 +28,24 @@ export function idPart(value: string): string {
 /** Values for placeholders. */
 export type Vars = Readonly<Record<string, string | number>>;
 
+/**
+ * A sentence as people read it: a full stop straight after a full stop, question or exclamation
+ * mark (a filled-in text that already ended its own sentence, "None in yard 2." + ".") is dropped.
+ * An ellipsis stays an ellipsis.
+ */
+export function tidy(text: string): string {
+  return text.replace(/([^.][.!?]|\.\.\.)\.(?=\s|$|\))/g, '$1');
+}
+
 /** Fills `{name}` placeholders; throws on a missing one because that is a bug in the generator, not the user's input. */
 export function fill(template: string, vars: Vars): string {
-  return template.replace(/\{(\w+)\}/g, (_m, name: string) => {
-    const v = vars[name];
-    if (v === undefined) throw new Error(`plan wording: no value for {${name}} in "${template}"`);
-    return typeof v === 'number' ? num(v) : v;
-  });
+  return tidy(
+    template.replace(/\{(\w+)\}/g, (_m, name: string) => {
+      const v = vars[name];
+      if (v === undefined) throw new Error(`plan wording: no value for {${name}} in "${template}"`);
+      return typeof v === 'number' ? num(v) : v;
+    }),
+  );
 }
 
 /** A list in words: "a", "a and b", "a, b and c". */

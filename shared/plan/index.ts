@@ -1,9 +1,9 @@
 /** Plan templates, generation, checks and the briefing: pure code shared by the server and the plan editor. */
 export { generatePlan, OPERATING_MODE_EXPECTED, type GeneratePlanInput } from './generate.js';
-export { commsWords, motionsFor } from './comms.js';
+export { commsProblems, commsWords, motionsFor, type CommsProblem } from './comms.js';
 export { buildBriefing } from './briefing.js';
-export { planProblems, holdsNeedPeople, activeStages, type CrewSlot } from './validate.js';
+export { planProblems, revisionProblems, protectsMandatoryHold, MANDATORY_PROBLEM_CODES, holdsNeedPeople, activeStages, type CrewSlot } from './validate.js';
 export { erectionStages } from './templates/erection.js';
 export { dismantlingStages } from './templates/dismantling.js';
-export { assistStage, commsSteps, radioCheckStep, siteSteps } from './templates/common.js';
+export { assistLiftsStage, assistStage, commsSteps, radioCheckStep, siteSteps } from './templates/common.js';
 export type { StageWording, StepWording, HoldWording, RecordWording } from './templates/types.js';

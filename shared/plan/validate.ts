@@ -2,12 +2,21 @@
  * Checks on a plan before it is locked, and the dependency rule the board uses.
  *
  * planProblems: the structure (duplicate ids, unknown dependencies, cycles, stages that can never
- * start, holds nobody can acknowledge) and, against the generated reference plan, the mandatory
- * holds an edit may never weaken. holdsNeedPeople: whether the crew can acknowledge every hold
- * with a different person per role. activeStages: the stages whose dependencies are all done.
+ * start, holds nobody can acknowledge, in-stage order) and, against a reference plan, what an edit
+ * may never weaken: a mandatory hold's existence, roles and value check, its place (every stage
+ * and step it gated in the reference still waits for it), the steps the template marks required,
+ * the reference's in-stage order, and what each reading is held to.
+ *
+ * The reference is the plan generated from the same configuration (hand-edited drafts, and
+ * revisions on the live board, whose configuration is locked). Because a plan carries its own
+ * `required`, `after` and `check`, a previous plan version works as a reference too:
+ * `revisionProblems` checks a revision against both.
+ *
+ * holdsNeedPeople: whether the crew can acknowledge every hold with a different person per role.
+ * activeStages: the stages whose dependencies are all done.
  */
 import type { CrewRole } from '../schemas/jobs.js';
-import type { Plan, PlanHold, PlanProblem } from '../schemas/plan.js';
+import type { Plan, PlanHold, PlanProblem, PlanStage, PlanStep, StepRecord } from '../schemas/plan.js';
 import { qualificationLabels } from '../schemas/users.js';
 import { listWords } from './format.js';
 
@@ -205,9 +214,325 @@ function mandatoryProblems(plan: Plan, reference: Plan): PlanProblem[] {
   return problems;
 }
 
-/** Everything that stops a plan being locked; `reference` is the plan generated from the same configuration. */
+/** Steps that wait for each other in a circle within one stage (Kahn's algorithm: what can never be done). */
+function stepCycle(stage: PlanStage): PlanStep[] {
+  const ids = new Set(stage.steps.map((s) => s.id));
+  const done = new Set<string>();
+  for (let changed = true; changed; ) {
+    changed = false;
+    for (const s of stage.steps) {
+      if (done.has(s.id)) continue;
+      if ((s.after ?? []).every((a) => !ids.has(a) || done.has(a))) {
+        done.add(s.id);
+        changed = true;
+      }
+    }
+  }
+  return stage.steps.filter((s) => !done.has(s.id));
+}
+
+/** In-stage order: `after` names steps of the same stage, never the step itself, and never in a circle. */
+function stepOrderProblems(plan: Plan): PlanProblem[] {
+  const problems: PlanProblem[] = [];
+  plan.stages.forEach((stage, i) => {
+    const ids = new Set(stage.steps.map((s) => s.id));
+    stage.steps.forEach((step, j) => {
+      (step.after ?? []).forEach((a, k) => {
+        if (a === step.id) {
+          problems.push({ code: 'step_order', message: `Step “${step.text}” of stage “${stage.title}” waits for itself, so it can never be done. Remove that order.`, path: `stages.${i}.steps.${j}.after.${k}` });
+        } else if (!ids.has(a)) {
+          problems.push({ code: 'step_order', message: `Step “${step.text}” of stage “${stage.title}” waits for “${a}”, which is not a step of that stage. Choose a step of the same stage.`, path: `stages.${i}.steps.${j}.after.${k}` });
+        }
+      });
+    });
+    const circle = stepCycle(stage).filter((s) => !(s.after ?? []).includes(s.id));
+    if (circle.length > 0) {
+      problems.push({
+        code: 'step_order',
+        message: `In stage “${stage.title}”, steps ${listWords(circle.map((s) => `“${s.text}”`))} wait for each other in a circle (or for one that does), so none of them can ever be done. Remove one of those orders.`,
+        path: `stages.${i}.steps`,
+      });
+    }
+  });
+  return problems;
+}
+
+/** Where each stage, step and hold sits in a plan, and which holds every stage waits for. */
+class PlanIndex {
+  readonly stageIndex = new Map<string, number>();
+  /** Step id → stage index and step index (first occurrence). */
+  readonly stepAt = new Map<string, { stage: number; step: number }>();
+  /** Hold id → index of the stage that carries it. */
+  readonly holdAt = new Map<string, number>();
+  private readonly upstreamCache = new Map<number, Set<number>>();
+
+  constructor(readonly plan: Plan) {
+    plan.stages.forEach((s, i) => {
+      if (!this.stageIndex.has(s.id)) this.stageIndex.set(s.id, i);
+      s.steps.forEach((st, j) => {
+        if (!this.stepAt.has(st.id)) this.stepAt.set(st.id, { stage: i, step: j });
+      });
+      if (s.hold && !this.holdAt.has(s.hold.id)) this.holdAt.set(s.hold.id, i);
+    });
+  }
+
+  /** Every stage this stage waits for, directly or not (not itself). */
+  upstream(stage: number): Set<number> {
+    const cached = this.upstreamCache.get(stage);
+    if (cached) return cached;
+    const seen = new Set<number>();
+    const queue = [...this.plan.stages[stage].dependsOn];
+    while (queue.length > 0) {
+      const i = this.stageIndex.get(queue.shift() as string);
+      if (i === undefined || seen.has(i)) continue;
+      seen.add(i);
+      queue.push(...this.plan.stages[i].dependsOn);
+    }
+    seen.delete(stage);
+    this.upstreamCache.set(stage, seen);
+    return seen;
+  }
+
+  /** Ids of the holds (mandatory ones only, or all) of the stages this stage waits for. */
+  holdsBefore(stage: number, mandatoryOnly: boolean): Set<string> {
+    const out = new Set<string>();
+    for (const i of this.upstream(stage)) {
+      const h = this.plan.stages[i].hold;
+      if (h && (!mandatoryOnly || h.mandatory)) out.add(h.id);
+    }
+    return out;
+  }
+}
+
+/**
+ * A mandatory hold keeps its place: it stays in its stage, every stage that waited for it in the
+ * reference still does (directly or not), and a step that was behind it is not moved in front of it.
+ */
+function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
+  const problems: PlanProblem[] = [];
+  const ref = new PlanIndex(reference);
+  const now = new PlanIndex(plan);
+  const refHold = new Map<string, { hold: PlanHold; stage: PlanStage }>();
+  for (const s of reference.stages) if (s.hold?.mandatory) refHold.set(s.hold.id, { hold: s.hold, stage: s });
+
+  // The hold stays in the stage it closes: its steps are what it attests.
+  for (const [holdId, { hold, stage }] of refHold) {
+    const at = now.holdAt.get(holdId);
+    if (at !== undefined && plan.stages[at].id !== stage.id) {
+      problems.push({
+        code: 'mandatory_hold_bypassed',
+        message: `The mandatory hold “${hold.title}” belongs to stage “${stage.title}” and was moved to stage “${plan.stages[at].title}”. Put it back where it was.`,
+        path: `stages.${at}.hold`,
+      });
+    }
+  }
+  const inPlace = (holdId: string) => {
+    const at = now.holdAt.get(holdId);
+    return at !== undefined && plan.stages[at].id === refHold.get(holdId)?.stage.id;
+  };
+  const missing = (needed: Set<string>, have: Set<string>) => [...needed].filter((h) => inPlace(h) && !have.has(h));
+
+  reference.stages.forEach((refStage, r) => {
+    const i = now.stageIndex.get(refStage.id);
+    if (i === undefined) return;
+    const have = now.holdsBefore(i, false);
+    for (const h of missing(ref.holdsBefore(r, true), have)) {
+      const gate = refHold.get(h);
+      if (!gate) continue;
+      problems.push({
+        code: 'mandatory_hold_bypassed',
+        message: `Stage “${plan.stages[i].title}” no longer waits for the mandatory hold “${gate.hold.title}” of stage “${gate.stage.title}”, which protects it. Make it wait for that stage again, directly or through the stages after it.`,
+        path: `stages.${i}.dependsOn`,
+      });
+    }
+  });
+
+  // A step moved to another stage must still be behind every mandatory hold it was behind.
+  reference.stages.forEach((refStage, r) => {
+    const needed = ref.holdsBefore(r, true);
+    for (const refStep of refStage.steps) {
+      const at = now.stepAt.get(refStep.id);
+      if (!at || plan.stages[at.stage].id === refStage.id) continue;
+      const have = now.holdsBefore(at.stage, false);
+      // Moving a step behind its own stage's hold is later, not earlier: that hold counts too.
+      const own = plan.stages[at.stage].hold;
+      if (own) have.add(own.id);
+      for (const h of missing(needed, have)) {
+        const gate = refHold.get(h);
+        if (!gate) continue;
+        problems.push({
+          code: 'mandatory_hold_bypassed',
+          message: `Step “${refStep.text}” was moved to stage “${plan.stages[at.stage].title}”, which does not wait for the mandatory hold “${gate.hold.title}” of stage “${gate.stage.title}”. In the plan it comes after that hold; move it back.`,
+          path: `stages.${at.stage}.steps.${at.step}`,
+        });
+      }
+    }
+  });
+  return problems;
+}
+
+/** The mandatory hold a stage's steps protect, in words, for a refusal. */
+function protectedWords(stage: PlanStage): string {
+  return stage.hold?.mandatory
+    ? `It protects the mandatory hold “${stage.hold.title}” of stage “${stage.title}”.`
+    : `The plan marks it required in stage “${stage.title}”.`;
+}
+
+/** Steps the reference marks required stay, in the same stage; the reference's in-stage order stays. */
+function requiredStepProblems(plan: Plan, reference: Plan): PlanProblem[] {
+  const problems: PlanProblem[] = [];
+  const now = new PlanIndex(plan);
+  reference.stages.forEach((refStage) => {
+    const stageAt = now.stageIndex.get(refStage.id);
+    for (const refStep of refStage.steps) {
+      const at = now.stepAt.get(refStep.id);
+      if (refStep.required) {
+        if (!at) {
+          problems.push({
+            code: 'required_step_removed',
+            message: `The step “${refStep.text}” was removed. ${protectedWords(refStage)} A required step can never be removed; put it back.`,
+            ...(stageAt !== undefined ? { path: `stages.${stageAt}.steps` } : {}),
+          });
+          continue;
+        }
+        if (plan.stages[at.stage].id !== refStage.id) {
+          problems.push({
+            code: 'required_step_removed',
+            message: `The step “${refStep.text}” was moved out of stage “${refStage.title}”. ${protectedWords(refStage)} Put it back in its stage.`,
+            path: `stages.${at.stage}.steps.${at.step}`,
+          });
+          continue;
+        }
+      }
+      if (!at || plan.stages[at.stage].id !== refStage.id) continue;
+      // The order the reference asks for stays, directly or through other steps of the stage.
+      const stage = plan.stages[at.stage];
+      const before = stepsBefore(stage, refStep.id);
+      for (const a of refStep.after ?? []) {
+        if (!stage.steps.some((s) => s.id === a) || before.has(a)) continue;
+        const first = stage.steps.find((s) => s.id === a);
+        problems.push({
+          code: 'step_order',
+          message: `Step “${refStep.text}” of stage “${stage.title}” must come after “${first?.text ?? a}”, as the plan was generated. Put that order back.`,
+          path: `stages.${at.stage}.steps.${at.step}.after`,
+        });
+      }
+    }
+  });
+  return problems;
+}
+
+/** Every step a step waits for in its stage, directly or not. */
+function stepsBefore(stage: PlanStage, stepId: string): Set<string> {
+  const byId = new Map(stage.steps.map((s) => [s.id, s]));
+  const seen = new Set<string>();
+  const queue = [...(byId.get(stepId)?.after ?? [])];
+  while (queue.length > 0) {
+    const id = queue.shift() as string;
+    if (seen.has(id)) continue;
+    seen.add(id);
+    queue.push(...(byId.get(id)?.after ?? []));
+  }
+  return seen;
+}
+
+type Check = NonNullable<StepRecord['check']>;
+
+/** A check in words, for a refusal. */
+function checkWords(c: Check, unit: string | null): string {
+  const u = unit ? ` ${unit}` : '';
+  switch (c.kind) {
+    case 'plan':
+      return `the plan’s figure ${c.planned}${u}${c.tolerance > 0 ? ` (±${c.tolerance}${u})` : ''}`;
+    case 'max':
+      return `at most ${c.limit}${u}`;
+    case 'min':
+      return `at least ${c.limit}${u}`;
+    case 'wind':
+      return `the ${c.phase} wind limit`;
+  }
+}
+
+/** Is `now` at least as strict as `ref`? Same kind; a figure unchanged with no wider tolerance; a limit no looser; the same wind phase. */
+function atLeastAsStrict(now: Check | null | undefined, ref: Check): boolean {
+  if (!now || now.kind !== ref.kind) return false;
+  switch (ref.kind) {
+    case 'plan':
+      return now.kind === 'plan' && now.planned === ref.planned && now.tolerance <= ref.tolerance;
+    case 'max':
+      return now.kind === 'max' && now.limit <= ref.limit;
+    case 'min':
+      return now.kind === 'min' && now.limit >= ref.limit;
+    case 'wind':
+      return now.kind === 'wind' && now.phase === ref.phase;
+  }
+}
+
+/** A reading the reference compares stays compared, never against anything looser. */
+function checkProblems(plan: Plan, reference: Plan): PlanProblem[] {
+  const problems: PlanProblem[] = [];
+  const now = new PlanIndex(plan);
+  for (const refStage of reference.stages) {
+    for (const refStep of refStage.steps) {
+      const refCheck = refStep.records?.check;
+      const at = now.stepAt.get(refStep.id);
+      if (!refCheck || !at) continue;
+      const step = plan.stages[at.stage].steps[at.step];
+      const records = step.records;
+      if (records?.kind === refStep.records?.kind && records?.unit === refStep.records?.unit && atLeastAsStrict(records?.check, refCheck)) continue;
+      problems.push({
+        code: 'check_weakened',
+        message: `The reading of step “${refStep.text}” is no longer held to ${checkWords(refCheck, refStep.records?.unit ?? null)}${'source' in refCheck && refCheck.source ? ` (${refCheck.source})` : ''}. Put the check back as generated; change the configuration if the figure is wrong.`,
+        path: `stages.${at.stage}.steps.${at.step}.records`,
+      });
+    }
+  }
+  return problems;
+}
+
+/**
+ * Everything that stops a plan being locked. `reference` is the plan generated from the same
+ * configuration (or a previous version of the same plan); without one only the structure is checked.
+ */
 export function planProblems(plan: Plan, reference: Plan | null): PlanProblem[] {
-  return [...duplicateIds(plan), ...dependencyProblems(plan), ...holdRoleProblems(plan), ...(reference ? mandatoryProblems(plan, reference) : [])];
+  return [
+    ...duplicateIds(plan),
+    ...dependencyProblems(plan),
+    ...holdRoleProblems(plan),
+    ...stepOrderProblems(plan),
+    ...(reference
+      ? [...mandatoryProblems(plan, reference), ...gatingProblems(plan, reference), ...requiredStepProblems(plan, reference), ...checkProblems(plan, reference)]
+      : []),
+  ];
+}
+
+/** Problem codes that weaken a mandatory hold: a plan edit or a revision with one is refused outright. */
+export const MANDATORY_PROBLEM_CODES: ReadonlySet<PlanProblem['code']> = new Set([
+  'mandatory_hold_removed',
+  'mandatory_role_removed',
+  'mandatory_hold_bypassed',
+  'required_step_removed',
+]);
+
+/** Does this problem weaken a mandatory hold (its existence, roles, value check, place, or a step it relies on)? */
+export function protectsMandatoryHold(problem: Pick<PlanProblem, 'code'>): boolean {
+  return MANDATORY_PROBLEM_CODES.has(problem.code);
+}
+
+/**
+ * The problems of a revision on the live board: against the plan generated from the job's
+ * configuration and against the version in force, so nothing the crew is working to can be
+ * weakened, even where that version was stricter than the template. Each message once.
+ */
+export function revisionProblems(next: Plan, generated: Plan | null, current: Plan | null): PlanProblem[] {
+  const seen = new Set<string>();
+  const out: PlanProblem[] = [];
+  for (const p of [...planProblems(next, generated), ...(current ? planProblems(next, current) : [])]) {
+    if (seen.has(p.message)) continue;
+    seen.add(p.message);
+    out.push(p);
+  }
+  return out;
 }
 
 /**

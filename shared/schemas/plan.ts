@@ -119,7 +119,23 @@ export type Plan = z.infer<typeof planSchema>;
 
 /** One problem that stops a plan being locked. */
 export interface PlanProblem {
-  code: 'cycle' | 'unknown_dependency' | 'unreachable' | 'duplicate_id' | 'mandatory_hold_removed' | 'mandatory_role_removed' | 'no_acknowledging_role' | 'holds_need_more_people';
+  code:
+    | 'cycle'
+    | 'unknown_dependency'
+    | 'unreachable'
+    | 'duplicate_id'
+    | 'mandatory_hold_removed'
+    | 'mandatory_role_removed'
+    | 'no_acknowledging_role'
+    | 'holds_need_more_people'
+    /** A stage or step no longer waits for a mandatory hold that gated it in the reference plan (or the hold left its stage). */
+    | 'mandatory_hold_bypassed'
+    /** A step the template marks required was removed or moved out of its stage. */
+    | 'required_step_removed'
+    /** A step's `after` names no step of its stage, the steps wait in a circle, or an order of the reference plan was dropped. */
+    | 'step_order'
+    /** A reading is no longer held to what the reference plan holds it to, or to something looser. */
+    | 'check_weakened';
   message: string;
   /** Where in the plan, as a path like "stages.3.dependsOn.0". */
   path?: string;

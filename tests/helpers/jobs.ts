@@ -1,8 +1,12 @@
 import request from 'supertest';
 import type { Configuration } from '../../shared/schemas/configuration.js';
-import { jobEnvelopeSchema, type JobDto } from '../../shared/schemas/jobs.js';
+import { jobEnvelopeSchema, motions, type JobDto } from '../../shared/schemas/jobs.js';
 import type { SignedInUser } from './auth.js';
 import type { TestServer } from './server.js';
+
+/** The assist crane's pads and tandem raise as the schema defaults them: nothing entered. */
+export const noAssistPads: Configuration['assist']['pads'] = { kind: 'outrigger', loadT: null, lengthM: null, widthM: null, weightKg: 0 };
+export const noTandem: Configuration['assist']['tandem'] = { alongFromTipM: null, sideM: null, releaseAngleDeg: null, hookBlockT: 0, slingsT: 0, shacklesT: 0, deductionsT: 0 };
 
 /** A complete configuration for the demo model's 18 m boom that a unit with the 18 m kit can build. */
 export function configuration18m(craneUnitId: string, overrides: Partial<Configuration> = {}): Configuration {
@@ -14,9 +18,10 @@ export function configuration18m(craneUnitId: string, overrides: Partial<Configu
     heaviestLoad: { description: 'Transformer core, 20 t', loadT: 20, riggingT: 0.8, radiusM: 8 },
     ground: { groundType: 'medium dense gravel', allowablePressureKpa: 400, source: { kind: 'ground_investigation', reference: 'GI report T-001', designer: '' } },
     mats: { used: false, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 },
-    assist: { assistCraneId: null, chartId: null, lifts: [] },
+    assist: { assistCraneId: null, chartId: null, lifts: [], pads: noAssistPads, tandem: noTandem },
     siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     fallZoneMarginM: 5,
+    chartCautionPercent: 75,
     ...overrides,
   };
 }
@@ -42,6 +47,24 @@ export async function plannedJob(server: TestServer, crew: Crew, unitId: string,
         { userId: crew.signaller.user.id, role: 'signaller' },
         { userId: crew.rigger.user.id, role: 'rigger' },
       ],
+    })
+    .expect(200);
+  // Readiness asks for every motion to be directed by a crew member with a call sign.
+  await request(server.app)
+    .patch(`/api/jobs/${created.id}`)
+    .set(auth)
+    .send({
+      commsPlan: {
+        radioChannel: 'Channel 2',
+        callSigns: [
+          { userId: crew.supervisor.user.id, callSign: 'Lead' },
+          { userId: crew.operator.user.id, callSign: 'Cab' },
+          { userId: crew.signaller.user.id, callSign: 'Signals' },
+          { userId: crew.rigger.user.id, callSign: 'Rigger' },
+        ],
+        motionSignallers: motions.map((motion) => ({ motion, userId: crew.signaller.user.id })),
+        fallbackHandSignals: 'Stop, Emergency Stop, Hoist, Lower, Raise Boom, Lower Boom, Swing, Travel, Move Slowly',
+      },
     })
     .expect(200);
   const configured = await request(server.app).put(`/api/jobs/${created.id}/configuration`).set(auth).send(configuration18m(unitId)).expect(200);

@@ -3,6 +3,7 @@
 // length). Every expected count here comes from the computed make-up or the arrangement data,
 // never from the generator itself.
 import { describe, expect, it } from 'vitest';
+import type { z } from 'zod';
 import { activeStages, generatePlan, holdsNeedPeople, OPERATING_MODE_EXPECTED, planProblems } from '../../shared/plan';
 import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
@@ -48,8 +49,9 @@ const comms: CommsPlan = {
 };
 const crewNames = { [ANN]: 'Ann Okafor', [BEN]: 'Ben Lusk', [CAL]: 'Cal Reyes', [DEE]: 'Dee Mason' };
 
-function config(overrides: Partial<Configuration> = {}): Configuration {
-  return configurationSchema.parse(configuration18m(UNIT_ID, overrides));
+/** The 18 m configuration with changes, through the schema so fields added later take their defaults. */
+function config(overrides: Partial<z.input<typeof configurationSchema>> = {}): Configuration {
+  return configurationSchema.parse({ ...configuration18m(UNIT_ID), ...overrides });
 }
 
 function compute(cfg: Configuration, arrangement: ArrangementData = crane): ConfigurationResults {
@@ -81,7 +83,7 @@ function allIds(p: Plan): string[] {
   return p.stages.flatMap((s) => [s.id, ...s.steps.map((st) => st.id), ...(s.hold ? [s.hold.id] : [])]);
 }
 
-const withAssist = (over: Partial<Configuration> = {}) =>
+const withAssist = (over: Partial<z.input<typeof configurationSchema>> = {}) =>
   config({
     assist: { assistCraneId: ASSIST_ID, chartId: 'boom-20.5m-full-cw', lifts: [{ label: 'Tip onto dollies', liftT: 4.1, riggingT: 0.2, radiusM: 9 }, { label: 'Base into the foot pins', liftT: 7.8, riggingT: 0.3, radiusM: 7 }] },
     siteHazards: {
@@ -121,7 +123,8 @@ describe('generatePlan: what the configuration needs', () => {
     expect(compute(cfg).makeup.arrangement).toBeNull();
     const er = plan('erection', cfg);
     expect(stage(er, 'er-joints').steps.map((s) => s.id)).toEqual(['er-joints.radio-check', 'er-joints.slings']);
-    expect(stage(er, 'er-guys').steps.map((s) => s.id)).toEqual(['er-guys.radio-check']);
+    expect(stage(er, 'er-guys').steps.map((s) => s.id)).toEqual(['er-guys.radio-check', 'er-guys.bridle']);
+    expect(stage(er, 'er-guy-layout').steps.map((s) => s.id)).toEqual(['er-guy-layout.radio-check']);
     expect(stage(er, 'er-upper').steps.some((s) => s.id.startsWith('er-upper.cw-'))).toBe(false);
     expect(stage(er, 'er-upper').hold?.instruction).toContain('not listed for this boom length');
     expect(er.briefing.sections[0].items.join(' ')).toMatch(/cannot be built as planned: 19 m is not a boom length/);
@@ -158,7 +161,8 @@ describe('generatePlan: what the configuration needs', () => {
     const cfg = config({ auxiliary: { enabled: true, hookBlockId: 'BALL12' } });
     const withAux = plan('erection', cfg);
     const aux = stage(withAux, 'er-aux');
-    expect(aux.dependsOn).toEqual(['er-tip']);
+    // Reeving the auxiliary hoist is reeving too: only after the tensioning hold.
+    expect(aux.dependsOn).toEqual(['er-tension']);
     expect(aux.steps.some((s) => s.text.includes('BALL12'))).toBe(true);
     expect(hasStep(withAux, 'er-tip.aux-sheave')).toBe(true);
     expect(hasStep(withAux, 'er-raise.aux-over-hoist')).toBe(true);
@@ -181,10 +185,12 @@ describe('generatePlan: what the configuration needs', () => {
 
     const assist = stage(er, 'er-assist');
     expect(assist.involvesCraneMovement).toBe(true);
-    expect(assist.steps.filter((s) => /\.lift-\d+$/.test(s.id)).map((s) => s.id)).toEqual(['er-assist.lift-1', 'er-assist.lift-2']);
-    expect(assist.steps.find((s) => s.id === 'er-assist.lift-1')?.text).toContain('Tip onto dollies, 4.3 t with rigging at 9 m radius');
+    const lifts = stage(er, 'er-assist-lifts');
+    expect(lifts.dependsOn).toEqual(['er-assist']);
+    expect(lifts.steps.filter((s) => /\.lift-\d+$/.test(s.id)).map((s) => s.id)).toEqual(['er-assist-lifts.lift-1', 'er-assist-lifts.lift-2']);
+    expect(lifts.steps.find((s) => s.id === 'er-assist-lifts.check-1')?.text).toContain('(Tip onto dollies): the load is 4.3 t with rigging at 9 m radius');
     expect(stage(er, 'er-check').dependsOn).toEqual(['er-ground', 'er-assist']);
-    expect(stage(plan('dismantling', cfg), 'dm-assist').steps.some((s) => s.id === 'dm-assist.lift-2')).toBe(true);
+    expect(stage(plan('dismantling', cfg), 'dm-assist-lifts').steps.some((s) => s.id === 'dm-assist-lifts.lift-2')).toBe(true);
 
     const plain = plan('erection', config());
     expect(plain.stages.some((s) => s.id === 'er-assist')).toBe(false);
@@ -195,7 +201,7 @@ describe('generatePlan: what the configuration needs', () => {
     for (const length of [18, 36, 90]) {
       const cfg = config({ boomLengthM: length });
       const raisingKg = crane.arrangements.find((a) => a.boomLengthM === length)?.raising.counterweightKg ?? NaN;
-      const steps = stage(plan('erection', cfg), 'er-upper').steps.filter((s) => s.id.startsWith('er-upper.cw-'));
+      const steps = stage(plan('erection', cfg), 'er-upper').steps.filter((s) => s.id.startsWith('er-upper.cw-') && s.id !== 'er-upper.cw-count');
       const blocks = crane.machine.counterweight.blocks.slice(0, steps.length);
       expect(steps.map((s) => s.id)).toEqual(blocks.map((b) => `er-upper.cw-${b.id}`));
       expect(blocks.reduce((sum, b) => sum + b.weightKg, 0)).toBe(raisingKg);
@@ -241,8 +247,9 @@ describe('generatePlan: one step per joint and per guy line, pins matching the c
   it('a guy-line step for each of the quantity lines of each mark, recording its planned serial', () => {
     const cfg = config({ boomLengthM: 42 });
     const results = compute(cfg);
-    const guys = stage(plan('erection', cfg), 'er-guys').steps.filter((s) => s.id.includes('.line-'));
-    const expected = results.makeup.guyLines.flatMap((g) => g.serials.map((serial, i) => ({ id: `er-guys.line-${g.mark}-${i + 1}`, typeId: g.mark, plannedSerial: serial })));
+    // The serial is recorded where the line is laid out; pinning records the pins.
+    const guys = stage(plan('erection', cfg), 'er-guy-layout').steps.filter((s) => s.id.includes('.line-'));
+    const expected = results.makeup.guyLines.flatMap((g) => g.serials.map((serial, i) => ({ id: `er-guy-layout.line-${g.mark}-${i + 1}`, typeId: g.mark, plannedSerial: serial })));
     expect(expected).toHaveLength(10);
     expect(guys.map((s) => ({ id: s.id, typeId: s.records?.typeId, plannedSerial: s.records?.plannedSerial }))).toEqual(expected);
     expect(guys.every((s) => s.records?.kind === 'serial' && s.records.componentKind === 'guy_line')).toBe(true);
@@ -257,7 +264,7 @@ describe('generatePlan: one step per joint and per guy line, pins matching the c
       results.makeup.sections.forEach((pos, i) => {
         expect(laydown[i].id).toBe(`er-check.position-${pos.position}`);
         expect(pos.serial).not.toBeNull();
-        expect(laydown[i].records).toEqual({ kind: 'serial', label: expect.any(String), unit: null, componentKind: 'section', typeId: pos.typeId, plannedSerial: pos.serial });
+        expect(laydown[i].records).toEqual({ kind: 'serial', label: expect.any(String), unit: null, componentKind: 'section', typeId: pos.typeId, plannedSerial: pos.serial, check: null });
       });
     }
     // The 90 m boom uses all six 12 m inserts, each at its own position with its own serial.
@@ -286,13 +293,13 @@ describe('generatePlan: holds', () => {
     }
   });
 
-  it('ground and communications, configuration entry, tensioning, pre-raise, function tests and handover are mandatory', () => {
-    const p = plan('erection', config());
-    for (const id of ['er-ground', 'er-config', 'er-tension', 'er-preraise', 'er-raise', 'er-handover']) {
+  it('ground and communications, assist set-up, joints, guy-line pins, configuration entry, tensioning, pre-raise, function tests and handover are mandatory', () => {
+    const p = plan('erection', withAssist());
+    for (const id of ['er-ground', 'er-assist', 'er-joints', 'er-guys', 'er-config', 'er-tension', 'er-preraise', 'er-raise', 'er-handover']) {
       expect(stage(p, id).hold?.mandatory, id).toBe(true);
     }
     // The rest may be skipped with a reason, so they must not be marked mandatory by accident.
-    for (const id of ['er-upper', 'er-check', 'er-joints', 'er-guys', 'er-reeve']) {
+    for (const id of ['er-upper', 'er-check', 'er-reeve']) {
       expect(stage(p, id).hold?.mandatory, id).toBe(false);
     }
     expect(stage(p, 'er-preraise').hold?.requiredRoles.sort()).toEqual(['operator', 'rigger', 'signaller', 'supervisor']);
@@ -350,11 +357,12 @@ describe('generatePlan: dismantling is its own plan', () => {
       expect(serial?.records?.plannedSerial).toBe(results.makeup.sections[n].serial);
     }
     expect(stage(dm, `dm-support-${jointCount}`).dependsOn).toEqual(['dm-guys']);
-    expect(stage(dm, 'dm-counterweight').dependsOn).toEqual(['dm-joint-1']);
+    // The counterweight comes off after the last joint and with the mast on its rest.
+    expect(stage(dm, 'dm-counterweight').dependsOn).toEqual(['dm-joint-1', 'dm-mast']);
   });
 
   it('counterweight comes off in the stated order: the last block fitted first', () => {
-    const fitted = stage(er, 'er-upper').steps.filter((s) => s.id.startsWith('er-upper.cw-')).map((s) => s.id.replace('er-upper.cw-', ''));
+    const fitted = stage(er, 'er-upper').steps.filter((s) => s.id.startsWith('er-upper.cw-') && s.id !== 'er-upper.cw-count').map((s) => s.id.replace('er-upper.cw-', ''));
     const off = stage(dm, 'dm-counterweight').steps.filter((s) => s.id.startsWith('dm-counterweight.off-')).map((s) => s.id.replace('dm-counterweight.off-', ''));
     expect(fitted.length).toBeGreaterThan(1);
     expect(off).toEqual([...fitted].reverse());
@@ -456,18 +464,21 @@ describe('activeStages: dependencies', () => {
     expect(active('er-ground')).toEqual(['er-upper', 'er-check']);
   });
 
-  it('guy lines become active exactly when the component check is done, while the joints are still active', () => {
-    expect(active('er-ground', 'er-upper')).not.toContain('er-guys');
-    expect(active('er-ground', 'er-check')).toContain('er-guys');
+  it('guy lines may be laid out once the component check is done, while the joints are still being pinned', () => {
+    expect(active('er-ground', 'er-upper')).not.toContain('er-guy-layout');
+    expect(active('er-ground', 'er-check')).toContain('er-guy-layout');
     expect(active('er-ground', 'er-check')).not.toContain('er-joints');
-    expect(active('er-ground', 'er-upper', 'er-check')).toEqual(['er-joints', 'er-guys']);
+    expect(active('er-ground', 'er-upper', 'er-check')).toEqual(['er-joints', 'er-guy-layout']);
   });
 
-  it('tensioning waits for both the pinned boom and the guy lines; reeving runs after the tip', () => {
-    expect(active('er-ground', 'er-upper', 'er-check', 'er-guys')).toEqual(['er-joints']);
-    expect(active('er-ground', 'er-upper', 'er-check', 'er-joints')).toEqual(['er-guys', 'er-tip']);
-    expect(active('er-ground', 'er-upper', 'er-check', 'er-joints', 'er-tip')).toEqual(['er-guys', 'er-reeve']);
-    expect(active('er-ground', 'er-upper', 'er-check', 'er-joints', 'er-tip', 'er-guys')).toEqual(['er-tension', 'er-reeve']);
+  it('guy lines are pinned only after every joint; tensioning waits for the pinned lines and the tip; reeving waits for tensioning', () => {
+    const before = ['er-ground', 'er-upper', 'er-check'];
+    expect(active(...before, 'er-guy-layout')).toEqual(['er-joints']);
+    expect(active(...before, 'er-joints')).toEqual(['er-guy-layout', 'er-tip']);
+    expect(active(...before, 'er-joints', 'er-guy-layout')).toEqual(['er-guys', 'er-tip']);
+    expect(active(...before, 'er-joints', 'er-guy-layout', 'er-tip')).toEqual(['er-guys']);
+    expect(active(...before, 'er-joints', 'er-guy-layout', 'er-tip', 'er-guys')).toEqual(['er-tension']);
+    expect(active(...before, 'er-joints', 'er-guy-layout', 'er-tip', 'er-guys', 'er-tension')).toEqual(['er-reeve']);
   });
 
   it('a stage waiting for an unknown stage never becomes active', () => {
@@ -521,12 +532,12 @@ describe('planProblems', () => {
     expect(codes(edit((p) => { p.stages[1].steps[1].id = p.stages[1].steps[0].id; }))).toEqual(['duplicate_id']);
     expect(codes(edit((p) => { p.stages[2].id = p.stages[1].id; }))).toContain('duplicate_id');
     const noRoles = edit((p) => {
-      const h = p.stages[idx(p, 'er-joints')].hold;
+      const h = p.stages[idx(p, 'er-check')].hold;
       if (h) h.requiredRoles = [];
     });
     expect(codes(noRoles)).toEqual(['no_acknowledging_role']);
     const viewerOnly = edit((p) => {
-      const h = p.stages[idx(p, 'er-joints')].hold;
+      const h = p.stages[idx(p, 'er-check')].hold;
       if (h) h.requiredRoles = ['viewer'];
     });
     expect(codes(viewerOnly)).toEqual(['no_acknowledging_role']);
@@ -534,7 +545,8 @@ describe('planProblems', () => {
 
   it('finds a mandatory hold removed, marked not mandatory, or stripped of a role or a value-check field', () => {
     expect(codes(edit((p) => { p.stages[idx(p, 'er-tension')].hold = null; }))).toEqual(['mandatory_hold_removed']);
-    expect(codes(edit((p) => { p.stages.splice(idx(p, 'er-handover'), 1); }))).toEqual(['mandatory_hold_removed']);
+    // The stage goes with its required steps: the examination and the handover itself.
+    expect(codes(edit((p) => { p.stages.splice(idx(p, 'er-handover'), 1); }))).toEqual(['mandatory_hold_removed', 'required_step_removed', 'required_step_removed']);
     expect(codes(edit((p) => {
       const h = p.stages[idx(p, 'er-config')].hold;
       if (h) h.mandatory = false;
@@ -554,9 +566,9 @@ describe('planProblems', () => {
 
   it('allows adding roles to a mandatory hold and changing non-mandatory holds', () => {
     expect(codes(edit((p) => { p.stages[idx(p, 'er-tension')].hold?.requiredRoles.push('rigger'); }))).toEqual([]);
-    expect(codes(edit((p) => { p.stages[idx(p, 'er-joints')].hold = null; }))).toEqual([]);
+    expect(codes(edit((p) => { p.stages[idx(p, 'er-check')].hold = null; }))).toEqual([]);
     expect(codes(edit((p) => {
-      const h = p.stages[idx(p, 'er-guys')].hold;
+      const h = p.stages[idx(p, 'er-reeve')].hold;
       if (h) h.requiredRoles = ['rigger'];
     }))).toEqual([]);
     // Without a reference only the structure is checked.

@@ -40,7 +40,7 @@ export const dismantlingStages = {
   lower: {
     id: 'dm-lower',
     title: 'Lower the boom onto blocking',
-    summary: 'Bring the boom down onto blocking at the points the manual gives.',
+    summary: 'Re-check the ground and the wind, then bring the boom down onto blocking at the points the manual gives, landing the hook block on the way.',
     cautions: [
       'Nobody under the boom or inside the exclusion zone while it comes down.',
       'Lower slowly, on the signaller’s direction only.',
@@ -48,28 +48,49 @@ export const dismantlingStages = {
     involvesCraneMovement: true,
     steps: {
       unload: { text: 'Take any load and loose gear off the hooks.', roles: ['rigger', 'signaller'] },
+      // The crane has stood on this ground through the job: mats crack and ground softens. Lowering
+      // loads the front of the crawlers as much as raising did, so the ground is checked again, to
+      // the same slope limit as for raising (arrangement data).
+      ground: {
+        text: 'Re-check the ground and the mats under the crawlers: no settlement, cracks or soft spots, every mat whole and where the plan shows it. The slope may be no more than {slopePercent} %, the crane data’s limit. Record the slope.',
+        roles: ['rigger', 'supervisor'],
+        record: { kind: 'reading', label: 'Slope', unit: '%', check: 'max' },
+        required: true,
+      },
       blocking: {
         text: 'Place the blocking at the points the manual gives for a {boomLengthM} m boom. Photo of the blocking.',
         roles: ['rigger'],
         photo: true,
+        required: true,
       },
       limiterMode: {
         text: 'Switch the limiter to its assembly mode only if and as the manual allows. Record who switched it.',
         roles: ['operator'],
-        record: { kind: 'reading', label: 'Switched by', unit: null },
+        // A name, not a figure: recorded only.
+        record: { kind: 'reading', label: 'Switched by', unit: null, check: null },
       },
       tipSupport: {
         text: 'Carry the tip with the assist crane or a tip dolly as the boom comes down, as the crane data asks for this length.',
         roles: ['signaller', 'supervisor'],
+        required: true,
+      },
+      // As the boom comes down the hook block nears the ground first: landed on timber and the hoist
+      // paid out, it is never dragged nor drawn up into the tip (common practice, no source).
+      landHook: {
+        text: 'On signal, start lowering the boom slowly and, as it comes down, land hook block {hookBlockId} on timber ahead of the tip, paying out the hoist so the block is never dragged nor drawn up to the tip.',
+        roles: ['operator', 'signaller', 'rigger'],
+        required: true,
+        after: ['ground', 'blocking', 'wind', 'tip-support'],
       },
       lower: {
-        text: 'On signal, lower the boom slowly until it rests on the blocking at every point.',
+        text: 'On signal, lower the boom the rest of the way, slowly, until it rests on the blocking at every point.',
         roles: ['operator', 'signaller'],
+        after: ['land-hook'],
       },
     },
     hold: {
       title: 'Boom resting on its blocking',
-      instruction: 'The boom rests on blocking at every stated point and the boom hoist is stopped.',
+      instruction: 'The boom rests on blocking at every stated point, the hook block is landed, and the boom hoist is stopped.',
       roles: ['operator', 'signaller', 'rigger'],
       mandatory: true,
     },
@@ -82,16 +103,17 @@ export const dismantlingStages = {
     cautions: ['Drums turn only on signal; hands stay clear of sheaves and running rope.'],
     involvesCraneMovement: true,
     steps: {
-      block: { text: 'Lower hook block {hookBlockId} to the ground in line with the tip.', roles: ['operator', 'rigger'] },
+      block: { text: 'Check hook block {hookBlockId} rests on its timber in line with the tip, clear of the boom.', roles: ['operator', 'rigger'] },
       unreeve: {
-        text: 'Release the rope socket at the dead end and wind the main hoist rope back onto its drum through the block and the tip sheaves.',
+        text: 'Release the wedge socket at the dead end and wind the main hoist rope back onto its drum through the block and the tip sheaves.',
         roles: ['rigger', 'operator'],
+        after: ['block'],
       },
       aux: {
-        text: 'Set {hookBlockId} down, release the auxiliary socket and wind the auxiliary line back onto its drum.',
+        text: 'Set {hookBlockId} down, release the auxiliary wedge socket and wind the auxiliary line back onto its drum.',
         roles: ['rigger', 'operator'],
       },
-      stow: { text: 'Stow the hook block and secure the rope ends on the drums.', roles: ['rigger'] },
+      stow: { text: 'Stow the hook block and secure the rope ends on the drums.', roles: ['rigger'], after: ['unreeve', 'aux'] },
     },
     hold: null,
   },
@@ -122,13 +144,20 @@ export const dismantlingStages = {
     ],
     involvesCraneMovement: true,
     steps: {
-      clear: { text: 'Check nobody is on the boom or between the guy lines.', roles: ['rigger', 'signaller'] },
-      payOut: { text: 'On signal, pay out the boom hoist until every guy line hangs slack.', roles: ['operator', 'signaller'] },
-      look: { text: 'Walk the lines and confirm each one is slack along its whole length.', roles: ['rigger'] },
+      clear: { text: 'Check nobody is on the boom or between the guy lines.', roles: ['rigger', 'signaller'], required: true },
+      payOut: { text: 'On signal, pay out the boom hoist until every guy line hangs slack.', roles: ['operator', 'signaller'], after: ['clear'] },
+      // As after tensioning: a live boom hoist could draw the lines taut again under a rigger's hands.
+      lock: {
+        text: 'Boom hoist stopped: set its pawl or brake as the manual says and lock the control before anyone goes along the boom.',
+        roles: ['operator'],
+        required: true,
+        after: ['pay-out'],
+      },
+      look: { text: 'Walk the lines and confirm each one is slack along its whole length.', roles: ['rigger'], required: true, after: ['lock'] },
     },
     hold: {
       title: 'Guy lines slack',
-      instruction: 'Every guy line is slack and the boom hoist is stopped. Only then may anyone touch a guy-line pin.',
+      instruction: 'Every guy line is slack, the boom hoist is stopped with its pawl or brake set and its control locked. Only then may anyone touch a guy-line pin.',
       roles: ['operator', 'signaller', 'rigger'],
       mandatory: true,
     },
@@ -144,40 +173,77 @@ export const dismantlingStages = {
     ],
     involvesCraneMovement: true,
     steps: {
+      // The bridle comes off the slack lines first, so no line can be drawn by the boom hoist while it is unpinned.
+      bridle: {
+        text: 'Disconnect the bridle from the guy lines as the manual shows and secure it to the mast; put its pins and keepers back in their stowage.',
+        roles: ['rigger', 'supervisor'],
+        required: true,
+      },
       line: {
         text: 'Guy line {mark}, {n} of {quantity} ({lengthM} m): {pins}. Take out the split pins, drive the pins out from the outside, tip end first, and stow the line with its pins and keepers. Record its serial.',
         roles: ['rigger', 'supervisor'],
-        record: { kind: 'serial', label: 'Guy-line serial', unit: null },
+        record: { kind: 'serial', label: 'Guy-line serial', unit: null, check: null },
+        required: true,
+        after: ['bridle'],
       },
     },
     hold: {
       title: 'Guy-line pins accounted for',
-      instruction: 'Every guy line is off the boom and stowed, and all {guyPins} pins and their keepers are counted.',
+      instruction: 'The bridle is off, every guy line is off the boom and stowed, and all {guyPins} and their keepers are counted.',
       roles: ['rigger', 'supervisor'],
       mandatory: true,
     },
   },
 
+  // With the bridle off, the mast carries nothing and goes down onto its rest before the crane is
+  // stripped further (common practice, no source; the manual gives when and how).
+  mast: {
+    id: 'dm-mast',
+    title: 'Mast onto its rest',
+    summary: 'Lower the mast onto its rest once the bridle is off the guy lines.',
+    cautions: ['Nobody under the mast or between the mast and the upper works while it comes down.'],
+    involvesCraneMovement: true,
+    steps: {
+      clear: { text: 'Check nobody is under the mast or between the mast and the upper works.', roles: ['signaller', 'rigger'] },
+      lower: {
+        text: 'On signal, lower the mast with the boom hoist onto its rest and secure it as the manual says.',
+        roles: ['operator', 'signaller'],
+        after: ['clear'],
+      },
+    },
+    hold: null,
+  },
+
+  // Most boom collapses happen while pins come out: blocking goes under both sides of the joint
+  // before any of its pins is drawn, so neither section can drop or swing when the joint opens
+  // (common practice, no source). The hold of this stage comes before the pin-drawing stage.
   support: {
     id: 'dm-support-{n}',
-    title: 'Support section {position} ({typeId})',
-    summary: 'Support the {typeId} section above joint {n} before any of the joint’s pins are drawn.',
+    title: 'Block joint {n} ({typeId} section {position})',
+    summary: 'Blocking under both sides of joint {n}, and the {typeId} section above it supported, before any of the joint’s pins are drawn.',
     cautions: [
       'Nobody inside or under the boom.',
       'If the assist crane carries the section, its hook stays on until the section is set down.',
     ],
     involvesCraneMovement: true,
     steps: {
-      support: {
-        text: 'Support section {position} ({typeId}, {weightT} t): blocking under it at the points the manual gives, or the assist crane hooked on with soft slings and the weight taken on signal.',
+      blocking: {
+        text: 'Blocking under both sides of joint {n}: under the end of {below} and under the end of {above}, at the points the manual gives, so neither section can drop when the pins come out. Photo of the blocking.',
         roles: ['rigger', 'signaller'],
+        photo: true,
+        required: true,
       },
-      clear: { text: 'Check nobody is inside or under the boom.', roles: ['signaller', 'supervisor'] },
+      support: {
+        text: 'Section {position} ({typeId}, {weightT} t) supported: on its blocking, and where the assist crane carries it, hooked on with soft slings and the weight taken on signal.',
+        roles: ['rigger', 'signaller'],
+        after: ['blocking'],
+      },
+      clear: { text: 'Check nobody is inside or under the boom.', roles: ['signaller', 'supervisor'], required: true },
     },
     hold: {
-      title: 'Section {position} supported',
+      title: 'Joint {n} blocked on both sides',
       instruction:
-        'Section {position} is supported by blocking or the assist crane, and nobody is inside or under the boom. Only then are the pins of joint {n} drawn.',
+        'Blocking is under both sides of joint {n}, section {position} is supported, and nobody is inside or under the boom. Only then are the pins of joint {n} drawn.',
       roles: ['rigger', 'signaller'],
       mandatory: true,
     },
@@ -194,16 +260,19 @@ export const dismantlingStages = {
     involvesCraneMovement: true,
     steps: {
       pins: {
-        text: 'Joint {n}, {below} to {above}: {pins}. Take out the keepers and drive the pins out from the outside, in the order the manual gives.',
+        text: 'Joint {n}, {below} to {above}: {pins}. Take out the keepers and drive the pins out from the outside, in the order the manual gives. Record the pins drawn.',
         roles: ['rigger'],
+        // Counted against the crane data: a pin left in, or one missing from the stowage, shows here.
+        record: { kind: 'reading', label: 'Pins drawn', unit: null, check: 'plan' },
+        required: true,
       },
-      setDown: { text: 'On signal, lift section {position} clear and set it down on timber.', roles: ['signaller', 'rigger'] },
+      setDown: { text: 'On signal, lift section {position} clear and set it down on timber.', roles: ['signaller', 'rigger'], after: ['pins'] },
       serial: {
         text: 'Record the serial of the section taken off (planned: {plannedSerial}).',
         roles: ['rigger', 'supervisor'],
-        record: { kind: 'serial', label: 'Serial taken off', unit: null },
+        record: { kind: 'serial', label: 'Serial taken off', unit: null, check: null },
       },
-      stow: { text: 'Put the pins and keepers back in their stowage on the section.', roles: ['rigger'] },
+      stow: { text: 'Put the pins and keepers back in their stowage on the section.', roles: ['rigger'], after: ['pins'] },
     },
     hold: {
       title: 'Joint {n} apart',
@@ -220,16 +289,21 @@ export const dismantlingStages = {
     cautions: [
       'Nobody under a suspended block or between a block and the upper works.',
       'Blocks come off in the stated order only.',
+      // With the boom off, the counterweight alone can tip the crane backwards (common practice, no source).
+      'Backward stability: with counterweight on and the boom off the crane can tip over backwards. No travel and no slew until the counterweight is off as the manual says.',
     ],
     involvesCraneMovement: true,
     steps: {
       confirm: {
-        text: 'Check the counterweight on the crane is the planned {counterweight}. If more is fitted, stop and get the order for taking it off from the manual.',
+        text: 'Count the counterweight on the crane against the planned {counterweight} and record the tonnes. If more is fitted, stop and get the order for taking it off from the manual.',
         roles: ['operator', 'supervisor'],
+        record: { kind: 'reading', label: 'Counterweight on the crane', unit: 't', check: 'plan' },
       },
+      // Off in the reverse of the fitting order, each block after the one before it.
       block: {
         text: 'Take off counterweight block {blockId} ({weightT} t), {n} of {count}. Left on the crane after this block: {remainingT} t.',
         roles: ['rigger', 'operator'],
+        after: ['confirm'],
       },
     },
     hold: {

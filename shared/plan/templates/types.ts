@@ -4,11 +4,20 @@
  */
 import type { CrewRole } from '../../schemas/jobs.js';
 
+/**
+ * What a recorded reading is held to, as the template declares it; the generator fills in the
+ * figure from the configuration or the crane data. `null` says on purpose that the reading is
+ * only recorded (who switched a mode, a report reference, a serial).
+ */
+export type RecordCheckKind = 'plan' | 'max' | 'min' | 'wind' | null;
+
 /** What a step records, as the template states it (the generator adds the expected part). */
 export interface RecordWording {
   kind: 'serial' | 'reading';
   label: string;
   unit: string | null;
+  /** Every record declares its check, so a reading can never be left uncompared by omission. */
+  check: RecordCheckKind;
 }
 
 /** One step's wording. */
@@ -19,6 +28,16 @@ export interface StepWording {
   photo?: boolean;
   caution?: string;
   record?: RecordWording;
+  /**
+   * The step protects the stage's mandatory hold (the hold attests what this step does): it can
+   * never be removed from the plan nor moved out of its stage.
+   */
+  required?: boolean;
+  /**
+   * Steps of the same stage, by their id suffix, that must be done before this one. A suffix the
+   * stage does not have in this configuration (an optional step) is left out.
+   */
+  after?: readonly string[];
 }
 
 /** A hold point's wording. */
