@@ -7,6 +7,7 @@ export * from './units';
 export * from './reeving';
 export * from './rope';
 export * from './slings';
+export * from './chart';
 export * from './assist';
 export * from './ground';
 export * from './wind';

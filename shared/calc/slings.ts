@@ -83,3 +83,30 @@ export function slingLegTensionsFromCog(input: {
     rule: `V1 = W·d2/(d1+d2), V2 = W·d1/(d1+d2), T = V ÷ sin θ, θ ≥ ${MINIMUM_SLING_ANGLE_DEG}° (rigging handbooks; ${MINIMUM_SLING_ANGLE_SOURCE})`,
   };
 }
+
+/**
+ * Two legs from one hook above the centre of gravity (the load hangs level only then): each leg's
+ * angle follows from the hook height above the pick points and its pick point's horizontal
+ * distance to the centre of gravity, tan θi = H ÷ di, and the shares follow from the distances.
+ * Equivalent to T1 = W·d2·S1 ÷ (H·(d1 + d2)) with S1 = √(H² + d1²), the form rigging guides print.
+ */
+export function slingLegTensionsFromHookHeight(input: { loadKn: number; distancesToCogM: readonly [number, number]; hookHeightM: number }): {
+  legs: [CogLegResult & { legLengthM: number }, CogLegResult & { legLengthM: number }];
+  rule: string;
+} {
+  const height = requireInRange('hookHeightM', input.hookHeightM, 0, 200, { minExclusive: true });
+  if (!Array.isArray(input.distancesToCogM) || input.distancesToCogM.length !== 2) {
+    throw new CalcInputError('distancesToCogM', 'must give exactly two distances');
+  }
+  const d1 = requireNonNegative('distancesToCogM.0', input.distancesToCogM[0]);
+  const d2 = requireNonNegative('distancesToCogM.1', input.distancesToCogM[1]);
+  const angleOf = (d: number) => (d === 0 ? 90 : (Math.atan2(height, d) * 180) / Math.PI);
+  const r = slingLegTensionsFromCog({ loadKn: input.loadKn, distancesToCogM: [d1, d2], angleFromHorizontalDeg: [angleOf(d1), angleOf(d2)] });
+  return {
+    legs: [
+      { ...r.legs[0], legLengthM: Math.hypot(height, d1) },
+      { ...r.legs[1], legLengthM: Math.hypot(height, d2) },
+    ],
+    rule: `hook over the centre of gravity, H above the pick points: θi = atan(H ÷ di); ${r.rule}`,
+  };
+}

@@ -124,17 +124,7 @@ export function computeBoom(config: Configuration, inputs: PlannerInputs, figure
       figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is beyond the ${plain(lengthM)} m boom`, 'fail', false, radiusRule, 'the planned radius is longer than the boom: choose a longer boom or a shorter radius'),
     );
   }
-  figures.push(
-    figure(
-      'boom.loadChart',
-      'boom',
-      'Crane load chart',
-      'Not checked here',
-      'info',
-      false,
-      'Holdline holds no load chart for this model: the crane’s own load chart and rated capacity limiter govern every lift (manufacturer)',
-    ),
-  );
+  // The crane's own chart is checked in chart.ts (chart.lift, chart.raise).
 
   return { makeup, listed, boomCogFromFootM, boomWeightKn, platesRequired: plates, cosBoomAngle };
 }

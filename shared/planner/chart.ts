@@ -1,0 +1,136 @@
+/**
+ * The main crane's own rated capacity chart: the heaviest lift as a share of the chart for the
+ * planned boom length and counterweight, and the weight hanging at the tip while the boom is
+ * raised as a share of the manufacturer's limit for an unassisted raise.
+ */
+import { chartShare, limitShare, percentUp, type ShareResult } from '../calc/chart.js';
+import type { CapacityChart, HookBlock } from '../schemas/arrangement.js';
+import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
+import type { BoomOutcome } from './boom.js';
+import { figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import type { ChartResults, PlannerInputs } from './types.js';
+
+/** One weight that hangs with the hook or at the tip; null when the data does not give it. */
+interface Hanging {
+  what: string;
+  weightKg: number | null;
+}
+
+const sameWeight = (a: number, b: number) => Math.abs(a - b) < 0.5;
+
+/** What hangs at the tip besides the load: the main hook block, and with the auxiliary fitted its hook and sheave head. */
+export function tipHangings(config: Configuration, inputs: PlannerInputs, hookBlock: HookBlock | null): Hanging[] {
+  const { arrangement } = inputs;
+  const items: Hanging[] = [{ what: `main hook block ${config.mainHook.hookBlockId}`, weightKg: hookBlock?.weightKg ?? null }];
+  if (config.auxiliary.enabled) {
+    const aux = arrangement.hookBlocks.find((b) => b.id === config.auxiliary.hookBlockId) ?? null;
+    items.push({ what: `auxiliary hook ${config.auxiliary.hookBlockId ?? '(none chosen)'}`, weightKg: aux?.weightKg ?? null });
+    items.push({ what: 'auxiliary sheave head', weightKg: arrangement.auxSheave?.weightKg ?? null });
+  }
+  return items;
+}
+
+function statusOf(r: ShareResult): FigureStatus {
+  return r.band;
+}
+
+function listWeights(items: readonly Hanging[]): string {
+  return items.map((h) => `${h.what} ${h.weightKg === null ? 'not in the data: NOT INCLUDED' : `${fmt(h.weightKg / 1000, 2)} t`}`).join(' + ');
+}
+
+/** The chart figures (chart.lift, chart.raise); their results feed the plan and the record. */
+export function computeChart(config: Configuration, inputs: PlannerInputs, boom: BoomOutcome, hookBlock: HookBlock | null, figures: Figure[]): ChartResults {
+  const caution = config.chartCautionPercent;
+  const listed = boom.listed;
+  const results: ChartResults = { lift: null, raise: null };
+  const hangings = tipHangings(config, inputs, hookBlock);
+  const missing = hangings.filter((h) => h.weightKg === null);
+  const knownKg = hangings.reduce((sum, h) => sum + (h.weightKg ?? 0), 0);
+  const missingNote = missing.length
+    ? `${missing.map((h) => h.what).join(', ')}: weight not in the data, NOT INCLUDED — the share cannot be confirmed until the crane data gives it`
+    : '';
+
+  // ---- The heaviest lift against the crane's own chart.
+  const liftLabel = 'Heaviest lift: share of the crane’s chart';
+  const chartRule = 'the crane’s rated capacity chart for this boom length and counterweight (manufacturer data)';
+  if (!listed) {
+    figures.push(figure('chart.lift', 'boom', liftLabel, 'No chart: boom length not listed', 'fail', false, chartRule, 'no arrangement data for this boom length'));
+  } else {
+    const counterweightKg = listed.raising.counterweightKg;
+    const chart: CapacityChart | null = listed.capacityCharts.find((c) => sameWeight(c.counterweightKg, counterweightKg)) ?? null;
+    if (!chart) {
+      figures.push(
+        figure('chart.lift', 'boom', liftLabel, 'No chart for this boom length and counterweight in the data', 'fail', false, chartRule, `boom ${plain(config.boomLengthM)} m with ${fmt(counterweightKg / 1000, 1)} t of counterweight: the crane data holds no rated capacity chart for it; add the manufacturer's chart to the crane data`),
+      );
+    } else {
+      guarded(figures, 'chart.lift', 'boom', liftLabel, undefined, () => {
+        const { loadT, riggingT, radiusM } = config.heaviestLoad;
+        const totalKg = (loadT + riggingT) * 1000 + knownKg;
+        const r = chartShare({ loadKn: kgToKn(totalKg), points: chart.points, radiusM, cautionPercent: caution });
+        const status: FigureStatus = r.band === 'fail' ? 'fail' : missing.length ? 'caution' : statusOf(r);
+        const value =
+          r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
+            ? `${percentUp(r.sharePercent)} % of chart (${fmt(totalKg / 1000, 2)} t of ${plain(r.capacityKn / 9.80665)} t at ${plain(r.chartRadiusM)} m)`
+            : `Off the chart at ${plain(radiusM)} m`;
+        const detail = [
+          `on the hook: load ${plain(loadT)} t + rigging ${plain(riggingT)} t + ${listWeights(hangings)}`,
+          `chart “${chart.description}” read at ${r.chartRadiusM === null ? '—' : `${plain(r.chartRadiusM)} m`} for ${plain(radiusM)} m radius`,
+          r.reason ?? '',
+          missingNote,
+          'the hoist rope below the tip and any other deduction the chart’s notes list are not in the data: check the chart’s notes; the rated capacity limiter and the chart govern',
+        ]
+          .filter((s) => s.length > 0)
+          .join('; ');
+        // A missing weight may be hiding a share above 100 %: no override until the data gives it.
+        figures.push(figure('chart.lift', 'boom', liftLabel, value, status, r.band !== 'fail' && missing.length === 0, `${chartRule}; load = load + rigging + hook block (+ auxiliary hook and sheave head when fitted; the chart counts the hook block as load unless it says otherwise); ${r.rule}`, detail));
+        results.lift = { totalT: totalKg / 1000, capacityT: r.capacityKn === null ? null : r.capacityKn / 9.80665, chartRadiusM: r.chartRadiusM, sharePercent: r.sharePercent, status };
+      });
+    }
+  }
+
+  // ---- The weight at the tip while the boom is raised without help.
+  const raiseLabel = 'Weight at the tip for raising';
+  const raiseRule = 'the most that may hang at the tip while the boom is raised from the ground without help (manufacturer’s raising limits for this boom length)';
+  if (!listed) {
+    figures.push(figure('chart.raise', 'boom', raiseLabel, 'No data for this boom length', 'fail', false, raiseRule));
+  } else {
+    const limitKg = listed.raising.limits.maxTipLoadKg;
+    const support = listed.raising.limits.tipSupportRequired
+      ? 'the tip is carried until the main crane takes the boom alone; from there these weights hang at the tip'
+      : '';
+    if (limitKg === null) {
+      figures.push(
+        figure(
+          'chart.raise',
+          'boom',
+          raiseLabel,
+          `${fmt(knownKg / 1000, 2)} t at the tip; limit not given in the data`,
+          'caution',
+          missing.length === 0,
+          raiseRule,
+          [`at the tip: ${listWeights(hangings)}`, 'the crane data does not give the weight allowed at the tip for an unassisted raise: check the manufacturer’s raising instructions and record the figure in the override’s reason', missingNote, support].filter((s) => s.length > 0).join('; '),
+        ),
+      );
+      results.raise = { totalT: knownKg / 1000, limitT: null, sharePercent: null, status: 'caution' };
+    } else {
+      guarded(figures, 'chart.raise', 'boom', raiseLabel, undefined, () => {
+        const r = limitShare({ loadKn: kgToKn(knownKg), limitKn: kgToKn(limitKg), cautionPercent: caution });
+        const status: FigureStatus = r.band === 'fail' ? 'fail' : missing.length ? 'caution' : statusOf(r);
+        figures.push(
+          figure(
+            'chart.raise',
+            'boom',
+            raiseLabel,
+            `${percentUp(r.sharePercent ?? 0)} % (${fmt(knownKg / 1000, 2)} t of ${fmt(limitKg / 1000, 2)} t allowed)`,
+            status,
+            r.band !== 'fail' && missing.length === 0,
+            `${raiseRule}; ${r.rule}`,
+            [`at the tip: ${listWeights(hangings)}`, r.reason ?? '', missingNote, support].filter((s) => s.length > 0).join('; '),
+          ),
+        );
+        results.raise = { totalT: knownKg / 1000, limitT: limitKg / 1000, sharePercent: r.sharePercent, status };
+      });
+    }
+  }
+  return results;
+}
