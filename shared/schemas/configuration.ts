@@ -43,7 +43,7 @@ export const configurationSchema = z
     boomLengthM: positive.max(300, 'Enter 300 m or less: no listed boom is longer'),
     mainHook: z.object({
       hookBlockId: z.string().trim().min(1, 'Choose the main hook block').max(64),
-      parts: z.number().int().min(1).max(40),
+      parts: z.number().int('Enter a whole number from 1 to 40').min(1, 'Enter a whole number from 1 to 40').max(40, 'Enter a whole number from 1 to 40'),
       /**
        * Height of the lowest hook position above the ground, negative below it (a pit, a shaft, a
        * quay edge): the rope paid out, and so the wraps left on the drum, are worked out from it.

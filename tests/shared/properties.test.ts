@@ -3,7 +3,10 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import * as calc from '../../shared/calc';
 import { CalcInputError } from '../../shared/calc';
-import { allNumbers, demoAssistCrane } from './helpers';
+import type { z } from 'zod';
+import { computeConfiguration } from '../../shared/planner';
+import { configurationSchema } from '../../shared/schemas/configuration';
+import { allNumbers, demoAssistCrane, demoCrane } from './helpers';
 
 const FC = { numRuns: 200, seed: 424242 };
 const chart = demoAssistCrane().charts[1];
@@ -361,4 +364,203 @@ describe('invalid input', () => {
       );
     });
   }
+});
+
+// The configuration schema's valid space, read from the schema itself: every number between the
+// bounds the schema sets, every enum value, nullable fields both ways, arrays of a few entries.
+// Fields that name something in the crane data are picked from the demo data. A field added to the
+// schema later is covered without touching this test; a zod type it does not know fails loudly.
+type AnyZod = z.ZodType;
+interface ZodDefLike {
+  type: string;
+  shape?: Record<string, AnyZod>;
+  innerType?: AnyZod;
+  element?: AnyZod;
+  in?: AnyZod;
+  entries?: Record<string, string>;
+  values?: unknown[];
+  format?: string;
+  checks?: { _zod: { def: { check: string; value?: number; inclusive?: boolean; minimum?: number; maximum?: number; format?: string } } }[];
+}
+const defOf = (s: AnyZod) => (s as unknown as { _zod: { def: ZodDefLike } })._zod.def;
+const shapeOf = (s: AnyZod) => (s as unknown as { shape: Record<string, AnyZod> }).shape;
+
+function numberBounds(s: AnyZod): { min: number; max: number; minExcluded: boolean; int: boolean } {
+  let min = -Number.MAX_VALUE;
+  let max = Number.MAX_VALUE;
+  let minExcluded = false;
+  let int = false;
+  for (const c of defOf(s).checks ?? []) {
+    const d = c._zod.def;
+    if (d.check === 'greater_than' && d.value !== undefined) {
+      min = d.value;
+      minExcluded = !d.inclusive;
+    }
+    if (d.check === 'less_than' && d.value !== undefined) max = d.value;
+    if (d.check === 'number_format' && (d.format === 'safeint' || d.format === 'int32')) int = true;
+  }
+  if (defOf(s).format === 'safeint') int = true;
+  return { min, max, minExcluded, int };
+}
+
+const crane = demoCrane();
+const assistCrane = demoAssistCrane();
+const choice: Record<string, fc.Arbitrary<unknown>> = {
+  craneUnitId: fc.constant('6f1c2d3e-4a5b-4c6d-8e7f-0a1b2c3d4e5f'),
+  boomLengthM: fc.oneof(fc.constantFrom(...crane.arrangements.map((a) => a.boomLengthM)), fc.double({ min: 1, max: 300, noNaN: true })),
+  'mainHook.hookBlockId': fc.constantFrom(...crane.hookBlocks.map((h) => h.id)),
+  'auxiliary.hookBlockId': fc.option(fc.constantFrom(...crane.hookBlocks.map((h) => h.id))),
+  'assist.assistCraneId': fc.option(fc.constant('7a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d')),
+  'assist.chartId': fc.option(fc.constantFrom(...assistCrane.charts.map((c) => c.id))),
+};
+
+function arbitraryOf(s: AnyZod, path: string[]): fc.Arbitrary<unknown> {
+  const key = path.filter((p) => p !== '#').join('.');
+  if (choice[key]) return choice[key];
+  const def = defOf(s);
+  switch (def.type) {
+    case 'object':
+      return fc.record(Object.fromEntries(Object.entries(shapeOf(s)).map(([k, v]) => [k, arbitraryOf(v, [...path, k])])));
+    case 'default':
+    case 'prefault':
+    case 'readonly':
+      return arbitraryOf(def.innerType!, path);
+    case 'optional':
+      return fc.option(arbitraryOf(def.innerType!, path), { nil: undefined });
+    case 'nullable':
+      return fc.option(arbitraryOf(def.innerType!, path));
+    case 'pipe':
+      return arbitraryOf(def.in!, path);
+    case 'array':
+      return fc.array(arbitraryOf(def.element!, [...path, '#']), { maxLength: 3 });
+    case 'boolean':
+      return fc.boolean();
+    case 'enum':
+      return fc.constantFrom(...Object.values(def.entries!));
+    case 'literal':
+      return fc.constantFrom(...def.values!);
+    case 'string':
+      return def.format === 'uuid' ? fc.constant('0b6f3c1e-2d4a-4b5c-8d6e-7f8091a2b3c4') : fc.constant('x');
+    case 'number': {
+      const b = numberBounds(s);
+      if (b.int) return fc.integer({ min: Math.ceil(b.min + (b.minExcluded ? 1 : 0)), max: Math.floor(Math.min(b.max, 1e6)) });
+      // The ends of the range (where overflow hides) as often as the inside.
+      const edges = [b.max, b.minExcluded ? Number.MIN_VALUE : b.min].filter((x) => Number.isFinite(x) && Math.abs(x) < Number.MAX_VALUE);
+      const inside = fc.double({ min: b.min, max: b.max, minExcluded: b.minExcluded, noNaN: true, noDefaultInfinity: true });
+      return edges.length ? fc.oneof(fc.constantFrom(...edges), inside) : inside;
+    }
+    default:
+      throw new Error(`no arbitrary for zod type "${def.type}" at ${key}: teach properties.test.ts`);
+  }
+}
+
+/** One filled-in configuration: nullable fields filled, one entry per array, numbers inside their range. */
+function fullSample(s: AnyZod, path: string[]): unknown {
+  const def = defOf(s);
+  const key = path.filter((p) => p !== '#').join('.');
+  const picked: Record<string, unknown> = {
+    craneUnitId: '6f1c2d3e-4a5b-4c6d-8e7f-0a1b2c3d4e5f',
+    boomLengthM: 36,
+    'mainHook.hookBlockId': 'HB120',
+    'auxiliary.hookBlockId': 'HB250',
+    'assist.assistCraneId': '7a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d',
+    'assist.chartId': assistCrane.charts[0].id,
+  };
+  if (key in picked) return picked[key];
+  switch (def.type) {
+    case 'object':
+      return Object.fromEntries(Object.entries(shapeOf(s)).map(([k, v]) => [k, fullSample(v, [...path, k])]));
+    case 'default':
+    case 'prefault':
+    case 'readonly':
+    case 'optional':
+    case 'nullable':
+      return fullSample(def.innerType!, path);
+    case 'pipe':
+      return fullSample(def.in!, path);
+    case 'array':
+      return [fullSample(def.element!, [...path, '#'])];
+    case 'boolean':
+      return true;
+    case 'enum':
+      return Object.values(def.entries!)[0];
+    case 'literal':
+      return def.values![0];
+    case 'string':
+      return def.format === 'uuid' ? '0b6f3c1e-2d4a-4b5c-8d6e-7f8091a2b3c4' : 'x';
+    case 'number': {
+      const b = numberBounds(s);
+      const lo = Math.max(b.min, 0) + (b.minExcluded || b.int ? 1 : 0);
+      return Number.isFinite(b.max) && b.max < Number.MAX_VALUE ? Math.min(lo, b.max) : lo;
+    }
+    default:
+      throw new Error(`no sample for zod type "${def.type}" at ${key}`);
+  }
+}
+
+/** Every path to a number inside a value. */
+function numberPaths(value: unknown, path: (string | number)[] = []): (string | number)[][] {
+  if (typeof value === 'number') return [path];
+  if (Array.isArray(value)) return value.flatMap((v, i) => numberPaths(v, [...path, i]));
+  if (value !== null && typeof value === 'object') return Object.entries(value).flatMap(([k, v]) => numberPaths(v, [...path, k]));
+  return [];
+}
+
+function withValue(value: unknown, path: (string | number)[], to: number): unknown {
+  const copy = structuredClone(value) as Record<string | number, unknown>;
+  let at = copy;
+  for (const p of path.slice(0, -1)) at = at[p] as Record<string | number, unknown>;
+  at[path[path.length - 1]] = to;
+  return copy;
+}
+
+describe('the configuration schema: plausible ranges, and nothing it accepts prints Infinity or NaN', () => {
+  const sample = fullSample(configurationSchema, []);
+
+  it('a filled-in configuration (every nullable filled, one entry per list) is valid', () => {
+    const parsed = configurationSchema.safeParse(sample);
+    expect(parsed.success ? [] : parsed.error.issues).toEqual([]);
+  });
+
+  const paths = numberPaths(sample);
+  it('the filled-in configuration has the numbers a planner types (at least 25)', () => {
+    expect(paths.length).toBeGreaterThanOrEqual(25);
+  });
+  for (const path of paths) {
+    it(`${path.join('.')}: 1e308, Infinity and NaN are refused with a message naming the field`, () => {
+      for (const bad of [1e308, Number.POSITIVE_INFINITY, Number.NaN]) {
+        const r = configurationSchema.safeParse(withValue(sample, path, bad));
+        expect(r.success).toBe(false);
+        if (!r.success) {
+          const own = r.error.issues.find((i) => i.path.join('.') === path.join('.'));
+          expect(own, `no issue at ${path.join('.')} for ${bad}`).toBeDefined();
+          if (bad === 1e308) expect(own?.message).toMatch(/or less|Above|up to|from \d+ to \d+/i);
+        }
+      }
+    });
+  }
+
+  it('allowable ground pressure above 5,000 kPa and a line more than 5 km away are refused in words', () => {
+    const ground = configurationSchema.safeParse(withValue(sample, ['ground', 'allowablePressureKpa'], 5001));
+    expect(ground.success ? '' : ground.error.issues[0].message).toBe('Enter 5,000 kPa or less: a higher figure is almost certainly a typing error');
+    const line = configurationSchema.safeParse(withValue(sample, ['siteHazards', 'powerLines', 0, 'distanceM'], 5001));
+    expect(line.success ? '' : line.error.issues[0].message).toMatch(/^Enter 5,000 m or less/);
+  });
+
+  it('for any configuration the schema accepts, every figure is computed without Infinity or NaN in its value, rule or detail', () => {
+    const anyValid = arbitraryOf(configurationSchema, [])
+      .map((raw) => configurationSchema.safeParse(raw))
+      .filter((r) => r.success)
+      .map((r) => r.data!);
+    fc.assert(
+      fc.property(anyValid, fc.boolean(), (config, withAssistData) => {
+        const r = computeConfiguration(config, { arrangement: crane, inventory: [], assistCrane: withAssistData ? assistCrane : null });
+        for (const f of r.figures) {
+          for (const text of [f.value, f.rule, f.detail ?? '']) expect(text).not.toMatch(/Infinity|NaN/);
+        }
+        for (const n of allNumbers(r)) expect(Number.isFinite(n)).toBe(true);
+      }),
+      { numRuns: 300, seed: 20261203 },
+    );
+  });
 });
