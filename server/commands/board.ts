@@ -1,9 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { findStep } from '../../shared/board/apply.js';
-import { WEATHER_FRESH_MS, weatherOverLimit, windPhase } from '../../shared/board/rules.js';
+import { readingsBlockingRelease } from '../../shared/board/readings.js';
+import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
-import { planProblems } from '../../shared/plan/index.js';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
@@ -11,10 +11,11 @@ import type { AppContext } from '../context.js';
 import { Component } from '../entities/Component.js';
 import type { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
+import { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
-import { referencePlan, withFreshBriefing } from '../queries/plans.js';
+import { planProblemsOf, withFreshBriefing } from '../queries/plans.js';
 import { recordInspection } from './fleet.js';
 import { crewRolesOf } from './jobs.js';
 import { runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
@@ -24,20 +25,27 @@ const refuse = (status: number, code: string, message: string, fields?: { path: 
 const invalidState = (message: string) => refuse(409, 'invalid_state', message);
 
 /** Who may send each command, beyond being in the crew: the role it is recorded under. */
-const supervisorOnly: ReadonlySet<BoardCommand['type']> = new Set(['job.start', 'job.complete', 'job.cancel', 'hold.release', 'stage.skip', 'job.resume', 'plan.revise']);
+const supervisorOnly: ReadonlySet<BoardCommand['type']> = new Set(['job.start', 'job.complete', 'job.cancel', 'hold.release', 'hold.check.review', 'stage.skip', 'job.resume', 'plan.revise']);
+
+/** What a viewer may send: an operator obeys a stop signal from anyone (ASME B30.5, from memory), and whoever stops records why. */
+const viewerCommands: ReadonlySet<BoardCommand['type']> = new Set(['job.stop', 'job.stop.note']);
 
 /**
  * Runs one board command through the command writer: checks the person, the state and the rules,
- * and returns the event it produced (or the first answer for a repeated command id).
+ * and returns the event it produced (or the first answer for a repeated command id). A failed
+ * blind value check is recorded as its own event and then answered as a refusal (a repeated
+ * command id gets the same refusal).
  */
 export async function runBoardCommand(context: AppContext, actor: User, jobId: string, command: BoardCommand): Promise<CommandOutcome> {
-  return runJobCommand(context, jobId, { commandId: command.commandId, body: command, actor }, async (manager, job) => {
+  const outcome = await runJobCommand(context, jobId, { commandId: command.commandId, body: command, actor }, async (manager, job) => {
     const board = job.board;
     if (!board) throw invalidState('This job has no board yet.');
-    const roles = (await crewRolesOf(manager, job.id, actor.id)).filter((r) => r !== 'viewer');
+    const all = await crewRolesOf(manager, job.id, actor.id);
+    let roles: CrewRole[] = all.filter((r) => r !== 'viewer');
     if (roles.length === 0) {
-      const viewer = (await crewRolesOf(manager, job.id, actor.id)).includes('viewer');
-      throw refuse(403, viewer ? 'role_not_allowed' : 'not_crew', viewer ? 'Viewers watch the board; they cannot act on it.' : 'You are not in this job’s crew. Ask its supervisor to add you.');
+      if (!all.includes('viewer')) throw refuse(403, 'not_crew', 'You are not in this job’s crew. Ask its supervisor to add you.');
+      if (!viewerCommands.has(command.type)) throw refuse(403, 'role_not_allowed', 'Viewers watch the board and may raise a stop; they cannot act on it otherwise.');
+      roles = ['viewer'];
     }
     if (board.job.state === 'stopped' && !commandsWhileStopped.has(command.type)) {
       throw refuse(409, 'job_stopped', 'The job is stopped. Only the supervisor’s resume (after a fresh weather reading), stop notes, weather readings and defect reports are accepted.');
@@ -48,6 +56,25 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
     const ctx: HandlerContext = { context, manager, job, board, actor, roles, now: context.now() };
     return handlers[command.type](ctx, command as never);
   });
+  if (outcome.event.type === 'hold.check.failed') throw checkFailedRefusal(outcome.event.data);
+  return outcome;
+}
+
+/**
+ * The answer to a failed blind check. It never says which fields differed (the supervisor sees
+ * that) so the check cannot be solved by trying values one field at a time.
+ */
+function checkFailedRefusal(data: Record<string, unknown>): HttpError {
+  const attempt = data.failuresSinceReview as number;
+  const seconds = Math.round(CHECK_RETRY_MS / 1000);
+  const locked = attempt >= CHECK_FAILURES_BEFORE_REVIEW;
+  return refuse(
+    409,
+    'values_mismatch',
+    locked
+      ? `What you typed does not match the plan. That is ${attempt} failed checks: the hold is locked until the supervisor has reviewed them with you. Every failed check is recorded.`
+      : `What you typed does not match the plan. Read the controller again and take a new photo of its screen; you can try again in ${seconds} seconds. Every failed check is recorded and shown to the supervisor.`,
+  );
 }
 
 interface HandlerContext {
@@ -93,6 +120,17 @@ function sameValue(typed: string, expected: string): boolean {
   return a === b;
 }
 
+/** Validator codes that protect a mandatory hold (its existence, roles, check, place or required steps): a revision with one is refused as such. */
+function protectsMandatoryHold(code: string): boolean {
+  return /^(mandatory_|required_)/.test(code);
+}
+
+/** Refuses unless the weather is fresh and within the raising limit: the one wind rule, for a stage that moves the boom and the hold before it. */
+function requireRaisingWeather(board: BoardState, now: Date, why: string): void {
+  const verdict = weatherVerdict(board, now.getTime(), 'raising');
+  if (!verdict.ok) throw refuse(409, 'weather_required', `${why}: ${verdict.problem}`);
+}
+
 const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'job.start'({ board }) {
     if (board.job.state !== 'ready') throw invalidState(`The job is ${board.job.state}; only a ready job can start.`);
@@ -120,7 +158,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'briefing.acknowledged', role: roles[0], data: { planVersion: board.planVersion } };
   },
 
-  async 'step.complete'({ manager, job, board, actor, roles }, c) {
+  async 'step.complete'({ manager, job, board, actor, roles, now }, c) {
     requireLive(board, 'complete steps');
     const stage = stageOfStep(board, c.stepId);
     notBlocked(stage);
@@ -129,6 +167,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (step.state === 'done') throw invalidState(`“${step.text}” is already done by ${step.doneBy?.name}.`);
     const role = roles.find((r) => step.allowedRoles.includes(r));
     if (!role) throw refuse(403, 'role_not_allowed', `This step is for: ${step.allowedRoles.join(', ')}.`);
+    const first = stepsNeededFirst(stage, step.id);
+    if (first.length) throw refuse(409, 'out_of_order', `Not yet: ${first.map((f) => `“${f.text}”`).join(' and ')} must be done before “${step.text}”.`);
+    if (movesBoom(stage)) requireRaisingWeather(board, now, `“${stage.title}” moves the boom`);
     const fields = [];
     if (step.requiresPhoto && !c.photoId) fields.push({ path: 'photoId', message: 'This step needs a photo' });
     if (step.records && !c.value) fields.push({ path: 'value', message: `Enter the ${step.records.label.toLowerCase()}` });
@@ -156,7 +197,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'step.reopened', role, data: { stageId: stage.id, stepId: step.id, clearedAcknowledgments: stage.hold?.acknowledgments.length ?? 0 } };
   },
 
-  async 'hold.acknowledge'({ manager, job, board, actor, roles }, c) {
+  async 'hold.acknowledge'({ manager, job, board, actor, roles, now }, c) {
     requireLive(board, 'acknowledge holds');
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
@@ -173,16 +214,32 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     const taken = hold.acknowledgments.find((a) => a.role === c.role);
     if (taken) throw invalidState(`${taken.name} has already acknowledged as ${c.role}.`);
     if (hold.valueCheck) {
+      if (hold.checkLocked) {
+        throw refuse(409, 'check_locked', `“${hold.title}” is locked after ${hold.failuresSinceReview} failed checks. The supervisor must review them with the crew before anyone checks again.`);
+      }
+      const retryAt = checkRetryAt(hold, actor.id, now.getTime());
+      if (retryAt) {
+        const seconds = Math.max(1, Math.ceil((Date.parse(retryAt) - now.getTime()) / 1000));
+        throw refuse(409, 'check_wait', `Read the controller again before the next try: wait ${seconds} more second${seconds === 1 ? '' : 's'} and take a new photo of its screen.`);
+      }
       const fields = [];
       if (!c.photoId) fields.push({ path: 'photoId', message: 'Attach a photo of the controller’s screen' });
       for (const field of hold.valueCheck.fields) if (!c.values?.[field]) fields.push({ path: `values.${field}`, message: `Enter what the controller shows for ${valueCheckFieldLabels[field].toLowerCase()}` });
       if (fields.length) throw badRequest('Type every value the controller shows and attach a photo of its screen.', fields);
+      if (hold.checkFailures?.some((f) => f.userId === actor.id)) {
+        // After a failed check the photo must be new: the screen is read again, not the old picture.
+        const photo = await manager.findOneBy(Upload, { id: c.photoId! });
+        if (photo?.ownerKind) throw badRequest('Take a new photo of the controller’s screen for this check.', [{ path: 'photoId', message: 'This photo was used for an earlier check' }]);
+      }
       const plan = await manager.findOneByOrFail(JobPlan, { jobId: job.id, version: board.planVersion });
       const expected = plan.plan.stages.find((s) => s.hold?.id === hold.id)?.hold?.valueCheck?.fields ?? [];
       const differ = expected.filter((f) => !sameValue(c.values![f.field] ?? '', f.expected));
       if (differ.length) {
-        // Name the fields that differ, never the values the plan expects.
-        throw refuse(409, 'values_mismatch', `These do not match the plan: ${differ.map((f) => valueCheckFieldLabels[f.field]).join(', ')}. Check the controller with the supervisor before going on.`, differ.map((f) => ({ path: `values.${f.field}`, message: 'Does not match the plan' })));
+        // Recorded as an event (the supervisor sees who, when and which fields, never the values),
+        // then answered as a refusal that names no field.
+        await attachUploads(manager, [c.photoId!], 'hold', job.id, actor.id, 'photoId');
+        const failuresSinceReview = (hold.failuresSinceReview ?? 0) + 1;
+        return { type: 'hold.check.failed', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role, photoId: c.photoId, fields: differ.map((f) => f.field), failuresSinceReview } };
       }
     }
     if (c.photoId) await attachUploads(manager, [c.photoId], 'hold', job.id, actor.id, 'photoId');
@@ -198,7 +255,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'hold.withdrawn', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role } };
   },
 
-  async 'hold.release'({ board }, c) {
+  async 'hold.release'({ board, actor, now }, c) {
     requireLive(board, 'release holds');
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
@@ -207,7 +264,29 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       const missing = hold.requiredRoles.filter((r) => !hold.acknowledgments.some((a) => a.role === r));
       throw invalidState(hold.state === 'open' ? `“${hold.title}” still needs: ${missing.join(', ')}.` : `“${hold.title}” is ${hold.state}; it cannot be released now.`);
     }
+    // A hold meant for two people is not passed by one: whoever acknowledged under another role does not release.
+    const mine = hold.acknowledgments.find((a) => a.userId === actor.id && a.role !== 'supervisor');
+    if (mine) throw refuse(409, 'one_person_two_roles', `You acknowledged “${hold.title}” as ${mine.role}; another supervisor must release it.`);
+    const blocking = readingsBlockingRelease(board, stage.id);
+    if (blocking.length) {
+      throw refuse(
+        409,
+        'out_of_limit',
+        `“${hold.title}” cannot be released: ${blocking.map((b) => `“${b.text}” (${b.stageTitle}): ${b.outOfLimit.reason}`).join(' ')} Reopen the step and redo it within the limit, or revise the plan.`,
+        blocking.map((b) => ({ path: `steps.${b.stepId}`, message: b.outOfLimit.reason })),
+      );
+    }
+    if (holdGatesBoomMovement(board, stage.id)) requireRaisingWeather(board, now, `Releasing “${hold.title}” lets the boom move`);
     return { type: 'hold.released', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id } };
+  },
+
+  async 'hold.check.review'({ board }, c) {
+    if (board.job.state !== 'live' && board.job.state !== 'stopped') throw invalidState(`The job is ${board.job.state}.`);
+    const stage = stageOfHold(board, c.holdId);
+    const hold = stage.hold!;
+    if (!hold.valueCheck) throw invalidState(`“${hold.title}” has no value check to review.`);
+    if (!(hold.failuresSinceReview > 0)) throw invalidState(`“${hold.title}” has no failed checks since the last review.`);
+    return { type: 'hold.check.reviewed', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id, note: c.note, failuresReviewed: hold.failuresSinceReview } };
   },
 
   async 'stage.skip'({ board }, c) {
@@ -224,26 +303,28 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'job.stopped', role: roles[0], data: { reason: c.reason || null, pressedAt: c.pressedAt, alreadyStopped: board.job.state === 'stopped' } };
   },
 
-  async 'job.stop.note'({ board, roles }, c) {
-    if (board.job.state !== 'stopped') throw invalidState('The job is not stopped.');
-    return { type: 'job.stop.noted', role: roles[0], data: { reason: c.reason } };
+  async 'job.stop.note'({ board, actor, roles }, c) {
+    if (board.job.state !== 'stopped' || !board.job.stop) throw invalidState('The job is not stopped.');
+    const stop = board.job.stop;
+    const pressed = stop.raisedBy.userId === actor.id || (stop.alsoPressedBy ?? []).some((p) => p.userId === actor.id);
+    if (!pressed && !roles.includes('supervisor')) throw refuse(403, 'role_not_allowed', `The cause is recorded by whoever pressed stop (${stop.raisedBy.name}) or a supervisor.`);
+    return { type: 'job.stop.noted', role: pressed ? roles[0] : 'supervisor', data: { reason: c.reason } };
   },
 
   async 'job.resume'({ board, now }, c) {
     if (board.job.state !== 'stopped') throw invalidState('The job is not stopped.');
-    const w = board.weather;
-    if (!w || now.getTime() - Date.parse(w.at) > WEATHER_FRESH_MS) {
-      throw refuse(409, 'weather_required', 'Record a weather reading first: a resume needs one from the last 15 minutes.');
+    if (!board.job.stop?.reason) {
+      throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
     }
-    const limit = board.windLimits ? board.windLimits[windPhase(board)] : null;
-    const over = weatherOverLimit(w, limit);
-    if (over) throw refuse(409, 'weather_required', `The latest reading is over the limits (${over}). Wait and record a new reading.`);
+    const verdict = weatherVerdict(board, now.getTime());
+    // A resume needs a fresh reading within the limit of the phase; with no known limit, a fresh clear reading.
+    if (!verdict.ok && !(verdict.fresh && !verdict.overLimit && !verdict.limit)) throw refuse(409, 'weather_required', verdict.problem!);
     return { type: 'job.resumed', role: 'supervisor', data: { reason: c.reason } };
   },
 
   async 'weather.record'({ board, roles }, c) {
     if (!['ready', 'live', 'stopped'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}.`);
-    const reading = { meanMs: c.meanMs, gustMs: c.gustMs, lightning: c.lightning ?? false, poorVisibility: c.poorVisibility ?? false, ice: c.ice ?? false };
+    const reading = { meanMs: c.meanMs, gustMs: c.gustMs, heightM: c.heightM, lightning: c.lightning ?? false, poorVisibility: c.poorVisibility ?? false, ice: c.ice ?? false };
     if (reading.gustMs < reading.meanMs) throw badRequest('A gust cannot be slower than the mean wind.', [{ path: 'gustMs', message: 'Gust is below the mean' }]);
     const phase = windPhase(board);
     const limit = board.windLimits ? board.windLimits[phase] : null;
@@ -276,9 +357,12 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'plan.revise'({ manager, job, board, actor, now }, c) {
     if (!['ready', 'live', 'stopped'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; the plan can be revised only after it is ready and before it ends.`);
     if (c.plan.kind !== job.kind) throw badRequest('The plan is for another kind of job.', [{ path: 'plan.kind', message: `This job is ${job.kind}` }]);
-    const problems = planProblems(c.plan, await referencePlan(manager, job));
-    const mandatory = problems.filter((p) => p.code === 'mandatory_hold_removed' || p.code === 'mandatory_role_removed');
-    if (mandatory.length) throw refuse(409, 'mandatory_hold', 'Mandatory holds and their required roles cannot be removed.', mandatory.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
+    // The same validator as plan edits and readiness (shared/plan/validate.ts through planProblemsOf).
+    const problems = await planProblemsOf(manager, job, c.plan);
+    const mandatory = problems.filter((p) => protectsMandatoryHold(p.code));
+    if (mandatory.length) {
+      throw refuse(409, 'mandatory_hold', `The revision weakens a mandatory hold: ${mandatory[0].message}`, mandatory.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
+    }
     if (problems.length) throw badRequest('The revised plan has problems.', problems.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
     const version = job.planVersion + 1;
     const plan = await withFreshBriefing(manager, job, c.plan);

@@ -1,4 +1,6 @@
 import { randomUUID } from 'node:crypto';
+import { holdGatesBoomMovement, movesBoom, weatherVerdict } from '../../shared/board/rules.js';
+import type { BoardStep } from '../../shared/board/types.js';
 import type { BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { ValueCheckField } from '../../shared/schemas/plan.js';
@@ -19,6 +21,8 @@ type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K>
  * different people and released by the supervisor.
  */
 export class DemoBoardDriver {
+  private freshWeather: { who: User; reading: { meanMs: number; gustMs: number; heightM: number } } | null = null;
+
   constructor(
     private readonly context: AppContext,
     private readonly jobId: string,
@@ -27,6 +31,29 @@ export class DemoBoardDriver {
 
   async send(who: User, command: DistributiveOmit<BoardCommand, 'commandId'>): Promise<void> {
     await runBoardCommand(this.context, who, this.jobId, { ...command, commandId: randomUUID() } as BoardCommand);
+  }
+
+  /** Who reads the wind again, and what they read, whenever the boom is about to move on an old reading. */
+  weatherBy(who: User, reading: { meanMs: number; gustMs: number; heightM: number }): void {
+    this.freshWeather = { who, reading };
+  }
+
+  /** Records the fresh reading a raise or lowering (or the hold before it) needs, when the last one is too old. */
+  private async weatherIfNeeded(stageId: string, forRelease: boolean): Promise<void> {
+    const { board } = await this.board();
+    const stage = board.stages.find((s) => s.id === stageId)!;
+    const needs = forRelease ? holdGatesBoomMovement(board, stageId) : movesBoom(stage);
+    if (!needs || !this.freshWeather || weatherVerdict(board, this.context.now().getTime(), 'raising').fresh) return;
+    await this.send(this.freshWeather.who, { type: 'weather.record', ...this.freshWeather.reading });
+  }
+
+  /** A value within what the step is held to: the plan's figure, the limit, or the last wind gust. */
+  private readingFor(step: BoardStep, gustMs: number | null): string {
+    const check = step.records?.check;
+    if (check?.kind === 'plan') return String(check.planned);
+    if (check?.kind === 'max' || check?.kind === 'min') return String(check.limit);
+    if (check?.kind === 'wind' || step.records?.unit === 'm/s') return String(gustMs ?? 4.5);
+    return 'checked';
   }
 
   private async board() {
@@ -42,11 +69,23 @@ export class DemoBoardDriver {
   async completeSteps(stageId: string): Promise<void> {
     const { board } = await this.board();
     const stage = board.stages.find((s) => s.id === stageId)!;
-    for (const step of stage.steps.filter((s) => s.state === 'open')) {
+    // Steps in the order the plan asks for: a step waits for the steps it comes after.
+    const open = stage.steps.filter((s) => s.state === 'open');
+    const done = new Set(stage.steps.filter((s) => s.state === 'done').map((s) => s.id));
+    const ordered: BoardStep[] = [];
+    while (ordered.length < open.length) {
+      const next = open.find((s) => !ordered.includes(s) && (s.after ?? []).every((id) => done.has(id) || !open.some((o) => o.id === id)));
+      if (!next) throw new Error(`demo: steps of ${stageId} wait for each other`);
+      ordered.push(next);
+      done.add(next.id);
+    }
+    for (const step of ordered) {
+      // Every step of a raise or lowering needs a reading from the last 15 minutes.
+      await this.weatherIfNeeded(stageId, false);
       const role = step.allowedRoles.find((r) => this.crew[r])!;
       const who = this.crew[role]!;
       let value: string | undefined;
-      if (step.records?.kind === 'reading') value = step.records.unit === 'm/s' ? '4.5' : 'checked';
+      if (step.records?.kind === 'reading') value = this.readingFor(step, board.weather?.gustMs ?? null);
       if (step.records?.kind === 'serial') {
         value = step.records.plannedSerial ?? (await this.context.dataSource.manager.findOneBy(Component, { typeId: step.records.typeId ?? '', status: 'serviceable' }))?.serial;
       }
@@ -69,6 +108,7 @@ export class DemoBoardDriver {
   }
 
   async release(stageId: string): Promise<void> {
+    await this.weatherIfNeeded(stageId, true);
     const { board } = await this.board();
     await this.send(this.crew.supervisor!, { type: 'hold.release', holdId: board.stages.find((s) => s.id === stageId)!.hold!.id });
   }

@@ -112,9 +112,10 @@ export const policyTable = [
     routes: ['GET /api/jobs/:jobId/board'],
   },
   {
-    // Acting on the board: the command layer then checks the role each command needs.
+    // Acting on the board: the command layer then checks the role each command needs. Viewers
+    // may raise a stop and record its cause (an operator obeys a stop from anyone), nothing else.
     action: 'board.command',
-    allow: ['crew:supervisor', 'crew:operator', 'crew:signaller', 'crew:rigger'],
+    allow: ['crew:supervisor', 'crew:operator', 'crew:signaller', 'crew:rigger', 'crew:viewer'],
     routes: ['POST /api/jobs/:jobId/commands'],
   },
   {

@@ -4,6 +4,8 @@ import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import { HttpError, parseOrThrow } from '../errors.js';
+import { can } from '../policies/index.js';
+import { redactBoardFor } from '../presenters/board.js';
 import { loadJobFor } from './job-access.js';
 
 /** The board over HTTP: the same command path as the socket, and the snapshot. */
@@ -20,10 +22,10 @@ export function boardRouter(context: AppContext): Router {
 
   // Read through the queue so the snapshot never shows a half-applied command.
   router.get('/jobs/:jobId/board', async (req, res) => {
-    const { job } = await loadJobFor(context, req, 'board.watch');
+    const { job, actor, crewRoles } = await loadJobFor(context, req, 'board.watch');
     const current = await context.queue.run(() => manager.findOneByOrFail(Job, { id: job.id }));
     if (!current.board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
-    res.json({ ...current.board, presence: context.realtime.presenceOf(job.id) });
+    res.json({ ...redactBoardFor(current.board, can(actor, 'jobs.plan', { crewRoles })), presence: context.realtime.presenceOf(job.id) });
   });
 
   return router;

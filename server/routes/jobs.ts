@@ -12,7 +12,8 @@ import type { User } from '../entities/User.js';
 import { parseOrThrow } from '../errors.js';
 import { verifyJobChain } from '../events/chain.js';
 import { configurationSheetPdf } from '../pdf/configuration-sheet.js';
-import { authorize } from '../policies/index.js';
+import { authorize, can } from '../policies/index.js';
+import { redactEventFor } from '../presenters/board.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import { jobFor, jobsVisibleTo, readinessOf } from '../queries/jobs.js';
 import { commandIdOf, loadJobFor } from './job-access.js';
@@ -76,15 +77,17 @@ export function jobsRouter(context: AppContext): Router {
   });
 
   router.get('/jobs/:jobId/events', async (req, res) => {
-    const { job } = await loadJobFor(context, req, 'jobs.read');
+    const { job, actor, crewRoles } = await loadJobFor(context, req, 'jobs.read');
     const { after } = parseOrThrow(eventsQuerySchema, req.query, 'query');
+    // The blind check stays blind: values and failed fields only for the job's planners.
+    const planner = can(actor, 'jobs.plan', { crewRoles });
     const events = await manager
       .createQueryBuilder(JobEvent, 'e')
       .where('e.job_id = :jobId AND e.seq > :after', { jobId: job.id, after })
       .orderBy('e.seq', 'ASC')
       .limit(EVENTS_PAGE_LIMIT)
       .getMany();
-    res.json({ items: events.map(presentJobEvent), lastSeq: job.lastSeq });
+    res.json({ items: events.map((e) => redactEventFor(presentJobEvent(e), planner)), lastSeq: job.lastSeq });
   });
 
   router.get('/jobs/:jobId/readiness', async (req, res) => {

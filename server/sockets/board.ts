@@ -11,6 +11,7 @@ import { JobEvent } from '../entities/JobEvent.js';
 import { User } from '../entities/User.js';
 import { fieldsFromZod, HttpError } from '../errors.js';
 import { can } from '../policies/index.js';
+import { eventNeedsRedaction, redactBoardFor, redactEventFor } from '../presenters/board.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import { socketTokenValid, type HoldlineServer, type HoldlineSocket } from './auth.js';
 
@@ -20,6 +21,8 @@ export const JOIN_REPLAY_LIMIT = 500;
 export const TICK_MS = 1000;
 
 export const jobRoom = (jobId: string) => `job:${jobId}`;
+/** The job's planners (its supervisors, admins): they get events unredacted (server/presenters/board.ts). */
+export const plannerRoom = (jobId: string) => `job:${jobId}:planners`;
 
 /** Who is on which board, and what changed since the last tick. */
 class PresenceBook {
@@ -101,14 +104,19 @@ export function createBoardHub(io: HoldlineServer, context: AppContext): { regis
 
   context.realtime.publishJobEvent = (event: JobEventDto) => {
     lastSeq.set(event.jobId, Math.max(lastSeq.get(event.jobId) ?? 0, event.seq));
-    io.to(jobRoom(event.jobId)).emit('board:event', event);
+    if (eventNeedsRedaction(event)) {
+      io.to(jobRoom(event.jobId)).except(plannerRoom(event.jobId)).emit('board:event', redactEventFor(event, false));
+      io.to(plannerRoom(event.jobId)).emit('board:event', event);
+    } else {
+      io.to(jobRoom(event.jobId)).emit('board:event', event);
+    }
   };
 
   /** The snapshot: the projection the reducer keeps on the job row, plus who is connected. */
-  async function snapshotOf(jobId: string): Promise<BoardSnapshot | null> {
+  async function snapshotOf(jobId: string, planner: boolean): Promise<BoardSnapshot | null> {
     const job = await manager.findOneBy(Job, { id: jobId });
     if (!job?.board) return null;
-    return { ...job.board, presence: presence.list(jobId) };
+    return { ...redactBoardFor(job.board, planner), presence: presence.list(jobId) };
   }
 
   function register(socket: HoldlineSocket): void {
@@ -126,7 +134,8 @@ export function createBoardHub(io: HoldlineServer, context: AppContext): { regis
         const roles = await crewRolesOf(manager, jobId, user.id);
         if (!can(user, 'board.watch', { crewRoles: roles })) return ack({ ok: false, error: { code: 'not_crew', message: 'Only the job’s crew can open its board.' } });
         // Join the room before reading, so nothing committed in between is missed: the client drops duplicates by seq.
-        await socket.join(jobRoom(jobId));
+        const planner = can(user, 'jobs.plan', { crewRoles: roles });
+        await socket.join(planner ? [jobRoom(jobId), plannerRoom(jobId)] : jobRoom(jobId));
         joined.add(jobId);
         presence.join(jobId, socket.id, { userId: user.id, name: user.displayName, roles });
         const answer = await context.queue.run(async (): Promise<JoinAnswer> => {
@@ -134,9 +143,9 @@ export function createBoardHub(io: HoldlineServer, context: AppContext): { regis
           lastSeq.set(jobId, current.lastSeq);
           if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
             const events = await manager.createQueryBuilder(JobEvent, 'e').where('e.job_id = :jobId AND e.seq > :afterSeq', { jobId, afterSeq }).orderBy('e.seq', 'ASC').getMany();
-            return { ok: true, mode: 'events', events: events.map(presentJobEvent), seq: current.lastSeq };
+            return { ok: true, mode: 'events', events: events.map((e) => redactEventFor(presentJobEvent(e), planner)), seq: current.lastSeq };
           }
-          const snapshot = await snapshotOf(jobId);
+          const snapshot = await snapshotOf(jobId, planner);
           if (!snapshot) return { ok: false, error: { code: 'invalid_state', message: 'This job has no board yet.' } };
           return { ok: true, mode: 'snapshot', snapshot, seq: current.lastSeq };
         });
@@ -151,6 +160,7 @@ export function createBoardHub(io: HoldlineServer, context: AppContext): { regis
       if (!joined.delete(jobId)) return;
       presence.leave(jobId, socket.id);
       void socket.leave(jobRoom(jobId));
+      void socket.leave(plannerRoom(jobId));
     });
 
     socket.on('board:command', async (payload, ack) => {

@@ -4,7 +4,20 @@ import { planSchema, valueCheckFieldSchema } from './plan.js';
 
 const commandId = z.uuid('commandId must be a UUID made by the client');
 const reason = z.string().trim().min(3, 'Give a reason').max(1000);
-const speedMs = z.number().finite().min(0).max(80);
+/** Wind speed in m/s to one decimal (limits such as 6.5 m/s need it), up to 80 m/s so any gale can be recorded. */
+const speedMs = z
+  .number()
+  .finite()
+  .min(0)
+  .max(80)
+  .refine((v) => Math.abs(v * 10 - Math.round(v * 10)) < 1e-6, 'Give the speed to one decimal (0.1 m/s)');
+/** Height above ground where the wind was read, in metres (0.1 m). */
+const heightM = z
+  .number()
+  .finite()
+  .min(0)
+  .max(300)
+  .refine((v) => Math.abs(v * 10 - Math.round(v * 10)) < 1e-6, 'Give the height to one decimal');
 
 /** Every command the live board accepts, one schema per type. */
 export const boardCommandSchema = z.discriminatedUnion('type', [
@@ -30,6 +43,8 @@ export const boardCommandSchema = z.discriminatedUnion('type', [
   }),
   z.object({ commandId, type: z.literal('hold.withdraw'), holdId: z.string().min(1).max(64), role: crewRoleSchema }),
   z.object({ commandId, type: z.literal('hold.release'), holdId: z.string().min(1).max(64) }),
+  /** The supervisor has looked into failed value checks with the crew; the check may be tried again. */
+  z.object({ commandId, type: z.literal('hold.check.review'), holdId: z.string().min(1).max(64), note: reason }),
   z.object({ commandId, type: z.literal('stage.skip'), stageId: z.string().min(1).max(64), reason }),
   z.object({ commandId, type: z.literal('job.stop'), reason: z.string().trim().max(1000).optional(), pressedAt: z.iso.datetime() }),
   z.object({ commandId, type: z.literal('job.stop.note'), reason: z.string().trim().min(1).max(1000) }),
@@ -39,6 +54,7 @@ export const boardCommandSchema = z.discriminatedUnion('type', [
     type: z.literal('weather.record'),
     meanMs: speedMs,
     gustMs: speedMs,
+    heightM,
     lightning: z.boolean().optional(),
     poorVisibility: z.boolean().optional(),
     ice: z.boolean().optional(),
@@ -76,4 +92,9 @@ export const refusalCodes = [
   'stage_blocked',
   'weather_required',
   'token_expired',
+  'out_of_limit',
+  'out_of_order',
+  'check_wait',
+  'check_locked',
+  'stop_cause_required',
 ] as const;

@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { io as connect, type Socket } from 'socket.io-client';
 import request from 'supertest';
-import type { BoardState } from '../../shared/board/types.js';
+import { holdGatesBoomMovement, movesBoom, weatherVerdict } from '../../shared/board/rules.js';
+import type { BoardState, BoardStep } from '../../shared/board/types.js';
 import type { ClientToServerEvents, CommandAnswer, JoinAnswer, ServerToClientEvents } from '../../shared/events.js';
 import type { BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole, JobEventDto } from '../../shared/schemas/jobs.js';
@@ -77,15 +78,51 @@ export async function boardOf(server: TestServer, who: SignedInUser, jobId: stri
 
 export type CrewByRole = Record<Exclude<CrewRole, 'viewer'>, SignedInUser>;
 
-/** Completes every open step of a stage with a person allowed to, adding the photos and values it asks for. */
+/** A calm weather reading at 10 m, well inside the test crane's limits (18 m boom: gust 13 m/s, mean 9 m/s). */
+export const calmWeather = { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 } as const;
+
+/** Records a calm reading when the boom is about to move (or the hold before it released) on an old or missing one. */
+export async function weatherIfNeeded(server: TestServer, crew: CrewByRole, jobId: string, stageId: string, forRelease: boolean): Promise<void> {
+  const board = await boardOf(server, crew.supervisor, jobId);
+  const stage = board.stages.find((s) => s.id === stageId)!;
+  const needs = forRelease ? holdGatesBoomMovement(board, stageId) : movesBoom(stage);
+  if (!needs || weatherVerdict(board, server.context.now().getTime(), 'raising').fresh) return;
+  const answer = await httpCommand(server, crew.rigger, jobId, calmWeather);
+  if (answer.status !== 200) throw new Error(`weather: ${JSON.stringify(answer.body)}`);
+}
+
+/** A reading within what the step is held to: the plan's figure, the limit, or a calm gust; '5' when it compares nothing. */
+export function readingWithinLimit(step: BoardStep): string {
+  const check = step.records?.check;
+  if (check?.kind === 'plan') return String(check.planned);
+  if (check?.kind === 'max' || check?.kind === 'min') return String(check.limit);
+  return '5';
+}
+
+/** The open steps of a stage in an order that respects each step's `after`. */
+export function inStepOrder(steps: readonly BoardStep[]): BoardStep[] {
+  const open = steps.filter((s) => s.state === 'open');
+  const done = new Set(steps.filter((s) => s.state === 'done').map((s) => s.id));
+  const ordered: BoardStep[] = [];
+  while (ordered.length < open.length) {
+    const next = open.find((s) => !ordered.includes(s) && (s.after ?? []).every((id) => done.has(id) || !open.some((o) => o.id === id)));
+    if (!next) throw new Error('steps wait for each other');
+    ordered.push(next);
+    done.add(next.id);
+  }
+  return ordered;
+}
+
+/** Completes every open step of a stage with a person allowed to, in step order, adding the photos and values within limit it asks for. */
 export async function completeSteps(server: TestServer, crew: CrewByRole, jobId: string, stageId: string): Promise<void> {
   const board = await boardOf(server, crew.supervisor, jobId);
   const stage = board.stages.find((s) => s.id === stageId)!;
-  for (const step of stage.steps.filter((s) => s.state === 'open')) {
+  for (const step of inStepOrder(stage.steps)) {
+    await weatherIfNeeded(server, crew, jobId, stageId, false);
     const role = step.allowedRoles.find((r) => r !== 'viewer') as keyof CrewByRole;
     const who = crew[role];
     let value: string | undefined;
-    if (step.records?.kind === 'reading') value = '5';
+    if (step.records?.kind === 'reading') value = readingWithinLimit(step);
     if (step.records?.kind === 'serial') {
       value = step.records.plannedSerial ?? undefined;
       if (!value) {
@@ -113,6 +150,7 @@ export async function acknowledgeAndRelease(server: TestServer, crew: CrewByRole
     const answer = await httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role, ...extra });
     if (answer.status !== 200) throw new Error(`ack ${hold.id} as ${role}: ${JSON.stringify(answer.body)}`);
   }
+  await weatherIfNeeded(server, crew, jobId, stageId, true);
   const released = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
   if (released.status !== 200) throw new Error(`release ${hold.id}: ${JSON.stringify(released.body)}`);
 }

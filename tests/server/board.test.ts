@@ -161,7 +161,7 @@ describe('the live board engine', () => {
     expect((await httpCommand(server, newcomer, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'signaller' })).status).toBe(200);
   });
 
-  it('a value-check hold refuses wrong values, naming the fields and never the expected values', async () => {
+  it('a value-check hold refuses wrong values without naming a field or an expected value (the supervisor sees which fields)', async () => {
     const jobId = await liveJob();
     await advanceUntilActive(server, crew, jobId, 'er-config');
     await completeSteps(server, crew, jobId, 'er-config');
@@ -175,9 +175,14 @@ describe('the live board engine', () => {
     const wrong = await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'operator', photoId, values: { ...controllerValues18m, boomLengthM: '21', parts: '4' } });
     expect(wrong.status).toBe(409);
     expect(wrong.body.error?.code).toBe('values_mismatch');
-    expect(wrong.body.error?.message).toMatch(/Boom length.*Parts of line/);
+    // Naming the wrong fields let a person recover every expected value by trying (issue 14).
+    expect(wrong.body.error?.message).not.toMatch(/Boom length|Parts of line/);
     expect(JSON.stringify(wrong.body)).not.toMatch(/"18"|\b18 m|"6"/);
-    const right = await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'operator', photoId, values: { ...controllerValues18m, boomLengthM: '18.0' } });
+    const failures = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-config')!.hold!.checkFailures;
+    expect(failures.map((f) => f.fields)).toEqual([['boomLengthM', 'parts']]);
+    // After a failure: wait, read the controller again, with a new photo.
+    server.advance(31_000);
+    const right = await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'operator', photoId: await uploadPhoto(server, crew.operator), values: { ...controllerValues18m, boomLengthM: '18.0' } });
     expect(right.status).toBe(200);
   });
 
@@ -206,9 +211,9 @@ describe('the live board engine', () => {
     expect((await httpCommand(server, crew.signaller, jobId, { type: 'job.stop', pressedAt: new Date().toISOString() })).status).toBe(200);
 
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Cleared' })).body.error?.code).toBe('weather_required');
-    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 12, gustMs: 17 });
+    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 12, gustMs: 17, heightM: 10 });
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Cleared' })).body.error?.code).toBe('weather_required');
-    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 4, gustMs: 7 });
+    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 4, gustMs: 7, heightM: 10 });
     expect((await httpCommand(server, crew.operator, jobId, { type: 'job.resume', reason: 'Cleared' })).body.error?.code).toBe('role_not_allowed');
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Tag line freed and checked' })).status).toBe(200);
     board = await boardOf(server, crew.supervisor, jobId);
@@ -216,7 +221,7 @@ describe('the live board engine', () => {
 
     server.advance(16 * 60 * 1000);
     resign();
-    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 11, gustMs: 16 });
+    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 11, gustMs: 16, heightM: 10 });
     board = await boardOf(server, crew.supervisor, jobId);
     expect(board.job.state).toBe('stopped');
     expect(board.job.stop?.reason).toMatch(/over the limit/);
@@ -225,7 +230,7 @@ describe('the live board engine', () => {
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Old reading' })).body.error?.code).toBe('weather_required');
   });
 
-  it('only the crew join a board; a viewer watches but cannot act; someone outside the crew is refused', async () => {
+  it('only the crew join a board; a viewer watches and may only raise a stop; someone outside the crew is refused', async () => {
     const jobId = await liveJob();
     const outside = client(outsider);
     const refused = await outside.join(jobId);
@@ -234,8 +239,11 @@ describe('the live board engine', () => {
 
     const watcher = client(viewer);
     expect((await watcher.join(jobId)).ok).toBe(true);
-    expect(await watcher.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() })).toMatchObject({ ok: false, error: { code: 'role_not_allowed' } });
+    expect(await watcher.command(jobId, { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 })).toMatchObject({ ok: false, error: { code: 'role_not_allowed' } });
     expect((await httpCommand(server, viewer, jobId, { type: 'briefing.acknowledge' })).status).toBe(403);
+    // An operator obeys a stop signal from anyone (ASME B30.5, from memory): a viewer's stop counts.
+    const viewerStop = await watcher.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
+    expect(viewerStop).toMatchObject({ ok: true, event: { type: 'job.stopped', by: { role: 'viewer' } } });
 
     const rigger = client(crew.rigger);
     await rigger.join(jobId);
@@ -316,7 +324,7 @@ describe('the live board engine', () => {
   it('replaying the whole event log through the shared reducer gives the server’s snapshot', async () => {
     const jobId = await liveJob();
     await advanceUntilActive(server, crew, jobId, 'er-joints');
-    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 3, gustMs: 5 });
+    await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 });
     const events = jobEventListSchema.parse((await request(server.app).get(`/api/jobs/${jobId}/events?after=0`).set('Authorization', `Bearer ${crew.supervisor.token}`)).body).items;
     const { presence, ...snapshot } = await boardOf(server, crew.supervisor, jobId);
     expect(Array.isArray(presence)).toBe(true);
