@@ -12,13 +12,13 @@ function configuration(overrides: Partial<Configuration> = {}): Configuration {
   return {
     craneUnitId: UNIT_ID,
     boomLengthM: 18,
-    mainHook: { hookBlockId: 'HB120', parts: 6 },
+    mainHook: { hookBlockId: 'HB120', parts: 6, lowestHookPositionM: 0 },
     auxiliary: { enabled: false, hookBlockId: null },
     heaviestLoad: { description: 'Roof truss', loadT: 20, riggingT: 0.8, radiusM: 8 },
     ground: { groundType: 'firm clay', allowablePressureKpa: 400, source: { kind: 'ground_investigation', reference: 'GI report X-1' } },
     mats: { used: false, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 },
     assist: { assistCraneId: null, chartId: null, lifts: [] },
-    siteHazards: { powerLines: [], buriedServices: '', neighbours: '' },
+    siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     fallZoneMarginM: 5,
     ...overrides,
   };

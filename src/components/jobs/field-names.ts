@@ -4,6 +4,7 @@ const names: Record<string, string> = {
   boomLengthM: 'Boom length',
   'mainHook.hookBlockId': 'Main hook block',
   'mainHook.parts': 'Parts of line',
+  'mainHook.lowestHookPositionM': 'Lowest hook position',
   'auxiliary.hookBlockId': 'Auxiliary hook or overhaul ball',
   'heaviestLoad.description': 'Heaviest load: what it is',
   'heaviestLoad.loadT': 'Heaviest load: load',
@@ -21,10 +22,12 @@ const names: Record<string, string> = {
   fallZoneMarginM: 'Fall-zone margin',
   'siteHazards.buriedServices': 'Buried services',
   'siteHazards.neighbours': 'Neighbours',
+  'siteHazards.loadAndTagLineAllowanceM': 'Hook, load and tag-line allowance',
+  'siteHazards.swayAllowanceM': 'Sway allowance',
 };
 
 const liftFields: Record<string, string> = { label: 'what is lifted', liftT: 'weight', riggingT: 'rigging', radiusM: 'radius' };
-const lineFields: Record<string, string> = { label: 'which line', voltageKv: 'voltage', distanceM: 'distance' };
+const lineFields: Record<string, string> = { label: 'which line', voltageKv: 'voltage', distanceM: 'distance', assistDistanceM: 'assist crane’s distance' };
 
 /** A field's path ("assist.lifts.2.radiusM") in the words of the form ("Assist lift 3: radius"). */
 export function fieldName(path: string): string {

@@ -31,14 +31,16 @@ export function blankConfiguration(craneUnitId: string): Configuration {
   return {
     craneUnitId,
     boomLengthM: Number.NaN,
-    mainHook: { hookBlockId: '', parts: Number.NaN },
+    // Ground level unless the supervisor says the hook goes lower (a pit, a shaft) or stays higher.
+    mainHook: { hookBlockId: '', parts: Number.NaN, lowestHookPositionM: 0 },
     auxiliary: { enabled: false, hookBlockId: null },
     heaviestLoad: { description: '', loadT: Number.NaN, riggingT: Number.NaN, radiusM: Number.NaN },
-    ground: { groundType: '', allowablePressureKpa: Number.NaN, source: { kind: 'none', reference: '' } },
+    ground: { groundType: '', allowablePressureKpa: Number.NaN, source: { kind: 'none', reference: '', designer: '' } },
     // Mats start unused; their sizes only count once they are switched on and filled in.
     mats: { used: false, lengthM: Number.NaN, widthM: Number.NaN, thicknessM: Number.NaN, weightKg: Number.NaN },
     assist: { assistCraneId: null, chartId: null, lifts: [] },
-    siteHazards: { powerLines: [], buriedServices: '', neighbours: '' },
+    // The reach allowances are common practice, no source: settings the supervisor can change.
+    siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     // Common practice, no source: a setting the supervisor can change.
     fallZoneMarginM: 5,
   };
