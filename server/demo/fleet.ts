@@ -47,7 +47,7 @@ export async function seedDemoFleet(context: AppContext, people: { supervisor: U
     ['guy_line', 'G3', 2],
     ['guy_line', 'G6', 2],
     ['guy_line', 'G12', 12],
-    ['hook_block', 'HB250', 1],
+    ['hook_block', 'HB160', 1],
     ['hook_block', 'HB120', 1],
     ['hook_block', 'BALL12', 1],
     ['rope', 'R28-hoist', 2],

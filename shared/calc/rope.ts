@@ -50,9 +50,14 @@ export const DESIGN_FACTOR_MINIMUMS: Readonly<Record<RopeDuty, number>> = {
   rotationResistant: 5.0,
 };
 
-/** Where the design-factor minimums are published. */
+/**
+ * Where the design-factor minimums are published. The rotation-resistant 5 is 29 CFR
+ * 1926.1414(e)(2)(iii)–(iv) as the regulation text reads; (e)(3) only sets the conditions under
+ * which Types II and III may go below 5 (never below the 3.5 of (e)(2)(ii)), which Holdline does
+ * not apply: it keeps 5.
+ */
 export const DESIGN_FACTOR_SOURCE =
-  'ASME B30.5 §5-1.7.1 (same wording ASME B30.22 §22-1.5.1: running 3.5, standing 3.0, rotation-resistant 5); 29 CFR 1926.1414(e)(2)';
+  'ASME B30.5 §5-1.7.1 (same wording ASME B30.22-2000 §22-1.5.1: running 3.5, standing 3.0, rotation-resistant 5); 29 CFR 1926.1414(e)(2)(iii)–(iv): rotation-resistant rope not less than 5 (the exceptions of (e)(3) are not applied)';
 
 /** Design factor = minimum breaking force ÷ line pull. */
 export function designFactor(input: { minimumBreakingForceKn: number; linePullKn: number }): {
@@ -86,11 +91,12 @@ export function designFactorCheck(input: { minimumBreakingForceKn: number; lineP
 }
 
 /** Where the rope bends, which sets its minimum D/d. */
-export type BendingElement = 'drum' | 'loadSheave' | 'boomHoistSheave' | 'lowerBlockSheave';
+export type BendingElement = 'drum' | 'boomHoistDrum' | 'loadSheave' | 'boomHoistSheave' | 'lowerBlockSheave';
 
 /** Minimum pitch-diameter-to-rope-diameter ratios. */
 export const D_OVER_D_MINIMUMS: Readonly<Record<BendingElement, number>> = {
   drum: 18,
+  boomHoistDrum: 15,
   loadSheave: 18,
   boomHoistSheave: 15,
   lowerBlockSheave: 16,
@@ -98,7 +104,7 @@ export const D_OVER_D_MINIMUMS: Readonly<Record<BendingElement, number>> = {
 
 /** Where the D/d minimums are published. */
 export const D_OVER_D_SOURCE =
-  'ASME B30.5 §5-1.7.4: load hoisting sheaves 18d, boom hoisting sheaves 15d, lower load block 16d; load hoist drum 18d (ASME B30.5; Cal/OSHA Title 8 §4929)';
+  'ASME B30.5 §5-1.7.4: (a) boom hoisting sheaves 15d, (b) load hoisting sheaves 18d (every sheave the hoist rope runs over: tip, guide and idler sheaves), (c) lower load block sheaves 16d; ASME B30.5-2018 §5-1.3.1(a)(3): load hoist drum first layer 18d (wording as published; paragraph numbers from memory); boom hoist drum 15d (ASME B30.5 §5-1.3.2, from memory)';
 
 /** D/d of a drum or sheave against the published minimum. */
 export function dOverDCheck(input: { pitchDiameterMm: number; ropeDiameterMm: number; element: BendingElement }): {
@@ -173,7 +179,67 @@ export function fleetAngleCheck(input: {
 export const MINIMUM_WRAPS_ON_DRUM = 2;
 
 /** Where the two-wrap minimum is published. */
-export const MINIMUM_WRAPS_SOURCE = 'at least two full wraps at the lowest hook position (ASME B30.5; Cal/OSHA Title 8 §4929; ASME B30.19 §19-1.3.2(b))';
+export const MINIMUM_WRAPS_SOURCE =
+  'no less than two full wraps of rope on the drum with the hook in its extreme low position (ASME B30.5-2018 §5-1.3.1(a)(2)(-a), wording as published; paragraph number from memory)';
+
+/** The hoist rope's run with the hook at its lowest, from the crane's geometry. */
+export interface HoistRunInput {
+  boomLengthM: number;
+  /** Height of the boom foot pin above the ground. */
+  footPinHeightM: number;
+  /** How far the sheave the rope hangs from reaches beyond the main tip (the auxiliary sheave); 0 for the main tip. */
+  beyondTipM: number;
+  /** Height of the lowest hook position above the ground; negative below it (a pit, a shaft, over a quay edge). */
+  lowestHookPositionM: number;
+  /** Rope run from the drum to the boom foot. */
+  leadToBoomFootM: number;
+}
+
+/**
+ * Reeve height and lead length at the lowest hook position. The tip is taken at its highest, the
+ * boom vertical: tip height = foot-pin height + boom length (+ reach beyond the tip), the most rope a
+ * boom angle can pay out; the reeve height runs from there down to the lowest hook position, so the
+ * block's own height is counted as rope too. The lead runs from the drum to the boom foot and up the
+ * boom. Both overstate the rope paid out, never understate it.
+ */
+export function hoistRunAtLowestHook(input: HoistRunInput): { reeveHeightM: number; leadLengthM: number; tipHeightM: number; rule: string } {
+  const boom = requirePositive('boomLengthM', input.boomLengthM);
+  const foot = requireNonNegative('footPinHeightM', input.footPinHeightM);
+  const beyond = requireNonNegative('beyondTipM', input.beyondTipM);
+  const lead = requireNonNegative('leadToBoomFootM', input.leadToBoomFootM);
+  const lowest = input.lowestHookPositionM;
+  if (typeof lowest !== 'number' || !Number.isFinite(lowest)) throw new CalcInputError('lowestHookPositionM', `must be a finite height, got ${String(lowest)}`);
+  const tipHeightM = foot + boom + beyond;
+  if (lowest >= tipHeightM) throw new CalcInputError('lowestHookPositionM', `is at or above the tip (${tipHeightM.toFixed(1)} m): the hook cannot hang there`);
+  return {
+    reeveHeightM: tipHeightM - lowest,
+    leadLengthM: lead + boom + beyond,
+    tipHeightM,
+    rule: 'reeve height = foot-pin height + boom length (+ reach beyond the tip) − lowest hook position (boom vertical: the most rope paid out); lead = drum to boom foot + boom length (+ reach beyond the tip)',
+  };
+}
+
+/** Fleet angle at both flanges of a drum whose first sheave may sit to one side of its centre. */
+export function drumFleetAngleCheck(input: {
+  drumWidthM: number;
+  distanceM: number;
+  offsetFromDrumCentreM: number;
+  drumSurface: 'smooth' | 'grooved';
+  limits?: FleetAngleLimits;
+}): { largestDeg: number; smallestDeg: number; maxDeg: number; minDeg: number; pass: boolean; rule: string } {
+  const half = requirePositive('drumWidthM', input.drumWidthM) / 2;
+  const off = requireNonNegative('offsetFromDrumCentreM', input.offsetFromDrumCentreM);
+  const far = fleetAngleCheck({ offsetM: half + off, distanceM: input.distanceM, drumSurface: input.drumSurface, limits: input.limits });
+  const near = fleetAngleCheck({ offsetM: Math.abs(half - off), distanceM: input.distanceM, drumSurface: input.drumSurface, limits: input.limits });
+  return {
+    largestDeg: far.fleetAngleDeg,
+    smallestDeg: near.fleetAngleDeg,
+    maxDeg: far.maxDeg,
+    minDeg: far.minDeg,
+    pass: far.pass && near.pass,
+    rule: `at each flange: fleet angle = atan((half the drum width ± sheave offset) ÷ distance to the first sheave); ${far.rule}`,
+  };
+}
 
 /** Geometry of the reeving at the lowest hook position. */
 export interface RopeRunInput {

@@ -117,6 +117,11 @@ export const hookBlockSchema = z.object({
   weightKg: positive,
   /** Most parts of line the block can be reeved with. */
   maxParts: z.number().int().min(1).max(40),
+  /**
+   * Bearings of the block's sheaves; null for an overhaul ball or when the data does not say
+   * (the planner then takes plain bearings, the higher line pull).
+   */
+  sheaveBearing: z.enum(['plain', 'rolling']).nullable().default(null),
 }).refine((b) => (b.sheaveCount === 0) === (b.sheavePitchDiameterMm === null), {
   message: 'a block with sheaves needs their diameter; an overhaul ball has none',
   path: ['sheavePitchDiameterMm'],
@@ -150,6 +155,14 @@ export const drumSchema = z.object({
   /** Rope run from the drum to the boom foot (first sheave); null when the data does not give it. */
   leadToBoomFootM: positive.max(100).nullable(),
   permissibleLinePullKn: positive,
+  /** Grooved drum (fleet angle up to 2°) or smooth (1½°); null when the data does not say (taken as smooth). */
+  grooved: z.boolean().nullable().default(null),
+  /**
+   * The first sheave the rope runs to from the drum, for the fleet angle: its distance from the
+   * drum and how far its centre line sits to one side of the drum's centre. Null when the data does
+   * not give it (the fleet angle is then the manufacturer's, not checked).
+   */
+  firstSheave: z.object({ distanceM: positive.max(100), offsetFromDrumCentreM: nonNegative.max(10) }).nullable().default(null),
 });
 
 /** A sheave on the boom or mast. */
@@ -159,6 +172,12 @@ export const sheaveSchema = z.object({
   role: z.enum(['load', 'boomHoist', 'idler']),
   pitchDiameterMm: positive,
   bearing: z.enum(['plain', 'rolling']),
+  /**
+   * The hoists whose rope runs over this sheave. Null when the data does not say: the planner then
+   * counts a load or idler sheave in the path of both the main and the auxiliary hoist (more
+   * friction, the higher line pull) and a boom-hoist sheave in the boom hoist's.
+   */
+  hoists: z.array(z.enum(['mainHoist', 'auxiliaryHoist', 'boomHoist'])).min(1).max(3).nullable().default(null),
 });
 
 /** Crawler tracks. */
@@ -222,7 +241,9 @@ export function upgradeArrangementData(input: unknown): unknown {
         capacityCharts: [],
       };
     }),
-    drums: list(v1.drums).map((d) => ({ leadToBoomFootM: null, ...d })),
+    drums: list(v1.drums).map((d) => ({ leadToBoomFootM: null, grooved: null, firstSheave: null, ...d })),
+    sheaves: list(v1.sheaves).map((s) => ({ hoists: null, ...s })),
+    hookBlocks: list(v1.hookBlocks).map((b) => ({ sheaveBearing: null, ...b })),
     ropes: list(v1.ropes).map((r) => ({ massKgPerM: null, ...r })),
     machine: { boomFoot: null, mast: null, ...obj(v1.machine) },
     auxSheave: null,
