@@ -91,36 +91,79 @@ describe('jobs, crews, configuration and the event log', () => {
     expect(arrangementDataSchema.parse(demoArrangement()).id).toBe('mhw-250l');
   });
 
-  it('a failing figure needs an override with a reason approved by a second person; some can never be overridden', async () => {
+  it('a lift between the caution share and 100 % of the chart needs an override with a reason, approved by a second supervisor', async () => {
     const job = await newJob();
     await crewUp(job.id);
+    // 90 t + 0.8 t + the HB120 block (2.7 t) at 10 m on the 18 m chart (182.0 t at 10 m): 93.5 ÷ 182 = 51.4 %,
+    // above a site caution share of 50 % and within the chart; ten parts keep the line pull within the winch rating.
     const config = configuration18m(unitId, {
-      ground: { groundType: 'firm clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-3', designer: '' } },
-      siteHazards: { powerLines: [{ label: '33 kV feeder', voltageKv: 33, distanceM: 19, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: null }], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
+      mainHook: { hookBlockId: 'HB120', parts: 10, lowestHookPositionM: 0 },
+      heaviestLoad: { description: 'Stator, 90 t', loadT: 90, riggingT: 0.8, radiusM: 10 },
+      chartCautionPercent: 50,
     });
     const saved = jobEnvelopeSchema.parse((await request(server.app).put(`/api/jobs/${job.id}/configuration`).set(as(supervisor)).send(config).expect(200)).body).job;
-    const ground = saved.figures.find((f) => f.group === 'ground' && f.status === 'fail' && f.overridable)!;
-    const line = saved.figures.find((f) => f.key.startsWith('powerLine') && f.status === 'fail')!;
-    expect(line.overridable).toBe(false);
+    const chart = saved.figures.find((f) => f.key === 'chart.lift')!;
+    expect(chart).toMatchObject({ status: 'caution', overridable: true });
+    expect(chart.value).toMatch(/^51\.4 % of chart/);
+    // Nothing else stands in the way: the chart caution is the only figure reason.
+    const figureReasons = async () => (await readiness(job.id)).reasons.filter((r) => r.code.startsWith('figure'));
+    expect(await figureReasons()).toEqual([{ code: 'figure_failing', message: expect.stringContaining(chart.label) }]);
 
-    const before = await readiness(job.id);
-    expect(before.reasons.map((r) => r.code)).toEqual(expect.arrayContaining(['figure_failing', 'figure_not_overridable']));
-
-    expect((await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(supervisor)).send({ action: 'request', figureKey: line.key, reason: 'The line will be made dead for the raise.' }).expect(409)).body.error.code).toBe('not_overridable');
-    await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(supervisor)).send({ action: 'request', figureKey: ground.key, reason: 'short' }).expect(400);
+    const overrides = (who: SignedInUser, body: object) => request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(who)).send(body);
+    await overrides(supervisor, { action: 'request', figureKey: chart.key, reason: 'short' }).expect(400);
     const requested = jobEnvelopeSchema.parse(
-      (await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(supervisor)).send({ action: 'request', figureKey: ground.key, reason: 'Temporary-works design for a piled platform is being issued.' }).expect(201)).body,
+      (await overrides(supervisor, { action: 'request', figureKey: chart.key, reason: 'Critical-lift plan CL-7: the stator lift is made in one slow movement with the area cleared.' }).expect(201)).body,
     ).job;
     const overrideId = requested.overrides[0].id;
-    expect((await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(supervisor)).send({ action: 'approve', overrideId }).expect(409)).body.error.code).toBe('same_person');
-    await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(operator)).send({ action: 'approve', overrideId }).expect(403);
-    expect((await readiness(job.id)).reasons.filter((r) => r.code === 'figure_failing').length).toBeGreaterThan(0);
-    await request(server.app).post(`/api/jobs/${job.id}/overrides`).set(as(supervisor2)).send({ action: 'approve', overrideId }).expect(200);
+    expect((await overrides(supervisor, { action: 'approve', overrideId }).expect(409)).body.error.code).toBe('same_person');
+    await overrides(operator, { action: 'approve', overrideId }).expect(403);
+    expect(await figureReasons()).toHaveLength(1);
+    await overrides(supervisor2, { action: 'approve', overrideId }).expect(200);
+    expect(await figureReasons()).toEqual([]);
+  });
 
-    const after = await readiness(job.id);
-    expect(after.reasons.find((r) => r.code === 'figure_failing' && r.message.startsWith(ground.label))).toBeUndefined();
-    // The failure that can never be overridden still stops the job.
-    expect(after.reasons.map((r) => r.code)).toContain('figure_not_overridable');
+  it('line pull, dead wraps, D/d, ground pressure and power-line distance can never be overridden: each request is refused with 409 not_overridable', async () => {
+    // A model whose HB120 has 300 mm sheaves (D/d 300 ÷ 28 = 10.7, below 16), on its own unit with the 18 m kit.
+    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    const data = structuredClone(demoArrangement());
+    data.id = 'mhw-250l-small-sheaves';
+    data.model = `${data.model} (small block sheaves, test)`;
+    data.hookBlocks = data.hookBlocks.map((b) => (b.id === 'HB120' ? { ...b, sheavePitchDiameterMm: 300 } : b));
+    const model = (await request(server.app).post('/api/crane-models/import').set(as(admin)).send(data).expect(201)).body.model as { id: string };
+    const unit = (await request(server.app).post('/api/crane-units').set(as(admin)).send({ fleetNumber: 'FL-SMALL', modelId: model.id, location: 'Yard' }).expect(201)).body.unit as { id: string };
+    await addParts18m(server, admin.token, model.id, unit.id, 'N');
+    const job = jobEnvelopeSchema.parse(
+      (await request(server.app).post('/api/jobs').set(as(supervisor)).send({ name: 'No override', site: 'North yard', craneUnitId: unit.id, kind: 'erection' }).expect(201)).body,
+    ).job;
+    await crewUp(job.id);
+
+    const refused = async (config: ReturnType<typeof configuration18m>, pick: (f: { key: string; group: string }) => boolean, what: string) => {
+      const saved = jobEnvelopeSchema.parse((await request(server.app).put(`/api/jobs/${job.id}/configuration`).set(as(supervisor)).send(config).expect(200)).body).job;
+      const f = saved.figures.find((x) => pick(x) && x.status === 'fail');
+      expect(f, `${what} fails`).toBeDefined();
+      expect(f!.overridable).toBe(false);
+      const res = await request(server.app)
+        .post(`/api/jobs/${job.id}/overrides`)
+        .set(as(supervisor))
+        .send({ action: 'request', figureKey: f!.key, reason: 'Two supervisors would accept this figure on the day.' })
+        .expect(409);
+      expect(res.body.error.code, what).toBe('not_overridable');
+    };
+    // Two parts for 60 t: the lead line pulls far above the drum's 150 kN; the small sheaves fail D/d; 30 kPa ground fails.
+    const heavyOnTwo = configuration18m(unit.id, {
+      mainHook: { hookBlockId: 'HB120', parts: 2, lowestHookPositionM: 0 },
+      heaviestLoad: { description: 'Skid, 60 t', loadT: 60, riggingT: 0.8, radiusM: 8 },
+      ground: { groundType: 'soft clay', allowablePressureKpa: 30, source: { kind: 'ground_investigation', reference: 'GI-3', designer: '' } },
+      siteHazards: { powerLines: [{ label: '33 kV feeder', voltageKv: 33, distanceM: 19, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: null }], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
+    });
+    await refused(heavyOnTwo, (f) => f.key === 'rope.leadLinePull', 'line pull');
+    await refused(heavyOnTwo, (f) => f.key === 'rope.dOverD.hookBlock', 'D/d');
+    await refused(heavyOnTwo, (f) => f.group === 'ground', 'ground pressure');
+    await refused(heavyOnTwo, (f) => f.key.startsWith('powerLine'), 'power-line distance');
+    // Ten parts down a 300 m shaft pay out far more than the 640 m on the drum: no dead wraps left.
+    await refused(configuration18m(unit.id, { mainHook: { hookBlockId: 'HB120', parts: 10, lowestHookPositionM: -300 } }), (f) => f.key === 'rope.wraps', 'dead wraps');
+    const r = await readiness(job.id);
+    expect(r.reasons.map((x) => x.code)).toContain('figure_not_overridable');
   });
 
   it('an operator on the crew cannot change the job; a person outside the crew cannot read it', async () => {
