@@ -67,6 +67,20 @@ describe('unit conversions against mathjs', () => {
     expect(ftToM(10)).toBeCloseTo(3.048, 12);
   });
 
+  // NIST Special Publication 811 (2008 edition), Guide for the Use of the International System of
+  // Units, Appendix B.8 "Factors for units listed alphabetically" (from memory, not re-read here);
+  // the factors marked exact there are compared exactly, the others to the digits the table prints.
+  it('NIST SP 811 (2008) Appendix B.8: foot 3.048 E-01 m, mile per hour 4.4704 E-01 m/s, kilogram-force 9.806 65 E+00 N (exact)', () => {
+    expect(ftToM(1)).toBe(0.3048);
+    expect(mphToMs(1)).toBe(0.44704);
+    expect(tonnesForceToKn(1)).toBe(9.80665); // 1 kgf = 9.806 65 N, so 1 tf = 9.806 65 kN
+  });
+  it('NIST SP 811 (2008) Appendix B.8: pound-force 4.448 222 E+00 N, knot 5.144 444 E-01 m/s, kilometer per hour 2.777 778 E-01 m/s', () => {
+    expect(lbfToKn(1) * 1000).toBeCloseTo(4.448222, 6);
+    expect(knotsToMs(1)).toBeCloseTo(0.5144444, 7);
+    expect(kmhToMs(1)).toBeCloseTo(0.2777778, 7);
+  });
+
   it('refuses negative and non-finite magnitudes with the field named', () => {
     for (const bad of [-1, Number.NaN, Number.POSITIVE_INFINITY]) {
       expect(() => tonnesForceToKn(bad)).toThrow(CalcInputError);
