@@ -191,7 +191,8 @@ describe('jobs store', () => {
     expect(eventSummary({ ...base, type: 'configuration.set', data: { configuration: { boomLengthM: 18 }, figures: [{ status: 'fail' }, { status: 'pass' }], overridesWithdrawn: [] } })).toBe(
       'Configuration saved: 18 m boom; 1 failing',
     );
-    expect(eventSummary({ ...base, type: 'board.somethingNew', data: { stageId: 's1' } })).toBe('board.somethingNew (stageId)');
+    // A kind of event the screen does not know is still a sentence, never its internal name or fields.
+    expect(eventSummary({ ...base, type: 'board.somethingNew', data: { stageId: 's1' } })).toBe('Made a change this screen does not describe yet; it is kept in the record.');
     expect(fieldErrorOf({ 'siteHazards.powerLines.0.voltageKv': 'Enter a number' }, 'siteHazards.powerLines')).toBe('Enter a number');
   });
 });

@@ -96,63 +96,100 @@ function text(value: unknown): string {
   return typeof value === 'string' ? value : typeof value === 'number' ? String(value) : '';
 }
 
-type Named = Pick<BoardState, 'stages'>;
+/** What event sentences need to name steps, holds and stages: a board, or a plan carried by an event. */
+export interface Named {
+  stages: { id: string; title: string; steps: { id: string; text: string; records?: { label: string; unit: string | null } | null }[]; hold: { id: string; title: string } | null }[];
+}
 
-function stepText(board: Named | null, stepId: unknown): string {
+function findStep(board: Named | null, stepId: unknown) {
   for (const stage of board?.stages ?? []) {
     const step = stage.steps.find((s) => s.id === stepId);
-    if (step) return step.text;
+    if (step) return step;
   }
-  return text(stepId);
+  return null;
+}
+function stepText(board: Named | null, stepId: unknown): string {
+  return clause(findStep(board, stepId)?.text ?? 'a step no longer in the plan');
 }
 function holdTitle(board: Named | null, holdId: unknown): string {
-  return board?.stages.find((s) => s.hold?.id === holdId)?.hold?.title ?? text(holdId);
+  return board?.stages.find((s) => s.hold?.id === holdId)?.hold?.title ?? 'a hold point no longer in the plan';
 }
 function stageTitle(board: Named | null, stageId: unknown): string {
-  return board?.stages.find((s) => s.id === stageId)?.title ?? text(stageId);
+  return board?.stages.find((s) => s.id === stageId)?.title ?? 'a stage no longer in the plan';
+}
+function record(value: unknown): Record<string, unknown> {
+  return value !== null && typeof value === 'object' && !Array.isArray(value) ? (value as Record<string, unknown>) : {};
+}
+function roleWords(role: unknown): string {
+  return roleLabel(text(role)).toLowerCase();
 }
 
-/** One line for an event of the board's feed. Unknown types are still shown by their type. */
+/**
+ * One plain sentence (or two) for an event of the board, for a supervisor or the client's engineer:
+ * what was done, to what, with what value. Who did it is shown beside it. Never the event's internal
+ * name or a list of its fields, also for a kind of event this screen does not know yet.
+ */
 export function boardEventLine(event: Pick<JobEventDto, 'type' | 'data' | 'by'>, board: Named | null): string {
   const d = event.data;
-  const role = roleLabel(event.by.role).toLowerCase();
   switch (event.type) {
     case 'job.started':
-      return 'Job started on the board';
+      return 'Started the job on the board.';
     case 'briefing.acknowledged':
-      return `Briefing acknowledged (plan version ${text(d.planVersion)})`;
-    case 'step.completed':
-      return `Done: ${stepText(board, d.stepId)}${d.value ? ` (${text(d.value)})` : ''}${d.photoId ? ', photo kept' : ''}`;
+      return `Acknowledged the briefing for plan version ${text(d.planVersion)}.`;
+    case 'step.completed': {
+      const step = findStep(board, d.stepId);
+      const value = text(d.value);
+      const unit = step?.records?.unit ? ` ${step.records.unit}` : '';
+      const out = record(d.outOfLimit);
+      return sentences(
+        `Marked done: ${stepText(board, d.stepId)}`,
+        value && `Recorded ${step?.records ? step.records.label.toLowerCase() : 'the value'} ${value}${unit}`,
+        text(out.reason) && `OUT OF LIMIT: ${clause(text(out.reason))}`,
+        !!d.photoId && 'Photo kept with the record',
+      );
+    }
     case 'step.reopened':
-      return `Reopened: ${stepText(board, d.stepId)}`;
+      return sentences(`Reopened: ${stepText(board, d.stepId)}`, Array.isArray(d.alsoReopened) && d.alsoReopened.length > 0 && `${d.alsoReopened.length} later step${d.alsoReopened.length === 1 ? '' : 's'} reopened with it`);
     case 'hold.acknowledged':
-      return `Acknowledged as ${roleLabel(text(d.role)).toLowerCase()}: ${holdTitle(board, d.holdId)}`;
+      return sentences(`Acknowledged the hold point “${holdTitle(board, d.holdId)}” as ${roleWords(d.role)}`, !!d.values && 'The controller readings typed matched the plan', !!d.photoId && 'Photo of the controller kept');
     case 'hold.withdrawn':
-      return `Acknowledgment withdrawn as ${roleLabel(text(d.role)).toLowerCase()}: ${holdTitle(board, d.holdId)}`;
+      return `Withdrew the ${roleWords(d.role)}’s acknowledgment of the hold point “${holdTitle(board, d.holdId)}”.`;
     case 'hold.released':
-      return `Hold released: ${holdTitle(board, d.holdId)}`;
+      return `Released the hold point “${holdTitle(board, d.holdId)}”.`;
+    case 'hold.check.failed': {
+      const fields = Array.isArray(d.fields) ? d.fields.map((f) => (typeof f === 'string' && f in valueCheckFieldLabels ? fieldLabel(f as ValueCheckField).toLowerCase() : '')).filter(Boolean) : [];
+      return sentences(`The configuration check at “${holdTitle(board, d.holdId)}” did not match the plan`, fields.length > 0 && `Differed: ${fields.join(', ')}`);
+    }
+    case 'hold.check.reviewed':
+      return sentences(`Reviewed the failed configuration checks at “${holdTitle(board, d.holdId)}” with the crew`, text(d.note) && `Found: ${text(d.note)}`);
     case 'stage.skipped':
-      return `Stage skipped: ${stageTitle(board, d.stageId)}. Reason: ${text(d.reason)}`;
+      return sentences(`Skipped the stage “${stageTitle(board, d.stageId)}”`, `Reason: ${text(d.reason)}`);
     case 'job.stopped':
-      return `ALL STOP recorded${d.reason ? `: ${text(d.reason)}` : ''}`;
+      return d.alreadyStopped ? sentences('Pressed stop while the job was already stopped', text(d.reason) && `Reason: ${text(d.reason)}`) : sentences('Raised an ALL STOP', text(d.reason) && `Reason: ${text(d.reason)}`);
     case 'job.stop.noted':
-      return `Reason for the stop: ${text(d.reason)}`;
+      return sentences(`Recorded the cause of the stop: ${text(d.reason)}`);
     case 'job.resumed':
-      return `Job resumed. Reason: ${text(d.reason)}`;
+      return sentences('Resumed the job after the stop', `Reason: ${text(d.reason)}`);
     case 'weather.recorded': {
-      const r = (d.reading ?? {}) as Record<string, unknown>;
-      return `Wind recorded: mean ${text(r.meanMs)} m/s, gust ${text(r.gustMs)} m/s${d.overLimit ? `. Over the limit: ${text(d.overLimit)}` : ''}`;
+      const r = record(d.reading);
+      const flags = [r.lightning ? 'lightning' : '', r.ice ? 'ice' : '', r.poorVisibility ? 'poor visibility' : ''].filter(Boolean);
+      const height = typeof r.heightM === 'number' ? ` at ${r.heightM} m` : '';
+      return sentences(
+        `Recorded the wind: mean ${text(r.meanMs)} m/s, gust ${text(r.gustMs)} m/s${height}`,
+        flags.length > 0 && `Also reported: ${flags.join(', ')}`,
+        d.overLimit ? `Over the limit: ${text(d.overLimit)}` : 'Within the limit',
+      );
     }
     case 'defect.reported':
-      return `Defect reported${d.serial ? ` on ${text(d.serial)}` : ''}: ${text(d.description)}`;
+      return sentences(`Reported a defect${d.serial ? ` on ${text(d.serial)}` : ''}: ${text(d.description)}`, 'Photo kept with the record');
     case 'plan.revised':
-      return `Plan revised to version ${text(d.planVersion)}. Reason: ${text(d.reason)}`;
+      return sentences(`Revised the plan to version ${text(d.planVersion)}`, `Reason: ${text(d.reason)}`);
     case 'job.completed':
-      return 'Job complete';
+      return 'Completed the job.';
     case 'job.cancelled':
-      return `Job cancelled. Reason: ${text(d.reason)}`;
+      return sentences('Cancelled the job', `Reason: ${text(d.reason)}`);
     default:
-      return `${event.type} (${role})`;
+      return 'Made a change this screen does not describe yet; it is kept in the record.';
   }
 }
 

@@ -41,6 +41,9 @@ export const figureGroups: { group: Figure['group']; label: string }[] = [
 
 export const jobKindLabels: Record<JobKind, string> = { erection: 'Erection', dismantling: 'Dismantling' };
 
+/** What a job's closed record is called: a dismantling job never talks of an erection record. */
+export const jobRecordNames: Record<JobKind, string> = { erection: 'erection record', dismantling: 'dismantling record' };
+
 /** A crew role in words. */
 export function roleLabel(role: CrewRole | string): string {
   return role in qualificationLabels ? qualificationLabels[role as CrewRole] : role === 'admin' ? 'Administrator' : role;
@@ -111,7 +114,21 @@ export function eventSummary(event: Pick<JobEventDto, 'type' | 'data'>, job?: Pi
       const label = job?.overrides.find((o) => o.id === data.overrideId)?.figureLabel ?? text(data.figureKey);
       return `Override approved for ${label}`;
     }
+    case 'plan.generated':
+      return 'Drafted the plan from the saved configuration and communications plan.';
+    case 'plan.edited':
+      return 'Saved hand edits to the draft plan.';
+    case 'job.ready': {
+      const version = text(data.planVersion);
+      return `Locked the plan${version ? ` as version ${version}` : ''}: the job is ready for the board.`;
+    }
     default:
-      return `${event.type}${Object.keys(data).length ? ` (${Object.keys(data).join(', ')})` : ''}`;
+      // Never the event's internal name or its fields: a person reads this log.
+      return 'Made a change this screen does not describe yet; it is kept in the record.';
   }
+}
+
+/** Events of planning (worded here); every other event is the board's (worded by the board). */
+export function isPlanningEvent(type: string): boolean {
+  return ['job.created', 'job.updated', 'crew.set', 'configuration.set', 'override.requested', 'override.approved', 'plan.generated', 'plan.edited', 'job.ready'].includes(type);
 }
