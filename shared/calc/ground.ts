@@ -194,3 +194,380 @@ export const TYPICAL_ALLOWABLE_PRESSURES: readonly TypicalAllowablePressure[] = 
 /** Label to show beside the typical-pressure table wherever it appears. */
 export const TYPICAL_ALLOWABLE_PRESSURES_LABEL =
   'Guidance only (from memory of BS 8004:1986 Table 1): use the allowable pressure from a ground investigation or temporary-works design.';
+
+// ---------------------------------------------------------------------------------------------
+// Both tracks together, over the full slew range.
+// Coordinates on the ground: x along the tracks (positive towards the end the boom points at when
+// the slew angle is 0°), y across them (positive towards the side the boom points at at 90°), the
+// origin at the slewing centre, taken at the middle of the track footprint.
+// ---------------------------------------------------------------------------------------------
+
+/** The tracks as they stand on the ground. */
+export interface TrackFootprint {
+  /** Bearing length of each track. */
+  trackLengthM: number;
+  shoeWidthM: number;
+  /** Centre-to-centre distance between the left and right tracks. */
+  gaugeM: number;
+  /** Tracks in all, half on each side. */
+  tracks: number;
+}
+
+/** The no-tension pressure plane under both tracks. */
+export interface RigidPlaneResult {
+  /** Highest pressure: at a corner of the footprint, the outer edge of the heavier track at its heavy end. */
+  maxPressureKpa: number;
+  /** The corner where the highest pressure acts. */
+  maxAt: { xM: number; yM: number };
+  /** Area still pressing on the ground, and the whole footprint. */
+  contactAreaM2: number;
+  footprintAreaM2: number;
+  /** True when part of the footprint would be in tension and carries nothing. */
+  partialContact: boolean;
+  /** q(x, y) = a + b·x + c·y where it is positive, zero elsewhere. */
+  plane: { aKpa: number; bKpaPerM: number; cKpaPerM: number };
+  iterations: number;
+  rule: string;
+}
+
+const RIGID_PLANE_RULE =
+  'rigid pressure plane over both tracks: q(x, y) = V/A + M_along·x/I_y + M_across·y/I_x over the track footprint; where that would pull on the ground, the contact area is reduced and the plane solved again until the pressure under the remaining area alone carries V and both moments (no tension; rigid footing, linear pressure, e.g. Bowles, Foundation Analysis and Design, on footings with two-way eccentricity)';
+
+type Pt = readonly [number, number];
+type Vec3 = [number, number, number];
+
+/** Area moments of a polygon (Green's theorem): ∫1, ∫x, ∫y, ∫x², ∫xy, ∫y² dA. */
+function polygonMoments(poly: readonly Pt[]): [number, number, number, number, number, number] {
+  let a = 0;
+  let sx = 0;
+  let sy = 0;
+  let ixx = 0;
+  let ixy = 0;
+  let iyy = 0;
+  for (let i = 0; i < poly.length; i += 1) {
+    const [x0, y0] = poly[i];
+    const [x1, y1] = poly[(i + 1) % poly.length];
+    const cross = x0 * y1 - x1 * y0;
+    a += cross;
+    sx += (x0 + x1) * cross;
+    sy += (y0 + y1) * cross;
+    ixx += (x0 * x0 + x0 * x1 + x1 * x1) * cross;
+    iyy += (y0 * y0 + y0 * y1 + y1 * y1) * cross;
+    ixy += (x0 * y1 + 2 * x0 * y0 + 2 * x1 * y1 + x1 * y0) * cross;
+  }
+  return [a / 2, sx / 6, sy / 6, ixx / 12, ixy / 24, iyy / 12];
+}
+
+/** The part of a convex polygon where a + b·x + c·y ≥ 0 (one Sutherland–Hodgman pass). */
+function clipPositive(poly: readonly Pt[], p: Vec3): Pt[] {
+  const q = (v: Pt) => p[0] + p[1] * v[0] + p[2] * v[1];
+  const out: Pt[] = [];
+  for (let i = 0; i < poly.length; i += 1) {
+    const cur = poly[i];
+    const next = poly[(i + 1) % poly.length];
+    const qc = q(cur);
+    const qn = q(next);
+    if (qc >= 0) out.push(cur);
+    if ((qc >= 0) !== (qn >= 0)) {
+      const t = qc / (qc - qn);
+      out.push([cur[0] + t * (next[0] - cur[0]), cur[1] + t * (next[1] - cur[1])]);
+    }
+  }
+  return out;
+}
+
+/** The 3 × 3 moment matrix of the region of the rectangles where the plane is positive. */
+function contactMatrix(rects: readonly Pt[][], p: Vec3 | null): { m: number[][]; area: number } {
+  const m = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
+  let area = 0;
+  for (const r of rects) {
+    const poly = p === null ? r : clipPositive(r, p);
+    if (poly.length < 3) continue;
+    const [a, sx, sy, ixx, ixy, iyy] = polygonMoments(poly);
+    area += a;
+    m[0][0] += a;
+    m[0][1] += sx;
+    m[0][2] += sy;
+    m[1][1] += ixx;
+    m[1][2] += ixy;
+    m[2][2] += iyy;
+  }
+  m[1][0] = m[0][1];
+  m[2][0] = m[0][2];
+  m[2][1] = m[1][2];
+  return { m, area };
+}
+
+function solve3(m: number[][], t: Vec3): Vec3 | null {
+  const det = (a: number[][]) =>
+    a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+  const d = det(m);
+  if (!Number.isFinite(d) || Math.abs(d) < 1e-14 * Math.abs(m[0][0] * m[1][1] * m[2][2] || 1)) return null;
+  const col = (k: number) => m.map((row, i) => row.map((v, j) => (j === k ? t[i] : v)));
+  return [det(col(0)) / d, det(col(1)) / d, det(col(2)) / d];
+}
+
+const dot3 = (a: readonly number[], b: readonly number[]) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+const mul3 = (m: number[][], v: Vec3): Vec3 => [dot3(m[0], v), dot3(m[1], v), dot3(m[2], v)];
+
+function footprintRects(f: TrackFootprint): Pt[][] {
+  const hl = f.trackLengthM / 2;
+  const hb = f.shoeWidthM / 2;
+  return [-f.gaugeM / 2, f.gaugeM / 2].map((yc) => [
+    [-hl, yc - hb],
+    [hl, yc - hb],
+    [hl, yc + hb],
+    [-hl, yc + hb],
+  ]);
+}
+
+function checkFootprint(f: TrackFootprint): void {
+  requirePositive('trackLengthM', f.trackLengthM);
+  requirePositive('shoeWidthM', f.shoeWidthM);
+  requirePositive('gaugeM', f.gaugeM);
+  requireInteger('tracks', f.tracks, 2, 8);
+  if (f.gaugeM < f.shoeWidthM) throw new CalcInputError('gaugeM', `the gauge ${f.gaugeM} m is less than the shoe width ${f.shoeWidthM} m: the tracks would overlap`);
+}
+
+/**
+ * Pressure under two tracks taken as one rigid footing: the plane q = a + b·x + c·y with no
+ * tension, found by minimising the convex function ½∫(q⁺)² dA − (a·V + b·V·ex + c·V·ey) whose
+ * gradient is zero exactly when the positive part of the plane carries V at (ex, ey). Each Newton
+ * step solves the full-contact equations on the current contact area (the classic "iterate the
+ * effective area" method), with a step-halving line search so it always converges. Needs one track
+ * on each side (2 tracks); a resultant outside the footprint's outline overturns and is refused.
+ */
+export function rigidPlanePressure(input: TrackFootprint & { verticalLoadKn: number; momentAlongKnm: number; momentAcrossKnm: number }): RigidPlaneResult {
+  checkFootprint(input);
+  if (input.tracks !== 2) throw new CalcInputError('tracks', 'the rigid-plane method here is for one track on each side');
+  const v = requirePositive('verticalLoadKn', input.verticalLoadKn);
+  const mx = requireFinite('momentAlongKnm', input.momentAlongKnm);
+  const my = requireFinite('momentAcrossKnm', input.momentAcrossKnm);
+  const ex = mx / v;
+  const ey = my / v;
+  const hl = input.trackLengthM / 2;
+  const hw = input.gaugeM / 2 + input.shoeWidthM / 2;
+  // The outline (convex hull) of two parallel tracks is the rectangle around both.
+  if (Math.abs(ex) >= hl * (1 - 1e-9)) {
+    throw new CalcInputError('eccentricityM', `the resultant is ${Math.abs(ex).toFixed(2)} m along the tracks, at or past their end (${hl} m): the load overturns the crane`);
+  }
+  if (Math.abs(ey) >= hw * (1 - 1e-9)) {
+    throw new CalcInputError('eccentricityM', `the resultant is ${Math.abs(ey).toFixed(2)} m across the tracks, at or past their outer edge (${hw} m): the load overturns the crane`);
+  }
+  const rects = footprintRects(input);
+  const t: Vec3 = [v, mx, my];
+  const full = contactMatrix(rects, null);
+  let p = solve3(full.m, t);
+  if (!p) throw new CalcInputError('gaugeM', 'the track footprint has no area to bear on');
+  const corners = rects.flat();
+  const qAt = (pp: Vec3, c: Pt) => pp[0] + pp[1] * c[0] + pp[2] * c[1];
+  const psi = (pp: Vec3) => {
+    const { m } = contactMatrix(rects, pp);
+    return 0.5 * dot3(pp, mul3(m, pp)) - dot3(pp, t);
+  };
+  let iterations = 0;
+  if (Math.min(...corners.map((c) => qAt(p!, c))) < 0) {
+    for (; iterations < 200; iterations += 1) {
+      const { m } = contactMatrix(rects, p);
+      const residual = mul3(m, p).map((r, i) => r - t[i]);
+      const scale = [v, v * hl, v * hw];
+      if (Math.max(...residual.map((r, i) => Math.abs(r) / scale[i])) < 1e-12) break;
+      const target = solve3(m, t);
+      if (!target) throw new CalcInputError('eccentricityM', 'the contact area shrank to nothing: the load overturns the crane');
+      const d: Vec3 = [target[0] - p[0], target[1] - p[1], target[2] - p[2]];
+      const slope = dot3(residual, d);
+      const f0 = psi(p);
+      let s = 1;
+      let next: Vec3 = [p[0] + d[0], p[1] + d[1], p[2] + d[2]];
+      while (s > 1e-6 && psi(next) > f0 + 1e-4 * s * slope + 1e-12 * Math.abs(f0)) {
+        s /= 2;
+        next = [p[0] + s * d[0], p[1] + s * d[1], p[2] + s * d[2]];
+      }
+      p = next;
+    }
+  }
+  const { area } = contactMatrix(rects, p);
+  let maxQ = qAt(p, corners[0]);
+  let maxAt: Pt = corners[0];
+  for (const c of corners.slice(1)) {
+    const q = qAt(p, c);
+    if (q > maxQ + 1e-9 * Math.abs(maxQ)) {
+      maxQ = q;
+      maxAt = c;
+    }
+  }
+  const footprintArea = full.area;
+  return {
+    maxPressureKpa: finiteResult('verticalLoadKn', maxQ),
+    maxAt: { xM: maxAt[0], yM: maxAt[1] },
+    contactAreaM2: area,
+    footprintAreaM2: footprintArea,
+    partialContact: area < footprintArea * (1 - 1e-9),
+    plane: { aKpa: p[0], bKpaPerM: p[1], cKpaPerM: p[2] },
+    iterations,
+    rule: RIGID_PLANE_RULE,
+  };
+}
+
+/** Load the rigid pressure plane puts on one rectangle of ground (e.g. a mat's strip of track), and the part of it in contact. */
+export function rigidPlaneLoadOn(plane: RigidPlaneResult['plane'], rect: { x0M: number; x1M: number; y0M: number; y1M: number }): { loadKn: number; contactAreaM2: number } {
+  const p: Vec3 = [plane.aKpa, plane.bKpaPerM, plane.cKpaPerM];
+  const poly: Pt[] = [
+    [Math.min(rect.x0M, rect.x1M), Math.min(rect.y0M, rect.y1M)],
+    [Math.max(rect.x0M, rect.x1M), Math.min(rect.y0M, rect.y1M)],
+    [Math.max(rect.x0M, rect.x1M), Math.max(rect.y0M, rect.y1M)],
+    [Math.min(rect.x0M, rect.x1M), Math.max(rect.y0M, rect.y1M)],
+  ];
+  const clipped = clipPositive(poly, p);
+  if (clipped.length < 3) return { loadKn: 0, contactAreaM2: 0 };
+  const [a, sx, sy] = polygonMoments(clipped);
+  return { loadKn: p[0] * a + p[1] * sx + p[2] * sy, contactAreaM2: a };
+}
+
+/** Pressure under the heavier track with the moment split between the tracks. */
+export interface PerTrackSlewResult {
+  /** Load on the heavier side: V/2 + |M_across| ÷ gauge. */
+  heavySideKn: number;
+  lightSideKn: number;
+  /** The heavier side's pressure block along its track. */
+  track: TrackPressureResult;
+  /** True when the lighter track could not carry its half of the moment along the tracks, so the heavier one takes it all. */
+  heavyTakesAllAlong: boolean;
+  rule: string;
+}
+
+/**
+ * The per-track method: the heavier side carries V/2 + |M_across| ÷ gauge; the moment along the
+ * tracks is shared equally between the two sides, and each side's block along its track follows
+ * eccentric footing theory (e ≤ L/6 trapezoid, beyond a triangle). When the lighter side cannot take
+ * its half (its eccentricity would reach its track end) the heavier side takes the whole moment
+ * along the tracks (safe side). A lighter side below zero overturns the crane sideways (refused).
+ */
+export function perTrackPressure(input: TrackFootprint & { verticalLoadKn: number; momentAlongKnm: number; momentAcrossKnm: number }): PerTrackSlewResult {
+  checkFootprint(input);
+  const v = requirePositive('verticalLoadKn', input.verticalLoadKn);
+  const along = Math.abs(requireFinite('momentAlongKnm', input.momentAlongKnm));
+  const across = Math.abs(requireFinite('momentAcrossKnm', input.momentAcrossKnm));
+  const perSide = Math.max(1, Math.floor(input.tracks / 2));
+  const heavy = v / 2 + across / input.gaugeM;
+  const light = v / 2 - across / input.gaugeM;
+  if (light < 0) {
+    throw new CalcInputError('eccentricityM', `the resultant is ${(across / v).toFixed(2)} m across the tracks, beyond half the ${input.gaugeM} m gauge: the load overturns the crane sideways`);
+  }
+  const halfL = input.trackLengthM / 2;
+  const lightCarries = light > 0 && along / 2 / light < halfL * (1 - 1e-9);
+  const heavyAlong = lightCarries || along === 0 ? along / 2 : along;
+  const track = trackPressure({ verticalLoadKn: heavy, eccentricityM: heavyAlong / heavy, trackLengthM: input.trackLengthM, trackWidthM: input.shoeWidthM, tracks: perSide });
+  return {
+    heavySideKn: heavy,
+    lightSideKn: light,
+    track,
+    heavyTakesAllAlong: !lightCarries && along !== 0,
+    rule: `per-track method: heavier side = V/2 + |M_across| ÷ gauge, the moment along the tracks shared equally by the two sides (all of it on the heavier side when the lighter cannot carry its half); ${ECCENTRIC_RULE}`,
+  };
+}
+
+/** The pressure at one slew angle by both methods. */
+export interface SlewPoint {
+  /** Boom direction: 0° along the tracks over one end, 90° over the side, 180° over the other end. */
+  angleDeg: number;
+  perTrackKpa: number;
+  /** Null when the rigid-plane method does not apply (not one track on each side). */
+  rigidPlaneKpa: number | null;
+  /** The larger of the two: the figure checked against the allowable. */
+  pressureKpa: number;
+  method: 'rigid plane' | 'per track';
+  /**
+   * The strip of the stated length at the heavy end of the heavier track (a mat's width): the larger
+   * load of both methods and the shorter length of it in contact; null when no strip was asked for.
+   */
+  heavyEndStrip: { loadKn: number; contactLengthM: number } | null;
+}
+
+/** Ground pressure over the whole slew range for one load case. */
+export interface SlewSweepResult {
+  points: SlewPoint[];
+  /** The angle with the highest pressure (the first one, if several tie by symmetry). */
+  worst: SlewPoint;
+  overEnd: SlewPoint;
+  overSide: SlewPoint;
+  /** The per-track block under the heavier track at the worst angle, for the drawing and the mats. */
+  worstTrack: TrackPressureResult;
+  stepDeg: number;
+  rule: string;
+}
+
+/** Load on the first `stripM` of a linear block from its heavy end. */
+function blockStripKn(track: TrackPressureResult, stripM: number, shoeWidthM: number): number {
+  const contact = track.contactLengthM;
+  const w = Math.min(stripM, contact);
+  const qAtW = track.maxPressureKpa + ((track.minPressureKpa - track.maxPressureKpa) * w) / contact;
+  return shoeWidthM * w * ((track.maxPressureKpa + qAtW) / 2);
+}
+
+/**
+ * Pressure at every slew angle from 0° to 360° in steps of at most 5° (0°, 90°, 180° and 270°
+ * always included), the upper works' whole moment M about the slewing centre turning with the boom:
+ * M_along = M·cos θ, M_across = M·sin θ. Each angle takes the larger of the per-track method and the
+ * rigid plane over both tracks (when there is one track on each side). A resultant outside the
+ * tracks at any angle is refused as overturning (CalcInputError on eccentricityM).
+ */
+export function slewPressureSweep(
+  input: TrackFootprint & { verticalLoadKn: number; momentKnm: number; stepDeg?: number; stripLengthM?: number },
+): SlewSweepResult {
+  checkFootprint(input);
+  const v = requirePositive('verticalLoadKn', input.verticalLoadKn);
+  const m = requireFinite('momentKnm', input.momentKnm);
+  const step = requireInRange('stepDeg', input.stepDeg ?? 5, 0.5, 5);
+  const strip = input.stripLengthM === undefined ? null : requirePositive('stripLengthM', input.stripLengthM);
+  const angles = new Set<number>([0, 90, 180, 270]);
+  for (let a = 0; a < 360 - 1e-9; a += step) angles.add(Math.round(a * 1e6) / 1e6);
+  const sorted = [...angles].sort((a, b) => a - b);
+  const points: SlewPoint[] = [];
+  const blocks = new Map<number, TrackPressureResult>();
+  for (const angleDeg of sorted) {
+    const rad = (angleDeg * Math.PI) / 180;
+    // Exact zeros at the quarter turns, so "over the end" has no stray sideways moment.
+    const cos = angleDeg % 180 === 90 ? 0 : Math.cos(rad);
+    const sin = angleDeg % 180 === 0 ? 0 : Math.sin(rad);
+    const load = { ...input, verticalLoadKn: v, momentAlongKnm: m * cos, momentAcrossKnm: m * sin };
+    const pt = perTrackPressure(load);
+    const rp = input.tracks === 2 ? rigidPlanePressure(load) : null;
+    const perTrackKpa = pt.track.maxPressureKpa;
+    const rigidPlaneKpa = rp ? rp.maxPressureKpa : null;
+    const useRigid = rigidPlaneKpa !== null && rigidPlaneKpa > perTrackKpa;
+    let heavyEndStrip: SlewPoint['heavyEndStrip'] = null;
+    if (strip !== null) {
+      const w = Math.min(strip, input.trackLengthM);
+      heavyEndStrip = { loadKn: blockStripKn(pt.track, w, input.shoeWidthM), contactLengthM: Math.min(w, pt.track.contactLengthM) };
+      if (rp) {
+        const hl = input.trackLengthM / 2;
+        const end = rp.maxAt.xM;
+        const yc = rp.maxAt.yM > 0 ? input.gaugeM / 2 : -input.gaugeM / 2;
+        const x1 = end > 0 ? hl - w : -hl + w;
+        const onStrip = rigidPlaneLoadOn(rp.plane, { x0M: end, x1M: x1, y0M: yc - input.shoeWidthM / 2, y1M: yc + input.shoeWidthM / 2 });
+        heavyEndStrip = {
+          loadKn: Math.max(heavyEndStrip.loadKn, onStrip.loadKn),
+          contactLengthM: Math.min(heavyEndStrip.contactLengthM, onStrip.contactAreaM2 / input.shoeWidthM),
+        };
+      }
+    }
+    points.push({ angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip });
+    blocks.set(angleDeg, pt.track);
+  }
+  let worst = points[0];
+  for (const p of points) if (p.pressureKpa > worst.pressureKpa * (1 + 1e-9)) worst = p;
+  return {
+    points,
+    worst,
+    overEnd: points.find((p) => p.angleDeg === 0)!,
+    overSide: points.find((p) => p.angleDeg === 90)!,
+    worstTrack: blocks.get(worst.angleDeg)!,
+    stepDeg: step,
+    rule: `every ${step}° of slew from 0° to 360° (over the end and over the side exactly), M_along = M·cos θ, M_across = M·sin θ, the larger of the per-track method and the rigid pressure plane at each angle`,
+  };
+}

@@ -1,7 +1,8 @@
 /**
- * Ground pressure under the more heavily loaded track for each load case, as an SVG string: the
- * pressure block along the track (uniform, trapezoid or triangle with the lifted length shown),
- * the allowable pressure as a dashed line, the maximum written in kPa and a word for the result.
+ * Ground pressure against slew angle for each load case, as an SVG string: the highest pressure
+ * under the tracks at every slew angle from 0° to 360° (the larger of the per-track method and the
+ * rigid pressure plane), the allowable pressure as a dashed line, the worst angle marked with a
+ * triangle and written in words, and a word for the result (colour never alone).
  *
  * Pure: no DOM and no Node modules (shown in the browser and placed in the record PDF), plain
  * shapes with explicit colours, every piece of text through `escapeXml`. Pressures are to scale
@@ -16,10 +17,12 @@ export interface GroundPressureDrawingOptions {
   /** Day draws dark on white (also the PDF); night draws light on a dim background. */
   theme?: 'day' | 'night';
   widthPx?: number;
-  /** Bearing length of a track; without it, it is read from a full-contact case. */
+  /** Bearing length of a track, named in the footnote. */
   trackLengthM?: number;
   /** The allowable pressure has no ground source: a case within it reads "UNVERIFIED", not "PASS". */
   unverified?: boolean;
+  /** Weights are missing from the moments: a case within the allowable reads "CAUTION", not "PASS". */
+  caution?: boolean;
 }
 
 interface Palette {
@@ -73,9 +76,8 @@ const palettes: Record<'day' | 'night', Palette> = {
 
 const FONT = 'Roboto, Helvetica, Arial, sans-serif';
 const MARGIN_X = 24;
-const PANEL_HEIGHT = 210;
-const PLOT_TOP = 58;
-const PLOT_HEIGHT = 110;
+const PLOT_TOP = 64;
+const PLOT_HEIGHT = 120;
 
 function px(value: number): string {
   return String(Math.round(value * 100) / 100);
@@ -106,26 +108,15 @@ function finiteNonNegative(field: string, value: unknown): number {
   return value;
 }
 
-/**
- * The track length: given, or the contact length of a case in full contact, or for a lifted
- * track rebuilt from e = M ÷ V and the contact 3(L/2 − e) (eccentric footing, e.g. Das).
- */
-function trackLength(cases: readonly LoadCaseResult[], given: number | undefined): number {
-  if (given !== undefined) return finitePositive('trackLengthM', given);
-  const full = cases.find((c) => !c.track.partialContact);
-  if (full) return full.track.contactLengthM;
-  const c = cases[0];
-  const e = Math.abs(c.momentKnm / c.verticalLoadKn);
-  return 2 * (c.track.contactLengthM / 3 + e);
-}
-
 /** A step for the kPa axis giving three to six gridlines. */
 function gridStepKpa(maxKpa: number): number {
   for (const step of [10, 20, 25, 50, 100, 200, 250, 500, 1000, 2000, 5000]) if (maxKpa / step <= 6) return step;
   return 10 ** Math.ceil(Math.log10(maxKpa / 6));
 }
 
-/** Draws the pressure under the heavier track for each load case against the dashed allowable line. */
+const angleNames: Record<number, string> = { 0: 'end', 90: 'side', 180: 'end', 270: 'side', 360: 'end' };
+
+/** Draws the highest ground pressure against slew angle for each load case, against the dashed allowable line. */
 export function groundPressureSvg(
   loadCases: readonly LoadCaseResult[],
   allowablePressureKpa: number,
@@ -136,14 +127,15 @@ export function groundPressureSvg(
   if (!Number.isFinite(width) || width < 360) throw new CalcInputError('widthPx', `must be at least 360, got ${String(width)}`);
   const allowable = finitePositive('allowablePressureKpa', allowablePressureKpa);
   loadCases.forEach((c, i) => {
-    finiteNonNegative(`loadCases.${i}.track.maxPressureKpa`, c.track.maxPressureKpa);
-    finiteNonNegative(`loadCases.${i}.track.minPressureKpa`, c.track.minPressureKpa);
-    finitePositive(`loadCases.${i}.track.contactLengthM`, c.track.contactLengthM);
-    if (!Number.isFinite(c.momentKnm)) throw new CalcInputError(`loadCases.${i}.momentKnm`, 'must be a finite number');
-    finitePositive(`loadCases.${i}.verticalLoadKn`, c.verticalLoadKn);
+    if (c.slew.length === 0) throw new CalcInputError(`loadCases.${i}.slew`, 'has no slew angles');
+    c.slew.forEach((pt, j) => {
+      finiteNonNegative(`loadCases.${i}.slew.${j}.pressureKpa`, pt.pressureKpa);
+      if (!Number.isFinite(pt.angleDeg) || pt.angleDeg < 0 || pt.angleDeg > 360) throw new CalcInputError(`loadCases.${i}.slew.${j}.angleDeg`, 'must be between 0° and 360°');
+    });
+    finiteNonNegative(`loadCases.${i}.worst.pressureKpa`, c.worst.pressureKpa);
     if (c.mats) finiteNonNegative(`loadCases.${i}.mats.pressureKpa`, c.mats.pressureKpa);
   });
-  const title = `Ground pressure under the heavier track for ${loadCases.length} load case${loadCases.length === 1 ? '' : 's'}, allowable ${allowable} kPa`;
+  const title = `Ground pressure against slew angle for ${loadCases.length} load case${loadCases.length === 1 ? '' : 's'}, allowable ${allowable} kPa`;
   const open = (height: number) =>
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${px(height)}" width="${width}" height="${px(height)}" role="img" aria-label="${escapeXml(title)}">` +
     `<title>${escapeXml(title)}</title>` +
@@ -152,12 +144,13 @@ export function groundPressureSvg(
     return open(60) + text(MARGIN_X, 36, 'No load cases to draw.', `font-size="15" fill="${p.ink}"`) + '</svg>';
   }
 
-  const lengthM = trackLength(loadCases, options.trackLengthM);
-  const topKpa = Math.max(allowable, ...loadCases.map((c) => Math.max(c.track.maxPressureKpa, c.mats?.pressureKpa ?? 0))) * 1.15;
+  const topKpa = Math.max(allowable, ...loadCases.map((c) => Math.max(c.worst.pressureKpa, ...c.slew.map((pt) => pt.pressureKpa), c.mats?.pressureKpa ?? 0))) * 1.15;
+  const narrow = width < 560;
+  const PANEL_HEIGHT = narrow ? 262 : 240;
   const plotLeft = MARGIN_X + 56;
-  const plotRight = width - MARGIN_X - 110;
+  const plotRight = width - MARGIN_X - (narrow ? 8 : 110);
   const plotWidth = plotRight - plotLeft;
-  const perMetre = plotWidth / lengthM;
+  const perDeg = plotWidth / 360;
   const perKpa = PLOT_HEIGHT / topKpa;
   const step = gridStepKpa(topKpa);
 
@@ -166,75 +159,85 @@ export function groundPressureSvg(
     const top = 12 + i * PANEL_HEIGHT;
     const base = top + PLOT_TOP + PLOT_HEIGHT;
     const yOf = (kpa: number) => base - kpa * perKpa;
-    const t = c.track;
-    const over = t.maxPressureKpa > allowable;
-    const word = over ? 'FAIL' : options.unverified ? 'UNVERIFIED' : 'PASS';
+    const xOf = (deg: number) => plotLeft + deg * perDeg;
+    const over = c.worst.pressureKpa > allowable;
+    const word = over ? 'FAIL' : options.caution ? 'CAUTION' : options.unverified ? 'UNVERIFIED' : 'PASS';
 
     out.push(text(MARGIN_X, top + 18, c.label, `font-size="15" font-weight="700" fill="${p.ink}"`));
-    out.push(
-      text(
-        MARGIN_X,
-        top + 38,
-        `vertical load ${c.verticalLoadKn.toFixed(0)} kN · moment ${c.momentKnm.toFixed(0)} kN·m · ${t.distribution}${t.partialContact ? `, ${t.contactLengthM.toFixed(2)} m in contact` : ''}`,
-        `font-size="12" fill="${p.muted}"`,
-      ),
-    );
+    const worstLine = `worst ${c.worst.pressureKpa.toFixed(1)} kPa at ${c.worst.angleDeg}° slew (${c.worst.method})`;
+    const endsLine = `over the end ${c.overEnd.pressureKpa.toFixed(1)} kPa · over the side ${c.overSide.pressureKpa.toFixed(1)} kPa`;
+    if (narrow) {
+      out.push(text(MARGIN_X, top + 36, worstLine, `font-size="12" fill="${p.muted}"`));
+      out.push(text(MARGIN_X, top + 52, endsLine, `font-size="12" fill="${p.muted}"`));
+    } else {
+      out.push(text(MARGIN_X, top + 38, `${worstLine} · ${endsLine}`, `font-size="12" fill="${p.muted}"`));
+    }
 
     // kPa gridlines and axis labels.
     for (let kpa = 0; kpa <= topKpa + 1e-9; kpa += step) {
       out.push(`<line x1="${px(plotLeft)}" y1="${px(yOf(kpa))}" x2="${px(plotRight)}" y2="${px(yOf(kpa))}" stroke="${p.muted}" stroke-width="0.5" stroke-opacity="0.5"/>`);
       out.push(text(plotLeft - 6, yOf(kpa) + 4, `${kpa} kPa`, `font-size="11" text-anchor="end" fill="${p.muted}"`));
     }
-
-    // The heavy end: the front (boom side) for a forward moment, the rear for a backward one.
-    // Over the side the block is uniform and either end will do.
-    const heavyAtRight = c.momentKnm >= 0;
-    const contactPx = Math.min(t.contactLengthM, lengthM) * perMetre;
-    const heavyX = heavyAtRight ? plotRight : plotLeft;
-    const lightX = heavyAtRight ? plotRight - contactPx : plotLeft + contactPx;
-    const points = [`${px(heavyX)},${px(base)}`, `${px(heavyX)},${px(yOf(t.maxPressureKpa))}`, `${px(lightX)},${px(yOf(t.minPressureKpa))}`, `${px(lightX)},${px(base)}`];
-    out.push(
-      `<polygon points="${points.join(' ')}" fill="${p.block}" stroke="${p.blockStroke}" stroke-width="2" data-case="${c.key}" data-max-kpa="${px(t.maxPressureKpa)}" data-contact-m="${px(t.contactLengthM)}"/>`,
-    );
-    if (t.partialContact) {
-      // The lifted length carries no pressure: drawn as a hatched gap with its length in words.
-      const liftedLeft = heavyAtRight ? plotLeft : lightX;
-      const liftedRight = heavyAtRight ? lightX : plotRight;
-      for (let x = liftedLeft + 6; x < liftedRight; x += 10) {
-        out.push(`<line x1="${px(x)}" y1="${px(base)}" x2="${px(Math.min(x + 8, liftedRight))}" y2="${px(base - 8)}" stroke="${p.lifted}" stroke-width="1"/>`);
-      }
-      const liftedM = lengthM - t.contactLengthM;
-      out.push(plate((liftedLeft + liftedRight) / 2, base - 14, `track lifts: ${liftedM.toFixed(2)} m`, 12, liftedRight > plotRight - 60 ? 'end' : liftedLeft < plotLeft + 60 ? 'start' : 'middle', p.background, `fill="${p.ink}"`));
+    // Slew angle axis: every quarter turn named, over the end or over the side.
+    out.push(`<line x1="${px(plotLeft)}" y1="${px(base)}" x2="${px(plotRight)}" y2="${px(base)}" stroke="${p.ink}" stroke-width="1.5"/>`);
+    for (const deg of [0, 90, 180, 270, 360]) {
+      const x = xOf(deg);
+      out.push(`<line x1="${px(x)}" y1="${px(base)}" x2="${px(x)}" y2="${px(base + 5)}" stroke="${p.ink}" stroke-width="1.5"/>`);
+      const anchor = deg === 0 ? 'start' : deg === 360 ? 'end' : 'middle';
+      out.push(text(x, base + 18, `${deg}°`, `font-size="11" text-anchor="${anchor}" fill="${p.muted}"`));
+      out.push(text(x, base + 31, angleNames[deg], `font-size="11" text-anchor="${anchor}" fill="${p.muted}"`));
     }
-    // Track outline under the plot and its ends named.
-    out.push(`<rect x="${px(plotLeft)}" y="${px(base)}" width="${px(plotWidth)}" height="8" fill="${p.ink}" data-track-length-m="${px(lengthM)}"/>`);
-    const [leftEnd, rightEnd] = c.key === 'overSide' ? ['track end', 'track end'] : ['rear', 'front (boom side)'];
-    out.push(text(plotLeft, base + 24, leftEnd, `font-size="11" fill="${p.muted}"`));
-    out.push(text(plotRight, base + 24, rightEnd, `font-size="11" text-anchor="end" fill="${p.muted}"`));
-    out.push(text((plotLeft + plotRight) / 2, base + 24, `track ${lengthM.toFixed(2)} m`, `font-size="11" text-anchor="middle" fill="${p.muted}"`));
 
-    // Allowable pressure: dashed across the plot, named at its right end.
+    // The pressure curve over the full turn (closed back to 360° = 0°).
+    const pts = [...c.slew].sort((a, b) => a.angleDeg - b.angleDeg);
+    const first = pts[0];
+    const line = [...pts, { ...first, angleDeg: 360 }].map((pt) => `${px(xOf(pt.angleDeg))},${px(yOf(pt.pressureKpa))}`).join(' ');
+    out.push(
+      `<polyline points="${line}" fill="none" stroke="${p.blockStroke}" stroke-width="2.5" stroke-linejoin="round" data-case="${c.key}" data-worst-kpa="${px(c.worst.pressureKpa)}" data-worst-angle="${px(c.worst.angleDeg)}"/>`,
+    );
+
+    // Allowable pressure: dashed across the plot, named on a plate.
     const yAllow = yOf(allowable);
     out.push(`<line x1="${px(plotLeft)}" y1="${px(yAllow)}" x2="${px(plotRight)}" y2="${px(yAllow)}" stroke="${p.allowable}" stroke-width="2" stroke-dasharray="8 5" data-allowable-kpa="${px(allowable)}"/>`);
-    out.push(plate((plotLeft + plotRight) / 2, yAllow - 4, `allowable ${allowable} kPa`, 11, 'middle', p.background, `font-weight="700" fill="${p.ink}"`));
+    // Named in the half of the turn away from the worst angle, so the two labels never meet.
+    const allowX = c.worst.angleDeg % 180 < 90 ? xOf(c.worst.angleDeg % 180 + 90) : xOf(c.worst.angleDeg % 180 - 90);
+    out.push(plate(allowX, yAllow - 5, `allowable ${allowable} kPa`, 11, 'middle', p.background, `font-weight="700" fill="${p.ink}"`));
 
-    // Maximum pressure at the heavy end, then the result word in a box (colour never alone).
-    const maxLabel = `max ${t.maxPressureKpa.toFixed(1)} kPa`;
-    out.push(plate(heavyX + (heavyAtRight ? -6 : 6), yOf(t.maxPressureKpa) - 6, maxLabel, 13, heavyAtRight ? 'end' : 'start', p.background, `font-weight="700" fill="${p.ink}"`));
-    const [ink, fill] = word === 'FAIL' ? [p.stop, p.stopFill] : word === 'UNVERIFIED' ? [p.warn, p.warnFill] : [p.pass, p.passFill];
-    const boxX = plotRight + 10;
-    const boxY = top + PLOT_TOP - 8;
-    out.push(`<rect x="${px(boxX)}" y="${px(boxY)}" width="96" height="24" fill="${fill}" stroke="${ink}" stroke-width="${word === 'FAIL' ? 2.5 : 1.5}"/>`);
-    out.push(text(boxX + 48, boxY + 17, word, `font-size="13" font-weight="700" text-anchor="middle" fill="${ink}"`));
+    // The worst angle: a dotted line down to the axis, a triangle on the curve and its value in words.
+    const wx = xOf(c.worst.angleDeg);
+    const wy = yOf(c.worst.pressureKpa);
+    out.push(`<line x1="${px(wx)}" y1="${px(wy)}" x2="${px(wx)}" y2="${px(base)}" stroke="${p.ink}" stroke-width="1" stroke-dasharray="2 3"/>`);
+    out.push(`<polygon points="${px(wx)},${px(wy - 7)} ${px(wx - 6)},${px(wy + 4)} ${px(wx + 6)},${px(wy + 4)}" fill="${over ? p.stop : p.ink}" data-worst="${c.key}"/>`);
+    // The worst value is written at the foot of the dotted line, clear of the curve.
+    const labelRight = c.worst.angleDeg <= 180;
+    out.push(plate(wx + (labelRight ? 6 : -6), base - 8, `worst ${c.worst.pressureKpa.toFixed(1)} kPa at ${c.worst.angleDeg}°`, 12, labelRight ? 'start' : 'end', p.background, `font-weight="700" fill="${p.ink}"`));
+
+    // The result word in a box (colour never alone), then the mats.
+    const [ink, fill] = word === 'FAIL' ? [p.stop, p.stopFill] : word === 'UNVERIFIED' || word === 'CAUTION' ? [p.warn, p.warnFill] : [p.pass, p.passFill];
+    const boxX = narrow ? plotRight - 100 : plotRight + 10;
+    const boxY = narrow ? base + 38 : top + PLOT_TOP - 8;
+    out.push(`<rect x="${px(boxX)}" y="${px(boxY)}" width="100" height="24" fill="${fill}" stroke="${ink}" stroke-width="${word === 'FAIL' ? 2.5 : 1.5}"/>`);
+    out.push(text(boxX + 50, boxY + 17, word, `font-size="13" font-weight="700" text-anchor="middle" fill="${ink}"`));
     if (c.mats) {
       const matsOver = c.mats.pressureKpa > allowable;
-      const matsWord = matsOver ? 'FAIL' : options.unverified ? 'UNVERIFIED' : 'PASS';
-      out.push(text(boxX, boxY + 46, 'with mats', `font-size="11" fill="${p.muted}"`));
-      out.push(text(boxX, boxY + 62, `${c.mats.pressureKpa.toFixed(1)} kPa`, `font-size="12" font-weight="700" fill="${p.ink}"`));
-      out.push(text(boxX, boxY + 78, matsWord, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
+      const matsWord = matsOver ? 'FAIL' : options.caution ? 'CAUTION' : options.unverified ? 'UNVERIFIED' : 'PASS';
+      const mx = narrow ? MARGIN_X : boxX;
+      const my = narrow ? base + 55 : boxY + 46;
+      if (narrow) {
+        out.push(text(mx, my, `mats ${c.mats.pressureKpa.toFixed(1)} kPa at ${c.mats.angleDeg}°: ${matsWord}`, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
+      } else {
+        out.push(text(mx, my, 'with mats', `font-size="11" fill="${p.muted}"`));
+        out.push(text(mx, my + 16, `${c.mats.pressureKpa.toFixed(1)} kPa`, `font-size="12" font-weight="700" fill="${p.ink}"`));
+        out.push(text(mx, my + 32, `at ${c.mats.angleDeg}°`, `font-size="11" fill="${p.muted}"`));
+        out.push(text(mx, my + 48, matsWord, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
+      }
     }
   });
-  const height = 12 + loadCases.length * PANEL_HEIGHT + 10;
-  out.push(text(MARGIN_X, height - 10, 'Pressure under the heavier track, linear block (eccentric footing theory); kPa to scale, track length to scale.', `font-size="11" fill="${p.muted}"`));
+  const trackNote = options.trackLengthM !== undefined ? `Tracks ${finitePositive('trackLengthM', options.trackLengthM)} m long. ` : '';
+  const notes = narrow
+    ? ['Highest pressure under the tracks at each slew', 'angle: 0° boom over one end of the tracks, 90°', 'over the side. Larger of the per-track method and', `the rigid pressure plane. ${trackNote}kPa to scale.`]
+    : ['Highest pressure under the tracks at each slew angle: 0° boom over one end of the tracks, 90° over the side.', `${trackNote}Larger of the per-track method and the rigid pressure plane; kPa to scale.`];
+  const height = 12 + loadCases.length * PANEL_HEIGHT + notes.length * 14 + 4;
+  notes.forEach((n, k) => out.push(text(MARGIN_X, height - 4 - (notes.length - 1 - k) * 14, n, `font-size="11" fill="${p.muted}"`)));
   return open(height + 6) + out.join('') + '</svg>';
 }

@@ -51,7 +51,7 @@ function kit(): InventoryItem[] {
   return items;
 }
 
-/** 36 m, HB120 × 6, 41 t at 12 m, 200 kPa: the unloaded case lifts the front of the track and fails bare, passes on mats. */
+/** 36 m, HB120 × 6, 41 t at 12 m, 200 kPa: the unloaded case fails bare at its worst slew angle and passes on mats. */
 const results = computeConfiguration(
   configurationSchema.parse({
     craneUnitId: '6f1c2d3e-4a5b-4c6d-8e7f-0a1b2c3d4e5f',
@@ -59,7 +59,7 @@ const results = computeConfiguration(
     mainHook: { hookBlockId: 'HB120', parts: 6 },
     auxiliary: { enabled: false, hookBlockId: null },
     heaviestLoad: { description: 'Radiator bank', loadT: 40, riggingT: 1, radiusM: 12 },
-    ground: { groundType: 'Stone over clay', allowablePressureKpa: 200, source: { kind: 'ground_investigation', reference: 'GI R-0001' } },
+    ground: { groundType: 'Stone over clay', allowablePressureKpa: 200, source: { kind: 'ground_investigation', reference: 'GI R-0001', designer: '' } },
     mats: { used: true, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1500 },
     assist: { assistCraneId: null, chartId: null, lifts: [] },
     siteHazards: {
@@ -122,51 +122,58 @@ describe('reevingSvg', () => {
 describe('groundPressureSvg', () => {
   const cases = results.loadCases;
 
-  it('draws one pressure block per case, heights in proportion to the maximum pressure, with the dashed allowable line', () => {
-    expect(cases.map((c) => c.key)).toEqual(['raising', 'overEnd', 'overSide', 'unloaded']);
+  it('draws one curve per case over the full turn, pressures and angles to one scale, with the dashed allowable line', () => {
+    expect(cases.map((c) => c.key)).toEqual(['raising', 'lift', 'unloaded']);
     const doc = wellFormed(groundPressureSvg(cases, 200, { trackLengthM: 9.2 }));
-    const polys = [...doc.querySelectorAll('polygon[data-case]')];
-    expect(polys).toHaveLength(4);
-    // Height of each block at its heavy end (second point) above its base (first point), per kPa: one scale for all.
-    const perKpa = polys.map((poly, i) => {
-      const pts = (poly.getAttribute('points') ?? '').split(' ').map((pt) => pt.split(',').map(Number));
-      return (pts[0][1] - pts[1][1]) / cases[i].track.maxPressureKpa;
-    });
-    for (const s of perKpa) expect(s).toBeCloseTo(perKpa[0], 2);
+    const curves = [...doc.querySelectorAll('polyline[data-case]')];
+    expect(curves).toHaveLength(3);
     const allowable = [...doc.querySelectorAll('line[data-allowable-kpa]')];
-    expect(allowable).toHaveLength(4);
+    expect(allowable).toHaveLength(3);
     for (const line of allowable) expect(line.getAttribute('stroke-dasharray')).toBeTruthy();
-    // And the dashed line sits 200 kPa above the track at the same scale.
-    const firstBase = Number((polys[0].getAttribute('points') ?? '').split(' ')[0].split(',')[1]);
-    expect((firstBase - num(allowable[0], 'y1')) / 200).toBeCloseTo(perKpa[0], 2);
+    curves.forEach((curve, i) => {
+      const pts = (curve.getAttribute('points') ?? '').split(' ').map((pt) => pt.split(',').map(Number));
+      // 72 angles and the closing point at 360°.
+      expect(pts).toHaveLength(cases[i].slew.length + 1);
+      // x in proportion to the angle, y in proportion to the pressure, one scale for every panel.
+      const pxPerDeg = (pts[pts.length - 1][0] - pts[0][0]) / 360;
+      const sorted = [...cases[i].slew].sort((a, b) => a.angleDeg - b.angleDeg);
+      sorted.forEach((p, k) => expect(pts[k][0] - pts[0][0]).toBeCloseTo(p.angleDeg * pxPerDeg, 1));
+      const yAllow = num(allowable[i], 'y1');
+      const kAtWorst = sorted.findIndex((p) => p.angleDeg === cases[i].worst.angleDeg);
+      const kAt0 = 0;
+      // (y0 − y_worst) / (q_worst − q0) = px per kPa = (y0 − y_allow) / (200 − q0)
+      const perKpa = (pts[kAt0][1] - pts[kAtWorst][1]) / (cases[i].worst.pressureKpa - sorted[0].pressureKpa || 1);
+      if (cases[i].worst.pressureKpa !== sorted[0].pressureKpa) expect((pts[kAt0][1] - yAllow) / (200 - sorted[0].pressureKpa)).toBeCloseTo(perKpa, 2);
+      expect(Number(curve.getAttribute('data-worst-angle'))).toBe(cases[i].worst.angleDeg);
+    });
   });
 
-  it('writes the maximum in kPa and the result as a word; the lifted length is shown and named', () => {
+  it('marks the worst angle with a triangle and words, names the end and the side, and gives the result as a word', () => {
     const doc = wellFormed(groundPressureSvg(cases, 200, { trackLengthM: 9.2 }));
     const t = texts(doc);
-    expect(t).toContain('max 171.0 kPa');
-    expect(t).toContain('max 246.5 kPa');
-    expect(t.filter((x) => x === 'PASS').length).toBeGreaterThanOrEqual(3);
+    const unloaded = cases[2];
+    expect(doc.querySelectorAll('polygon[data-worst]')).toHaveLength(3);
+    expect(t).toContain(`worst ${unloaded.worst.pressureKpa.toFixed(1)} kPa at ${unloaded.worst.angleDeg}°`);
+    expect(t.some((x) => x.startsWith(`worst ${unloaded.worst.pressureKpa.toFixed(1)} kPa at ${unloaded.worst.angleDeg}° slew (rigid plane)`))).toBe(true);
+    expect(t.filter((x) => x === 'end').length).toBeGreaterThanOrEqual(3);
+    expect(t.filter((x) => x === 'side').length).toBeGreaterThanOrEqual(2);
+    // 200 kPa allowed: raising and lift pass, the unloaded case (about 258 kPa) fails bare and passes on mats
+    expect(t.filter((x) => x === 'PASS').length).toBeGreaterThanOrEqual(4);
     expect(t).toContain('FAIL');
     expect(t).toContain('allowable 200 kPa');
-    // unloaded: e = 1.7467 m > L/6, contact 3 × (4.6 − 1.7467) = 8.56 m, so 9.2 − 8.56 = 0.64 m lifts
-    expect(t).toContain('track lifts: 0.64 m');
     expect(t).toContain('with mats');
-    expect(t).toContain('155.3 kPa');
-    // The block spans its contact length at the same metres scale as the track.
-    const track = doc.querySelector('rect[data-track-length-m]');
-    const poly = doc.querySelector('polygon[data-case="unloaded"]');
-    const xs = (poly?.getAttribute('points') ?? '').split(' ').map((pt) => Number(pt.split(',')[0]));
-    const spanPx = Math.max(...xs) - Math.min(...xs);
-    expect(spanPx / num(track, 'width')).toBeCloseTo(cases[3].track.contactLengthM / 9.2, 3);
+    expect(t).toContain(`${unloaded.mats!.pressureKpa.toFixed(1)} kPa`);
+    expect(t.some((x) => x.includes('Tracks 9.2 m long'))).toBe(true);
   });
 
-  it('reads the track length from a full-contact case when not given, and says UNVERIFIED without a ground source', () => {
-    const a = groundPressureSvg(cases, 200, { trackLengthM: 9.2 });
-    expect(groundPressureSvg(cases, 200)).toBe(a);
-    const doc = wellFormed(groundPressureSvg(cases.slice(0, 3), 200, { unverified: true }));
-    expect(texts(doc).filter((x) => x === 'UNVERIFIED').length).toBeGreaterThanOrEqual(3);
+  it('says UNVERIFIED without a ground source and CAUTION when weights are missing, never PASS; fits a phone', () => {
+    const doc = wellFormed(groundPressureSvg(cases.slice(0, 2), 200, { unverified: true }));
+    expect(texts(doc).filter((x) => x === 'UNVERIFIED').length).toBeGreaterThanOrEqual(2);
     expect(texts(doc)).not.toContain('PASS');
+    const caution = wellFormed(groundPressureSvg(cases.slice(0, 2), 200, { caution: true, widthPx: 380 }));
+    expect(texts(caution)).toContain('CAUTION');
+    expect(texts(caution)).not.toContain('PASS');
+    expect(caution.documentElement.getAttribute('width')).toBe('380');
   });
 
   it('escapes labels, draws an empty list as a sentence, and refuses a NaN pressure', () => {
@@ -175,7 +182,7 @@ describe('groundPressureSvg', () => {
     expect(svg).toContain('Raising &lt;A&amp;B&gt; &quot;test&quot;');
     expect(texts(wellFormed(svg))).toContain('Raising <A&B> "test"');
     expect(texts(wellFormed(groundPressureSvg([], 200)))).toContain('No load cases to draw.');
-    const bad: LoadCaseResult = { ...cases[0], track: { ...cases[0].track, maxPressureKpa: Number.NaN } };
+    const bad: LoadCaseResult = { ...cases[0], slew: cases[0].slew.map((p, i) => (i === 3 ? { ...p, pressureKpa: Number.NaN } : p)) };
     expect(() => groundPressureSvg([bad], 200)).toThrow(CalcInputError);
   });
 });
