@@ -416,7 +416,7 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   check.add('sections', t.check.steps.sections);
   check.add('pins', t.check.steps.pins, { pinCount: allPins(ctx), footPins: foot, jointPins: pinCounts.jointPins, guyPins: pinCounts.guyLinePins });
   check.add('guy-lines', t.check.steps.guyLines, { lineCount: results.makeup.totalGuyLineCount });
-  check.add('ropes', t.check.steps.ropes, { auxRope: aux ? ', and the auxiliary hoist' : '' });
+  check.add('ropes', t.check.steps.ropes, { ropes: aux ? 'boom hoist, the main hoist and the auxiliary hoist' : 'boom hoist and the main hoist' });
   check.add('wedge-sockets', t.check.steps.wedgeSockets);
   check.add('sheaves', t.check.steps.sheaves);
   check.add('over-hoist', t.check.steps.overHoist, { auxSwitch: aux ? ', and the auxiliary one' : '' });
@@ -451,7 +451,7 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   }
   for (const j of js) {
     jointStage.add(`joint-${j.n}`, t.joints.steps.joint, { n: j.n, below: sectionLabel(j.below), above: sectionLabel(j.above), pins: plural(j.pins, 'pin') }, {
-      check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} in the joint at the foot of a ${j.above.typeId} section`),
+      check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} per joint at the foot of section type ${j.above.typeId}`),
     });
   }
   stages.push(jointStage.build([upper.id, check.id]));
@@ -660,7 +660,7 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
     stages.push(support.build([previous]));
     const joint = new StageDraft(ctx, t.joint.id, t.joint, vars);
     joint
-      .add('pins', t.joint.steps.pins, {}, { check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} in the joint at the foot of a ${j.above.typeId} section`) })
+      .add('pins', t.joint.steps.pins, {}, { check: planCheck(j.pins, `crane data: ${plural(j.pins, 'pin')} per joint at the foot of section type ${j.above.typeId}`) })
       .add('set-down', t.joint.steps.setDown)
       .add('serial', t.joint.steps.serial, { plannedSerial: j.above.serial ?? 'none recorded' }, { record: { componentKind: 'section', typeId: j.above.typeId, plannedSerial: j.above.serial } })
       .add('stow', t.joint.steps.stow);

@@ -231,17 +231,27 @@ function stepCycle(stage: PlanStage): PlanStep[] {
   return stage.steps.filter((s) => !done.has(s.id));
 }
 
-/** In-stage order: `after` names steps of the same stage, never the step itself, and never in a circle. */
+/**
+ * In-stage order: `after` names steps of the same stage, never the step itself, and never in a
+ * circle. An id that is no step of the plan at all (a step removed in an edit or a revision) is
+ * left alone: an order to a step that is gone keeps nothing from anyone, and the board ignores it.
+ */
 function stepOrderProblems(plan: Plan): PlanProblem[] {
   const problems: PlanProblem[] = [];
+  const stageOfStep = new Map<string, PlanStage>();
+  for (const s of plan.stages) for (const st of s.steps) if (!stageOfStep.has(st.id)) stageOfStep.set(st.id, s);
   plan.stages.forEach((stage, i) => {
     const ids = new Set(stage.steps.map((s) => s.id));
     stage.steps.forEach((step, j) => {
       (step.after ?? []).forEach((a, k) => {
         if (a === step.id) {
           problems.push({ code: 'step_order', message: `Step “${step.text}” of stage “${stage.title}” waits for itself, so it can never be done. Remove that order.`, path: `stages.${i}.steps.${j}.after.${k}` });
-        } else if (!ids.has(a)) {
-          problems.push({ code: 'step_order', message: `Step “${step.text}” of stage “${stage.title}” waits for “${a}”, which is not a step of that stage. Choose a step of the same stage.`, path: `stages.${i}.steps.${j}.after.${k}` });
+        } else if (!ids.has(a) && stageOfStep.has(a)) {
+          problems.push({
+            code: 'step_order',
+            message: `Step “${step.text}” of stage “${stage.title}” waits for a step of stage “${stageOfStep.get(a)?.title ?? ''}”. A step can wait only for steps of its own stage; make the stages wait for each other instead.`,
+            path: `stages.${i}.steps.${j}.after.${k}`,
+          });
         }
       });
     });
@@ -332,11 +342,19 @@ function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
   };
   const missing = (needed: Set<string>, have: Set<string>) => [...needed].filter((h) => inPlace(h) && !have.has(h));
 
+  // Which stages lost which hold; a stage is named only where the gating first breaks, not every
+  // stage after it that lost the hold through it.
+  const lost = new Map<number, string[]>();
   reference.stages.forEach((refStage, r) => {
     const i = now.stageIndex.get(refStage.id);
     if (i === undefined) return;
-    const have = now.holdsBefore(i, false);
-    for (const h of missing(ref.holdsBefore(r, true), have)) {
+    const gone = missing(ref.holdsBefore(r, true), now.holdsBefore(i, false));
+    if (gone.length > 0) lost.set(i, gone);
+  });
+  for (const [i, gone] of lost) {
+    const upstream = now.upstream(i);
+    for (const h of gone) {
+      if ([...upstream].some((u) => lost.get(u)?.includes(h))) continue;
       const gate = refHold.get(h);
       if (!gate) continue;
       problems.push({
@@ -345,7 +363,7 @@ function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
         path: `stages.${i}.dependsOn`,
       });
     }
-  });
+  }
 
   // A step moved to another stage must still be behind every mandatory hold it was behind.
   reference.stages.forEach((refStage, r) => {

@@ -127,7 +127,7 @@ export const erectionStages = {
       // Ropes, their end fittings, the sheaves they run over and the over-hoist switch hold the
       // load and the boom as surely as the pins do, so they are checked before they are rigged.
       ropes: {
-        text: 'Inspect the wire ropes of the boom hoist and the main hoist{auxRope}: no broken wires, kinks, crushing, birdcaging, corrosion or loss of diameter beyond what the manual allows, and each rope spooled tight on its drum.',
+        text: 'Inspect the wire ropes of the {ropes}: no broken wires, kinks, crushing, birdcaging, corrosion or loss of diameter beyond what the manual allows, and each rope spooled tight on its drum.',
         roles: ['rigger', 'supervisor'],
       },
       // A wedge socket holds only when the live line pulls straight in line with its pin and the
