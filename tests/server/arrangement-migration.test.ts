@@ -19,7 +19,9 @@ function demoAsVersion1(): Record<string, unknown> {
       guyLines: a.guyLines.map(({ weightKg: _w, ...g }) => g),
       raising: { ...a.raising, limits: { maxGroundSlopePercent: a.raising.limits.maxGroundSlopePercent, maxBoomHoistLinePullKn: a.raising.limits.maxBoomHoistLinePullKn, tipSupportRequired: a.raising.limits.tipSupportRequired } },
     })),
-    drums: v2.drums.map(({ leadToBoomFootM: _l, ...d }) => d),
+    drums: v2.drums.map(({ leadToBoomFootM: _l, grooved: _g, firstSheave: _f, ...d }) => d),
+    sheaves: v2.sheaves.map(({ hoists: _h, ...s }) => s),
+    hookBlocks: v2.hookBlocks.map(({ sheaveBearing: _b, ...b }) => b),
     ropes: v2.ropes.map(({ massKgPerM: _m, ...r }) => r),
     machine: { baseWeightKg: v2.machine.baseWeightKg, cogFromSlewCentreM: v2.machine.cogFromSlewCentreM, cogHeightM: v2.machine.cogHeightM, counterweight: v2.machine.counterweight },
   };
@@ -44,7 +46,10 @@ describe('arrangement data version 2', () => {
     expect(parsed.machine.mast).toBeNull();
     expect(parsed.auxSheave).toBeNull();
     expect(parsed.ropes.every((r) => r.massKgPerM === null)).toBe(true);
-    expect(parsed.drums.every((d) => d.leadToBoomFootM === null)).toBe(true);
+    expect(parsed.drums.every((d) => d.leadToBoomFootM === null && d.grooved === null && d.firstSheave === null)).toBe(true);
+    // unknown rope path and bearings: the planner counts such sheaves in every hoist's path, at plain bearings
+    expect(parsed.sheaves.every((s) => s.hoists === null)).toBe(true);
+    expect(parsed.hookBlocks.every((b) => b.sheaveBearing === null)).toBe(true);
     expect(parsed.arrangements.every((a) => a.capacityCharts.length === 0 && a.raising.limits.maxTipLoadKg === null)).toBe(true);
     expect(parsed.arrangements.flatMap((a) => a.guyLines).every((g) => g.weightKg === null)).toBe(true);
   });

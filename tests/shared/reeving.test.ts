@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { unit } from 'mathjs';
-import { SHEAVE_EFFICIENCY_PRESETS, leadLinePull, requiredParts } from '../../shared/calc';
+import {
+  SHEAVE_EFFICIENCY_PRESETS,
+  leadLinePull,
+  leadLinePullBySheave,
+  reevedSheaveEfficiencies,
+  requiredParts,
+  requiredPartsBySheave,
+} from '../../shared/calc';
 import { expectCalcError, relErr } from './helpers';
 
 const lbfToKn = (lbf: number) => unit(lbf, 'lbf').toNumber('kN');
@@ -50,14 +58,111 @@ describe('leadLinePull', () => {
 });
 
 describe('sheave efficiency presets', () => {
-  it('plain bearing 91.7 % (Pipeline Rules of Thumb Handbook) = 1/1.09 to three places (Wire Rope Users Manual)', () => {
-    expect(SHEAVE_EFFICIENCY_PRESETS.plainBearing.efficiency).toBe(0.917);
-    expect(1 / 1.09).toBeCloseTo(SHEAVE_EFFICIENCY_PRESETS.plainBearing.efficiency, 3);
+  // Two publications, checked against each other rather than against the constant typed again:
+  // the Wire Rope Users Manual 4th ed. p. 88 gives a factor of 1.09 per plain-bearing sheave and 1.04 per anti-friction sheave.
+  it('plain bearing preset (Pipeline Rules of Thumb Handbook, 91.7 %) agrees with 1/1.09 (Wire Rope Users Manual 4th ed. p. 88) to 0.05 %', () => {
+    expect(relErr(SHEAVE_EFFICIENCY_PRESETS.plainBearing.efficiency, 1 / 1.09)).toBeLessThan(5e-4);
     expect(SHEAVE_EFFICIENCY_PRESETS.plainBearing.source).toMatch(/Pipeline Rules of Thumb/);
   });
-  it('rolling bearing 96.2 % (Pipeline Rules of Thumb Handbook) = 1/1.04 to three places (Wire Rope Users Manual)', () => {
-    expect(SHEAVE_EFFICIENCY_PRESETS.rollingBearing.efficiency).toBe(0.962);
-    expect(1 / 1.04).toBeCloseTo(SHEAVE_EFFICIENCY_PRESETS.rollingBearing.efficiency, 3);
+  it('rolling bearing preset (Pipeline Rules of Thumb Handbook, 96.2 %) agrees with 1/1.04 (Wire Rope Users Manual 4th ed. p. 88) to 0.05 %', () => {
+    expect(relErr(SHEAVE_EFFICIENCY_PRESETS.rollingBearing.efficiency, 1 / 1.04)).toBeLessThan(5e-4);
+  });
+});
+
+/** Step-by-step force balance written independently of the code: from the dead end with a unit tension back to the drum. */
+function walkBack(loadKn: number, reevedFromLead: number[], lead: number[]): number {
+  let t = 1;
+  let carried = 0;
+  for (let k = reevedFromLead.length - 1; k >= 0; k -= 1) {
+    carried += t; // the part between sheave k and the next one away from the drum
+    t /= reevedFromLead[k]; // hoisting: the drum side of a sheave carries the far side ÷ its efficiency
+  }
+  for (const e of lead) t /= e;
+  return (loadKn * t) / carried;
+}
+
+describe('leadLinePullBySheave: every sheave at its own efficiency', () => {
+  // Lead-line factors (lead-line pull ÷ load) for n parts, Wire Rope Users Manual 4th ed. (Wire Rope Technical Board),
+  // table of lead-line factors beside p. 88: only the 4-part plain value 0.309 is seen on the published page; the
+  // others are the same table from memory.
+  const plainTable: [number, number][] = [[1, 1.09], [2, 0.568], [3, 0.395], [4, 0.309], [5, 0.257], [6, 0.223], [7, 0.199], [8, 0.181]];
+  const rollerTable: [number, number][] = [[1, 1.04], [2, 0.53], [3, 0.36], [4, 0.275], [5, 0.225], [6, 0.191], [7, 0.167], [8, 0.148]];
+  for (const [name, table, k] of [['plain', plainTable, 1.09], ['anti-friction', rollerTable, 1.04]] as const) {
+    for (const [n, factor] of table) {
+      it(`${name} bearings, ${n} part${n === 1 ? '' : 's'}: lead-line factor ${factor} (WRUM 4th ed.)`, () => {
+        const e = 1 / k;
+        const r = leadLinePullBySheave({ loadKn: 1, parts: n, tipSheaveEfficiency: e, blockSheaveEfficiency: e, leadSheaveEfficiencies: [] });
+        // the table prints three decimals
+        expect(Math.abs(r.leadLinePullKn - factor)).toBeLessThanOrEqual(0.0006);
+      });
+    }
+  }
+
+  it('WRUM 4th ed. p. 88 worked example: 4 parts plain, two extra plain lead sheaves, 6,000 lb → 0.309 × 1.09 × 1.09 = 0.367 → 2,202 lb', () => {
+    const e = 1 / 1.09;
+    const r = leadLinePullBySheave({ loadKn: lbfToKn(6000), parts: 4, tipSheaveEfficiency: e, blockSheaveEfficiency: e, leadSheaveEfficiencies: [e, e] });
+    expect(relErr(r.leadLinePullKn, lbfToKn(2202))).toBeLessThan(0.001);
+  });
+
+  it('the same p. 88 rule with bearings mixed: anti-friction 4-part factor 0.275 × 1.04 (anti-friction lead) × 1.09 (plain lead) = 0.3117', () => {
+    const r = leadLinePullBySheave({ loadKn: 1, parts: 4, tipSheaveEfficiency: 1 / 1.04, blockSheaveEfficiency: 1 / 1.04, leadSheaveEfficiencies: [1 / 1.04, 1 / 1.09] });
+    expect(Math.abs(r.leadLinePullKn - 0.275 * 1.04 * 1.09)).toBeLessThan(0.0006 * 1.04 * 1.09);
+  });
+
+  it('WRUM 4th ed. p. 86, static case: 6,000 lb on 4 parts without friction → 1,500 lb', () => {
+    const r = leadLinePullBySheave({ loadKn: lbfToKn(6000), parts: 4, tipSheaveEfficiency: 1, blockSheaveEfficiency: 1, leadSheaveEfficiencies: [] });
+    expect(relErr(r.leadLinePullKn, lbfToKn(1500))).toBeLessThan(1e-12);
+  });
+
+  it('equals an independent step-by-step force balance for any mix of efficiencies (walked back from the dead end)', () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 30 }),
+        fc.double({ min: 0.85, max: 1, noNaN: true }),
+        fc.double({ min: 0.85, max: 1, noNaN: true }),
+        fc.array(fc.double({ min: 0.85, max: 1, noNaN: true }), { maxLength: 6 }),
+        fc.double({ min: 1, max: 5000, noNaN: true }),
+        (parts, tip, block, lead, loadKn) => {
+          const reeved = Array.from({ length: parts }, (_, i) => (i % 2 === 0 ? tip : block));
+          const r = leadLinePullBySheave({ loadKn, parts, tipSheaveEfficiency: tip, blockSheaveEfficiency: block, leadSheaveEfficiencies: lead });
+          expect(relErr(r.leadLinePullKn, walkBack(loadKn, reeved, lead))).toBeLessThan(1e-10);
+        },
+      ),
+      { numRuns: 300, seed: 13 },
+    );
+  });
+
+  it('a plain sheave anywhere in the path never lowers the pull (safe side of unknown bearings)', () => {
+    const base = { loadKn: 500, parts: 6, tipSheaveEfficiency: 0.962, blockSheaveEfficiency: 0.962, leadSheaveEfficiencies: [0.962, 0.962] };
+    const rolling = leadLinePullBySheave(base).leadLinePullKn;
+    expect(leadLinePullBySheave({ ...base, leadSheaveEfficiencies: [0.962, 0.917] }).leadLinePullKn).toBeGreaterThan(rolling);
+    expect(leadLinePullBySheave({ ...base, blockSheaveEfficiency: 0.917 }).leadLinePullKn).toBeGreaterThan(rolling);
+    expect(leadLinePullBySheave({ ...base, tipSheaveEfficiency: 0.917 }).leadLinePullKn).toBeGreaterThan(rolling);
+  });
+
+  it('reeved sheaves alternate tip and block from the lead side: ⌈n/2⌉ at the tip, ⌊n/2⌋ in the block (common practice, no source)', () => {
+    expect(reevedSheaveEfficiencies(5, 0.9, 0.8)).toEqual([0.9, 0.8, 0.9, 0.8, 0.9]);
+    expect(reevedSheaveEfficiencies(1, 0.9, 0.8)).toEqual([0.9]);
+  });
+
+  it('refuses an efficiency of 0 or above 1 for any sheave, and fractional parts', () => {
+    const ok = { loadKn: 100, parts: 4, tipSheaveEfficiency: 0.96, blockSheaveEfficiency: 0.96, leadSheaveEfficiencies: [0.96] };
+    expectCalcError(() => leadLinePullBySheave({ ...ok, tipSheaveEfficiency: 0 }), 'tipSheaveEfficiency');
+    expectCalcError(() => leadLinePullBySheave({ ...ok, blockSheaveEfficiency: 1.1 }), 'blockSheaveEfficiency');
+    expectCalcError(() => leadLinePullBySheave({ ...ok, leadSheaveEfficiencies: [0.9, 0] }), 'leadSheaveEfficiencies');
+    expectCalcError(() => leadLinePullBySheave({ ...ok, parts: 2.5 }), 'parts');
+    expectCalcError(() => leadLinePullBySheave({ ...ok, loadKn: -1 }), 'loadKn');
+  });
+
+  it('requiredPartsBySheave: the smallest n whose independently balanced pull is within the permissible pull', () => {
+    const input = { loadKn: 1200, tipSheaveEfficiency: 0.962, blockSheaveEfficiency: 0.962, leadSheaveEfficiencies: [0.962, 0.917], permissibleLinePullKn: 150, maxParts: 18 };
+    const r = requiredPartsBySheave(input);
+    if (!r.achievable) throw new Error('expected an achievable reeving');
+    const pull = (n: number) => walkBack(1200, Array.from({ length: n }, () => 0.962), [0.962, 0.917]);
+    expect(pull(r.parts)).toBeLessThanOrEqual(150);
+    expect(pull(r.parts - 1)).toBeGreaterThan(150);
+    const no = requiredPartsBySheave({ ...input, loadKn: 3000 });
+    expect(no.achievable).toBe(false);
   });
 });
 
