@@ -17,9 +17,16 @@ function configuration(overrides: Partial<Configuration> = {}): Configuration {
     heaviestLoad: { description: 'Roof truss', loadT: 20, riggingT: 0.8, radiusM: 8 },
     ground: { groundType: 'firm clay', allowablePressureKpa: 400, source: { kind: 'ground_investigation', reference: 'GI report X-1' } },
     mats: { used: false, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 },
-    assist: { assistCraneId: null, chartId: null, lifts: [] },
+    assist: {
+      assistCraneId: null,
+      chartId: null,
+      lifts: [],
+      pads: { kind: 'outrigger', loadT: null, lengthM: null, widthM: null, weightKg: 0 },
+      tandem: { alongFromTipM: null, sideM: null, releaseAngleDeg: null, hookBlockT: 0, slingsT: 0, shacklesT: 0, deductionsT: 0 },
+    },
     siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     fallZoneMarginM: 5,
+    chartCautionPercent: 75,
     ...overrides,
   };
 }

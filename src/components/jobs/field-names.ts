@@ -13,12 +13,25 @@ const names: Record<string, string> = {
   'ground.groundType': 'Ground type',
   'ground.allowablePressureKpa': 'Allowable ground pressure',
   'ground.source.reference': 'Ground: report or design reference',
+  'ground.source.designer': 'Ground: temporary-works designer',
   'mats.lengthM': 'Mat length',
   'mats.widthM': 'Mat width',
   'mats.thicknessM': 'Mat thickness',
   'mats.weightKg': 'Weight of one mat',
   'assist.assistCraneId': 'Assist crane',
   'assist.chartId': 'Assist crane chart',
+  'assist.pads.loadT': 'Assist crane: largest pad load',
+  'assist.pads.lengthM': 'Assist crane: pad length',
+  'assist.pads.widthM': 'Assist crane: pad width',
+  'assist.pads.weightKg': 'Assist crane: pad weight',
+  'assist.tandem.alongFromTipM': 'Tandem raise: in from the tip',
+  'assist.tandem.sideM': 'Tandem raise: to the side',
+  'assist.tandem.releaseAngleDeg': 'Tandem raise: angle the main crane takes the boom alone',
+  'assist.tandem.hookBlockT': 'Tandem raise: its hook block',
+  'assist.tandem.slingsT': 'Tandem raise: slings',
+  'assist.tandem.shacklesT': 'Tandem raise: shackles',
+  'assist.tandem.deductionsT': 'Tandem raise: chart deductions',
+  chartCautionPercent: 'Caution share of the chart',
   fallZoneMarginM: 'Fall-zone margin',
   'siteHazards.buriedServices': 'Buried services',
   'siteHazards.neighbours': 'Neighbours',
@@ -26,13 +39,26 @@ const names: Record<string, string> = {
   'siteHazards.swayAllowanceM': 'Sway allowance',
 };
 
-const liftFields: Record<string, string> = { label: 'what is lifted', liftT: 'weight', riggingT: 'rigging', radiusM: 'radius' };
+const liftFields: Record<string, string> = {
+  label: 'what is lifted',
+  liftT: 'weight',
+  riggingT: 'other rigging',
+  radiusM: 'radius',
+  hookBlockT: 'its hook block',
+  slingsT: 'slings',
+  shacklesT: 'shackles',
+  deductionsT: 'chart deductions',
+  'legs.toCogAM': 'pick point A to centre of gravity',
+  'legs.toCogBM': 'pick point B to centre of gravity',
+  'legs.hookHeightM': 'hook above the pick points',
+  'legs.legRatedLoadT': 'rated load per leg',
+};
 const lineFields: Record<string, string> = { label: 'which line', voltageKv: 'voltage', distanceM: 'distance', assistDistanceM: 'assist crane’s distance' };
 
 /** A field's path ("assist.lifts.2.radiusM") in the words of the form ("Assist lift 3: radius"). */
 export function fieldName(path: string): string {
   if (names[path]) return names[path];
-  const lift = /^assist\.lifts\.(\d+)\.(\w+)$/.exec(path);
+  const lift = /^assist\.lifts\.(\d+)\.([\w.]+)$/.exec(path);
   if (lift) return `Assist lift ${Number(lift[1]) + 1}: ${liftFields[lift[2]] ?? lift[2]}`;
   const line = /^siteHazards\.powerLines\.(\d+)\.(\w+)$/.exec(path);
   if (line) return `Power line ${Number(line[1]) + 1}: ${lineFields[line[2]] ?? line[2]}`;

@@ -38,11 +38,20 @@ export function blankConfiguration(craneUnitId: string): Configuration {
     ground: { groundType: '', allowablePressureKpa: Number.NaN, source: { kind: 'none', reference: '', designer: '' } },
     // Mats start unused; their sizes only count once they are switched on and filled in.
     mats: { used: false, lengthM: Number.NaN, widthM: Number.NaN, thicknessM: Number.NaN, weightKg: Number.NaN },
-    assist: { assistCraneId: null, chartId: null, lifts: [] },
+    // The assist crane's pads and tandem raise start empty: the figures say "not entered" until they are.
+    assist: {
+      assistCraneId: null,
+      chartId: null,
+      lifts: [],
+      pads: { kind: 'outrigger', loadT: null, lengthM: null, widthM: null, weightKg: 0 },
+      tandem: { alongFromTipM: null, sideM: null, releaseAngleDeg: null, hookBlockT: 0, slingsT: 0, shacklesT: 0, deductionsT: 0 },
+    },
     // The reach allowances are common practice, no source: settings the supervisor can change.
     siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     // Common practice, no source: a setting the supervisor can change.
     fallZoneMarginM: 5,
+    // Common practice, no source: the site's caution share of a chart.
+    chartCautionPercent: 75,
   };
 }
 
