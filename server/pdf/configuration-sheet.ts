@@ -33,9 +33,35 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
     ['Main hook', `${c.mainHook.hookBlockId}, ${c.mainHook.parts} parts of line`],
     ['Auxiliary', c.auxiliary.enabled ? `auxiliary sheave with ${c.auxiliary.hookBlockId}` : 'not fitted'],
     ['Heaviest load', `${c.heaviestLoad.description}: ${c.heaviestLoad.loadT} t + rigging ${c.heaviestLoad.riggingT} t at ${c.heaviestLoad.radiusM} m radius`],
-    ['Ground', `${c.ground.groundType || 'type not given'}, allowable ${c.ground.allowablePressureKpa} kPa — source: ${groundSourceLabels[c.ground.source.kind]}${c.ground.source.reference ? ` (${c.ground.source.reference})` : ''}`],
+    ['Ground', `${c.ground.groundType || 'type not given'}, allowable ${c.ground.allowablePressureKpa} kPa — source: ${groundSourceLabels[c.ground.source.kind]}${c.ground.source.reference ? ` (${c.ground.source.reference})` : ''}${c.ground.source.designer ? `, designed by ${c.ground.source.designer}` : ''}`],
     ['Mats', c.mats.used ? `${c.mats.lengthM} × ${c.mats.widthM} × ${c.mats.thicknessM} m, ${c.mats.weightKg} kg each` : 'none'],
-    ['Assist crane lifts', c.assist.lifts.length ? c.assist.lifts.map((l) => `${l.label} ${l.liftT} t + ${l.riggingT} t at ${l.radiusM} m`).join('; ') : 'none'],
+    ['Chart caution share', `${c.chartCautionPercent} % (above it a lift needs a second supervisor's approval; above 100 % never)`],
+    [
+      'Assist crane lifts',
+      c.assist.lifts.length
+        ? c.assist.lifts
+            .map((l) => `${l.label} ${l.liftT} t + rigging ${l.riggingT} t + its hook block ${l.hookBlockT} t + slings ${l.slingsT} t + shackles ${l.shacklesT} t + chart deductions ${l.deductionsT} t at ${l.radiusM} m`)
+            .join('; ')
+        : 'none',
+    ],
+    ...(c.assist.lifts.length || c.assist.tandem.releaseAngleDeg !== null
+      ? ([
+          [
+            'Assist crane pads',
+            c.assist.pads.loadT !== null && c.assist.pads.lengthM !== null && c.assist.pads.widthM !== null
+              ? `${c.assist.pads.kind === 'track' ? 'track' : 'outrigger'} load ${c.assist.pads.loadT} t on ${c.assist.pads.lengthM} × ${c.assist.pads.widthM} m (${c.assist.pads.weightKg} kg)`
+              : 'not entered',
+          ],
+        ] as [string, string][])
+      : []),
+    ...(c.assist.tandem.releaseAngleDeg !== null
+      ? ([
+          [
+            'Tandem raise',
+            `assist crane ${c.assist.tandem.alongFromTipM} m in from the tip, ${c.assist.tandem.sideM} m to the side; main crane takes the boom alone at ${c.assist.tandem.releaseAngleDeg}°`,
+          ],
+        ] as [string, string][])
+      : []),
     [
       'Power lines',
       c.siteHazards.powerLines.length
@@ -85,8 +111,12 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
   }
   if (results.loadCases.length) {
     drawings.push({
-      title: 'Pressure under the tracks',
-      svg: groundPressureSvg(results.loadCases, c.ground.allowablePressureKpa, { trackLengthM: arrangement.tracks.lengthM, unverified: c.ground.source.kind === 'none' }),
+      title: 'Ground pressure against slew angle',
+      svg: groundPressureSvg(results.loadCases, c.ground.allowablePressureKpa, {
+        trackLengthM: arrangement.tracks.lengthM,
+        unverified: c.ground.source.kind === 'none',
+        caution: results.figures.some((f) => f.key === 'ground.weights' && f.status === 'caution'),
+      }),
     });
   }
   const gaugeM = results.makeup.arrangement?.raising.trackGaugeM ?? arrangement.tracks.gaugeOptionsM[0];
