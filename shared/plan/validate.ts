@@ -100,6 +100,26 @@ function cycles(plan: Plan, index: Map<string, number>): number[][] {
   return found;
 }
 
+/** Indexes of the stages that can ever start: every stage they wait for exists and can start. */
+function startable(plan: Plan): Set<number> {
+  const index = new Map<string, number>();
+  plan.stages.forEach((s, i) => {
+    if (!index.has(s.id)) index.set(s.id, i);
+  });
+  const canStart = new Set<number>();
+  for (let changed = true; changed; ) {
+    changed = false;
+    plan.stages.forEach((s, i) => {
+      if (canStart.has(i)) return;
+      if (s.dependsOn.every((d) => index.has(d) && canStart.has(index.get(d) as number))) {
+        canStart.add(i);
+        changed = true;
+      }
+    });
+  }
+  return canStart;
+}
+
 function dependencyProblems(plan: Plan): PlanProblem[] {
   const problems: PlanProblem[] = [];
   const index = new Map<string, number>();
@@ -344,10 +364,12 @@ function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
 
   // Which stages lost which hold; a stage is named only where the gating first breaks, not every
   // stage after it that lost the hold through it.
+  // A stage that can never start (a cycle, an unknown stage) bypasses nothing: those problems are reported on their own.
+  const canStart = startable(plan);
   const lost = new Map<number, string[]>();
   reference.stages.forEach((refStage, r) => {
     const i = now.stageIndex.get(refStage.id);
-    if (i === undefined) return;
+    if (i === undefined || !canStart.has(i)) return;
     const gone = missing(ref.holdsBefore(r, true), now.holdsBefore(i, false));
     if (gone.length > 0) lost.set(i, gone);
   });
@@ -370,7 +392,7 @@ function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
     const needed = ref.holdsBefore(r, true);
     for (const refStep of refStage.steps) {
       const at = now.stepAt.get(refStep.id);
-      if (!at || plan.stages[at.stage].id === refStage.id) continue;
+      if (!at || plan.stages[at.stage].id === refStage.id || !canStart.has(at.stage)) continue;
       const have = now.holdsBefore(at.stage, false);
       // Moving a step behind its own stage's hold is later, not earlier: that hold counts too.
       const own = plan.stages[at.stage].hold;

@@ -73,6 +73,13 @@ describe('a mandatory hold keeps gating every stage it gated', () => {
     expect(messages.every((m) => m.startsWith('Stage “Draw the pins of joint 3”'))).toBe(true);
   });
 
+  it('a stage that can never start (waiting for an unknown stage) bypasses nothing: only the unknown dependency is reported', () => {
+    const unknown = edit((p) => {
+      stage(p, 'er-raise').dependsOn = ['no-such-stage'];
+    });
+    expect(codes(unknown)).toEqual(['unknown_dependency', 'unreachable']);
+  });
+
   it('a step moved out from behind a hold is refused; a hold moved to another stage is refused', () => {
     const moved = edit((p) => {
       const raise = stage(p, 'er-raise');
