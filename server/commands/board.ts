@@ -4,18 +4,20 @@ import { findStep } from '../../shared/board/apply.js';
 import { readingsBlockingRelease } from '../../shared/board/readings.js';
 import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
+import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../shared/plan/index.js';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
 import type { AppContext } from '../context.js';
 import { Component } from '../entities/Component.js';
+import { JobCrew } from '../entities/JobCrew.js';
 import type { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
 import { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
-import { planProblemsOf, withFreshBriefing } from '../queries/plans.js';
+import { referencePlan, withFreshBriefing } from '../queries/plans.js';
 import { recordInspection } from './fleet.js';
 import { crewRolesOf } from './jobs.js';
 import { runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
@@ -118,11 +120,6 @@ function sameValue(typed: string, expected: string): boolean {
   const nb = Number(b);
   if (a !== '' && Number.isFinite(na) && Number.isFinite(nb)) return Math.abs(na - nb) <= 1e-6 * Math.max(1, Math.abs(nb));
   return a === b;
-}
-
-/** Validator codes that protect a mandatory hold (its existence, roles, check, place or required steps): a revision with one is refused as such. */
-function protectsMandatoryHold(code: string): boolean {
-  return /^(mandatory_|required_)/.test(code);
 }
 
 /** Refuses unless the weather is fresh and within the raising limit: the one wind rule, for a stage that moves the boom and the hold before it. */
@@ -357,9 +354,15 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'plan.revise'({ manager, job, board, actor, now }, c) {
     if (!['ready', 'live', 'stopped'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; the plan can be revised only after it is ready and before it ends.`);
     if (c.plan.kind !== job.kind) throw badRequest('The plan is for another kind of job.', [{ path: 'plan.kind', message: `This job is ${job.kind}` }]);
-    // The same validator as plan edits and readiness (shared/plan/validate.ts through planProblemsOf).
-    const problems = await planProblemsOf(manager, job, c.plan);
-    const mandatory = problems.filter((p) => protectsMandatoryHold(p.code));
+    // The plan validator (shared/plan/validate.ts), against the generated plan and the version in
+    // force, so nothing the crew is working to is weakened; and the crew must still cover every hold.
+    const current = await manager.findOneBy(JobPlan, { jobId: job.id, version: job.planVersion });
+    const crew = await manager.findBy(JobCrew, { jobId: job.id });
+    const problems = [
+      ...revisionProblems(c.plan, await referencePlan(manager, job), current?.plan ?? null),
+      ...holdsNeedPeople(c.plan, crew.map((m) => ({ userId: m.userId, role: m.role }))),
+    ];
+    const mandatory = problems.filter((p) => protectsMandatoryHold(p));
     if (mandatory.length) {
       throw refuse(409, 'mandatory_hold', `The revision weakens a mandatory hold: ${mandatory[0].message}`, mandatory.map((p) => ({ path: `plan.${p.path ?? ''}`, message: p.message })));
     }

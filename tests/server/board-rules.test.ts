@@ -152,7 +152,7 @@ describe('board rules', () => {
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
     });
 
-    it('words where a number is asked for are out of limit; a revision that corrects the plan’s figure settles the step', async () => {
+    it('words where a number is asked for are out of limit; a revision cannot loosen the figure, and a reworded step starts again', async () => {
       const jobId = await liveJob((plan) => {
         stageOf(plan, 'er-ground').steps.push(step('er-ground.test-cw', { records: reading({ kind: 'plan', planned: 65, tolerance: 0.5, source: 'crane data: raising counterweight' }, 't') }));
       });
@@ -166,13 +166,21 @@ describe('board rules', () => {
       board = await boardOf(server, crew.supervisor, jobId);
       expect(board.stages[0].steps.find((s) => s.id === 'er-ground.test-cw')!.outOfLimit?.reason).toBe('60 t was recorded; the plan says 65 t (±0.5 t).');
 
-      // The supervisor revises the plan: the figure is 60 t after all. The kept reading is compared again.
+      // A revision that moves the figure to fit the reading is refused by the plan validator.
       const plan = (await request(server.app).get(`/api/jobs/${jobId}/plan`).set(auth(crew.supervisor)).expect(200)).body.plan as Plan;
-      stageOf(plan, 'er-ground').steps.find((s) => s.id === 'er-ground.test-cw')!.records!.check = { kind: 'plan', planned: 60, tolerance: 0.5, source: 'revised: counterweight for this job' };
-      const revised = await httpCommand(server, crew.supervisor, jobId, { type: 'plan.revise', plan, reason: 'Counterweight figure corrected from the crane data' });
+      const cw = stageOf(plan, 'er-ground').steps.find((s) => s.id === 'er-ground.test-cw')!;
+      cw.records!.check = { kind: 'plan', planned: 60, tolerance: 0.5, source: 'what was fitted' };
+      const loosened = await httpCommand(server, crew.supervisor, jobId, { type: 'plan.revise', plan, reason: 'Fit the plan to the crane' });
+      expect(loosened.status).toBe(400);
+      expect(JSON.stringify(loosened.body.error)).toMatch(/no longer held to/);
+      // Reworded (counted again on the crane), the step starts again: nothing is out of limit until it is redone.
+      cw.records!.check = { kind: 'plan', planned: 65, tolerance: 0.5, source: 'crane data: raising counterweight' };
+      cw.text = 'Count the counterweight blocks on the crane again and record the total.';
+      const revised = await httpCommand(server, crew.supervisor, jobId, { type: 'plan.revise', plan, reason: 'Counterweight to be counted again on the crane' });
       expect(revised.status, JSON.stringify(revised.body)).toBe(200);
       board = await boardOf(server, crew.supervisor, jobId);
-      expect(board.stages[0].steps.find((s) => s.id === 'er-ground.test-cw')).toMatchObject({ state: 'done', outOfLimit: null });
+      expect(board.stages[0].steps.find((s) => s.id === 'er-ground.test-cw')).toMatchObject({ state: 'open', outOfLimit: null });
+      expect(outOfLimitSteps(board)).toEqual([]);
     });
 
     it('an out-of-limit reading in an earlier stage without a mandatory hold blocks the next mandatory hold that depends on it', async () => {

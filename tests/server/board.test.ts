@@ -117,8 +117,10 @@ describe('the live board engine', () => {
     await completeSteps(server, crew, jobId, 'er-check');
     await acknowledgeAndRelease(server, crew, jobId, 'er-check');
     board = await boardOf(server, crew.supervisor, jobId);
-    // Guy lines depend only on the component check: they start while the upper works are still open.
-    expect(board.stages.find((s) => s.id === 'er-guys')?.state).toBe('active');
+    // Laying out the guy lines depends only on the component check: it starts while the upper works
+    // are still open (pinning them waits for the joints).
+    expect(board.stages.find((s) => s.id === 'er-guy-layout')?.state).toBe('active');
+    expect(board.stages.find((s) => s.id === 'er-guys')?.state).toBe('locked');
     expect(board.stages.find((s) => s.id === 'er-upper')?.state).toBe('active');
     expect(board.stages.find((s) => s.id === 'er-joints')?.state).toBe('locked');
   });
