@@ -102,6 +102,20 @@ function positive(field: string, value: unknown): number {
   return value;
 }
 
+/** Words broken into lines of at most `max` characters: SVG text does not flow on its own. */
+function wrap(words: string, max: number): string[] {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of words.split(' ')) {
+    if (line && line.length + 1 + word.length > max) {
+      lines.push(line);
+      line = word;
+    } else line = line ? `${line} ${word}` : word;
+  }
+  if (line) lines.push(line);
+  return lines;
+}
+
 /** A scale-bar length of 1, 2 or 5 × 10ⁿ metres near a fifth of the extent. */
 function scaleBarM(extentM: number): number {
   const target = extentM / 5;
@@ -133,8 +147,23 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   });
 
   const extentM = Math.max(fallM, reachM, trackM / 2 + gaugeM, ...input.powerLines.map((l) => l.distanceM)) * 1.12;
-  const header = 64;
-  const footer = 60 + input.powerLines.length * 36;
+  // 12 px text is about 0.56 em wide per character; the words wrap to the drawing's width.
+  const maxChars = Math.floor((size - 32) / (12 * 0.56));
+  const notAMap = wrap('Not a map: the lines are drawn at their distance, their bearing is not known here.', maxChars);
+  const header = 48 + notAMap.length * 16;
+  // Rounded down: the drawing never shows more room than there is (the 1e-9 keeps 15.6 from reading 15.599… → 15.5).
+  const down = (m: number) => (Math.floor(m * 10 + 1e-9) / 10).toFixed(1);
+  const lineWords = input.powerLines.map((l, i) => {
+    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${l.requiredClearanceM.toFixed(2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
+    const volts = l.voltageKv === null ? 'voltage unknown' : `${l.voltageKv} kV`;
+    // Results stored before the assist crane was checked have no `assist`: read as not planned.
+    const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${down(l.assist.availableClearanceM)} m available`}`;
+    const clear = l.pass && (!l.assist || l.assist.pass);
+    const status = clear ? 'CLEAR' : 'TOO CLOSE';
+    const rows = wrap(`${status} ${i + 1}. ${l.label}: ${volts}, ${l.distanceM} m away; ${req}; ${down(l.availableClearanceM)} m available${assist}`, maxChars);
+    return { clear, status, rows };
+  });
+  const footer = 48 + lineWords.reduce((sum, w) => sum + w.rows.length * 16 + 6, 0);
   const height = size + header + footer;
   const cx = size / 2;
   const cy = header + size / 2;
@@ -203,7 +232,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   // The long power lines run past the plan; the header and footer are painted over them.
   out.push(`<rect x="0" y="0" width="${size}" height="${header}" fill="${p.background}"/>`);
   out.push(text(16, 24, 'Plan, distances from the slewing centre', `font-size="15" font-weight="700" fill="${p.ink}"`));
-  out.push(text(16, 44, 'Not a map: the lines are drawn at their distance, their bearing is not known here.', `font-size="12" fill="${p.muted}"`));
+  notAMap.forEach((row, i) => out.push(text(16, 44 + i * 16, row, `font-size="12" fill="${p.muted}"`)));
 
   // Footer: scale bar, then one line of words per power line.
   const fy = header + size;
@@ -215,19 +244,20 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   out.push(`<line x1="${px(16 + barPx)}" y1="${px(fy + 16)}" x2="${px(16 + barPx)}" y2="${px(fy + 28)}" stroke="${p.ink}" stroke-width="2"/>`);
   out.push(text(24 + barPx, fy + 27, `${barM} m`, `font-size="12" font-weight="700" fill="${p.ink}"`));
   out.push(text(size - 16, fy + 27, `tracks ${trackM} m long, gauge ${gaugeM} m`, `font-size="12" text-anchor="end" fill="${p.muted}"`));
-  input.powerLines.forEach((l, i) => {
-    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${l.requiredClearanceM.toFixed(2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
-    const volts = l.voltageKv === null ? 'voltage unknown' : `${l.voltageKv} kV`;
-    // Rounded down: the drawing never shows more room than there is.
-    const down = (m: number) => (Math.floor(m * 10) / 10).toFixed(1);
-    // Results stored before the assist crane was checked have no `assist`: read as not planned.
-    const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${down(l.assist.availableClearanceM)} m available`}`;
-    const clear = l.pass && (!l.assist || l.assist.pass);
-    const y = fy + 50 + i * 36;
-    out.push(text(16, y, `${clear ? 'CLEAR' : 'TOO CLOSE'}`, `font-size="12" font-weight="700" fill="${clear ? p.pass : p.stop}"`));
-    out.push(text(100, y, `${i + 1}. ${l.label}: ${volts}, ${l.distanceM} m away`, `font-size="12" fill="${p.ink}"`));
-    out.push(text(100, y + 16, `${req}, ${down(l.availableClearanceM)} m available${assist}`, `font-size="12" fill="${p.ink}"`));
-  });
+  let y = fy + 50;
+  for (const w of lineWords) {
+    w.rows.forEach((row, r) => {
+      if (r === 0) {
+        // The word first, bold and in its colour, then the rest of the row.
+        const rest = row.slice(w.status.length);
+        out.push(
+          `<text x="16" y="${px(y)}" font-family="${FONT}" font-size="12" fill="${p.ink}"><tspan font-weight="700" fill="${w.clear ? p.pass : p.stop}">${w.status}</tspan>${escapeXml(rest)}</text>`,
+        );
+      } else out.push(text(16, y, row, `font-size="12" fill="${p.ink}"`));
+      y += 16;
+    });
+    y += 6;
+  }
 
   return (
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${size} ${px(height)}" width="${size}" height="${px(height)}" role="img" aria-label="${escapeXml(title)}">` +

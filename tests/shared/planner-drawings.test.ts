@@ -228,16 +228,23 @@ describe('sitePlanSvg', () => {
     expect(svg).toContain('&lt;east&gt; &amp; &quot;yard&quot;');
     const t = texts(wellFormed(svg));
     expect(t).toContain('Plan, distances from the slewing centre');
-    expect(t.some((x) => x.includes('33 kV line <east> & "yard": 33 kV, 50 m away'))).toBe(true);
+    // The words wrap to the drawing's width: read them as one text.
+    const all = t.join(' ');
     // 50 − 42.4 = 7.6 m left; 40 − 42.4 = −2.4 m: the boom reaches past the 220 kV line.
-    expect(t).toContain('clearance 6.10 m (20 ft default, up to 350 kV), 7.6 m available');
-    expect(t).toContain('clearance 6.10 m (20 ft default, up to 350 kV), -2.4 m available');
+    expect(all).toContain('CLEAR 1. 33 kV line <east> & "yard": 33 kV, 50 m away; clearance 6.10 m (20 ft default, up to 350 kV); 7.6 m available');
+    expect(all).toContain('TOO CLOSE 2. 220 kV line: 220 kV, 40 m away; clearance 6.10 m (20 ft default, up to 350 kV); -2.4 m available');
     expect(t).toContain('Reach 42.4 m');
-    expect(t).toContain('CLEAR');
-    expect(t).toContain('TOO CLOSE');
     expect(t).toContain('1: 33 kV');
     expect(t).toContain('Fall zone 40.4 m');
     expect(t.some((x) => /^\d+ m$/.test(x))).toBe(true); // the scale bar's length
+  });
+
+  it('at phone width (360 px) the words wrap inside the drawing', () => {
+    const doc = wellFormed(sitePlanSvg(input, { sizePx: 360 }));
+    // Left-anchored 12 px rows, at about 0.6 em per character (a generous width for the fonts used).
+    for (const el of [...doc.querySelectorAll('text[font-size="12"]')].filter((e) => !e.getAttribute('text-anchor'))) {
+      expect(num(el, 'x') + (el.textContent ?? '').length * 12 * 0.6, el.textContent ?? '').toBeLessThanOrEqual(360 + 12);
+    }
   });
 
   it('shows a line above the table as needing the owner’s distance, and refuses a non-finite distance', () => {
