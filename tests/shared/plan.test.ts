@@ -86,10 +86,11 @@ function allIds(p: Plan): string[] {
 const withAssist = (over: Partial<z.input<typeof configurationSchema>> = {}) =>
   config({
     assist: { assistCraneId: ASSIST_ID, chartId: 'boom-20.5m-full-cw', lifts: [{ label: 'Tip onto dollies', liftT: 4.1, riggingT: 0.2, radiusM: 9 }, { label: 'Base into the foot pins', liftT: 7.8, riggingT: 0.3, radiusM: 7 }] },
+    // Voltages confirmed by the lines' owners and encroachment prevention in place, so the Table A distances apply.
     siteHazards: {
       powerLines: [
-        { label: '33 kV line, east fence', voltageKv: 33, distanceM: 120, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: 100 },
-        { label: '400 kV line, north', voltageKv: 400, distanceM: 150, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: 130 },
+        { label: '33 kV line, east fence', voltageKv: 33, distanceM: 120, voltageConfirmedByOwner: true, encroachmentPreventionInPlace: true, assistDistanceM: 100 },
+        { label: '400 kV line, north', voltageKv: 400, distanceM: 150, voltageConfirmedByOwner: true, encroachmentPreventionInPlace: true, assistDistanceM: 130 },
       ],
       buriedServices: 'Gas main 4 m west of the track line',
       neighbours: 'School next door: lifts outside 08:30-09:00 and 15:00-15:30',
