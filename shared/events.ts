@@ -44,6 +44,8 @@ export const jobEventTypes = [
   'hold.acknowledged',
   'hold.withdrawn',
   'hold.released',
+  'hold.check.failed',
+  'hold.check.reviewed',
   'stage.skipped',
   'job.stopped',
   'job.stop.noted',

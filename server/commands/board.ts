@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { findStep } from '../../shared/board/apply.js';
-import { readingsBlockingRelease } from '../../shared/board/readings.js';
-import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
+import { readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/readings.js';
+import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
 import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../shared/plan/index.js';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
@@ -180,7 +180,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       }
     }
     if (c.photoId) await attachUploads(manager, [c.photoId], 'step', job.id, actor.id, 'photoId');
-    return { type: 'step.completed', role, data: { stageId: stage.id, stepId: step.id, value: c.value ?? null, photoId: c.photoId ?? null } };
+    // The comparison is written into the record for people reading it; the reducer works it out again.
+    const outOfLimit = readingOutOfLimit(step.records, c.value ?? null, board.windLimits);
+    return { type: 'step.completed', role, data: { stageId: stage.id, stepId: step.id, value: c.value ?? null, photoId: c.photoId ?? null, outOfLimit } };
   },
 
   async 'step.reopen'({ board, roles }, c) {
@@ -191,7 +193,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (stage.state !== 'active' && stage.state !== 'holding') throw invalidState(`“${stage.title}” is ${stateWords[stage.state]}; its steps can no longer be reopened.`);
     const role = roles.includes('supervisor') ? 'supervisor' : roles.find((r) => step.allowedRoles.includes(r));
     if (!role) throw refuse(403, 'role_not_allowed', `This step is for: ${step.allowedRoles.join(', ')}.`);
-    return { type: 'step.reopened', role, data: { stageId: stage.id, stepId: step.id, clearedAcknowledgments: stage.hold?.acknowledgments.length ?? 0 } };
+    const alsoReopened = stepsAfter(stage, step.id).filter((id) => stage.steps.find((s) => s.id === id)?.state === 'done');
+    return { type: 'step.reopened', role, data: { stageId: stage.id, stepId: step.id, alsoReopened, clearedAcknowledgments: stage.hold?.acknowledgments.length ?? 0 } };
   },
 
   async 'hold.acknowledge'({ manager, job, board, actor, roles, now }, c) {

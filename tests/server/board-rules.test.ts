@@ -136,6 +136,9 @@ describe('board rules', () => {
       expect(marked.outOfLimit!.reason).toBe('5 parts was recorded; the plan says 6 parts.');
       // Every screen reads the same list: the console's.
       expect(outOfLimitSteps(board).map((e) => [e.stepId, e.by?.userId])).toEqual([['er-ground.test-parts', crew.rigger.user.id]]);
+      // The record says it too, for whoever reads the history.
+      const recorded = (await events(crew.supervisor, jobId)).filter((e) => e.type === 'step.completed' && e.data.stepId === 'er-ground.test-parts').at(-1)!;
+      expect(recorded.data.outOfLimit).toMatchObject({ reason: '5 parts was recorded; the plan says 6 parts.' });
 
       const hold = await acknowledgeAll(jobId, 'er-ground');
       const refused = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
@@ -221,7 +224,8 @@ describe('board rules', () => {
       expect(early.body.error).toMatchObject({ code: 'out_of_order', message: 'Not yet: “Record the thorough examination.” must be done before “Hand the crane over.”.' });
       expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-ground.test-exam' })).status).toBe(200);
       expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-ground.test-handover' })).status).toBe(200);
-      expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.reopen', stepId: 'er-ground.test-exam' })).status).toBe(200);
+      const reopened = await httpCommand(server, crew.rigger, jobId, { type: 'step.reopen', stepId: 'er-ground.test-exam' });
+      expect(reopened.body).toMatchObject({ ok: true, event: { data: { alsoReopened: ['er-ground.test-handover'] } } });
       const steps = (await boardOf(server, crew.supervisor, jobId)).stages[0].steps;
       expect(steps.filter((s) => s.id.startsWith('er-ground.test-')).map((s) => s.state)).toEqual(['open', 'open']);
     });
