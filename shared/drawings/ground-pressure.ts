@@ -75,7 +75,6 @@ const palettes: Record<'day' | 'night', Palette> = {
 };
 
 const FONT = 'Roboto, Helvetica, Arial, sans-serif';
-const MARGIN_X = 24;
 const PLOT_TOP = 64;
 const PLOT_HEIGHT = 120;
 
@@ -124,7 +123,7 @@ export function groundPressureSvg(
 ): string {
   const p = palettes[options.theme ?? 'day'];
   const width = options.widthPx ?? 720;
-  if (!Number.isFinite(width) || width < 360) throw new CalcInputError('widthPx', `must be at least 360, got ${String(width)}`);
+  if (!Number.isFinite(width) || width < 300) throw new CalcInputError('widthPx', `must be at least 300, got ${String(width)}`);
   const allowable = finitePositive('allowablePressureKpa', allowablePressureKpa);
   loadCases.forEach((c, i) => {
     if (c.slew.length === 0) throw new CalcInputError(`loadCases.${i}.slew`, 'has no slew angles');
@@ -141,12 +140,13 @@ export function groundPressureSvg(
     `<title>${escapeXml(title)}</title>` +
     `<rect x="0" y="0" width="${width}" height="${px(height)}" fill="${p.background}"/>`;
   if (loadCases.length === 0) {
-    return open(60) + text(MARGIN_X, 36, 'No load cases to draw.', `font-size="15" fill="${p.ink}"`) + '</svg>';
+    return open(60) + text(24, 36, 'No load cases to draw.', `font-size="15" fill="${p.ink}"`) + '</svg>';
   }
 
   const topKpa = Math.max(allowable, ...loadCases.map((c) => Math.max(c.worst.pressureKpa, ...c.slew.map((pt) => pt.pressureKpa), c.mats?.pressureKpa ?? 0))) * 1.15;
   const narrow = width < 560;
-  const PANEL_HEIGHT = narrow ? 262 : 240;
+  const MARGIN_X = narrow ? 12 : 24;
+  const PANEL_HEIGHT = narrow ? 286 : 240;
   const plotLeft = MARGIN_X + 56;
   const plotRight = width - MARGIN_X - (narrow ? 8 : 110);
   const plotWidth = plotRight - plotLeft;
@@ -163,7 +163,7 @@ export function groundPressureSvg(
     const over = c.worst.pressureKpa > allowable;
     const word = over ? 'FAIL' : options.caution ? 'CAUTION' : options.unverified ? 'UNVERIFIED' : 'PASS';
 
-    out.push(text(MARGIN_X, top + 18, c.label, `font-size="15" font-weight="700" fill="${p.ink}"`));
+    out.push(text(MARGIN_X, top + 18, c.label, `font-size="${narrow ? 14 : 15}" font-weight="700" fill="${p.ink}"`));
     const worstLine = `worst ${c.worst.pressureKpa.toFixed(1)} kPa at ${c.worst.angleDeg}° slew (${c.worst.method})`;
     const endsLine = `over the end ${c.overEnd.pressureKpa.toFixed(1)} kPa · over the side ${c.overSide.pressureKpa.toFixed(1)} kPa`;
     if (narrow) {
@@ -222,7 +222,7 @@ export function groundPressureSvg(
       const matsOver = c.mats.pressureKpa > allowable;
       const matsWord = matsOver ? 'FAIL' : options.caution ? 'CAUTION' : options.unverified ? 'UNVERIFIED' : 'PASS';
       const mx = narrow ? MARGIN_X : boxX;
-      const my = narrow ? base + 55 : boxY + 46;
+      const my = narrow ? base + 80 : boxY + 46;
       if (narrow) {
         out.push(text(mx, my, `mats ${c.mats.pressureKpa.toFixed(1)} kPa at ${c.mats.angleDeg}°: ${matsWord}`, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
       } else {
@@ -235,7 +235,7 @@ export function groundPressureSvg(
   });
   const trackNote = options.trackLengthM !== undefined ? `Tracks ${finitePositive('trackLengthM', options.trackLengthM)} m long. ` : '';
   const notes = narrow
-    ? ['Highest pressure under the tracks at each slew', 'angle: 0° boom over one end of the tracks, 90°', 'over the side. Larger of the per-track method and', `the rigid pressure plane. ${trackNote}kPa to scale.`]
+    ? ['Highest pressure under the tracks at each', 'slew angle: 0° boom over one end of the', 'tracks, 90° over the side. Larger of the', 'per-track method and the rigid pressure', `plane. ${trackNote}kPa to scale.`]
     : ['Highest pressure under the tracks at each slew angle: 0° boom over one end of the tracks, 90° over the side.', `${trackNote}Larger of the per-track method and the rigid pressure plane; kPa to scale.`];
   const height = 12 + loadCases.length * PANEL_HEIGHT + notes.length * 14 + 4;
   notes.forEach((n, k) => out.push(text(MARGIN_X, height - 4 - (notes.length - 1 - k) * 14, n, `font-size="11" fill="${p.muted}"`)));

@@ -132,7 +132,7 @@ describe('configuration planner', () => {
     await screenshot(page, 'planner-tablet');
     // What a tablet shows at once: the form beside the figures, then the drawings further down.
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'planner-tablet-view.png') });
-    await page.getByText('Ground pressure under the heavier track, per load case').scrollIntoViewIfNeeded();
+    await page.getByText('Ground pressure against slew angle, per load case').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'planner-tablet-drawings.png') });
 
     // What the server holds is what the screen showed.
@@ -236,5 +236,48 @@ describe('configuration planner', () => {
     expect(await reader.getByRole('region', { name: 'Heaviest load' }).getByLabel('Radius', { exact: true }).getAttribute('readonly')).not.toBeNull();
     await screenshot(reader, 'planner-read-only-phone');
     await reader.context().close();
+  });
+
+  it('shows a power line’s distance with its basis: 20 ft by default, 50 ft when the voltage is not known, Table A once the owner confirmed it and encroachment prevention is in place', async () => {
+    const auth = { Authorization: `Bearer ${supervisor.token}` };
+    const created = await request(server.app)
+      .post('/api/jobs')
+      .set(auth)
+      .send({ name: 'Erection beside the feeder', site: 'Riverside works, pad 3', craneUnitId: unitId, kind: 'erection' })
+      .expect(201);
+    const lineJobId = created.body.job.id as string;
+    // Reach 1.4 (boom foot) + 18 + 3 + 2 (default allowances) = 24.4 m; the line 35 m away leaves 10.6 m.
+    const config = configuration18m(unitId);
+    const line = { label: '11 kV feeder', voltageKv: 11, distanceM: 35, voltageConfirmedByOwner: false, encroachmentPreventionInPlace: false, assistDistanceM: null };
+    await request(server.app).put(`/api/jobs/${lineJobId}/configuration`).set(auth).send({ ...config, siteHazards: { ...config.siteHazards, powerLines: [line] } }).expect(200);
+
+    for (const [name, viewport] of [['phone', viewports.phone], ['desktop', viewports.desktop]] as const) {
+      const page = await signIn(chromium.browser, server.url, viewport, supervisor.user.email, `/jobs/${lineJobId}?tab=planner`);
+      const value = figureValue(page, 'Power line: 11 kV feeder');
+      const row = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Power line: 11 kV feeder' }) }).first();
+      await expect.poll(async () => (await value.textContent()) ?? '').toContain('10.6 m available, 6.10 m required (20 ft default, up to 350 kV; 11 kV)');
+      const site = page.locator('section[aria-labelledby="site-title"]');
+      expect(await site.getByText('Minimum distance: 20 ft (6.1 m) up to 350 kV').isVisible()).toBe(true);
+      await row.scrollIntoViewIfNeeded();
+      await screenshot(page, `planner-power-line-${name}`);
+
+      if (name === 'phone') {
+        // Voltage not known: the larger distance, 50 ft = 15.24 m, and 10.6 m is too close.
+        await site.getByRole('checkbox', { name: 'Voltage not known' }).click();
+        await expect.poll(async () => (await value.textContent()) ?? '').toContain('10.6 m available, 15.24 m required (50 ft, voltage unknown; voltage unknown)');
+        expect(await row.locator('.tone-badge').textContent()).toContain('FAIL');
+        expect(await row.getByText('Cannot be overridden — change the configuration').isVisible()).toBe(true);
+        await site.getByRole('checkbox', { name: 'Voltage not known' }).click();
+        await site.getByLabel('Voltage', { exact: true }).fill('11');
+        // Table A (10 ft for 11 kV) only with both recorded.
+        await site.getByRole('checkbox', { name: 'The line’s owner has confirmed the voltage' }).click();
+        await expect.poll(async () => (await value.textContent()) ?? '').toContain('6.10 m required (20 ft default');
+        await site.getByRole('checkbox', { name: /Encroachment-prevention measures in place/ }).click();
+        await expect.poll(async () => (await value.textContent()) ?? '').toContain('10.6 m available, 3.05 m required (Table A, 10 ft for the owner-confirmed voltage; 11 kV)');
+        await site.scrollIntoViewIfNeeded();
+        await screenshot(page, 'planner-power-line-table-a-phone');
+      }
+      await page.context().close();
+    }
   });
 });
