@@ -125,6 +125,13 @@ export interface TandemStep {
   radiusM: number;
   /** Height of the boom tip pin above the ground, the boom foot at its stated height. */
   tipHeightM: number;
+  /**
+   * A rough top of the assist crane's reach at this radius: √(its boom² − radius²) from the
+   * ground; null when the radius is beyond its boom. Its range diagram governs.
+   */
+  reachHeightM: number | null;
+  /** The tip is higher than the assist crane can reach at this radius. */
+  outOfReach: boolean;
   share: AssistLiftResult;
 }
 
@@ -160,11 +167,13 @@ export function tandemRaise(input: {
     const tipHeightM = finiteResult('boomLengthM', foot + input.boomLengthM * Math.sin((angleDeg * Math.PI) / 180));
     // A radius that rounds to nothing is the hook over the slewing centre: off any chart.
     const share = assistLiftCheck({ liftKn: reaction.reactionKn, riggingKn: rigging, chart: input.chart, radiusM: Math.max(radiusM, 1e-6), cautionPercent: input.cautionPercent });
-    return { angleDeg, radiusM, tipHeightM, share };
+    const boom = requirePositive('chart.boomLengthM', input.chart.boomLengthM);
+    const reachHeightM = radiusM < boom ? Math.sqrt(boom * boom - radiusM * radiusM) : null;
+    return { angleDeg, radiusM, tipHeightM, reachHeightM, outOfReach: reachHeightM === null || tipHeightM > reachHeightM, share };
   });
   return {
     reactionKn: reaction.reactionKn,
     steps,
-    rule: `${reaction.rule}; radius from the assist crane to the tip as it comes back by L(1 − cos θ); steps every 10° up to the release angle, where the main crane carries the boom alone and the tip leaves the assist`,
+    rule: `${reaction.rule}; radius from the assist crane to the tip as it comes back by L(1 − cos θ); steps every 10° up to the release angle, where the main crane carries the boom alone and the tip leaves the assist; the assist crane's reach taken roughly as √(its boom² − radius²) from the ground (its boom foot height and its hook and slings left out: its range diagram governs)`,
   };
 }

@@ -218,14 +218,17 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
     const carried = `boom sections ${fmt(knToTonnesForce(boom.boomWeightKn), 2)} t with their centre of gravity ${fmt(boom.boomCogFromFootM!, 2)} m from the foot of ${plain(config.boomLengthM)} m, plus at the tip ${fmt(tipKg / 1000, 2)} t (hook blocks, auxiliary head, guy lines taken whole at the tip) → ${fmt(tipT, 2)} t at the tip; plus ${onHook(t)}`;
     const missingNote = missing.length ? `${missing.join(', ')}: NOT INCLUDED` : '';
     const heightNote = footHeightM === null ? 'boom foot height not in the data: tip heights from the foot pin' : '';
-    const stop = `steps stop at ${plain(t.releaseAngleDeg!)}°: from there the main crane carries the boom alone and the tip leaves the assist (the release angle entered from the manufacturer’s raising procedure); check the assist crane’s boom reaches above the tip at that height`;
+    const stop = `steps stop at ${plain(t.releaseAngleDeg!)}°: from there the main crane carries the boom alone and the tip leaves the assist (the release angle entered from the manufacturer’s raising procedure)`;
     return r.steps.map((s, i) => {
       const key = `assist.tandem.${i}`;
-      const status: FigureStatus = s.share.band === 'fail' ? 'fail' : missing.length ? 'caution' : s.share.band;
+      const status: FigureStatus = s.share.band === 'fail' || s.outOfReach ? 'fail' : missing.length ? 'caution' : s.share.band;
+      const reach = s.outOfReach
+        ? `; out of reach: the assist crane’s ${plain(chart.boomLengthM)} m boom reaches about ${s.reachHeightM === null ? '0' : fmt(s.reachHeightM, 1)} m up at ${fmt(s.radiusM, 1)} m`
+        : '';
       const value =
         s.share.sharePercent !== null && s.share.capacityKn !== null && s.share.chartRadiusM !== null
-          ? `${percentUp(s.share.sharePercent)} % (${fmt(knToTonnesForce(s.share.totalKn), 2)} t of ${fmt(knToTonnesForce(s.share.capacityKn), 1)} t at ${fmt(s.radiusM, 1)} m; tip ${fmt(s.tipHeightM, 1)} m up)`
-          : `Off the chart at ${fmt(s.radiusM, 1)} m (tip ${fmt(s.tipHeightM, 1)} m up)`;
+          ? `${percentUp(s.share.sharePercent)} % (${fmt(knToTonnesForce(s.share.totalKn), 2)} t of ${fmt(knToTonnesForce(s.share.capacityKn), 1)} t at ${fmt(s.radiusM, 1)} m; tip ${fmt(s.tipHeightM, 1)} m up${reach})`
+          : `Off the chart at ${fmt(s.radiusM, 1)} m (tip ${fmt(s.tipHeightM, 1)} m up${reach})`;
       figures.push(
         figure(
           key,
@@ -233,7 +236,7 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
           `Tandem raise at ${plain(s.angleDeg)}°: assist crane share`,
           value,
           status,
-          s.share.band !== 'fail' && missing.length === 0,
+          s.share.band !== 'fail' && !s.outOfReach && missing.length === 0,
           `${r.rule}; ${s.share.rule}`,
           [TANDEM_CAUTION, carried, s.share.reason ?? '', missingNote, heightNote, i === r.steps.length - 1 ? stop : '', `${crane.model}, chart “${chart.description}”`].filter((x) => x.length > 0).join('; '),
         ),

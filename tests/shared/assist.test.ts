@@ -260,44 +260,52 @@ describe('assist.slings.N: two legs, centre of gravity off centre, from the hook
 });
 
 describe('assist.tandem.N: the 78 m boom must have its tip carried while it leaves the ground (demo data)', () => {
-  const tandem = (c: Configuration) => {
+  const tandem = (releaseAngleDeg: number) => (c: Configuration) => {
     c.boomLengthM = 78;
     c.heaviestLoad.radiusM = 20;
     c.assist.chartId = 'boom-11.6m-full-cw';
-    c.assist.tandem = { alongFromTipM: 3, sideM: 3, releaseAngleDeg: 20, hookBlockT: 0.6, slingsT: 0.2, shacklesT: 0.1, deductionsT: 0 };
+    c.assist.tandem = { alongFromTipM: 3, sideM: 3, releaseAngleDeg, hookBlockT: 0.6, slingsT: 0.2, shacklesT: 0.1, deductionsT: 0 };
   };
+  // At the tip: sections 13.838 t (Σ w·x ÷ 78 m, worked above) + HB120 2.7 t + guy lines 2×285 + 10×505 + 2×125 + 2×220 = 6,310 kg
+  // (taken whole at the tip) + the assist crane's hook 0.6 + slings 0.2 + shackles 0.1 = 23.748 t
+  const total = 13.838 + 2.7 + 6.31 + 0.9;
 
-  it('a tandem lift at 0°, 10° and 20°, each read against the assist chart at its radius', () => {
-    const r = run(plan(tandem));
-    // At the tip: sections 13.838 t (Σ w·x ÷ 78 m, worked above) + HB120 2.7 t + guy lines 2×285 + 10×505 + 2×125 + 2×220 = 6,310 kg
-    // (taken whole at the tip) + the assist crane's hook 0.6 + slings 0.2 + shackles 0.1 = 23.748 t
-    const total = 13.838 + 2.7 + 6.31 + 0.9;
-    // radii: 0° √(3² + 3²) = 4.243 → 5 m row 33 t; 10°: dx = 78(1 − cos 10°) − 3 = −1.815 → 3.506 → 4 m row 40.5 t;
-    // 20°: dx = 78(1 − cos 20°) − 3 = 1.704 → 3.450 → 3.5 m row 45 t
-    const rows: [number, number][] = [[5, 33], [4, 40.5], [3.5, 45]];
-    expect(r.tandem!.map((s) => s.angleDeg)).toEqual([0, 10, 20]);
-    rows.forEach(([radius, capT], i) => {
+  it('released at 5°: steps at 0° and 5°, each read against the assist chart at its radius, each saying it is a tandem lift', () => {
+    const r = run(plan(tandem(5)));
+    // 0°: √(3² + 3²) = 4.243 m → 5 m row 33 t; 5°: dx = 78(1 − cos 5°) − 3 = −2.7032 → √(2.7032² + 3²) = 4.038 m → 5 m row 33 t
+    expect(r.tandem!.map((s) => s.angleDeg)).toEqual([0, 5]);
+    expect(r.tandem![1].radiusM).toBeCloseTo(Math.hypot(78 * (1 - Math.cos((5 * Math.PI) / 180)) - 3, 3), 9);
+    for (const [i, step] of r.tandem!.entries()) {
+      expect(step.sharePercent! / ((total / 33) * 100)).toBeCloseTo(1, 4);
       const f = fig(r, `assist.tandem.${i}`);
-      expect(r.tandem![i].sharePercent! / ((total / capT) * 100)).toBeCloseTo(1, 4);
-      expect(f.value).toContain(`of ${capT.toFixed(1)} t at ${r.tandem![i].radiusM.toFixed(1)} m`);
-      expect(r.tandem![i].radiusM).toBeLessThanOrEqual(radius);
+      expect(f.status).toBe('pass'); // 71.96 % ≤ 75 %
+      expect(f.value).toContain(`of 33.0 t at ${step.radiusM.toFixed(1)} m`);
       expect(f.detail).toMatch(/TANDEM LIFT/);
-      expect(f.status).toBe(((total / capT) * 100) > 75 ? 'caution' : 'pass');
-    });
-    expect(fig(r, 'assist.tandem.2').detail).toMatch(/steps stop at 20°/);
+    }
+    // the tip at 5°: foot pin 2.6 m up (demo data) + 78 sin 5° = 9.40 m
+    expect(r.tandem![1].tipHeightM).toBeCloseTo(2.6 + 78 * Math.sin((5 * Math.PI) / 180), 9);
+    expect(fig(r, 'assist.tandem.1').detail).toMatch(/steps stop at 5°/);
   });
 
-  it('with the caution share at 70 % the 0° step (72.0 %) needs care and may be overridden; standing 3 m farther out fails', () => {
-    expect(fig(run(plan((c) => (tandem(c), (c.chartCautionPercent = 70)))), 'assist.tandem.0')).toMatchObject({ status: 'caution', overridable: true });
-    // along −3 (beyond the tip), side 3: 0° radius √18 = 4.243 m again, but at 20° dx = 4.704 + 3 = 7.704 → 8.27 m → 9 m row 16.5 t: 144 %
-    const far = run(plan((c) => (tandem(c), (c.assist.tandem.alongFromTipM = -3))));
-    expect(fig(far, 'assist.tandem.2')).toMatchObject({ status: 'fail', overridable: false });
+  it('released at 20°: the tip is 16.1 m up at 10°, beyond the 11.6 m boom’s rough reach √(11.6² − 3.51²) = 11.1 m → fail, never overridable', () => {
+    const r = run(plan(tandem(20)));
+    expect(r.tandem!.map((s) => s.angleDeg)).toEqual([0, 10, 20]);
+    expect(fig(r, 'assist.tandem.0').status).toBe('pass');
+    for (const k of ['assist.tandem.1', 'assist.tandem.2']) expect(fig(r, k)).toMatchObject({ status: 'fail', overridable: false });
+    expect(fig(r, 'assist.tandem.1').value).toMatch(/out of reach: the assist crane’s 11\.6 m boom reaches about 11\.1 m up/);
+  });
+
+  it('with the caution share at 70 % the 0° step (72.0 %) needs care and may be overridden; 6 m to the side it is off its share (103 %)', () => {
+    expect(fig(run(plan((c) => (tandem(5)(c), (c.chartCautionPercent = 70)))), 'assist.tandem.0')).toMatchObject({ status: 'caution', overridable: true });
+    // along −3, side 6: √(3² + 6²) = 6.708 m → 7 m row 23.0 t: 23.748 ÷ 23.0 = 103.3 %
+    const far = run(plan((c) => (tandem(5)(c), (c.assist.tandem.alongFromTipM = -3), (c.assist.tandem.sideM = 6))));
+    expect(fig(far, 'assist.tandem.0')).toMatchObject({ status: 'fail', overridable: false });
   });
 
   it('not planned → fail, never overridable; no assist crane → the chart fails', () => {
-    const r = run(plan((c) => (tandem(c), (c.assist.tandem.releaseAngleDeg = null))));
+    const r = run(plan((c) => (tandem(5)(c), (c.assist.tandem.releaseAngleDeg = null))));
     expect(fig(r, 'assist.tandem')).toMatchObject({ status: 'fail', overridable: false, value: 'Not planned' });
-    const none = run(plan((c) => (tandem(c), (c.assist = { ...c.assist, assistCraneId: null, chartId: null, lifts: [] }))));
+    const none = run(plan((c) => (tandem(5)(c), (c.assist = { ...c.assist, assistCraneId: null, chartId: null, lifts: [] }))));
     expect(fig(none, 'assist.chart')).toMatchObject({ status: 'fail', overridable: false });
   });
 
