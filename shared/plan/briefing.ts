@@ -68,9 +68,9 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   if (cfg.siteHazards.powerLines.length === 0) hazards.push('No overhead power lines recorded. Look up before anything moves.');
   cfg.siteHazards.powerLines.forEach((line, i) => {
     const r = results.powerLines[i];
-    const required = r && r.requiredClearanceM !== null ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m` : 'to be given by the line’s owner';
+    const required = r && r.requiredClearanceM !== null ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m${r.basisWords ? ` (${r.basisWords})` : ''}` : 'to be given by the line’s owner';
     const left = r ? ` ${num(Math.floor(r.availableClearanceM * 10 + 1e-9) / 10)} m left between the line and the farthest reach of the boom, hook and load.` : '';
-    hazards.push(`Overhead line “${line.label}”, ${line.voltageKv === null ? 'voltage unknown' : `${num(line.voltageKv)} kV`}, ${num(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}`);
+    hazards.push(`Overhead line “${line.label}”, ${line.voltageKv === null ? 'voltage unknown' : `${num(line.voltageKv)} kV`}, ${num(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}${r?.assist && !r.assist.pass ? ` The assist crane’s clearance is ${r.assist.availableClearanceM === null ? 'not checked yet' : 'NOT met'}.` : ''}`);
   });
   hazards.push(`Exclusion zone: ${num(Math.ceil(results.fallZoneRadiusM * 10) / 10)} m around the slewing centre, the fall zone of the boom. Only the crew inside.`);
   hazards.push(`Buried services: ${cfg.siteHazards.buriedServices.trim() || 'none recorded; confirm with the site'}.`);
