@@ -29,6 +29,16 @@ export const LOCAL_RULES_CAUTION =
 const GEOMETRY_RULE =
   'available = distance from the slewing centre − reach; the reach counts the boom lying flat toward the line, because the boom can slew, be lowered or fall (common practice, no source for the geometry)';
 
+/** Room left, rounded down to 0.1 m: the figure never shows more room than there is (1e-9 absorbs float noise). */
+function roomWords(m: number): string {
+  return fmt(Math.floor(m * 10 + 1e-9) / 10);
+}
+
+/** A required distance, rounded up to 0.01 m. */
+function requiredWords(m: number): string {
+  return fmt(Math.ceil(m * 100 - 1e-9) / 100, 2);
+}
+
 /** One part of a crane's reach in plan, with where its length came from. */
 interface ReachPart {
   words: string;
@@ -157,7 +167,7 @@ export function computeSite(config: Configuration, inputs: PlannerInputs, figure
             key,
             'site',
             label,
-            `${fmt(check.availableM)} m available, ${fmt(min.clearanceM, 2)} m required (${min.basisShort}; ${volts})`,
+            `${roomWords(check.availableM)} m available, ${requiredWords(min.clearanceM)} m required (${min.basisShort}; ${volts})`,
             result.pass ? 'pass' : 'fail',
             false,
             rule,
@@ -204,7 +214,7 @@ function assistFigure(
       key,
       'site',
       label,
-      `${fmt(check.availableM)} m available, ${fmt(requiredM, 2)} m required (${basisShort})`,
+      `${roomWords(check.availableM)} m available, ${requiredWords(requiredM)} m required (${basisShort})`,
       check.pass ? 'pass' : 'fail',
       false,
       rule,

@@ -55,6 +55,12 @@ describe('power lines: the main crane', () => {
     expect(f.overridable).toBe(false);
   });
 
+  it('the room left is rounded down and the distance required rounded up: 6.06 m left reads 6.0 m against 6.10 m (20 ft = 6.096 m), never 6.1 against 6.10', () => {
+    // 48.46 − 42.4 = 6.06 m
+    const f = fig(run(plan({ assist: false, line: { distanceM: 48.46 } })), 'powerLine.0');
+    expect(f).toMatchObject({ status: 'fail', value: '6.0 m available, 6.10 m required (20 ft default, up to 350 kV; 11 kV)' });
+  });
+
   it('the crane data without the boom foot or the auxiliary sheave: a stated allowance, shown as not included, never zero', () => {
     const bare = { ...crane, machine: { ...crane.machine, boomFoot: null }, auxSheave: null };
     const r = run(plan({ assist: false, aux: true }), bare);
