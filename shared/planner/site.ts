@@ -34,7 +34,7 @@ function roomWords(m: number): string {
   return fmt(Math.floor(m * 10 + 1e-9) / 10);
 }
 
-/** A required distance, rounded up to 0.01 m. */
+/** A required distance, rounded up to 0.01 m (the fall zone and the reach are rounded up to 0.1 m as well). */
 function requiredWords(m: number): string {
   return fmt(Math.ceil(m * 100 - 1e-9) / 100, 2);
 }
@@ -109,13 +109,13 @@ export function computeSite(config: Configuration, inputs: PlannerInputs, figure
   const fallZone = guarded(figures, 'site.fallZone', 'site', 'Fall zone radius', 0, () => {
     const r = fallZoneRadiusM({ boomFootAheadM: footAheadM, boomLengthM: config.boomLengthM, tipExtensionM, marginM: config.fallZoneMarginM });
     const words = sumReach([...boom, { words: 'margin (setting)', lengthM: config.fallZoneMarginM }]).words;
-    figures.push(figure('site.fallZone', 'site', 'Fall zone radius', `${fmt(r.radiusM)} m`, 'info', false, r.rule, `${words}, measured from the slewing centre`));
+    figures.push(figure('site.fallZone', 'site', 'Fall zone radius', `${fmt(Math.ceil(r.radiusM * 10 - 1e-9) / 10)} m`, 'info', false, r.rule, `${words}, measured from the slewing centre`));
     return r.radiusM;
   });
 
   const reach = sumReach([...boom, ...loadParts(config)]);
   if (config.siteHazards.powerLines.length > 0) {
-    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${fmt(reach.reachM)} m from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
+    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${fmt(Math.ceil(reach.reachM * 10 - 1e-9) / 10)} m from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
   }
   const assist = assistBoom(config, inputs);
   const assistReach =
