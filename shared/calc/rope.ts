@@ -59,6 +59,8 @@ export const DESIGN_FACTOR_MINIMUMS: Readonly<Record<RopeDuty, number>> = {
 export const DESIGN_FACTOR_SOURCE =
   'ASME B30.5 §5-1.7.1 (same wording ASME B30.22-2000 §22-1.5.1: running 3.5, standing 3.0, rotation-resistant 5); 29 CFR 1926.1414(e)(2)(iii)–(iv): rotation-resistant rope not less than 5 (the exceptions of (e)(3) are not applied)';
 
+const DUTY_WORDS: Readonly<Record<RopeDuty, string>> = { running: 'running', standing: 'standing', rotationResistant: 'rotation-resistant' };
+
 /** Design factor = minimum breaking force ÷ line pull. */
 export function designFactor(input: { minimumBreakingForceKn: number; linePullKn: number }): {
   designFactor: number;
@@ -86,7 +88,7 @@ export function designFactorCheck(input: { minimumBreakingForceKn: number; lineP
     designFactor: df,
     minimumDesignFactor: minimum,
     pass: df >= minimum,
-    rule: `design factor ≥ ${minimum} for ${input.duty} rope (${DESIGN_FACTOR_SOURCE})`,
+    rule: `design factor ≥ ${minimum} for ${DUTY_WORDS[input.duty]} rope (${DESIGN_FACTOR_SOURCE})`,
   };
 }
 
@@ -105,6 +107,15 @@ export const D_OVER_D_MINIMUMS: Readonly<Record<BendingElement, number>> = {
 /** Where the D/d minimums are published. */
 export const D_OVER_D_SOURCE =
   'ASME B30.5 §5-1.7.4: (a) boom hoisting sheaves 15d, (b) load hoisting sheaves 18d (every sheave the hoist rope runs over: tip, guide and idler sheaves), (c) lower load block sheaves 16d; ASME B30.5-2018 §5-1.3.1(a)(3): load hoist drum first layer 18d (wording as published; paragraph numbers from memory); boom hoist drum 15d (ASME B30.5 §5-1.3.2, from memory)';
+
+/** Each element in words, with the paragraph that sets its minimum. */
+const D_OVER_D_BASIS: Readonly<Record<BendingElement, { words: string; source: string }>> = {
+  drum: { words: 'a load hoist drum', source: 'ASME B30.5-2018 §5-1.3.1(a)(3), first layer; wording as published, paragraph number from memory' },
+  boomHoistDrum: { words: 'a boom hoist drum', source: 'ASME B30.5 §5-1.3.2, from memory' },
+  loadSheave: { words: 'a load hoisting sheave (every tip, guide or idler sheave the hoist rope runs over)', source: 'ASME B30.5 §5-1.7.4(b); wording as published, paragraph letter from memory' },
+  boomHoistSheave: { words: 'a boom hoisting sheave', source: 'ASME B30.5 §5-1.7.4(a); wording as published, paragraph letter from memory' },
+  lowerBlockSheave: { words: 'a lower load block sheave', source: 'ASME B30.5 §5-1.7.4(c); wording as published, paragraph letter from memory' },
+};
 
 /** D/d of a drum or sheave against the published minimum. */
 export function dOverDCheck(input: { pitchDiameterMm: number; ropeDiameterMm: number; element: BendingElement }): {
@@ -126,7 +137,7 @@ export function dOverDCheck(input: { pitchDiameterMm: number; ropeDiameterMm: nu
     minimumRatio: minimum,
     minimumPitchDiameterMm: finiteResult('ropeDiameterMm', minimum * d),
     pass: ratio >= minimum,
-    rule: `D/d ≥ ${minimum} for ${input.element} (${D_OVER_D_SOURCE})`,
+    rule: `D/d ≥ ${minimum} for ${D_OVER_D_BASIS[input.element].words} (${D_OVER_D_BASIS[input.element].source})`,
   };
 }
 
