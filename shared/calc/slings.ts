@@ -8,7 +8,7 @@ export const MINIMUM_SLING_ANGLE_DEG = 30;
 
 /** Where the minimum sling angle is published. */
 export const MINIMUM_SLING_ANGLE_SOURCE =
-  'ASME B30.9: no sling angle under 30° from horizontal (paraphrased from memory; the same 30° floor is printed in sling makers\' angle charts)';
+  'ASME B30.9: no sling angle under 30° from horizontal (from memory)';
 
 function checkAngle(field: string, angleDeg: number): number {
   // Below 30° the tension factor climbs steeply (2.0 at 30°), so the standard refuses it outright.

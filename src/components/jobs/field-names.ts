@@ -26,7 +26,7 @@ const names: Record<string, string> = {
   'assist.pads.weightKg': 'Assist crane: pad weight',
   'assist.tandem.alongFromTipM': 'Tandem raise: in from the tip',
   'assist.tandem.sideM': 'Tandem raise: to the side',
-  'assist.tandem.releaseAngleDeg': 'Tandem raise: angle the main crane takes the boom alone',
+  'assist.tandem.releaseAngleDeg': 'Tandem raise: release angle',
   'assist.tandem.hookBlockT': 'Tandem raise: its hook block',
   'assist.tandem.slingsT': 'Tandem raise: slings',
   'assist.tandem.shacklesT': 'Tandem raise: shackles',
