@@ -6,6 +6,7 @@ import { CalcInputError } from '../../shared/calc';
 import type { z } from 'zod';
 import { computeConfiguration } from '../../shared/planner';
 import { configurationSchema } from '../../shared/schemas/configuration';
+import type { InventoryItem } from '../../shared/schemas/arrangement';
 import { allNumbers, demoAssistCrane, demoCrane } from './helpers';
 
 const FC = { numRuns: 200, seed: 424242 };
@@ -514,6 +515,14 @@ function withValue(value: unknown, path: (string | number)[], to: number): unkno
   return copy;
 }
 
+/** Every part the crane data names, serviceable and plenty of each, so every listed length can be built and every figure computed. */
+const plentyOfParts: InventoryItem[] = [
+  ...crane.sectionTypes.map((t) => ['section', t.id] as const),
+  ...[...new Set(crane.arrangements.flatMap((a) => a.guyLines.map((g) => g.mark)))].map((m) => ['guy_line', m] as const),
+  ...crane.hookBlocks.map((h) => ['hook_block', h.id] as const),
+  ...crane.ropes.map((r) => ['rope', r.id] as const),
+].flatMap(([kind, typeId]) => Array.from({ length: 40 }, (_, n) => ({ serial: `P-${typeId}-${n}`, kind, typeId, status: 'serviceable' as const })));
+
 describe('the configuration schema: plausible ranges, and nothing it accepts prints Infinity or NaN', () => {
   const sample = fullSample(configurationSchema, []);
 
@@ -548,19 +557,23 @@ describe('the configuration schema: plausible ranges, and nothing it accepts pri
   });
 
   it('for any configuration the schema accepts, every figure is computed without Infinity or NaN in its value, rule or detail', () => {
+    let builtLengths = 0;
     const anyValid = arbitraryOf(configurationSchema, [])
       .map((raw) => configurationSchema.safeParse(raw))
       .filter((r) => r.success)
       .map((r) => r.data!);
     fc.assert(
       fc.property(anyValid, fc.boolean(), (config, withAssistData) => {
-        const r = computeConfiguration(config, { arrangement: crane, inventory: [], assistCrane: withAssistData ? assistCrane : null });
+        const r = computeConfiguration(config, { arrangement: crane, inventory: plentyOfParts, assistCrane: withAssistData ? assistCrane : null });
         for (const f of r.figures) {
           for (const text of [f.value, f.rule, f.detail ?? '']) expect(text).not.toMatch(/Infinity|NaN/);
         }
         for (const n of allNumbers(r)) expect(Number.isFinite(n)).toBe(true);
+        if (crane.arrangements.some((a) => a.boomLengthM === config.boomLengthM)) builtLengths += 1;
       }),
       { numRuns: 300, seed: 20261203 },
     );
+    // Most runs use a listed length, so the boom, rope, ground and chart figures are really computed.
+    expect(builtLengths).toBeGreaterThan(100);
   });
 });
