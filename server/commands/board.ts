@@ -272,7 +272,11 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       throw refuse(
         409,
         'out_of_limit',
-        `“${hold.title}” cannot be released: ${blocking.map((b) => `“${b.text}” (${b.stageTitle}): ${b.outOfLimit.reason}`).join(' ')} Reopen the step and redo it within the limit, or revise the plan.`,
+        `“${hold.title}” cannot be released: ${blocking.map((b) => `“${b.text}” (${b.stageTitle}): ${b.outOfLimit.reason}`).join(' ')} ${
+          blocking.every((b) => b.stageId === stage.id)
+            ? 'Reopen the step and redo it within the limit, or revise the plan.'
+            : 'Redo the step within the limit (reopen it while its stage is open; once its stage is finished, revise the plan so the step is done again).'
+        }`,
         blocking.map((b) => ({ path: `steps.${b.stepId}`, message: b.outOfLimit.reason })),
       );
     }

@@ -186,7 +186,7 @@ describe('board rules', () => {
       expect(outOfLimitSteps(board)).toEqual([]);
     });
 
-    it('an out-of-limit reading in an earlier stage without a mandatory hold blocks the next mandatory hold that depends on it', async () => {
+    it('an out-of-limit reading in an earlier stage without a mandatory hold blocks the next mandatory hold that depends on it', { timeout: 60_000 }, async () => {
       const jobId = await liveJob((plan) => {
         stageOf(plan, 'er-upper').steps.push(step('er-upper.test-slope', { records: reading({ kind: 'max', limit: 1, source: 'crane data: ground slope for raising' }, '%') }));
       });
@@ -204,6 +204,29 @@ describe('board rules', () => {
           const refused = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: holding.hold.id });
           expect(refused.body.error?.code).toBe('out_of_limit');
           expect(refused.body.error?.message).toContain('2.5 % was recorded; the limit is at most 1 %.');
+          expect(refused.body.error?.message).toContain('revise the plan so the step is done again');
+
+          // The supervisor revises the plan: the slope is measured again. The finished stage opens for
+          // that step, the blocked stage waits for it again, and the redone reading settles it.
+          const plan = (await request(server.app).get(`/api/jobs/${jobId}/plan`).set(auth(crew.supervisor)).expect(200)).body.plan as Plan;
+          stageOf(plan, 'er-upper').steps.find((s) => s.id === 'er-upper.test-slope')!.text = 'Measure the slope under the tracks again after the packing.';
+          expect((await httpCommand(server, crew.supervisor, jobId, { type: 'plan.revise', plan, reason: 'Slope over the limit: pack and measure again' })).status).toBe(200);
+          const revised = await boardOf(server, crew.supervisor, jobId);
+          expect(revised.stages.find((s) => s.id === 'er-upper')?.state).toBe('active');
+          expect(revised.stages.find((s) => s.id === holding.id)?.state).toBe('locked');
+          expect(outOfLimitSteps(revised)).toEqual([]);
+          expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-upper.test-slope', value: '0.8' })).status).toBe(200);
+          await briefEveryone(server, crew, jobId);
+          await acknowledgeAndRelease(server, crew, jobId, 'er-upper');
+          for (let g = 0; g < 20; g++) {
+            const now = await boardOf(server, crew.supervisor, jobId);
+            if (now.stages.find((s) => s.id === holding.id)?.state === 'holding') break;
+            const next = now.stages.find((s) => s.state === 'active' || s.state === 'holding')!;
+            if (next.state === 'active') await completeSteps(server, crew, jobId, next.id);
+            else await acknowledgeAndRelease(server, crew, jobId, next.id);
+          }
+          await acknowledgeAndRelease(server, crew, jobId, holding.id);
+          expect((await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === holding.id)?.state).toBe('done');
           return;
         }
         if (holding) await acknowledgeAndRelease(server, crew, jobId, holding.id);
@@ -232,7 +255,7 @@ describe('board rules', () => {
   });
 
   describe('wind: one rule for the panel, the steps and the holds', () => {
-    it('a gust typed into a wind step over the raising limit is out of limit, shows on the panel’s verdict and blocks the pre-raise hold', async () => {
+    it('a gust typed into a wind step over the raising limit is out of limit, shows on the panel’s verdict and blocks the pre-raise hold', { timeout: 60_000 }, async () => {
       const jobId = await liveJob((plan) => {
         stageOf(plan, 'er-preraise').steps.push(step('er-preraise.test-gust', { text: 'Read the gust at the boom tip.', allowedRoles: ['operator'], records: reading({ kind: 'wind', phase: 'raising' }, 'm/s') }));
       });
@@ -250,7 +273,7 @@ describe('board rules', () => {
       expect(refused.body.error?.message).toContain('Gust 14 m/s is over the raising limit of 13 m/s.');
     });
 
-    it('the pre-raise hold and the raise refuse an old reading; an over-limit reading stops the job and the resume', async () => {
+    it('the pre-raise hold and the raise refuse an old reading; an over-limit reading stops the job and the resume', { timeout: 60_000 }, async () => {
       const jobId = await liveJob();
       await advanceUntilActive(server, crew, jobId, 'er-preraise');
       await completeSteps(server, crew, jobId, 'er-preraise');
@@ -308,7 +331,7 @@ describe('board rules', () => {
   });
 
   describe('the blind configuration check', () => {
-    it('a failed check names no field to the person checking, records who/when/which fields for the supervisor, makes them read again, and locks after three', async () => {
+    it('a failed check names no field to the person checking, records who/when/which fields for the supervisor, makes them read again, and locks after three', { timeout: 60_000 }, async () => {
       const jobId = await liveJob();
       await advanceUntilActive(server, crew, jobId, 'er-config');
       await completeSteps(server, crew, jobId, 'er-config');
