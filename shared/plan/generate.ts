@@ -137,7 +137,7 @@ class StageDraft {
    * step left out for this configuration) is dropped.
    */
   add(suffix: string, w: StepWording, vars: Vars = {}, extra: StepExtra = {}): this {
-    const wanted = [...(w.after ?? []), ...(extra.after ?? [])].map((s) => `${this.id}.${s}`);
+    const wanted = [...(w.after ?? []), ...(extra.after ?? []), ...(w.moves ? ['radio-check'] : [])].map((s) => `${this.id}.${s}`);
     const present = new Set(this.steps.map((s) => s.id));
     const after = [...new Set(wanted)].filter((id) => present.has(id));
     this.steps.push(makeStep(this.ctx, `${this.id}.${suffix}`, w, { ...this.vars, ...vars }, extra, after));

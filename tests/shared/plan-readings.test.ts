@@ -122,6 +122,14 @@ describe('required steps and in-stage order', () => {
     for (const id of ['dm-support-3.blocking', 'dm-joint-3.pins', 'dm-lower.land-hook', 'dm-lower.ground', 'dm-slacken.lock', 'dm-lower.tip-support']) expect(step(dm, id).required, id).toBe(true);
   });
 
+  it('no crane movement before the stage’s radio check has a clear answer', () => {
+    const moving = ['er-upper.mast', 'er-upper.cw-CW1', 'er-joints.foot', 'er-joints.joint-3', 'er-tension.draw', 'er-reeve.pay-out', 'er-aux.line', 'er-raise.lift-off', 'er-assist-lifts.lift-1'];
+    for (const id of moving) expect(mustComeAfter(er, id, `${id.split('.')[0]}.radio-check`), id).toBe(true);
+    for (const id of ['dm-lower.land-hook', 'dm-lower.lower', 'dm-slacken.pay-out', 'dm-mast.lower', 'dm-joint-2.set-down', 'dm-support-2.support']) expect(mustComeAfter(dm, id, `${id.split('.')[0]}.radio-check`), id).toBe(true);
+    // Checks that move nothing are not held up by it.
+    expect(mustComeAfter(er, 'er-tension.clear', 'er-tension.radio-check')).toBe(false);
+  });
+
   it('the hand-over only after the thorough examination is recorded and the record checked', () => {
     expect(mustComeAfter(er, 'er-handover.handover', 'er-handover.examination')).toBe(true);
     expect(mustComeAfter(er, 'er-handover.handover', 'er-handover.record')).toBe(true);
@@ -155,9 +163,10 @@ describe('required steps and in-stage order', () => {
   it('each assist lift is checked just before it is made, in the planned order', () => {
     const lifts = stage(er, 'er-assist-lifts');
     expect(lifts.steps.map((s) => s.id)).toEqual(['er-assist-lifts.radio-check', 'er-assist-lifts.check-1', 'er-assist-lifts.lift-1', 'er-assist-lifts.check-2', 'er-assist-lifts.lift-2']);
-    expect(step(er, 'er-assist-lifts.lift-1').after).toEqual(['er-assist-lifts.check-1']);
+    // Each lift after its own check (and the stage's radio check); each check after the lift before.
+    expect(step(er, 'er-assist-lifts.lift-1').after).toEqual(['er-assist-lifts.check-1', 'er-assist-lifts.radio-check']);
     expect(step(er, 'er-assist-lifts.check-2').after).toEqual(['er-assist-lifts.lift-1']);
-    expect(step(er, 'er-assist-lifts.lift-2').after).toEqual(['er-assist-lifts.check-2']);
+    expect(step(er, 'er-assist-lifts.lift-2').after).toEqual(['er-assist-lifts.check-2', 'er-assist-lifts.radio-check']);
   });
 
   it('in taking down: ground, blocking and a fresh wind reading before the boom comes down, the hook block landed on the way', () => {

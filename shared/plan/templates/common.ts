@@ -145,6 +145,7 @@ export const assistLiftsStage = {
     lift: {
       text: 'Lift {n}: {label}, on the signaller’s signal only.',
       roles: ['signaller', 'rigger'],
+      moves: true,
     },
   },
   hold: null,

@@ -79,12 +79,14 @@ export const dismantlingStages = {
       landHook: {
         text: 'On signal, start lowering the boom slowly and, as it comes down, land hook block {hookBlockId} on timber ahead of the tip, paying out the hoist so the block is never dragged nor drawn up to the tip.',
         roles: ['operator', 'signaller', 'rigger'],
+        moves: true,
         required: true,
         after: ['ground', 'blocking', 'wind', 'tip-support'],
       },
       lower: {
         text: 'On signal, lower the boom the rest of the way, slowly, until it rests on the blocking at every point.',
         roles: ['operator', 'signaller'],
+        moves: true,
         after: ['land-hook'],
       },
     },
@@ -107,11 +109,13 @@ export const dismantlingStages = {
       unreeve: {
         text: 'Release the wedge socket at the dead end and wind the main hoist rope back onto its drum through the block and the tip sheaves.',
         roles: ['rigger', 'operator'],
+        moves: true,
         after: ['block'],
       },
       aux: {
         text: 'Set {hookBlockId} down, release the auxiliary wedge socket and wind the auxiliary line back onto its drum.',
         roles: ['rigger', 'operator'],
+        moves: true,
       },
       stow: { text: 'Stow the hook block and secure the rope ends on the drums.', roles: ['rigger'], after: ['unreeve', 'aux'] },
     },
@@ -145,7 +149,7 @@ export const dismantlingStages = {
     involvesCraneMovement: true,
     steps: {
       clear: { text: 'Check nobody is on the boom or between the guy lines.', roles: ['rigger', 'signaller'], required: true },
-      payOut: { text: 'On signal, pay out the boom hoist until every guy line hangs slack.', roles: ['operator', 'signaller'], after: ['clear'] },
+      payOut: { text: 'On signal, pay out the boom hoist until every guy line hangs slack.', roles: ['operator', 'signaller'], after: ['clear'], moves: true },
       // As after tensioning: a live boom hoist could draw the lines taut again under a rigger's hands.
       lock: {
         text: 'Boom hoist stopped: set its pawl or brake as the manual says and lock the control before anyone goes along the boom.',
@@ -208,6 +212,7 @@ export const dismantlingStages = {
       lower: {
         text: 'On signal, lower the mast with the boom hoist onto its rest and secure it as the manual says.',
         roles: ['operator', 'signaller'],
+        moves: true,
         after: ['clear'],
       },
     },
@@ -236,6 +241,7 @@ export const dismantlingStages = {
       support: {
         text: 'Section {position} ({typeId}, {weightT} t) supported: on its blocking, and where the assist crane carries it, hooked on with soft slings and the weight taken on signal.',
         roles: ['rigger', 'signaller'],
+        moves: true,
         after: ['blocking'],
       },
       clear: { text: 'Check nobody is inside or under the boom.', roles: ['signaller', 'supervisor'], required: true },
@@ -266,7 +272,7 @@ export const dismantlingStages = {
         record: { kind: 'reading', label: 'Pins drawn', unit: null, check: 'plan' },
         required: true,
       },
-      setDown: { text: 'On signal, lift section {position} clear and set it down on timber.', roles: ['signaller', 'rigger'], after: ['pins'] },
+      setDown: { text: 'On signal, lift section {position} clear and set it down on timber.', roles: ['signaller', 'rigger'], after: ['pins'], moves: true },
       serial: {
         text: 'Record the serial of the section taken off (planned: {plannedSerial}).',
         roles: ['rigger', 'supervisor'],
@@ -303,6 +309,7 @@ export const dismantlingStages = {
       block: {
         text: 'Take off counterweight block {blockId} ({weightT} t), {n} of {count}. Left on the crane after this block: {remainingT} t.',
         roles: ['rigger', 'operator'],
+        moves: true,
         after: ['confirm'],
       },
     },

@@ -73,6 +73,7 @@ export const erectionStages = {
       mast: {
         text: 'Raise the mast to its working position on the signaller’s signal and pin it as the manual says{mastWeight}. A keeper in every pin.',
         roles: ['operator', 'rigger'],
+        moves: true,
         after: ['gauge'],
       },
       // Blocks go on in the arrangement data's fitting order only, each after the one before: the
@@ -80,6 +81,7 @@ export const erectionStages = {
       block: {
         text: 'Fit counterweight block {blockId} ({weightT} t), {n} of {count} in the crane data’s fitting order. On the crane after this block: {cumulativeT} t of the {raisingT} t the crane data asks for to raise a {boomLengthM} m boom.',
         roles: ['rigger', 'operator'],
+        moves: true,
         after: ['mast'],
       },
       cwCount: {
@@ -190,6 +192,7 @@ export const erectionStages = {
       foot: {
         text: 'Boom foot: on the signaller’s signal, lift the base section ({typeId}) into the boom foot on the upper works and fit the foot pins: {pins}. A keeper in every pin. Record the pins fitted; photo of the pins and keepers.',
         roles: ['rigger', 'supervisor'],
+        moves: true,
         photo: true,
         caution: 'The base stays hooked on until every foot pin and keeper is in. Nobody under the base section.',
         record: { kind: 'reading', label: 'Foot pins fitted, each with its keeper', unit: null, check: 'plan' },
@@ -210,6 +213,7 @@ export const erectionStages = {
       joint: {
         text: 'Joint {n}, {below} to {above}: {pins}. Top pins in from the outside first. Then, on the signaller’s signal, lift only until the lower holes line up, stop, and fit the lower pins. A keeper in every pin. Record the pins fitted; photo of the pins and keepers.',
         roles: ['rigger', 'supervisor'],
+        moves: true,
         photo: true,
         caution: 'The assist crane stays hooked on until every pin and keeper of this joint is in. Nobody under or inside the section.',
         record: { kind: 'reading', label: 'Pins fitted, each with its keeper', unit: null, check: 'plan' },
@@ -298,6 +302,7 @@ export const erectionStages = {
       auxSheave: {
         text: 'Fit the auxiliary sheave at the tip, its pins in from the outside and a keeper in each. Photo of the pins and keepers.',
         roles: ['rigger'],
+        moves: true,
         photo: true,
       },
     },
@@ -326,6 +331,7 @@ export const erectionStages = {
       draw: {
         text: 'On signal, wind the boom hoist in slowly until the guy lines are taut; stop while the tip still rests on the ground.',
         roles: ['operator'],
+        moves: true,
         after: ['clear', 'signaller'],
       },
       // A boom hoist left live can be moved by a touch and snatch the lines while people are beside
@@ -369,6 +375,7 @@ export const erectionStages = {
       payOut: {
         text: 'Pay the rope out through the idler and tip sheaves and the block, in the planned order for {parts} parts of line.',
         roles: ['rigger', 'operator'],
+        moves: true,
         after: ['block'],
       },
       count: {
@@ -407,6 +414,7 @@ export const erectionStages = {
       line: {
         text: 'Run a single line from the auxiliary drum through the auxiliary sheave to {hookBlockId}.',
         roles: ['rigger', 'operator'],
+        moves: true,
       },
       limit: {
         text: 'Fit and connect the auxiliary over-hoist switch and its weight.',
@@ -549,6 +557,7 @@ export const erectionStages = {
       liftOff: {
         text: 'On signal, raise the boom slowly until the tip just leaves the ground, and stop.',
         roles: ['operator', 'signaller'],
+        moves: true,
       },
       // The first moments off the ground load the pins, lines, brake and ground fully for the first
       // time: stop there, where the boom can still be set back down, and look (common practice, no source).
@@ -558,7 +567,7 @@ export const erectionStages = {
         required: true,
         after: ['lift-off'],
       },
-      raise: { text: 'On signal, raise the boom the rest of the way, slowly, to working angle.', roles: ['operator', 'signaller'], after: ['stop-check'] },
+      raise: { text: 'On signal, raise the boom the rest of the way, slowly, to working angle.', roles: ['operator', 'signaller'], after: ['stop-check'], moves: true },
       overHoist: { text: 'Test the main over-hoist limit: it must stop the hook before the block reaches the tip.', roles: ['operator'], after: ['raise'] },
       auxOverHoist: { text: 'Test the auxiliary over-hoist limit the same way.', roles: ['operator'], after: ['raise'] },
       boomLimits: { text: 'Test the boom angle limits, up and down.', roles: ['operator'], after: ['raise'] },

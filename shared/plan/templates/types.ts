@@ -38,6 +38,11 @@ export interface StepWording {
    * stage does not have in this configuration (an optional step) is left out.
    */
   after?: readonly string[];
+  /**
+   * The crane or the assist crane moves in this step: in a stage that opens with the radio check,
+   * it comes after that check ("no movement without a clear answer").
+   */
+  moves?: boolean;
 }
 
 /** A hold point's wording. */
