@@ -325,6 +325,20 @@ function footprintRects(f: TrackFootprint): Pt[][] {
   ]);
 }
 
+/** The footprint's rectangles, corners and full-contact moment matrix; kept for the few footprints in use (the sweep asks 37 times). */
+const geometryCache = new Map<string, { rects: Pt[][]; corners: Pt[]; full: { m: number[][]; area: number } }>();
+function footprintGeometry(f: TrackFootprint): { rects: Pt[][]; corners: Pt[]; full: { m: number[][]; area: number } } {
+  const key = `${f.trackLengthM}|${f.shoeWidthM}|${f.gaugeM}`;
+  let g = geometryCache.get(key);
+  if (!g) {
+    const rects = footprintRects(f);
+    g = { rects, corners: rects.flat(), full: contactMatrix(rects, null) };
+    if (geometryCache.size > 32) geometryCache.clear();
+    geometryCache.set(key, g);
+  }
+  return g;
+}
+
 function checkFootprint(f: TrackFootprint): void {
   requirePositive('trackLengthM', f.trackLengthM);
   requirePositive('shoeWidthM', f.shoeWidthM);
@@ -358,21 +372,17 @@ export function rigidPlanePressure(input: TrackFootprint & { verticalLoadKn: num
   if (Math.abs(ey) >= hw * (1 - 1e-9)) {
     throw new CalcInputError('eccentricityM', `the resultant is ${Math.abs(ey).toFixed(2)} m across the tracks, at or past their outer edge (${hw} m): the load overturns the crane`);
   }
-  const rects = footprintRects(input);
+  const { rects, corners, full } = footprintGeometry(input);
   const t: Vec3 = [v, mx, my];
-  const full = contactMatrix(rects, null);
   let p = solve3(full.m, t);
   if (!p) throw new CalcInputError('gaugeM', 'the track footprint has no area to bear on');
-  const corners = rects.flat();
   const qAt = (pp: Vec3, c: Pt) => pp[0] + pp[1] * c[0] + pp[2] * c[1];
-  const psi = (pp: Vec3) => {
-    const { m } = contactMatrix(rects, pp);
-    return 0.5 * dot3(pp, mul3(m, pp)) - dot3(pp, t);
-  };
+  // Ψ(p) = ½∫(q⁺)² − p·t = ½ pᵀ J(p) p − p·t, with J the moment matrix of the contact area.
+  const psiOf = (pp: Vec3, m: number[][]) => 0.5 * dot3(pp, mul3(m, pp)) - dot3(pp, t);
   let iterations = 0;
   if (Math.min(...corners.map((c) => qAt(p!, c))) < 0) {
+    let m = contactMatrix(rects, p).m;
     for (; iterations < 200; iterations += 1) {
-      const { m } = contactMatrix(rects, p);
       const residual = mul3(m, p).map((r, i) => r - t[i]);
       const scale = [v, v * hl, v * hw];
       if (Math.max(...residual.map((r, i) => Math.abs(r) / scale[i])) < 1e-12) break;
@@ -380,14 +390,18 @@ export function rigidPlanePressure(input: TrackFootprint & { verticalLoadKn: num
       if (!target) throw new CalcInputError('eccentricityM', 'the contact area shrank to nothing: the load overturns the crane');
       const d: Vec3 = [target[0] - p[0], target[1] - p[1], target[2] - p[2]];
       const slope = dot3(residual, d);
-      const f0 = psi(p);
+      const f0 = psiOf(p, m);
+      // Newton step, halved until Ψ falls enough (Armijo); the contact matrix found is kept for the next step.
       let s = 1;
       let next: Vec3 = [p[0] + d[0], p[1] + d[1], p[2] + d[2]];
-      while (s > 1e-6 && psi(next) > f0 + 1e-4 * s * slope + 1e-12 * Math.abs(f0)) {
+      let mNext = contactMatrix(rects, next).m;
+      while (s > 1e-6 && psiOf(next, mNext) > f0 + 1e-4 * s * slope + 1e-12 * Math.abs(f0)) {
         s /= 2;
         next = [p[0] + s * d[0], p[1] + s * d[1], p[2] + s * d[2]];
+        mNext = contactMatrix(rects, next).m;
       }
       p = next;
+      m = mNext;
     }
   }
   const { area } = contactMatrix(rects, p);
@@ -529,7 +543,19 @@ export function slewPressureSweep(
   const sorted = [...angles].sort((a, b) => a - b);
   const points: SlewPoint[] = [];
   const blocks = new Map<number, TrackPressureResult>();
+  const byAngle = new Map<number, SlewPoint>();
   for (const angleDeg of sorted) {
+    // The two tracks are a mirror image of each other about the track axis, so the pressure at
+    // 360° − θ is the pressure at θ with the sides swapped: computed once. Front and rear (θ and
+    // 180° − θ) are both computed, so a machine that is not symmetric front to back is still covered.
+    const mirror = byAngle.get(Math.round((360 - angleDeg) * 1e6) / 1e6);
+    if (angleDeg > 180 && mirror) {
+      const point = { ...mirror, angleDeg };
+      points.push(point);
+      byAngle.set(angleDeg, point);
+      blocks.set(angleDeg, blocks.get(mirror.angleDeg)!);
+      continue;
+    }
     const rad = (angleDeg * Math.PI) / 180;
     // Exact zeros at the quarter turns, so "over the end" has no stray sideways moment.
     const cos = angleDeg % 180 === 90 ? 0 : Math.cos(rad);
@@ -556,7 +582,9 @@ export function slewPressureSweep(
         };
       }
     }
-    points.push({ angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip });
+    const point: SlewPoint = { angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip };
+    points.push(point);
+    byAngle.set(angleDeg, point);
     blocks.set(angleDeg, pt.track);
   }
   let worst = points[0];

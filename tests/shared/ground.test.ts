@@ -227,6 +227,18 @@ describe('perTrackPressure and slewPressureSweep', () => {
     for (const p of s.points) expect(p.pressureKpa).toBe(Math.max(p.perTrackKpa, p.rigidPlaneKpa ?? 0));
   });
 
+  it('the far half of the turn (mirrored from the near half) matches a direct computation at those angles', () => {
+    const s = slewPressureSweep({ ...demoTracks, verticalLoadKn: v, momentKnm: m });
+    for (const deg of [185, 240, 270, 335, 355]) {
+      const rad = (deg * Math.PI) / 180;
+      const direct = rigidPlanePressure({ ...demoTracks, verticalLoadKn: v, momentAlongKnm: m * Math.cos(rad), momentAcrossKnm: m * Math.sin(rad) });
+      const perTrack = perTrackPressure({ ...demoTracks, verticalLoadKn: v, momentAlongKnm: m * Math.cos(rad), momentAcrossKnm: m * Math.sin(rad) });
+      const point = s.points.find((p) => p.angleDeg === deg)!;
+      expect(point.rigidPlaneKpa).toBeCloseTo(direct.maxPressureKpa, 6);
+      expect(point.perTrackKpa).toBeCloseTo(perTrack.track.maxPressureKpa, 6);
+    }
+  });
+
   it('a sideways resultant past the track centre overturns at the side angles and is refused', () => {
     // M ÷ V = 3.6 m: inside the tracks over the end (4.6 m) but beyond half the 7 m gauge over the side.
     expectCalcError(() => slewPressureSweep({ ...demoTracks, verticalLoadKn: 1000, momentKnm: 3600 }), 'eccentricityM');
