@@ -40,6 +40,15 @@ export const ROPE_RUN_ASSUMED_WHEN_MISSING = {
   auxReachBeyondTipM: 20,
 } as const;
 
+/**
+ * A "Not included" figure for a value the crane data does not give, once per key: the safe-side
+ * value taken is in the figure, and what to add to the crane data in its detail.
+ */
+function notIncluded(figures: Figure[], key: string, label: string, value: string, detail: string): void {
+  if (figures.some((f) => f.key === key)) return;
+  figures.push(figure(key, 'rope', `Not included: ${label}`, value, 'info', false, 'a value missing from the crane data is never taken as zero or as the favourable case: the safe-side value is named and used', detail));
+}
+
 function efficiencyOf(bearing: Bearing | null): number {
   // An unknown bearing is taken as plain: the lower efficiency, the higher pull.
   return bearing === 'rolling' ? SHEAVE_EFFICIENCY_PRESETS.rollingBearing.efficiency : SHEAVE_EFFICIENCY_PRESETS.plainBearing.efficiency;
@@ -72,11 +81,20 @@ interface HoistPath {
   words: string;
 }
 
-function hoistPath(arrangement: ArrangementData, hoist: Hoist, block: HookBlock | null): HoistPath {
+function hoistPath(arrangement: ArrangementData, hoist: Hoist, block: HookBlock | null, figures: Figure[]): HoistPath {
   const path = onPath(arrangement, hoist);
   const notes: string[] = [];
   const unknown = path.filter((s) => (s.hoists ?? null) === null);
-  if (unknown.length > 0) notes.push(`the data does not say which rope runs over ${unknown.map((s) => s.id).join(', ')}: counted in this hoist’s path (more friction)`);
+  if (unknown.length > 0) {
+    notes.push(`the data does not say which rope runs over ${unknown.map((s) => s.id).join(', ')}: counted in this hoist’s path (more friction)`);
+    notIncluded(
+      figures,
+      'rope.notIncluded.sheavePath',
+      'which rope runs over each sheave',
+      `Not in the crane data for ${unknown.map((s) => s.id).join(', ')}: counted in every hoist’s path`,
+      'Each load or idler sheave whose rope is not named adds its friction to the main and the auxiliary hoist, the higher line pull. Add each sheave’s hoists to the crane data from the manufacturer’s manual.',
+    );
+  }
   const tips = path.filter((s) => s.role === 'load');
   let tipEfficiency: number;
   if (tips.length === 0) {
@@ -89,7 +107,10 @@ function hoistPath(arrangement: ArrangementData, hoist: Hoist, block: HookBlock 
   if (block && block.sheaveCount > 0) {
     const bearing = block.sheaveBearing ?? null;
     blockEfficiency = efficiencyOf(bearing);
-    if (bearing === null) notes.push(`the bearings of ${block.id}’s sheaves are not in the data: plain bearings taken`);
+    if (bearing === null) {
+      notes.push(`the bearings of ${block.id}’s sheaves are not in the data: plain bearings taken`);
+      notIncluded(figures, 'rope.notIncluded.blockBearing', `bearings of ${block.id}’s sheaves`, 'Not in the crane data: plain bearings taken (91.7 %)', 'Plain bearings lose the most to friction, so the line pull is not understated. Add the block’s sheave bearings to the crane data.');
+    }
   }
   const lead = path.filter((s) => s.role === 'idler').map((s) => ({ id: s.id, efficiency: efficiencyOf(s.bearing) }));
   const pct = (e: number) => `${(e * 100).toFixed(1)} %`;
@@ -186,7 +207,7 @@ export function computeRope(
     return { reeving: null, hookBlock };
   }
   const { drum, rope } = main;
-  const path = hoistPath(arrangement, 'mainHoist', hookBlock);
+  const path = hoistPath(arrangement, 'mainHoist', hookBlock, figures);
   const leadEfficiencies = path.lead.map((l) => l.efficiency);
 
   const pulled = guarded(figures, 'rope.leadLinePull', 'rope', 'Lead-line pull', null as { pull: number; needed: number | null } | null, () => {
@@ -315,14 +336,19 @@ function wrapsFigures(
     if (foot === null) {
       footPinHeightM = ROPE_RUN_ASSUMED_WHEN_MISSING.footPinHeightM;
       missing.push(`the boom foot-pin height (taken as ${footPinHeightM} m, the most the crane data allows)`);
+      notIncluded(figures, 'rope.notIncluded.footPinHeight', 'boom foot-pin height', `Not in the crane data: ${footPinHeightM} m taken for the rope paid out`, 'The most the crane data allows, so the wraps left are never overstated. Add the foot pin’s height to the crane data from the manufacturer’s manual.');
     } else footPinHeightM = foot.heightM;
     let leadToBoomFootM: number;
     const leadGiven = o.drum.leadToBoomFootM ?? null;
     if (leadGiven === null) {
       leadToBoomFootM = ROPE_RUN_ASSUMED_WHEN_MISSING.leadToBoomFootM;
       missing.push(`the rope run from the ${o.hoistLabel} drum to the boom foot (taken as ${leadToBoomFootM} m, the most the crane data allows)`);
+      notIncluded(figures, `rope.notIncluded.leadToBoomFoot.${o.drum.role}`, `rope run from the ${o.hoistLabel} drum to the boom foot`, `Not in the crane data: ${leadToBoomFootM} m taken`, 'The most the crane data allows, so the wraps left are never overstated. Add the run to the crane data from the manufacturer’s manual.');
     } else leadToBoomFootM = leadGiven;
-    if (o.beyondTipNote) missing.push(o.beyondTipNote);
+    if (o.beyondTipNote) {
+      missing.push(o.beyondTipNote);
+      notIncluded(figures, 'rope.notIncluded.auxReach', 'auxiliary sheave reach', `Not in the crane data: ${ROPE_RUN_ASSUMED_WHEN_MISSING.auxReachBeyondTipM} m taken for the auxiliary rope paid out`, 'The most the crane data allows, so the wraps left on the auxiliary drum are never overstated. Add the reach to the crane data.');
+    }
 
     const run = hoistRunAtLowestHook({ boomLengthM: o.boomLengthM, footPinHeightM, beyondTipM: o.beyondTipM, lowestHookPositionM: o.lowestHookPositionM, leadToBoomFootM });
     const geometry = { parts: o.parts, reeveHeightM: run.reeveHeightM, leadLengthM: run.leadLengthM, drumDiameterM: o.drum.pitchDiameterMm / 1000 };
@@ -330,7 +356,7 @@ function wrapsFigures(
     const w = wrapsLeftOnDrum({ ...geometry, ropeLengthM: o.drum.ropeLengthM });
     const paidOutM = o.parts * run.reeveHeightM + run.leadLengthM;
     const where = `hook at ${fmt(o.lowestHookPositionM)} m${o.lowestHookPositionM < 0 ? ' (below ground)' : ''}, tip at ${fmt(run.tipHeightM)} m: reeve height ${fmt(run.reeveHeightM)} m × ${o.parts} ${o.parts === 1 ? 'part' : 'parts'} + lead ${fmt(run.leadLengthM)} m = ${fmt(paidOutM)} m paid out`;
-    const notIncluded = missing.length > 0 ? `; not in the crane data: ${missing.join('; ')}` : '';
+    const missingWords = missing.length > 0 ? `; not in the crane data: ${missing.join('; ')}` : '';
     const rule = `${w.rule}; ${run.rule}`;
     figures.push(
       figure(
@@ -341,14 +367,14 @@ function wrapsFigures(
         'info',
         false,
         `${needed.rule}; ${run.rule}`,
-        `${where}${notIncluded}`,
+        `${where}${missingWords}`,
       ),
     );
     // Wraps are a code's "shall" (two full wraps at the lowest hook position): never overridable.
     figures.push(
       w.pass
-        ? figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps (at least ${w.minimumWraps})`, 'pass', false, rule, `${where}${notIncluded}`)
-        : figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps, fewer than ${w.minimumWraps}`, 'fail', false, rule, `${fmt(w.ropeShortM)} m of rope short (${where}): ${o.fix}${notIncluded}`),
+        ? figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps (at least ${w.minimumWraps})`, 'pass', false, rule, `${where}${missingWords}`)
+        : figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps, fewer than ${w.minimumWraps}`, 'fail', false, rule, `${fmt(w.ropeShortM)} m of rope short (${where}): ${o.fix}${missingWords}`),
     );
     return { paidOutM, wrapsLeft: w.wrapsLeft };
   });
@@ -382,7 +408,7 @@ function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHo
     return;
   }
   const { drum, rope } = hoist;
-  const path = hoistPath(arrangement, 'auxiliaryHoist', null);
+  const path = hoistPath(arrangement, 'auxiliaryHoist', null, figures);
   guarded(figures, 'rope.aux.leadLinePull', 'rope', 'Auxiliary hoist line pull', undefined, () => {
     const loadKn = tonnesForceToKn(aux.ratedLoadT + aux.weightKg / 1000);
     const lead = leadLinePullBySheave({ loadKn, parts: 1, tipSheaveEfficiency: path.tipEfficiency, blockSheaveEfficiency: path.blockEfficiency, leadSheaveEfficiencies: path.lead.map((l) => l.efficiency) });

@@ -114,6 +114,10 @@ describe('rope paid out at the lowest hook position (issue 13, point 4)', () => 
     const f = fig(r, 'rope.wraps');
     expect(f.detail).toMatch(/not in the crane data: the boom foot-pin height \(taken as 30 m/);
     expect(f.detail).toMatch(/rope run from the main hoist drum to the boom foot \(taken as 100 m/);
+    // and each is listed as "Not included" with what to add to the crane data
+    expect(fig(r, 'rope.notIncluded.footPinHeight')).toMatchObject({ status: 'info', label: 'Not included: boom foot-pin height', value: 'Not in the crane data: 30 m taken for the rope paid out' });
+    expect(fig(r, 'rope.notIncluded.leadToBoomFoot.mainHoist').value).toBe('Not in the crane data: 100 m taken');
+    expect(run(plan()).figures.some((x) => x.key.startsWith('rope.notIncluded'))).toBe(false);
   });
 
   it('a version-1 file upgraded by the schema gives the same safe-side figures (nulls, never zeros)', () => {
@@ -161,6 +165,7 @@ describe('every sheave at its own bearing (issue 13, point 5)', () => {
     const expected = pullByWalkingBack(43.7 * G, [0.962, 0.917, 0.962, 0.917, 0.962, 0.917], [0.962, 0.917]);
     expect(relErr(r.reeving!.leadLinePullKn, expected)).toBeLessThan(1e-12);
     expect(fig(r, 'rope.leadLinePull').detail).toMatch(/bearings of HB120’s sheaves are not in the data: plain bearings taken/);
+    expect(fig(r, 'rope.notIncluded.blockBearing').label).toBe('Not included: bearings of HB120’s sheaves');
   });
 
   it('sheaves whose rope the data does not name are counted on the main hoist path (the auxiliary sheave too): never less friction', () => {
@@ -169,6 +174,7 @@ describe('every sheave at its own bearing (issue 13, point 5)', () => {
     const r = run(plan(), crane);
     expect(r.reeving!.leadLinePullKn).toBeGreaterThanOrEqual(run(plan()).reeving!.leadLinePullKn);
     expect(fig(r, 'rope.leadLinePull').detail).toMatch(/does not say which rope runs over tip-load, tip-guide, aux, base-idler/);
+    expect(fig(r, 'rope.notIncluded.sheavePath').status).toBe('info');
   });
 
   it('WRUM 4th ed. p. 88 method with mixed bearings: roller 6-part factor × 1.04 (rolling guide) × 1.09 (plain idler)', () => {
