@@ -571,9 +571,10 @@ describe('the configuration schema: plausible ranges, and nothing it accepts pri
         for (const n of allNumbers(r)) expect(Number.isFinite(n)).toBe(true);
         if (crane.arrangements.some((a) => a.boomLengthM === config.boomLengthM)) builtLengths += 1;
       }),
-      { numRuns: 300, seed: 20261203 },
+      { numRuns: 150, seed: 20261203 },
     );
     // Most runs use a listed length, so the boom, rope, ground and chart figures are really computed.
-    expect(builtLengths).toBeGreaterThan(100);
-  });
+    expect(builtLengths).toBeGreaterThan(50);
+    // Each run computes the ground over the full slew: generous time on a busy machine.
+  }, 180_000);
 });
