@@ -113,6 +113,9 @@ describe('configuration planner', () => {
     await load.getByLabel('Radius', { exact: true }).fill('12');
     await expect.poll(async () => (await angle.textContent()) ?? '').toContain('at 12 m radius');
     expect(await angle.textContent()).not.toBe(before);
+    // The share of the crane's own chart follows the radius: 20 t + 0.8 t + HB120 2.7 t = 23.5 t of the 18 m chart's 153.3 t at 12 m.
+    const chartShare = figureValue(page, 'Heaviest lift: share of the crane’s chart');
+    await expect.poll(async () => (await chartShare.textContent()) ?? '').toBe('15.4 % of chart (23.50 t of 153.3 t at 12 m)');
 
     // The rule behind a figure opens on demand.
     const pullRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Lead-line pull' }) }).first();
@@ -177,7 +180,7 @@ describe('configuration planner', () => {
     await page.context().close();
   });
 
-  it('lets one supervisor ask for an override of a failing ground figure and another approve it, while a rigger only reads', async () => {
+  it('lets one supervisor ask for an override of a chart caution and another approve it, while a rigger only reads; ground cannot be overridden', async () => {
     const second = await signedInUser(server, { qualifications: ['supervisor'], email: 'odile.brandt@crew.test' });
     const rigger = await signedInUser(server, { qualifications: ['rigger'], email: 'kofi.mensah@crew.test' });
     const auth = { Authorization: `Bearer ${supervisor.token}` };
@@ -187,8 +190,13 @@ describe('configuration planner', () => {
       .send({ name: 'Dismantling after the pump house', site: 'Riverside works, pad 2', craneUnitId: unitId, kind: 'dismantling' })
       .expect(201);
     const otherJobId = created.body.job.id as string;
-    // 150 kPa allowable: the raising case (about 193 kPa) fails, and a ground figure may be overridden.
-    const config = configuration18m(unitId);
+    // 90 t + 0.8 t + HB120 2.7 t at 10 m on the 18 m chart (182.0 t): 51.4 %, above a site caution share of 50 %: a matter of
+    // judgement that may be overridden. 150 kPa allowable makes the ground fail too, and ground is never overridden.
+    const config = configuration18m(unitId, {
+      mainHook: { hookBlockId: 'HB120', parts: 10, lowestHookPositionM: 0 },
+      heaviestLoad: { description: 'Stator, 90 t', loadT: 90, riggingT: 0.8, radiusM: 10 },
+      chartCautionPercent: 50,
+    });
     await request(server.app).put(`/api/jobs/${otherJobId}/configuration`).set(auth).send({ ...config, ground: { ...config.ground, allowablePressureKpa: 150 } }).expect(200);
     await request(server.app)
       .put(`/api/jobs/${otherJobId}/crew`)
@@ -198,17 +206,22 @@ describe('configuration planner', () => {
 
     const page = await signIn(chromium.browser, server.url, viewports.tablet, supervisor.user.email, `/jobs/${otherJobId}?tab=planner`);
     const raisingRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Ground pressure: raising' }) }).first();
-    await expect.poll(() => raisingRow.isVisible()).toBe(true);
+    const chartRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Heaviest lift: share of the crane’s chart' }) }).first();
+    await expect.poll(() => chartRow.isVisible()).toBe(true);
     expect(await page.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
+    expect(await chartRow.locator('.tone-badge').textContent()).toContain('Caution');
+    expect(await chartRow.locator('.figure-value').textContent()).toBe('51.4 % of chart (93.50 t of 182 t at 10 m)');
     expect(await raisingRow.locator('.tone-badge').textContent()).toContain('FAIL');
-    await raisingRow.getByRole('button', { name: 'Request override' }).click();
+    expect(await raisingRow.getByText('Cannot be overridden — change the configuration').isVisible()).toBe(true);
+    expect(await raisingRow.getByRole('button', { name: 'Request override' }).count()).toBe(0);
+    await chartRow.getByRole('button', { name: 'Request override' }).click();
     const dialog = page.getByRole('dialog');
     await dialog.getByLabel('Why it is safe to go on').fill('Short');
     await dialog.getByRole('button', { name: 'Request override' }).click();
     await expect.poll(() => dialog.getByText('Give the reason in a sentence').isVisible()).toBe(true);
-    await dialog.getByLabel('Why it is safe to go on').fill('Temporary-works design TW-88 covers raising on this pad with 300 kPa.');
+    await dialog.getByLabel('Why it is safe to go on').fill('Critical-lift plan CL-7: one slow movement, area cleared, the limiter set for the stator.');
     await dialog.getByRole('button', { name: 'Request override' }).click();
-    await expect.poll(() => raisingRow.getByText(/Override asked for by .*, waiting for a second person/).isVisible()).toBe(true);
+    await expect.poll(() => chartRow.getByText(/Override asked for by .*, waiting for a second person/).isVisible()).toBe(true);
     // Nobody approves their own override.
     const overrides = page.getByRole('region', { name: 'Overrides' });
     expect(await overrides.getByText('Waiting for approval').isVisible()).toBe(true);
