@@ -387,16 +387,33 @@ function gatingProblems(plan: Plan, reference: Plan): PlanProblem[] {
     }
   }
 
+  // A stage added by hand waits at least for the holds every other stage waits for (the site hold:
+  // nothing on the job moves before it is released).
+  const waitedByAll = reference.stages
+    .map((_s, r) => ref.holdsBefore(r, true))
+    .filter((set, r) => reference.stages[r].dependsOn.length > 0 || set.size > 0)
+    .reduce<Set<string> | null>((acc, set) => (acc ? new Set([...acc].filter((h) => set.has(h))) : new Set(set)), null);
+  plan.stages.forEach((s, i) => {
+    if (ref.stageIndex.has(s.id) || !canStart.has(i)) return;
+    for (const h of missing(waitedByAll ?? new Set(), now.holdsBefore(i, false))) {
+      const gate = refHold.get(h);
+      if (!gate) continue;
+      problems.push({
+        code: 'mandatory_hold_bypassed',
+        message: `The added stage “${s.title}” does not wait for the mandatory hold “${gate.hold.title}” of stage “${gate.stage.title}”, which every stage of the plan waits for. Make it wait for that stage.`,
+        path: `stages.${i}.dependsOn`,
+      });
+    }
+  });
+
   // A step moved to another stage must still be behind every mandatory hold it was behind.
   reference.stages.forEach((refStage, r) => {
     const needed = ref.holdsBefore(r, true);
     for (const refStep of refStage.steps) {
       const at = now.stepAt.get(refStep.id);
       if (!at || plan.stages[at.stage].id === refStage.id || !canStart.has(at.stage)) continue;
+      // A step is done before its own stage's hold: only the holds of the stages it waits for count.
       const have = now.holdsBefore(at.stage, false);
-      // Moving a step behind its own stage's hold is later, not earlier: that hold counts too.
-      const own = plan.stages[at.stage].hold;
-      if (own) have.add(own.id);
       for (const h of missing(needed, have)) {
         const gate = refHold.get(h);
         if (!gate) continue;

@@ -55,6 +55,15 @@ describe('a mandatory hold keeps gating every stage it gated', () => {
     expect(problemsOf(later)).toEqual([]);
   });
 
+  it('a stage added by hand must wait at least for the site hold', () => {
+    const added = (dependsOn: string[]) =>
+      edit((p) => {
+        p.stages.push({ ...structuredClone(stage(p, 'er-tip')), id: 'er-added', title: 'Extra lift of the tip', dependsOn, hold: null, steps: [] });
+      });
+    expect(problemsOf(added([])).map((x) => x.message)).toEqual([expect.stringMatching(/^The added stage “Extra lift of the tip” does not wait for the mandatory hold “Ground, exclusion zone and communications accepted”/)]);
+    expect(problemsOf(added(['er-ground']))).toEqual([]);
+  });
+
   it('guy lines pinned before the joints hold is released is refused', () => {
     const early = edit((p) => {
       stage(p, 'er-guys').dependsOn = ['er-guy-layout'];
@@ -91,6 +100,16 @@ describe('a mandatory hold keeps gating every stage it gated', () => {
     const problems = problemsOf(moved);
     expect(problems.map((x) => x.code)).toContain('mandatory_hold_bypassed');
     expect(problems.map((x) => x.message).join('\n')).toMatch(/Step “On signal, raise the boom the rest of the way, slowly, to working angle.” was moved to stage “Crawlers, mast and counterweight”, which does not wait for the mandatory hold “Ready to raise”/);
+
+    // Into the pre-raise stage itself: done before its own hold is released, so still in front of it.
+    const intoPreRaise = edit((p) => {
+      const raise = stage(p, 'er-raise');
+      const st = raise.steps.find((s) => s.id === 'er-raise.raise') as PlanStep;
+      raise.steps = raise.steps.filter((s) => s !== st);
+      for (const s of raise.steps) s.after = (s.after ?? []).map((a) => (a === 'er-raise.raise' ? 'er-raise.stop-check' : a));
+      stage(p, 'er-preraise').steps.push({ ...st, after: [] });
+    });
+    expect(problemsOf(intoPreRaise).map((x) => x.message)).toEqual([expect.stringMatching(/was moved to stage “Pre-raise checks”, which does not wait for the mandatory hold “Ready to raise”/)]);
 
     const holdMoved = edit((p) => {
       stage(p, 'er-handover').hold = stage(p, 'er-preraise').hold;
