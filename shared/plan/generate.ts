@@ -241,7 +241,9 @@ function assistLiftsStageFor(ctx: Context, id: string, dependsOn: string[]): Pla
     const share = r && r.sharePercent !== null && r.chartRadiusM !== null
       ? `${num(Math.round(r.sharePercent * 10) / 10)} % of the chart capacity read at ${num(r.chartRadiusM)} m`
       : 'no chart capacity found for it';
-    const vars = { n: i + 1, label: lift.label, totalT: num(lift.liftT + lift.riggingT), radiusM: lift.radiusM, share };
+    // Everything on the assist crane's hook, as its chart counts it: the lift, its hook block, slings, shackles, rigging and chart deductions.
+    const onHookT = lift.liftT + lift.riggingT + lift.hookBlockT + lift.slingsT + lift.shacklesT + lift.deductionsT;
+    const vars = { n: i + 1, label: lift.label, totalT: num(Math.round(onHookT * 100) / 100), radiusM: lift.radiusM, share };
     const fails = r && !r.pass ? fill(assistLiftFails, { reason: r.reason }) : r ? null : fill(assistLiftFails, { reason: 'not computed' });
     draft.add(`check-${i + 1}`, t.check, vars, { ...(fails ? { caution: fails } : {}), after: i > 0 ? [`lift-${i}`] : [] });
     draft.add(`lift-${i + 1}`, t.lift, vars, { ...(fails ? { caution: fails } : {}), after: [`check-${i + 1}`] });
