@@ -1,30 +1,14 @@
 import type { StepRecord } from '../schemas/plan.js';
-import { gustOverLimit } from './rules.js';
+import { gustOverLimit, parseReading } from './rules.js';
 import type { BoardStage, BoardState, OutOfLimit } from './types.js';
+
+export { parseReading };
 
 /**
  * Readings compared with what they are held to. One pure function decides whether a recorded
  * value is out of limit; the reducer stores its answer on the step, so every screen and the
  * server's refusals say the same thing.
  */
-
-const NUMBER = /^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/;
-
-/**
- * A typed reading as a number: digits with an optional decimal point or comma, optionally
- * followed by the step's own unit ("6", "6.5", "6,5", "6.5 t" for a step in t). Anything else
- * (words, two numbers, another unit) is not a number: null.
- */
-export function parseReading(value: string, unit: string | null): number | null {
-  let text = value.trim();
-  if (unit) {
-    const u = unit.trim().toLowerCase();
-    if (u && text.toLowerCase().endsWith(u)) text = text.slice(0, text.length - u.length).trim();
-  }
-  if (!NUMBER.test(text)) return null;
-  const n = Number(text.replace(',', '.'));
-  return Number.isFinite(n) ? n : null;
-}
 
 /** Typed decimals are not exact in binary: 6.4 − 6.5 is 0.1000000000000005. Differences this small are the representation, not the reading. */
 const REPRESENTATION_EPSILON = 1e-9;

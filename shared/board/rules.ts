@@ -7,6 +7,24 @@ import type { BoardHold, BoardStage, BoardState, WeatherReading } from './types.
  * retry rules of the blind configuration check. Pure: time comes in as a parameter.
  */
 
+const NUMBER = /^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/;
+
+/**
+ * A typed reading as a number: digits with an optional decimal point or comma, optionally
+ * followed by the step's own unit ("6", "6.5", "6,5", "6.5 t" for a step in t). Anything else
+ * (words, two numbers, another unit) is not a number: null.
+ */
+export function parseReading(value: string, unit: string | null): number | null {
+  let text = value.trim();
+  if (unit) {
+    const u = unit.trim().toLowerCase();
+    if (u && text.toLowerCase().endsWith(u)) text = text.slice(0, text.length - u.length).trim();
+  }
+  if (!NUMBER.test(text)) return null;
+  const n = Number(text.replace(',', '.'));
+  return Number.isFinite(n) ? n : null;
+}
+
 /** Stages during which the boom goes up or comes down: the raising wind limit applies. */
 const RAISING_STAGE = /(^|-)(preraise|raise|lower)$/;
 /** Stages in which the boom itself goes up or comes down (not the checks before it). */
@@ -101,7 +119,15 @@ export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembl
   const freshMs = weatherFreshMs(state);
   const ageMs = reading ? Math.max(0, nowMs - Date.parse(reading.at)) : null;
   const fresh = ageMs !== null && ageMs <= freshMs;
-  const overLimit = reading ? weatherOverLimit(reading, limit) : null;
+  // A gust typed into a wind step after the last reading is the latest word on the wind: it counts too.
+  const laterStepGust = state.stages
+    .flatMap((stage) => stage.steps)
+    .filter((s) => s.state === 'done' && s.records?.check?.kind === 'wind' && s.doneBy && (!reading || s.doneBy.at > reading.at))
+    .map((s) => ({ text: s.text, gustMs: parseReading(s.doneBy!.value ?? '', 'm/s') }))
+    .filter((g): g is { text: string; gustMs: number } => g.gustMs !== null)
+    .map((g) => ({ ...g, over: gustOverLimit(g.gustMs, limit, phase) }))
+    .find((g) => g.over && limit);
+  const overLimit = (reading ? weatherOverLimit(reading, limit) : null) ?? (laterStepGust ? `${laterStepGust.over} (typed at “${laterStepGust.text}”)` : null);
   const stepsOverLimit = state.stages.flatMap((stage) =>
     stage.steps
       .filter((s) => s.outOfLimit?.kind === 'wind')
@@ -117,9 +143,9 @@ export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembl
         : null;
   const minutes = Math.round(freshMs / 60_000);
   let problem: string | null = null;
-  if (!reading) problem = `Record a weather reading first: there is none yet, and one from the last ${minutes} minutes is needed.`;
+  if (overLimit) problem = `The latest reading is over the limits (${overLimit}). Wait and record a new reading.`;
+  else if (!reading) problem = `Record a weather reading first: there is none yet, and one from the last ${minutes} minutes is needed.`;
   else if (!fresh) problem = `Record a new weather reading: the last one is older than ${minutes} minutes.`;
-  else if (overLimit) problem = `The latest reading is over the limits (${overLimit}). Wait and record a new reading.`;
   else if (!limit) problem = `No ${phase} wind limit is known for this configuration: get the manufacturer’s limit first.`;
   return { phase, limit, reading, ageMs, freshMs, fresh, overLimit, stepsOverLimit, caution, ok: problem === null, problem };
 }

@@ -257,3 +257,22 @@ describe('the blind check’s retry and lock', () => {
     expect(hold().checkFailures).toHaveLength(3);
   });
 });
+
+describe('a gust typed into a step is wind information too', () => {
+  it('a wind step over the limit recorded after the last reading makes the verdict over the limit; a later reading supersedes it', () => {
+    const now = Date.parse('2026-01-01T10:00:00.000Z');
+    let state = board();
+    state.stages[2].steps.push({ ...state.stages[2].steps[0], id: 'p-gust', text: 'Read the gust', records: record({ kind: 'wind', phase: 'raising' }, 'm/s') });
+    state.stages[2].state = 'active';
+    state = applyEvent(state, event(2, 'weather.recorded', { reading: { meanMs: 4, gustMs: 7, heightM: 10, lightning: false, poorVisibility: false, ice: false } }, '2026-01-01T09:58:00.000Z'));
+    expect(weatherVerdict(state, now, 'raising').ok).toBe(true);
+    state = applyEvent(state, event(3, 'step.completed', { stageId: 'er-preraise', stepId: 'p-gust', value: '14' }, '2026-01-01T09:59:00.000Z'));
+    expect(weatherVerdict(state, now, 'raising')).toMatchObject({ ok: false, overLimit: 'Gust 14 m/s is over the raising limit of 13 m/s (typed at “Read the gust”)' });
+    // For assembly the same 14 m/s is within 16 m/s.
+    expect(weatherVerdict(state, now, 'assembly').ok).toBe(true);
+    state = applyEvent(state, event(4, 'weather.recorded', { reading: { meanMs: 4, gustMs: 8, heightM: 10, lightning: false, poorVisibility: false, ice: false } }, '2026-01-01T09:59:30.000Z'));
+    expect(weatherVerdict(state, now, 'raising')).toMatchObject({ ok: true, overLimit: null });
+    // The step stays out of limit on its own, and the panel lists it.
+    expect(weatherVerdict(state, now, 'raising').stepsOverLimit.map((s) => s.stepId)).toEqual(['p-gust']);
+  });
+});
