@@ -8,6 +8,9 @@ import {
   focusStage,
   myOpenSteps,
   nextStep,
+  outOfLimitAll,
+  outOfLimitBefore,
+  outOfLimitWords,
   pendingAcknowledgments,
   radioCheckOf,
 } from '../../src/components/board/progress';
@@ -262,5 +265,37 @@ describe('plan revision after a defect', () => {
     const id = revised.stages[0].steps[0].id;
     expect(id.length).toBeLessThanOrEqual(64);
     expect(planSchema.safeParse(revised).success).toBe(true);
+  });
+});
+
+describe('readings out of limit', () => {
+  const parts = { kind: 'reading' as const, label: 'Parts of line', unit: null, componentKind: null, typeId: null, plannedSerial: null };
+  const out = (value: number, planned: number) => ({ reason: `${value} was recorded; the plan says ${planned}.`, kind: 'plan' as const, value: String(value), valueNumber: value, planned, tolerance: 0, limit: null, unit: null, source: 'configuration' });
+
+  it('says the reading beside the planned value or the limit, with its unit', () => {
+    expect(outOfLimitWords({ records: parts, outOfLimit: out(5, 6) })).toBe('Parts of line: 5 recorded, the plan says 6.');
+    const slope = { ...parts, label: 'Slope', unit: '%' };
+    expect(outOfLimitWords({ records: slope, outOfLimit: { ...out(1.4, 0), kind: 'max', planned: null, tolerance: null, limit: 1, unit: '%' } })).toBe('Slope: 1.4 % recorded, over the limit of 1 %.');
+    const gust = { ...parts, label: 'Wind gust', unit: 'm/s' };
+    expect(outOfLimitWords({ records: gust, outOfLimit: { ...out(14, 0), kind: 'wind', planned: null, tolerance: null, limit: 11, unit: 'm/s', source: 'raising' } })).toBe('Wind gust: 14 m/s recorded, over the raising limit of 11 m/s.');
+    expect(outOfLimitWords({ records: parts, outOfLimit: { ...out(0, 6), value: 'six-ish', valueNumber: null } })).toBe('Parts of line: “six-ish” (not a number) recorded, the plan says 6.');
+    expect(outOfLimitWords({ records: parts, outOfLimit: null })).toBe('');
+  });
+
+  it('shows at a hold what its own stage and the stages it waits for recorded out of limit, back to a hold already released', () => {
+    const bad = (id: string) => step(id, { state: 'done', records: parts, outOfLimit: out(5, 6) });
+    const b = board([
+      stage('a', 1, { state: 'done', steps: [bad('a.1')], hold: hold('a.hold', { state: 'released' }) }),
+      stage('b', 2, { state: 'done', dependsOn: ['a'], steps: [bad('b.1')] }),
+      stage('c', 3, { state: 'holding', dependsOn: ['b'], steps: [bad('c.1'), step('c.2', { state: 'done' })], hold: hold('c.hold', { state: 'open' }) }),
+      stage('d', 4, { state: 'active', steps: [bad('d.1')] }),
+    ]);
+    expect(outOfLimitBefore(b, b.stages[2]).map((l) => l.stepId)).toEqual(['b.1', 'c.1']);
+    expect(outOfLimitAll(b).map((l) => l.words)).toEqual([
+      'Stage 1, Parts of line: 5 recorded, the plan says 6.',
+      'Stage 2, Parts of line: 5 recorded, the plan says 6.',
+      'Stage 3, Parts of line: 5 recorded, the plan says 6.',
+      'Stage 4, Parts of line: 5 recorded, the plan says 6.',
+    ]);
   });
 });

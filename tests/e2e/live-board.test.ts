@@ -84,8 +84,17 @@ describe('the live board across devices', () => {
     await expect.poll(() => supervisor.getByTestId(`ack-${holdId}-signaller`).textContent()).toContain('Aisha Ndlovu');
     await expect.poll(() => operator.getByTestId(`ack-${holdId}-signaller`).textContent()).toContain('Aisha Ndlovu');
 
-    // 2. The supervisor releases it.
+    // 2. The supervisor releases it: the summary first, then a press-and-hold (a tap releases nothing).
     await supervisor.getByTestId(`release-${holdId}`).click();
+    const dialog = supervisor.getByTestId(`release-dialog-${holdId}`);
+    await dialog.waitFor();
+    expect(await dialog.textContent()).toContain('Aisha Ndlovu, signaller');
+    await dialog.getByTestId(`release-dialog-${holdId}-hold`).click();
+    expect((await boardNow()).stages.find((s) => s.id === 'er-tension')?.hold?.state).toBe('acknowledged');
+    await dialog.getByTestId(`release-dialog-${holdId}-hold`).hover();
+    await supervisor.mouse.down();
+    await dialog.waitFor({ state: 'detached', timeout: 10_000 });
+    await supervisor.mouse.up();
     for (const page of [operator, signaller, rigger]) await expect.poll(() => announced(page), { timeout: 10_000 }).toContain('Hold point released');
     await expect.poll(async () => (await boardNow()).stages.find((s) => s.id === 'er-tension')?.state).toBe('done');
 
@@ -146,7 +155,8 @@ describe('the live board across devices', () => {
     expect(await cab.getByTestId('stopped-state').textContent()).toContain('Callum Frey');
     await screenshot(cab, 'live-cab-stopped-by-rigger-tablet');
     // Resume for the next test: a fresh weather reading, then the supervisor's resume with a reason.
-    await command('signaller', { type: 'weather.record', meanMs: 4, gustMs: 6 });
+    await command('signaller', { type: 'weather.record', meanMs: 4, gustMs: 6, heightM: 10 });
+    await command('rigger', { type: 'job.stop.note', reason: 'Tag line caught on a mat' });
     await command('supervisor', { type: 'job.resume', reason: 'Rigger’s tag line cleared; area checked' });
     await cab.getByTestId('stopped-state').waitFor({ state: 'detached', timeout: 10_000 });
     for (const { context } of open.splice(0)) await context.close();

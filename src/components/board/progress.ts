@@ -106,10 +106,24 @@ export interface OutOfLimitLine {
   words: string;
 }
 
-function limitLine(stage: BoardStage, step: BoardStep): OutOfLimitLine | null {
+const withUnit = (n: number | null, unit: string | null) => `${n}${unit ? (unit === '%' ? ' %' : ` ${unit}`) : ''}`;
+
+/** The reading beside what it is held to, in words: "Parts of line: 5 recorded, the plan says 6." */
+export function outOfLimitWords(step: Pick<BoardStep, 'records' | 'outOfLimit'>): string {
   const o = step.outOfLimit;
-  if (!o) return null;
-  return { stageId: stage.id, stageOrder: stage.order, stepId: step.id, words: `Stage ${stage.order}, ${step.text.replace(/\.+$/, '')}: ${o.reason.replace(/\.+$/, '')}.` };
+  if (!o) return '';
+  const label = step.records?.label ?? 'Reading';
+  const value = o.valueNumber === null ? `“${o.value}” (not a number)` : withUnit(o.valueNumber, o.unit);
+  if (o.kind === 'plan' && o.planned !== null) return `${label}: ${value} recorded, the plan says ${withUnit(o.planned, o.unit)}${o.tolerance ? ` ± ${withUnit(o.tolerance, o.unit)}` : ''}.`;
+  if (o.kind === 'max' && o.limit !== null) return `${label}: ${value} recorded, over the limit of ${withUnit(o.limit, o.unit)}.`;
+  if (o.kind === 'min' && o.limit !== null) return `${label}: ${value} recorded, under the minimum of ${withUnit(o.limit, o.unit)}.`;
+  if (o.kind === 'wind' && o.limit !== null) return `${label}: ${value} recorded, over the ${o.source ?? 'wind'} limit of ${withUnit(o.limit, 'm/s')}.`;
+  return `${label}: ${o.reason.replace(/\.+$/, '')}.`;
+}
+
+function limitLine(stage: BoardStage, step: BoardStep): OutOfLimitLine | null {
+  if (!step.outOfLimit) return null;
+  return { stageId: stage.id, stageOrder: stage.order, stepId: step.id, words: `Stage ${stage.order}, ${outOfLimitWords(step)}` };
 }
 
 /** Every step recorded out of limit on the board, in plan order (the supervisor's list). */
