@@ -107,7 +107,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
   const drawings: { title: string; svg: string }[] = [];
   if (results.reeving) {
     const r = results.reeving;
-    drawings.push({ title: 'Reeving of the main hook', svg: reevingSvg({ parts: r.parts, sheaveCount: r.sheaveCount, hookBlockId: r.hookBlockId, leadLinePullKn: r.leadLinePullKn }) });
+    drawings.push({ title: 'Reeving of the main hook', svg: reevingSvg({ parts: r.parts, sheaveCount: r.sheaveCount, hookBlockId: r.hookBlockId, leadLinePullKn: r.leadLinePullKn, leadSheaves: r.leadSheaves }) });
   }
   if (results.loadCases.length) {
     drawings.push({

@@ -16,6 +16,8 @@ export interface ReevingDrawingInput {
   sheaveCount: number;
   hookBlockId: string;
   leadLinePullKn: number;
+  /** The lead sheaves between the drum and the tip, with their bearings; drawn as a note when given. */
+  leadSheaves?: readonly { id: string; bearing: 'plain' | 'rolling' }[];
 }
 
 /** Drawing options. */
@@ -148,6 +150,7 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   out.push(`<line x1="${px(lead)}" y1="${px(tipY)}" x2="${px(24)}" y2="${px(blockY + 20)}" stroke="${p.lead}" stroke-width="3.5" data-lead="1"/>`);
   out.push(text(20, blockY + 44, 'Lead line to the drum', `font-size="13" font-weight="700" fill="${p.lead}"`));
   out.push(text(20, blockY + 62, `Pull ${leadLinePullKn.toFixed(1)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
+  const leadSheaves = input.leadSheaves ?? [];
 
   // Dead end: at the block for an odd number of parts, at the tip for an even number.
   const deadX = xOf(parts);
@@ -160,6 +163,12 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
 
   out.push(text(20, 26, `${parts} part${parts === 1 ? '' : 's'} of line · lead-line pull ${leadLinePullKn.toFixed(1)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
   let footerY = hookTop + 88;
+  if (leadSheaves.length > 0) {
+    // Each lead sheave's bearing sets its friction in the pull; a plain bearing is named so the rigger can check it.
+    const via = leadSheaves.map((s) => `${s.id} (${s.bearing === 'plain' ? 'plain bearing' : 'rolling bearing'})`).join(', ');
+    out.push(text(20, footerY, `Lead line from the drum over ${via}`, `font-size="12" fill="${p.ink}" data-lead-sheaves="${leadSheaves.length}"`));
+    footerY += 20;
+  }
   if (tooFewSheaves) {
     out.push(text(20, footerY, `WARNING: ${parts} parts need ${used.block} block sheaves; ${hookBlockId} has ${sheaveCount}`, `font-size="13" font-weight="700" fill="${p.stop}"`));
     footerY += 20;

@@ -76,7 +76,7 @@ function drumAndRope(arrangement: ArrangementData, role: Hoist): { drum: Drum; r
 interface HoistPath {
   tipEfficiency: number;
   blockEfficiency: number;
-  lead: { id: string; efficiency: number }[];
+  lead: { id: string; bearing: Bearing; efficiency: number }[];
   notes: string[];
   words: string;
 }
@@ -112,7 +112,7 @@ function hoistPath(arrangement: ArrangementData, hoist: Hoist, block: HookBlock 
       notIncluded(figures, 'rope.notIncluded.blockBearing', `bearings of ${block.id}’s sheaves`, 'Not in the crane data: plain bearings taken (91.7 %)', 'Plain bearings lose the most to friction, so the line pull is not understated. Add the block’s sheave bearings to the crane data.');
     }
   }
-  const lead = path.filter((s) => s.role === 'idler').map((s) => ({ id: s.id, efficiency: efficiencyOf(s.bearing) }));
+  const lead = path.filter((s) => s.role === 'idler').map((s) => ({ id: s.id, bearing: s.bearing, efficiency: efficiencyOf(s.bearing) }));
   const pct = (e: number) => `${(e * 100).toFixed(1)} %`;
   const words = [
     `tip sheaves ${pct(tipEfficiency)}`,

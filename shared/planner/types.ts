@@ -97,7 +97,7 @@ export interface ConfigurationResults {
     /** Efficiency of the hook block's sheaves. */
     blockSheaveEfficiency: number;
     /** Each lead sheave between the drum and the tip, with its own efficiency. */
-    leadSheaves: { id: string; efficiency: number }[];
+    leadSheaves: { id: string; bearing: 'plain' | 'rolling'; efficiency: number }[];
     leadLinePullKn: number;
     requiredParts: number | null;
     /** Rope paid out with the hook at its lowest position, and the wraps left on the drum; null when not computed. */
