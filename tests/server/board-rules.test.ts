@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { replay } from '../../shared/board/apply.js';
@@ -340,8 +341,13 @@ describe('board rules', () => {
         httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: role as never, values, photoId: photoId ?? (await uploadPhoto(server, who)) });
 
       const firstPhoto = await uploadPhoto(server, crew.operator);
-      const wrong = await check(crew.operator, 'operator', { ...controllerValues18m, parts: '4' }, firstPhoto);
+      const commandId = randomUUID();
+      const failing = { type: 'hold.acknowledge', holdId: hold.id, role: 'operator', values: { ...controllerValues18m, parts: '4' }, photoId: firstPhoto } as const;
+      const wrong = await httpCommand(server, crew.operator, jobId, failing, commandId);
       expect(wrong.status).toBe(409);
+      // The same command sent again (a retry after a lost answer) gets the same refusal and is recorded once.
+      expect(await httpCommand(server, crew.operator, jobId, failing, commandId)).toEqual(wrong);
+      expect((await events(crew.supervisor, jobId)).filter((e) => e.type === 'hold.check.failed')).toHaveLength(1);
       expect(wrong.body.error?.code).toBe('values_mismatch');
       expect(wrong.body.error?.fields).toBeUndefined();
       expect(wrong.body.error?.message).not.toMatch(/parts|boom length|hook|counterweight|mode/i);
