@@ -108,7 +108,7 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   ];
 
   return {
-    title: `Toolbox talk: ${jobWord.toLowerCase()} of a ${num(cfg.boomLengthM)} m boom`,
+    title: tidy(`Toolbox talk: ${jobWord.toLowerCase()} of a ${num(cfg.boomLengthM)} m boom`),
     // Items built from what people typed may end their own sentence: no doubled full stops.
     sections: [
       { heading: 'The job', items: job.map(tidy) },

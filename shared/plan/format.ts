@@ -31,10 +31,15 @@ export type Vars = Readonly<Record<string, string | number>>;
 /**
  * A sentence as people read it: a full stop straight after a full stop, question or exclamation
  * mark (a filled-in text that already ended its own sentence, "None in yard 2." + ".") is dropped.
- * An ellipsis stays an ellipsis.
+ * An ellipsis stays an ellipsis. "a" before a number said with a vowel first becomes "an".
  */
 export function tidy(text: string): string {
-  return text.replace(/([^.][.!?]|\.\.\.)\.(?=\s|$|\))/g, '$1');
+  return (
+    text
+      .replace(/([^.][.!?]|\.\.\.)\.(?=\s|$|\))/g, '$1')
+      // "an 18 m boom", "an 84 m boom", "an 8.5 t block": numbers said with a vowel sound first.
+      .replace(/\b([Aa]) (?=(?:8\d{0,2}|11|18)(?:\.\d+)?(?!\d|\.\d))/g, '$1n ')
+  );
 }
 
 /** Fills `{name}` placeholders; throws on a missing one because that is a bug in the generator, not the user's input. */

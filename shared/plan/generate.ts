@@ -19,7 +19,7 @@ import type { CommsPlan } from '../schemas/jobs.js';
 import type { Plan, PlanHold, PlanStage, PlanStep, StepRecord } from '../schemas/plan.js';
 import { buildBriefing } from './briefing.js';
 import { commsWords } from './comms.js';
-import { fill, idPart, num, plural, tonnes, type Vars } from './format.js';
+import { fill, idPart, num, plural, tidy, tonnes, type Vars } from './format.js';
 import { assistLiftFails, assistLiftsStage, assistStage, commsSteps, powerLineTooClose, radioCheckStep, siteSteps } from './templates/common.js';
 import { dismantlingStages } from './templates/dismantling.js';
 import { erectionStages } from './templates/erection.js';
@@ -354,7 +354,7 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
   const aux = cfg.auxiliary.enabled;
-  const boomWords = `a ${num(cfg.boomLengthM)} m boom`;
+  const boomWords = tidy(`a ${num(cfg.boomLengthM)} m boom`);
   const blocks = raisingBlocks(ctx);
   const raisingT = listed ? Number(tonnes(listed.raising.counterweightKg)) : null;
 
@@ -582,7 +582,7 @@ function dismantlingStagesFor(ctx: Context): PlanStage[] {
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
   const assistLifts = assist && cfg.assist.lifts.length > 0;
-  const boomWords = `a ${num(cfg.boomLengthM)} m boom`;
+  const boomWords = tidy(`a ${num(cfg.boomLengthM)} m boom`);
 
   const site = new StageDraft(ctx, t.site.id, t.site, {});
   siteHazardSteps(site, ctx);

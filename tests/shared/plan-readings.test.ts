@@ -275,6 +275,17 @@ describe('generated text', () => {
     }
   });
 
+  it('“an 18 m boom”, never “a 18 m boom”; “a 60 m boom” stays', () => {
+    for (const kind of ['erection', 'dismantling'] as const) {
+      const at18 = JSON.stringify(plan(kind, config()));
+      expect(at18).not.toMatch(/\ba 18 m/);
+      expect(at18).toMatch(/\ban 18 m boom/);
+      expect(plan(kind, config()).briefing.title).toMatch(/of an 18 m boom$/);
+      expect(JSON.stringify(plan(kind, config({ boomLengthM: 84 })))).not.toMatch(/\ba 84 m/);
+      expect(JSON.stringify(plan(kind, config({ boomLengthM: 60 })))).toMatch(/\ba 60 m boom/);
+    }
+  });
+
   it('dismantling texts never talk of erection or an erection record', () => {
     for (const L of [18, 60, 90]) expect(JSON.stringify(plan('dismantling', withAssist({ boomLengthM: L })))).not.toMatch(/erect/i);
   });
