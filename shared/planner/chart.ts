@@ -8,6 +8,7 @@ import type { CapacityChart, HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
 import { figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import { ROPE_RUN_ASSUMED_WHEN_MISSING } from './rope.js';
 import type { ChartResults, PlannerInputs } from './types.js';
 
 /** One weight that hangs with the hook or at the tip; null when the data does not give it. */
@@ -28,6 +29,34 @@ export function tipHangings(config: Configuration, inputs: PlannerInputs, hookBl
     items.push({ what: 'auxiliary sheave head', weightKg: arrangement.auxSheave?.weightKg ?? null });
   }
   return items;
+}
+
+/**
+ * The hoist rope hanging below the tip with the hook at its lowest position: falls × (tip height −
+ * lowest hook position) × rope mass per metre. The tip is taken as high as the boom can stand for
+ * the radius (the foot's offset ahead of the slewing centre counted only when it raises the tip;
+ * a foot height the data lacks taken at the most the data format allows), so the rope is never
+ * understated. Charts differ on whether this rope counts: counting it is the safe side.
+ */
+export function ropeBelowTip(config: Configuration, inputs: PlannerInputs): { items: Hanging[]; note: string } {
+  const { arrangement } = inputs;
+  const ahead = Math.max(0, arrangement.machine.boomFoot?.aheadOfSlewCentreM ?? 0);
+  const footHeightM = arrangement.machine.boomFoot?.heightM ?? ROPE_RUN_ASSUMED_WHEN_MISSING.footPinHeightM;
+  const cos = Math.min(1, Math.max(0, (config.heaviestLoad.radiusM - ahead) / config.boomLengthM));
+  const tipHeightM = footHeightM + config.boomLengthM * Math.sqrt(1 - cos * cos);
+  const dropM = Math.max(0, tipHeightM - config.mainHook.lowestHookPositionM);
+  const massOf = (role: 'mainHoist' | 'auxiliaryHoist') => {
+    const drum = arrangement.drums.find((d) => d.role === role);
+    return arrangement.ropes.find((r) => r.id === drum?.ropeId)?.massKgPerM ?? null;
+  };
+  const main = massOf('mainHoist');
+  const items: Hanging[] = [{ what: `main hoist rope below the tip (${config.mainHook.parts} falls × ${fmt(dropM, 1)} m)`, weightKg: main === null ? null : main * config.mainHook.parts * dropM }];
+  if (config.auxiliary.enabled) {
+    const aux = massOf('auxiliaryHoist');
+    items.push({ what: `auxiliary hoist rope below the tip (1 fall × ${fmt(dropM, 1)} m)`, weightKg: aux === null ? null : aux * dropM });
+  }
+  const footNote = arrangement.machine.boomFoot === null ? `; boom foot height not in the data: taken as ${ROPE_RUN_ASSUMED_WHEN_MISSING.footPinHeightM} m` : '';
+  return { items, note: `hoist rope hanging from the tip ${fmt(tipHeightM, 1)} m up to the lowest hook position ${plain(config.mainHook.lowestHookPositionM)} m${footNote}` };
 }
 
 function statusOf(r: ShareResult): FigureStatus {
@@ -65,24 +94,39 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
     } else {
       guarded(figures, 'chart.lift', 'boom', liftLabel, undefined, () => {
         const { loadT, riggingT, radiusM } = config.heaviestLoad;
-        const totalKg = (loadT + riggingT) * 1000 + knownKg;
+        const rope = ropeBelowTip(config, inputs);
+        const onHook = [...hangings, ...rope.items];
+        const liftMissing = onHook.filter((h) => h.weightKg === null);
+        const totalKg = (loadT + riggingT) * 1000 + onHook.reduce((sum, h) => sum + (h.weightKg ?? 0), 0);
         const r = chartShare({ loadKn: kgToKn(totalKg), points: chart.points, radiusM, cautionPercent: caution });
-        const status: FigureStatus = r.band === 'fail' ? 'fail' : missing.length ? 'caution' : statusOf(r);
+        const status: FigureStatus = r.band === 'fail' ? 'fail' : liftMissing.length ? 'caution' : statusOf(r);
         const value =
           r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
             ? `${percentUp(r.sharePercent)} % of chart (${fmt(totalKg / 1000, 2)} t of ${plain(r.capacityKn / 9.80665)} t at ${plain(r.chartRadiusM)} m)`
             : `Off the chart at ${plain(radiusM)} m`;
         const detail = [
-          `on the hook: load ${plain(loadT)} t + rigging ${plain(riggingT)} t + ${listWeights(hangings)}`,
+          `on the hook: load ${plain(loadT)} t + rigging ${plain(riggingT)} t + ${listWeights(onHook)}`,
+          rope.note,
           `chart “${chart.description}” read at ${r.chartRadiusM === null ? '—' : `${plain(r.chartRadiusM)} m`} for ${plain(radiusM)} m radius`,
           r.reason ?? '',
-          missingNote,
-          'the hoist rope below the tip and any other deduction the chart’s notes list are not in the data: check the chart’s notes; the rated capacity limiter and the chart govern',
+          liftMissing.length ? `${liftMissing.map((h) => h.what).join(', ')}: weight not in the data, NOT INCLUDED — the share cannot be confirmed until the crane data gives it` : '',
+          'any other deduction the chart’s notes list is not in the data: check the chart’s notes; the rated capacity limiter and the chart govern',
         ]
           .filter((s) => s.length > 0)
           .join('; ');
         // A missing weight may be hiding a share above 100 %: no override until the data gives it.
-        figures.push(figure('chart.lift', 'boom', liftLabel, value, status, r.band !== 'fail' && missing.length === 0, `${chartRule}; load = load + rigging + hook block (+ auxiliary hook and sheave head when fitted; the chart counts the hook block as load unless it says otherwise); ${r.rule}`, detail));
+        figures.push(
+          figure(
+            'chart.lift',
+            'boom',
+            liftLabel,
+            value,
+            status,
+            r.band !== 'fail' && liftMissing.length === 0,
+            `${chartRule}; load = load + rigging + hook block (+ auxiliary hook and sheave head when fitted; the chart counts the hook block as load unless it says otherwise) + hoist rope below the tip with the hook at its lowest (safe side: some charts leave it out); ${r.rule}`,
+            detail,
+          ),
+        );
         results.lift = { totalT: totalKg / 1000, capacityT: r.capacityKn === null ? null : r.capacityKn / 9.80665, chartRadiusM: r.chartRadiusM, sharePercent: r.sharePercent, status };
       });
     }

@@ -123,43 +123,64 @@ function fig(r: ConfigurationResults, key: string): Figure {
   return f;
 }
 
+/**
+ * The hoist rope hanging below the tip, worked out here with Pythagoras on the demo data: the boom
+ * foot 1.4 m ahead of the slewing centre and 2.6 m up, the 36 m boom's tip √(36² − (radius − 1.4)²)
+ * above the foot, R28 rope at 3.8 kg/m, hook at the ground (or lower): falls × drop × 3.8 kg/m.
+ */
+const ropeT = (radiusM: number, falls: number, lowestM = 0) => (falls * (2.6 + Math.sqrt(36 ** 2 - (radiusM - 1.4) ** 2) - lowestM) * 3.8) / 1000;
+
 describe('chart.lift: the heaviest lift as a share of the crane’s own chart', () => {
-  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) at 12 m: 43.7 t of 172.0 t = 25.41 % → shown 25.5 %, pass', () => {
+  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) + 6 falls of rope from the 37.0 m tip (0.844 t) at 12 m: 44.54 t of 172.0 t = 25.90 %, pass', () => {
     const r = run(plan());
     const f = fig(r, 'chart.lift');
     expect(f).toMatchObject({ status: 'pass', overridable: false, group: 'boom' });
-    expect(f.value).toBe('25.5 % of chart (43.70 t of 172 t at 12 m)');
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo((43.7 / 172) * 100, 9);
-    expect(f.detail).toMatch(/main hook block HB120 2\.70 t/);
+    expect(ropeT(12, 6)).toBeCloseTo(0.8437, 4); // 6 × (2.6 + √(1296 − 112.36)) × 3.8 = 6 × 37.004 × 3.8 kg
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12, 6)) / 172) * 100, 9);
+    expect(f.value).toBe('25.9 % of chart (44.54 t of 172 t at 12 m)');
+    expect(f.detail).toMatch(/main hook block HB120 2\.70 t \+ main hoist rope below the tip \(6 falls × 37\.0 m\) 0\.84 t/);
     expect(r.figures.some((x) => x.key === 'boom.loadChart')).toBe(false);
   });
 
-  it('at 12.5 m the chart is read at 14 m (148.0 t), not interpolated: 43.7 ÷ 148.0 = 29.53 %', () => {
-    const r = run(plan((c) => (c.heaviestLoad.radiusM = 12.5)));
-    expect(r.chart!.lift!.chartRadiusM).toBe(14);
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo((43.7 / 148) * 100, 9);
+  it('a hook going 20 m below ground hangs 6 × 20 m × 3.8 kg/m = 0.456 t more rope below the tip', () => {
+    const r = run(plan((c) => (c.mainHook.lowestHookPositionM = -20)));
+    expect(r.chart!.lift!.totalT - run(plan()).chart!.lift!.totalT).toBeCloseTo(0.456, 9);
   });
 
-  it('the auxiliary hook and sheave head hang with the load: + BALL12 0.62 t + head 1.4 t = 45.72 t → 26.58 %', () => {
+  it('a rope the data gives no mass for → caution “NOT INCLUDED”, no override until the data gives it', () => {
+    const data = structuredClone(crane);
+    data.ropes = data.ropes.map((x) => ({ ...x, massKgPerM: null }));
+    const f = fig(run(plan(), data), 'chart.lift');
+    expect(f).toMatchObject({ status: 'caution', overridable: false });
+    expect(f.detail).toMatch(/main hoist rope below the tip \(6 falls × 37\.0 m\) not in the data: NOT INCLUDED/);
+  });
+
+  it('at 12.5 m the chart is read at 14 m (148.0 t), not interpolated', () => {
+    const r = run(plan((c) => (c.heaviestLoad.radiusM = 12.5)));
+    expect(r.chart!.lift!.chartRadiusM).toBe(14);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12.5, 6)) / 148) * 100, 9);
+  });
+
+  it('the auxiliary hook, sheave head and one fall of auxiliary rope hang with the load: + BALL12 0.62 t + head 1.4 t', () => {
     const r = run(plan((c) => (c.auxiliary = { enabled: true, hookBlockId: 'BALL12' })));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo((45.72 / 172) * 100, 9);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((45.72 + ropeT(12, 6) + ropeT(12, 1)) / 172) * 100, 9);
     expect(fig(r, 'chart.lift').status).toBe('pass');
   });
 
-  it('between the caution share and 100 %: HB160 (4.9 t) with 130 t + 1 t at 12 m = 135.9 ÷ 172 = 79.0 % → caution, overridable', () => {
+  it('between the caution share and 100 %: HB160 (4.9 t) on 18 falls with 130 t + 1 t at 12 m = 138.43 ÷ 172 = 80.5 % → caution, overridable', () => {
     const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 130))));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo((135.9 / 172) * 100, 9);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((135.9 + ropeT(12, 18)) / 172) * 100, 9);
     expect(fig(r, 'chart.lift')).toMatchObject({ status: 'caution', overridable: true });
     expect(fig(r, 'chart.lift').detail).toMatch(/above the site's caution share of 75 %/);
   });
 
-  it('above 100 %: 170 t + 1 t + 4.9 t = 175.9 ÷ 172 = 102.3 % → fail, never overridable', () => {
+  it('above 100 %: 170 t + 1 t + 4.9 t + 2.53 t of rope = 178.43 ÷ 172 = 103.7 % → fail, never overridable', () => {
     const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 170))));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo((175.9 / 172) * 100, 9);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((175.9 + ropeT(12, 18)) / 172) * 100, 9);
     expect(fig(r, 'chart.lift')).toMatchObject({ status: 'fail', overridable: false });
   });
 
-  it('the caution share is the site’s setting: 85 t + 1 t + 2.7 t = 88.7 ÷ 172 = 51.6 % passes at 75 %, needs care at 50 %', () => {
+  it('the caution share is the site’s setting: 85 t + 1 t + 2.7 t + 0.84 t = 89.54 ÷ 172 = 52.1 % passes at 75 %, needs care at 50 %', () => {
     expect(fig(run(plan((c) => (c.heaviestLoad.loadT = 85))), 'chart.lift').status).toBe('pass');
     expect(fig(run(plan((c) => ((c.heaviestLoad.loadT = 85), (c.chartCautionPercent = 50)))), 'chart.lift').status).toBe('caution');
     expect(configurationSchema.safeParse({ ...plan(), chartCautionPercent: 49 }).success).toBe(false);
