@@ -122,14 +122,10 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   const hookX = (blockLeft + Math.max(blockLeft + 28, blockRight)) / 2;
   const hookTop = blockY + r + 26;
   out.push(`<path d="M ${px(hookX)} ${px(hookTop)} v 18 a 12 12 0 1 1 -12 12" fill="none" stroke="${p.ink}" stroke-width="4"/>`);
-  out.push(
-    text(
-      blockLeft,
-      hookTop + 62,
-      `Hook block ${hookBlockId}: ${sheaveCount} sheave${sheaveCount === 1 ? '' : 's'}, ${used.block} in use`,
-      `font-size="13" font-weight="700" fill="${p.ink}"`,
-    ),
-  );
+  const blockLabel = `Hook block ${hookBlockId}: ${sheaveCount} sheave${sheaveCount === 1 ? '' : 's'}, ${used.block} in use`;
+  // About 7.5 px a character at 13 px bold: a label that would run off a narrow drawing ends at its right edge instead.
+  const blockLabelFits = blockLeft + blockLabel.length * 7.5 <= width - 8;
+  out.push(text(blockLabelFits ? blockLeft : width - 8, hookTop + 62, blockLabel, `font-size="13" font-weight="700" fill="${p.ink}"${blockLabelFits ? '' : ' text-anchor="end"'}`));
 
   // Sheaves: the lead sheave, then a top turn after every even part and a bottom turn after every odd part.
   const sheave = (cx: number, cy: number, state: 'used' | 'unused', kind: 'tip' | 'block') =>
@@ -158,16 +154,22 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   const deadY = deadAtBlock ? blockY : tipY;
   out.push(`<rect x="${px(deadX - 6)}" y="${px(deadY - 6)}" width="12" height="12" fill="${p.ink}" data-dead-end="${deadAtBlock ? 'block' : 'tip'}"/>`);
   const deadLabel = `Dead end (${deadAtBlock ? 'at the hook block' : 'at the boom tip'})`;
-  const deadLabelY = deadAtBlock ? blockY - r - 24 : tipY + r + 24;
-  out.push(text(Math.min(deadX + 12, width - 8), deadLabelY, deadLabel, `font-size="12" font-weight="700" text-anchor="${deadX + 12 > width - 200 ? 'end' : 'start'}" fill="${p.ink}"`));
 
   out.push(text(20, 26, `${parts} part${parts === 1 ? '' : 's'} of line · lead-line pull ${leadLinePullKn.toFixed(1)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
   let footerY = hookTop + 88;
+  // The dead end is named in a key under the drawing: a label beside the square crossed the parts of line on narrow screens.
+  out.push(`<rect x="20" y="${px(footerY - 10)}" width="10" height="10" fill="${p.ink}"/>`);
+  out.push(text(36, footerY, deadLabel, `font-size="12" font-weight="700" fill="${p.ink}"`));
+  footerY += 20;
   if (leadSheaves.length > 0) {
     // Each lead sheave's bearing sets its friction in the pull; a plain bearing is named so the rigger can check it.
-    const via = leadSheaves.map((s) => `${s.id} (${s.bearing === 'plain' ? 'plain bearing' : 'rolling bearing'})`).join(', ');
-    out.push(text(20, footerY, `Lead line from the drum over ${via}`, `font-size="12" fill="${p.ink}" data-lead-sheaves="${leadSheaves.length}"`));
-    footerY += 20;
+    out.push(text(20, footerY, 'Lead sheaves from the drum to the tip:', `font-size="12" font-weight="700" fill="${p.ink}" data-lead-sheaves="${leadSheaves.length}"`));
+    footerY += 18;
+    for (const s of leadSheaves) {
+      out.push(text(32, footerY, `${s.id}, ${s.bearing === 'plain' ? 'plain bearing' : 'rolling bearing'}`, `font-size="12" fill="${p.ink}"`));
+      footerY += 18;
+    }
+    footerY += 2;
   }
   if (tooFewSheaves) {
     out.push(text(20, footerY, `WARNING: ${parts} parts need ${used.block} block sheaves; ${hookBlockId} has ${sheaveCount}`, `font-size="13" font-weight="700" fill="${p.stop}"`));

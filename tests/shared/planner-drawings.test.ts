@@ -92,7 +92,9 @@ describe('reevingSvg', () => {
     expect(t).toContain('Dead end (at the boom tip)');
     expect(t).toContain('Hook block HB120: 6 sheaves, 3 in use');
     // the lead sheaves of the demo path, each with its bearing (the base idler is plain)
-    expect(t).toContain('Lead line from the drum over tip-guide (rolling bearing), base-idler (plain bearing)');
+    expect(t).toContain('Lead sheaves from the drum to the tip:');
+    expect(t).toContain('tip-guide, rolling bearing');
+    expect(t).toContain('base-idler, plain bearing');
   });
 
   it('puts the dead end at the block for an odd number of parts, and every part between the tip and block rows', () => {
