@@ -191,7 +191,7 @@ function siteHazardSteps(draft: StageDraft, ctx: Context): void {
   cfg.siteHazards.powerLines.forEach((line, i) => {
     const r = results.powerLines[i];
     const clearance = r && r.requiredClearanceM !== null
-      ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m`
+      ? `${num(Math.ceil(r.requiredClearanceM * 100 - 1e-9) / 100)} m${r.basisWords ? ` (${r.basisWords})` : ''}`
       : 'not in the table for this voltage: get the distance from the line’s owner';
     const tooClose = r ? !r.pass || r.assist?.pass === false : true;
     draft.add(
