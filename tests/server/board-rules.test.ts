@@ -18,6 +18,8 @@ import {
   completeSteps,
   controllerValues18m,
   httpCommand,
+  inStepOrder,
+  readingWithinLimit,
   uploadPhoto,
   type CrewByRole,
 } from '../helpers/board.js';
@@ -311,6 +313,42 @@ describe('board rules', () => {
       expect((await httpCommand(server, crew.operator, jobId, { type: 'step.complete', stepId: first.id, ...(first.records ? { value: '1' } : {}) })).status).toBe(200);
       board = await boardOf(server, crew.supervisor, jobId);
       expect(board.weather).toMatchObject({ meanMs: 8.9, gustMs: 12.9 });
+    });
+
+    it('dismantling: the hold before lowering and the lowering itself refuse an old reading', { timeout: 60_000 }, async () => {
+      const job = await plannedJob(server, crew, unitId, 'Rules dismantling');
+      await request(server.app).patch(`/api/jobs/${job.id}`).set(auth(crew.supervisor)).send({ kind: 'dismantling' }).expect(200);
+      await request(server.app).post(`/api/jobs/${job.id}/plan/generate`).set(auth(crew.supervisor)).expect(201);
+      await request(server.app).post(`/api/jobs/${job.id}/ready`).set(auth(crew.supervisor)).expect(200);
+      expect((await httpCommand(server, crew.supervisor, job.id, { type: 'job.start' })).status).toBe(200);
+      await briefEveryone(server, crew, job.id);
+      const lower = (await boardOf(server, crew.supervisor, job.id)).stages.find((s) => s.id === 'dm-lower')!;
+      // Work every stage the lowering waits for; the last hold before it is left open.
+      for (let guard = 0; guard < 30; guard++) {
+        const board = await boardOf(server, crew.supervisor, job.id);
+        const next = board.stages.find((s) => s.state === 'active' || s.state === 'holding')!;
+        if (next.state === 'holding' && lower.dependsOn.includes(next.id) && next.hold) break;
+        if (next.state === 'active') await completeSteps(server, crew, job.id, next.id);
+        else await acknowledgeAndRelease(server, crew, job.id, next.id);
+      }
+      const before = (await boardOf(server, crew.supervisor, job.id)).stages.find((s) => s.state === 'holding')!;
+      const hold = await acknowledgeAll(job.id, before.id);
+      await httpCommand(server, crew.rigger, job.id, calmWeather);
+      server.advance(16 * 60 * 1000);
+      resign();
+      const old = await httpCommand(server, crew.supervisor, job.id, { type: 'hold.release', holdId: hold.id });
+      expect(old.body.error?.code).toBe('weather_required');
+      await httpCommand(server, crew.rigger, job.id, calmWeather);
+      expect((await httpCommand(server, crew.supervisor, job.id, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
+      const active = (await boardOf(server, crew.supervisor, job.id)).stages.find((s) => s.id === 'dm-lower')!;
+      expect(active.state).toBe('active');
+      server.advance(16 * 60 * 1000);
+      resign();
+      const first = inStepOrder(active.steps)[0];
+      const who = crew[first.allowedRoles.find((r) => r !== 'viewer') as keyof CrewByRole];
+      const photoId = first.requiresPhoto ? await uploadPhoto(server, who) : undefined;
+      const stale = await httpCommand(server, who, job.id, { type: 'step.complete', stepId: first.id, ...(first.records ? { value: readingWithinLimit(first) } : {}), ...(photoId ? { photoId } : {}) });
+      expect(stale.body.error?.message).toMatch(/^“Lower the boom onto blocking” moves the boom: Record a new weather reading/);
     });
 
     it('weather readings take one decimal, up to at least 40 m/s, and say at what height they were taken', async () => {
