@@ -416,7 +416,7 @@ function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHo
     const permissible = drum.permissibleLinePullKn;
     // Single line over the auxiliary sheave (one sheave head); the hook's full rating is the load,
     // because the plan gives no auxiliary load and the hook may be loaded to its marking (common practice, no source).
-    const rule = `${lead.rule}; ${path.words}; one part of line; load = (rated load of ${aux.id} + its own weight) × 9.80665 kN/t; ≤ permissible line pull of the auxiliary hoist drum, a winch rating (manufacturer arrangement data)`;
+    const rule = `${lead.rule}; ${path.words}; one part of line (a single-sheave head); load = (rated load of ${aux.id} + its own weight) × 9.80665 kN/t, the hook’s full rating because the plan gives no auxiliary load (common practice, no source); ≤ permissible line pull of the auxiliary hoist drum, a winch rating (manufacturer arrangement data)`;
     const most = (permissible * lead.mechanicalAdvantage * path.lead.reduce((p, l) => p * l.efficiency, 1)) / 9.80665 - aux.weightKg / 1000;
     const notes = path.notes.length > 0 ? `; ${path.notes.join('; ')}` : '';
     figures.push(
