@@ -22,10 +22,12 @@ export const dismantlingStages = {
       layDownArea: {
         text: 'Check the ground where the boom will lie, {boomLengthM} m of it, is firm, clear, and has room for the blocking.',
         roles: ['supervisor', 'rigger'],
+        required: true,
       },
       plates: {
         text: 'Check the steel plates are still in place under the crawler ends.',
         roles: ['rigger', 'supervisor'],
+        required: true,
       },
     },
     hold: {
@@ -278,7 +280,7 @@ export const dismantlingStages = {
         roles: ['rigger', 'supervisor'],
         record: { kind: 'serial', label: 'Serial taken off', unit: null, check: null },
       },
-      stow: { text: 'Put the pins and keepers back in their stowage on the section.', roles: ['rigger'], after: ['pins'] },
+      stow: { text: 'Put the pins and keepers back in their stowage on the section.', roles: ['rigger'], after: ['pins'], required: true },
     },
     hold: {
       title: 'Joint {n} apart',
@@ -305,10 +307,11 @@ export const dismantlingStages = {
         roles: ['operator', 'supervisor'],
         record: { kind: 'reading', label: 'Counterweight on the crane', unit: 't', check: 'plan' },
       },
-      // Off in the reverse of the fitting order, each block after the one before it.
+      // Off in the reverse of the fitting order, each block after the one before it; the hold attests every block.
       block: {
         text: 'Take off counterweight block {blockId} ({weightT} t), {n} of {count}. Left on the crane after this block: {remainingT} t.',
         roles: ['rigger', 'operator'],
+        required: true,
         moves: true,
         after: ['confirm'],
       },

@@ -26,11 +26,13 @@ export const erectionStages = {
       mats: {
         text: 'Lay the crane mats ({lengthM} × {widthM} × {thicknessM} m) where the plan shows them.',
         roles: ['rigger', 'supervisor'],
+        required: true,
         caution: 'Nobody between a mat being placed and the ground or another mat.',
       },
       plates: {
         text: 'Lay steel plates under the crawler ends: the crane data asks for them from {thresholdM} m of boom, and this boom is {boomLengthM} m. Photo of the plates in place.',
         roles: ['rigger', 'supervisor'],
+        required: true,
         photo: true,
         caution: 'Nobody between a plate being placed and the ground or the crawler.',
       },
@@ -322,6 +324,7 @@ export const erectionStages = {
       clear: {
         text: 'Check nobody is on the boom or between the guy lines, and nothing loose is left on the boom.',
         roles: ['rigger', 'signaller'],
+        required: true,
       },
       signaller: {
         text: 'Signaller in place with a clear view of the boom hoist drum and the lines.',
@@ -568,9 +571,10 @@ export const erectionStages = {
         after: ['lift-off'],
       },
       raise: { text: 'On signal, raise the boom the rest of the way, slowly, to working angle.', roles: ['operator', 'signaller'], after: ['stop-check'], moves: true },
-      overHoist: { text: 'Test the main over-hoist limit: it must stop the hook before the block reaches the tip.', roles: ['operator'], after: ['raise'] },
-      auxOverHoist: { text: 'Test the auxiliary over-hoist limit the same way.', roles: ['operator'], after: ['raise'] },
-      boomLimits: { text: 'Test the boom angle limits, up and down.', roles: ['operator'], after: ['raise'] },
+      // The function-test hold attests each limit test: they are required.
+      overHoist: { text: 'Test the main over-hoist limit: it must stop the hook before the block reaches the tip.', roles: ['operator'], after: ['raise'], required: true },
+      auxOverHoist: { text: 'Test the auxiliary over-hoist limit the same way.', roles: ['operator'], after: ['raise'], required: true },
+      boomLimits: { text: 'Test the boom angle limits, up and down.', roles: ['operator'], after: ['raise'], required: true },
       // The known load is the main hook block, whose weight the crane data gives. A load indicator
       // must never read below the load it carries and should read at most 10 % above it (SAE J159,
       // from memory): the check holds the reading to at least the known load, the safe side.
