@@ -311,8 +311,6 @@ function solve3(m: number[][], t: Vec3): Vec3 | null {
   return [det(col(0)) / d, det(col(1)) / d, det(col(2)) / d];
 }
 
-const dot3 = (a: readonly number[], b: readonly number[]) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-const mul3 = (m: number[][], v: Vec3): Vec3 => [dot3(m[0], v), dot3(m[1], v), dot3(m[2], v)];
 
 function footprintRects(f: TrackFootprint): Pt[][] {
   const hl = f.trackLengthM / 2;
@@ -347,6 +345,129 @@ function checkFootprint(f: TrackFootprint): void {
   if (f.gaugeM < f.shoeWidthM) throw new CalcInputError('gaugeM', `the gauge ${f.gaugeM} m is less than the shoe width ${f.shoeWidthM} m: the tracks would overlap`);
 }
 
+// Scratch space for the solver's clipped polygons and moments: pure, synchronous, never shared across calls.
+const clipX = new Float64Array(8);
+const clipY = new Float64Array(8);
+const acc = new Float64Array(6);
+
+/** Adds ∫1, ∫x, ∫y, ∫x², ∫xy, ∫y² over the part of an axis-aligned rectangle where a + b·x + c·y ≥ 0 to `acc`. */
+function addClippedRect(x0: number, x1: number, y0: number, y1: number, a: number, b: number, c: number): void {
+  let n = 0;
+  for (let i = 0; i < 4; i += 1) {
+    const cx = i === 0 || i === 3 ? x0 : x1;
+    const cy = i < 2 ? y0 : y1;
+    const j = (i + 1) & 3;
+    const nx = j === 0 || j === 3 ? x0 : x1;
+    const ny = j < 2 ? y0 : y1;
+    const qc = a + b * cx + c * cy;
+    const qn = a + b * nx + c * ny;
+    if (qc >= 0) {
+      clipX[n] = cx;
+      clipY[n] = cy;
+      n += 1;
+    }
+    if (qc >= 0 !== qn >= 0) {
+      const t = qc / (qc - qn);
+      clipX[n] = cx + t * (nx - cx);
+      clipY[n] = cy + t * (ny - cy);
+      n += 1;
+    }
+  }
+  if (n < 3) return;
+  for (let i = 0; i < n; i += 1) {
+    const px0 = clipX[i];
+    const py0 = clipY[i];
+    const px1 = clipX[(i + 1) % n];
+    const py1 = clipY[(i + 1) % n];
+    const cross = px0 * py1 - px1 * py0;
+    acc[0] += cross / 2;
+    acc[1] += ((px0 + px1) * cross) / 6;
+    acc[2] += ((py0 + py1) * cross) / 6;
+    acc[3] += ((px0 * px0 + px0 * px1 + px1 * px1) * cross) / 12;
+    acc[4] += ((px0 * py1 + 2 * px0 * py0 + 2 * px1 * py1 + px1 * py0) * cross) / 24;
+    acc[5] += ((py0 * py0 + py0 * py1 + py1 * py1) * cross) / 12;
+  }
+}
+
+/** The moment matrix of the contact area of a plane over the rectangles, into `acc` [A, Sx, Sy, Ixx, Ixy, Iyy]. */
+function contactMoments(rects: readonly Pt[][], a: number, b: number, c: number): void {
+  acc.fill(0);
+  for (const r of rects) addClippedRect(r[0][0], r[1][0], r[0][1], r[2][1], a, b, c);
+}
+
+/**
+ * The no-tension plane: Newton steps on Ψ(p) = ½∫(q⁺)² dA − p·t (convex; its gradient is zero
+ * exactly when the positive part of the plane carries V and both moments). Each step solves the
+ * full-contact equations on the current contact area; a step-halving line search keeps Ψ falling.
+ */
+function solveNoTensionPlane(
+  rects: readonly Pt[][],
+  fullMatrix: number[][],
+  v: number,
+  mx: number,
+  my: number,
+  hl: number,
+  hw: number,
+): { a: number; b: number; c: number; iterations: number } {
+  const first = solve3(fullMatrix, [v, mx, my]);
+  if (!first) throw new CalcInputError('gaugeM', 'the track footprint has no area to bear on');
+  let [a, b, c] = first;
+  let inTension = false;
+  for (const r of rects) for (const [x, y] of r) if (a + b * x + c * y < 0) inTension = true;
+  if (!inTension) return { a, b, c, iterations: 0 };
+  contactMoments(rects, a, b, c);
+  let m00 = acc[0], m01 = acc[1], m02 = acc[2], m11 = acc[3], m12 = acc[4], m22 = acc[5];
+  let iterations = 0;
+  for (; iterations < 200; iterations += 1) {
+    const r0 = m00 * a + m01 * b + m02 * c - v;
+    const r1 = m01 * a + m11 * b + m12 * c - mx;
+    const r2 = m02 * a + m12 * b + m22 * c - my;
+    if (Math.max(Math.abs(r0) / v, Math.abs(r1) / (v * hl), Math.abs(r2) / (v * hw)) < 1e-12) break;
+    // Newton target: the full-contact solution on the current contact area (Cramer's rule, symmetric matrix).
+    const c00 = m11 * m22 - m12 * m12;
+    const c01 = m02 * m12 - m01 * m22;
+    const c02 = m01 * m12 - m02 * m11;
+    const det = m00 * c00 + m01 * c01 + m02 * c02;
+    if (!Number.isFinite(det) || Math.abs(det) < 1e-14 * Math.abs(m00 * m11 * m22 || 1)) {
+      throw new CalcInputError('eccentricityM', 'the contact area shrank to nothing: the load overturns the crane');
+    }
+    const c11 = m00 * m22 - m02 * m02;
+    const c12 = m01 * m02 - m00 * m12;
+    const c22 = m00 * m11 - m01 * m01;
+    const ta = (c00 * v + c01 * mx + c02 * my) / det;
+    const tb = (c01 * v + c11 * mx + c12 * my) / det;
+    const tc = (c02 * v + c12 * mx + c22 * my) / det;
+    const da = ta - a;
+    const db = tb - b;
+    const dc = tc - c;
+    const slope = r0 * da + r1 * db + r2 * dc;
+    const psi0 = 0.5 * (a * (m00 * a + m01 * b + m02 * c) + b * (m01 * a + m11 * b + m12 * c) + c * (m02 * a + m12 * b + m22 * c)) - (a * v + b * mx + c * my);
+    let s = 1;
+    for (;;) {
+      const na = a + s * da;
+      const nb = b + s * db;
+      const nc = c + s * dc;
+      contactMoments(rects, na, nb, nc);
+      const [n00, n01, n02, n11, n12, n22] = acc;
+      const psi = 0.5 * (na * (n00 * na + n01 * nb + n02 * nc) + nb * (n01 * na + n11 * nb + n12 * nc) + nc * (n02 * na + n12 * nb + n22 * nc)) - (na * v + nb * mx + nc * my);
+      if (psi <= psi0 + 1e-4 * s * slope + 1e-12 * Math.abs(psi0) || s <= 1e-6) {
+        a = na;
+        b = nb;
+        c = nc;
+        m00 = n00;
+        m01 = n01;
+        m02 = n02;
+        m11 = n11;
+        m12 = n12;
+        m22 = n22;
+        break;
+      }
+      s /= 2;
+    }
+  }
+  return { a, b, c, iterations };
+}
+
 /**
  * Pressure under two tracks taken as one rigid footing: the plane q = a + b·x + c·y with no
  * tension, found by minimising the convex function ½∫(q⁺)² dA − (a·V + b·V·ex + c·V·ey) whose
@@ -373,45 +494,18 @@ export function rigidPlanePressure(input: TrackFootprint & { verticalLoadKn: num
     throw new CalcInputError('eccentricityM', `the resultant is ${Math.abs(ey).toFixed(2)} m across the tracks, at or past their outer edge (${hw} m): the load overturns the crane`);
   }
   const { rects, corners, full } = footprintGeometry(input);
-  const t: Vec3 = [v, mx, my];
-  let p = solve3(full.m, t);
-  if (!p) throw new CalcInputError('gaugeM', 'the track footprint has no area to bear on');
-  const qAt = (pp: Vec3, c: Pt) => pp[0] + pp[1] * c[0] + pp[2] * c[1];
-  // Ψ(p) = ½∫(q⁺)² − p·t = ½ pᵀ J(p) p − p·t, with J the moment matrix of the contact area.
-  const psiOf = (pp: Vec3, m: number[][]) => 0.5 * dot3(pp, mul3(m, pp)) - dot3(pp, t);
-  let iterations = 0;
-  if (Math.min(...corners.map((c) => qAt(p!, c))) < 0) {
-    let m = contactMatrix(rects, p).m;
-    for (; iterations < 200; iterations += 1) {
-      const residual = mul3(m, p).map((r, i) => r - t[i]);
-      const scale = [v, v * hl, v * hw];
-      if (Math.max(...residual.map((r, i) => Math.abs(r) / scale[i])) < 1e-12) break;
-      const target = solve3(m, t);
-      if (!target) throw new CalcInputError('eccentricityM', 'the contact area shrank to nothing: the load overturns the crane');
-      const d: Vec3 = [target[0] - p[0], target[1] - p[1], target[2] - p[2]];
-      const slope = dot3(residual, d);
-      const f0 = psiOf(p, m);
-      // Newton step, halved until Ψ falls enough (Armijo); the contact matrix found is kept for the next step.
-      let s = 1;
-      let next: Vec3 = [p[0] + d[0], p[1] + d[1], p[2] + d[2]];
-      let mNext = contactMatrix(rects, next).m;
-      while (s > 1e-6 && psiOf(next, mNext) > f0 + 1e-4 * s * slope + 1e-12 * Math.abs(f0)) {
-        s /= 2;
-        next = [p[0] + s * d[0], p[1] + s * d[1], p[2] + s * d[2]];
-        mNext = contactMatrix(rects, next).m;
-      }
-      p = next;
-      m = mNext;
-    }
-  }
-  const { area } = contactMatrix(rects, p);
+  const { a, b, c, iterations } = solveNoTensionPlane(rects, full.m, v, mx, my, hl, hw);
+  const p: Vec3 = [a, b, c];
+  const qAt = (pp: Vec3, cc: Pt) => pp[0] + pp[1] * cc[0] + pp[2] * cc[1];
+  contactMoments(rects, a, b, c);
+  const area = acc[0];
   let maxQ = qAt(p, corners[0]);
   let maxAt: Pt = corners[0];
-  for (const c of corners.slice(1)) {
-    const q = qAt(p, c);
+  for (const corner of corners.slice(1)) {
+    const q = qAt(p, corner);
     if (q > maxQ + 1e-9 * Math.abs(maxQ)) {
       maxQ = q;
-      maxAt = c;
+      maxAt = corner;
     }
   }
   const footprintArea = full.area;
@@ -537,23 +631,20 @@ export function slewPressureSweep(
   const v = requirePositive('verticalLoadKn', input.verticalLoadKn);
   const m = requireFinite('momentKnm', input.momentKnm);
   const step = requireInRange('stepDeg', input.stepDeg ?? 5, 0.5, 5);
+  // A step that divides 90° puts the end and the side (0°, 90°, 180°, 270°) exactly on the grid.
+  if (Math.abs(90 / step - Math.round(90 / step)) > 1e-9) throw new CalcInputError('stepDeg', `must divide 90° exactly, got ${step}°`);
   const strip = input.stripLengthM === undefined ? null : requirePositive('stripLengthM', input.stripLengthM);
-  const angles = new Set<number>([0, 90, 180, 270]);
-  for (let a = 0; a < 360 - 1e-9; a += step) angles.add(Math.round(a * 1e6) / 1e6);
-  const sorted = [...angles].sort((a, b) => a - b);
-  const points: SlewPoint[] = [];
-  const blocks = new Map<number, TrackPressureResult>();
-  const byAngle = new Map<number, SlewPoint>();
-  for (const angleDeg of sorted) {
+  const count = Math.round(360 / step);
+  const points: SlewPoint[] = new Array<SlewPoint>(count);
+  const blocks: TrackPressureResult[] = new Array<TrackPressureResult>(count);
+  for (let k = 0; k < count; k += 1) {
+    const angleDeg = Math.round(k * step * 1e6) / 1e6;
     // The two tracks are a mirror image of each other about the track axis, so the pressure at
     // 360° − θ is the pressure at θ with the sides swapped: computed once. Front and rear (θ and
     // 180° − θ) are both computed, so a machine that is not symmetric front to back is still covered.
-    const mirror = byAngle.get(Math.round((360 - angleDeg) * 1e6) / 1e6);
-    if (angleDeg > 180 && mirror) {
-      const point = { ...mirror, angleDeg };
-      points.push(point);
-      byAngle.set(angleDeg, point);
-      blocks.set(angleDeg, blocks.get(mirror.angleDeg)!);
+    if (2 * k > count) {
+      points[k] = { ...points[count - k], angleDeg };
+      blocks[k] = blocks[count - k];
       continue;
     }
     const rad = (angleDeg * Math.PI) / 180;
@@ -582,19 +673,17 @@ export function slewPressureSweep(
         };
       }
     }
-    const point: SlewPoint = { angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip };
-    points.push(point);
-    byAngle.set(angleDeg, point);
-    blocks.set(angleDeg, pt.track);
+    points[k] = { angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip };
+    blocks[k] = pt.track;
   }
-  let worst = points[0];
-  for (const p of points) if (p.pressureKpa > worst.pressureKpa * (1 + 1e-9)) worst = p;
+  let worstIndex = 0;
+  for (let k = 1; k < count; k += 1) if (points[k].pressureKpa > points[worstIndex].pressureKpa * (1 + 1e-9)) worstIndex = k;
   return {
     points,
-    worst,
-    overEnd: points.find((p) => p.angleDeg === 0)!,
-    overSide: points.find((p) => p.angleDeg === 90)!,
-    worstTrack: blocks.get(worst.angleDeg)!,
+    worst: points[worstIndex],
+    overEnd: points[0],
+    overSide: points[Math.round(count / 4)],
+    worstTrack: blocks[worstIndex],
     stepDeg: step,
     rule: `every ${step}° of slew from 0° to 360° (over the end and over the side exactly), M_along = M·cos θ, M_across = M·sin θ, the larger of the per-track method and the rigid pressure plane at each angle`,
   };

@@ -188,8 +188,11 @@ export function groundPressureSvg(
       out.push(text(x, base + 31, angleNames[deg], `font-size="11" text-anchor="${anchor}" fill="${p.muted}"`));
     }
 
-    // The pressure curve over the full turn (closed back to 360° = 0°).
-    const pts = [...c.slew].sort((a, b) => a.angleDeg - b.angleDeg);
+    // The pressure curve over the full turn (closed back to 360° = 0°); a half turn given is mirrored
+    // (the tracks are mirror images about their axis, so 360° − θ carries the pressure of θ).
+    const given = [...c.slew].sort((a, b) => a.angleDeg - b.angleDeg);
+    const half = given[given.length - 1].angleDeg <= 180;
+    const pts = half ? [...given, ...given.filter((pt) => pt.angleDeg > 0 && pt.angleDeg < 180).map((pt) => ({ ...pt, angleDeg: 360 - pt.angleDeg })).reverse()] : given;
     const first = pts[0];
     const line = [...pts, { ...first, angleDeg: 360 }].map((pt) => `${px(xOf(pt.angleDeg))},${px(yOf(pt.pressureKpa))}`).join(' ');
     out.push(

@@ -177,10 +177,10 @@ export function computeGround(
       }
       // The worse weight set at every angle.
       const governing = sweeps.reduce((a, b) => (b.sweep.worst.pressureKpa > a.sweep.worst.pressureKpa ? b : a));
-      const slew = governing.sweep.points.map((p, i) => sweeps.reduce((best, s) => (s.sweep.points[i].pressureKpa > best.pressureKpa ? s.sweep.points[i] : best), p));
-      const worst = slew.reduce((a, b) => (b.pressureKpa > a.pressureKpa * (1 + 1e-9) ? b : a));
-      const overEnd = slew.find((p) => p.angleDeg === 0)!;
-      const overSide = slew.find((p) => p.angleDeg === 90)!;
+      const points = governing.sweep.points.map((p, i) => sweeps.reduce((best, s) => (s.sweep.points[i].pressureKpa > best.pressureKpa ? s.sweep.points[i] : best), p));
+      const worst = points.reduce((a, b) => (b.pressureKpa > a.pressureKpa * (1 + 1e-9) ? b : a));
+      const overEnd = points.find((p) => p.angleDeg === 0)!;
+      const overSide = points.find((p) => p.angleDeg === 90)!;
       const rule = `${governing.sweep.rule}; ${governing.sweep.points.some((p) => p.rigidPlaneKpa !== null) ? 'rigid plane: ' : ''}${tracks.count === 2 ? 'q(x, y) = V/A + M_along·x/I_y + M_across·y/I_x with no tension (contact area iterated to equilibrium); ' : 'rigid plane not applied: the data does not give one track on each side; '}per track: heavier side V/2 + |M_across| ÷ gauge (gauge ${plain(footprint.gaugeM)} m, the raising gauge), the moment along the tracks shared equally, eccentric footing theory along the track (Das, Principles of Foundation Engineering); V and M from the weights listed under “Weights in the ground pressure”; ${SLEW_NOTE}${sweeps.length > 1 ? '; hanging hoist rope taken both at its longest (hook at the ground) and its shortest (hook block at the tip), the worse kept at each angle' : ''}`;
       const value = `${fmt(worst.pressureKpa)} kPa at ${plain(worst.angleDeg)}° slew, ${worst.method} (allowable ${plain(allowable)} kPa)${missing ? ', weights not included' : ''}`;
       const detail = `${geometryNote}; V ${fmt(governing.verticalLoadKn)} kN, M ${fmt(governing.momentKnm)} kN·m; worst at ${plain(worst.angleDeg)}° at the ${whereWords(worst)}: per track ${fmt(worst.perTrackKpa)} kPa, rigid plane ${worst.rigidPlaneKpa === null ? 'not applied' : `${fmt(worst.rigidPlaneKpa)} kPa`}; over the end ${fmt(overEnd.pressureKpa)} kPa, over the side ${fmt(overSide.pressureKpa)} kPa; ${sourceNote}${missingNote}`;
@@ -194,7 +194,9 @@ export function computeGround(
           // track width, its width runs along the track and carries that much of the pressure block.
           // Checked at every slew angle; the most loaded one counts.
           let best: { m: MatPressureResult; point: SlewPoint } | null = null;
-          for (const point of slew) {
+          for (const point of points) {
+            // The far half of the turn mirrors the near half (the tracks are mirror images about their axis).
+            if (point.angleDeg > 180) continue;
             const strip = point.heavyEndStrip;
             if (!strip || strip.contactLengthM <= 0) continue;
             let m: MatPressureResult;
@@ -239,7 +241,7 @@ export function computeGround(
         label: caseLabels[key],
         verticalLoadKn: governing.verticalLoadKn,
         momentKnm: governing.momentKnm,
-        slew,
+        slew: points.filter((p) => p.angleDeg <= 180).map((p) => ({ angleDeg: p.angleDeg, pressureKpa: p.pressureKpa })),
         worst,
         overEnd,
         overSide,

@@ -21,8 +21,11 @@ export interface LoadCaseResult {
   verticalLoadKn: number;
   /** Moment about the slewing centre, positive towards the boom (same weight set). */
   momentKnm: number;
-  /** Pressure at every slew angle, 0° to 360° (the worse weight set at each angle). */
-  slew: SlewPoint[];
+  /**
+   * The governing pressure at every slew angle from 0° to 180° (the worse weight set at each angle);
+   * 180° to 360° mirrors it, the tracks being mirror images about their axis. Detail is on the three points below.
+   */
+  slew: { angleDeg: number; pressureKpa: number }[];
   /** The angle with the highest pressure; the figure is checked at it. */
   worst: SlewPoint;
   overEnd: SlewPoint;

@@ -15,7 +15,7 @@ function configuration(overrides: Partial<Configuration> = {}): Configuration {
     mainHook: { hookBlockId: 'HB120', parts: 6, lowestHookPositionM: 0 },
     auxiliary: { enabled: false, hookBlockId: null },
     heaviestLoad: { description: 'Roof truss', loadT: 20, riggingT: 0.8, radiusM: 8 },
-    ground: { groundType: 'firm clay', allowablePressureKpa: 400, source: { kind: 'ground_investigation', reference: 'GI report X-1' } },
+    ground: { groundType: 'firm clay', allowablePressureKpa: 400, source: { kind: 'ground_investigation', reference: 'GI report X-1', designer: '' } },
     mats: { used: false, lengthM: 5, widthM: 1.2, thicknessM: 0.3, weightKg: 1100 },
     assist: {
       assistCraneId: null,

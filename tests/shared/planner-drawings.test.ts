@@ -137,12 +137,16 @@ describe('groundPressureSvg', () => {
     for (const line of allowable) expect(line.getAttribute('stroke-dasharray')).toBeTruthy();
     curves.forEach((curve, i) => {
       const pts = (curve.getAttribute('points') ?? '').split(' ').map((pt) => pt.split(',').map(Number));
-      // 72 angles and the closing point at 360°.
-      expect(pts).toHaveLength(cases[i].slew.length + 1);
+      // 0° to 180° given and mirrored: 72 angles and the closing point at 360°.
+      expect(cases[i].slew).toHaveLength(37);
+      expect(pts).toHaveLength(73);
       // x in proportion to the angle, y in proportion to the pressure, one scale for every panel.
       const pxPerDeg = (pts[pts.length - 1][0] - pts[0][0]) / 360;
       const sorted = [...cases[i].slew].sort((a, b) => a.angleDeg - b.angleDeg);
       sorted.forEach((p, k) => expect(pts[k][0] - pts[0][0]).toBeCloseTo(p.angleDeg * pxPerDeg, 1));
+      // The far half mirrors the near half: 360° − θ at the height of θ.
+      expect(pts[72 - 5][1]).toBeCloseTo(pts[5][1], 6);
+      expect(pts[72 - 5][0] - pts[0][0]).toBeCloseTo(335 * pxPerDeg, 1);
       const yAllow = num(allowable[i], 'y1');
       const kAtWorst = sorted.findIndex((p) => p.angleDeg === cases[i].worst.angleDeg);
       const kAt0 = 0;
