@@ -406,7 +406,8 @@ function erectionStagesFor(ctx: Context): PlanStage[] {
   if (raisingT !== null && blocks.length > 0) {
     upper.add('cw-count', t.upper.steps.cwCount, { count: blocks.length }, {
       check: planCheck(raisingT, `crane data: counterweight to raise ${boomWords}, ${blocks.length} blocks in the fitting order`),
-      after: blocks.map((b) => `cw-${idPart(b.id)}`),
+      // The blocks follow one another, so the last one brings all the others with it.
+      after: [`cw-${idPart(blocks[blocks.length - 1].id)}`],
     });
   }
   upper.add('limiter-mode', t.upper.steps.limiterMode);
