@@ -202,9 +202,12 @@ export function groundPressureSvg(
     // Allowable pressure: dashed across the plot, named on a plate.
     const yAllow = yOf(allowable);
     out.push(`<line x1="${px(plotLeft)}" y1="${px(yAllow)}" x2="${px(plotRight)}" y2="${px(yAllow)}" stroke="${p.allowable}" stroke-width="2" stroke-dasharray="8 5" data-allowable-kpa="${px(allowable)}"/>`);
-    // Named in the half of the turn away from the worst angle, so the two labels never meet.
-    const allowX = c.worst.angleDeg % 180 < 90 ? xOf(c.worst.angleDeg % 180 + 90) : xOf(c.worst.angleDeg % 180 - 90);
-    out.push(plate(allowX, yAllow - 5, `allowable ${allowable} kPa`, 11, 'middle', p.background, `font-weight="700" fill="${p.ink}"`));
+    // Named where the curve is lowest (furthest from the line), so the label hides none of the curve.
+    const lowest = pts.reduce((lo, pt) => (pt.pressureKpa < lo.pressureKpa ? pt : lo));
+    const allowLabel = `allowable ${allowable} kPa`;
+    const halfLabelPx = (allowLabel.length * 11 * 0.58 + 6) / 2;
+    const allowX = Math.min(plotRight - halfLabelPx, Math.max(plotLeft + halfLabelPx, xOf(lowest.angleDeg)));
+    out.push(plate(allowX, yAllow - 5, allowLabel, 11, 'middle', p.background, `font-weight="700" fill="${p.ink}"`));
 
     // The worst angle: a dotted line down to the axis, a triangle on the curve and its value in words.
     const wx = xOf(c.worst.angleDeg);
