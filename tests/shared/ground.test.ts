@@ -113,7 +113,7 @@ const G = 9.80665; // kN per tonne-force, exact by definition (3rd CGPM, 1901)
 
 describe('rigidPlanePressure: both tracks as one rigid footing, no tension', () => {
   it('within the kern it is the textbook q = P/A ± M/Z in both directions: published pad example 6.75 m × 6.5 m → 117.79 kPa', () => {
-    // Biaxial footing spreadsheet published on Scribd as "Footing Biaxial" (doc. 42353955), unfactored
+    // Biaxial footing design spreadsheet published on Scribd as "42353955-Footing-Biaxial" (document 46545078), unfactored
     // case: L = 6.75 m, B = 6.5 m, P = 3,205.52 kN, M about X = 2,000 kN·m, M about Z = 200 kN·m →
     // max 117.79, min 28.33 kN/m². One pad is two "tracks" of half its width side by side.
     const r = rigidPlanePressure({ trackLengthM: 6.75, shoeWidthM: 3.25, gaugeM: 3.25, tracks: 2, verticalLoadKn: 3205.52, momentAlongKnm: 2000, momentAcrossKnm: 200 });
@@ -126,7 +126,7 @@ describe('rigidPlanePressure: both tracks as one rigid footing, no tension', () 
 
   it('with a corner lifting: published worksheet example 9 ft × 9 ft, two-way eccentricity → f2 = 2,302 psf', () => {
     // Mathcad worksheet "Ftg-pres.mcd" (footing soil pressure by zones), published on Scribd as
-    // "Mathcad FDN" (doc. 359481267): 9 ft × 9 ft, V = 18.632 kips, M_y = 71.52 kip·ft,
+    // "Mathcad FDN" (document 359481267): 9 ft × 9 ft, V = 18.632 kips, M_y = 71.52 kip·ft,
     // M_x = 5.646 kip·ft, e_x = 3.84 ft, e_y = 0.30 ft → zone II, f2 = 2,302 psf. Units carried
     // through as kips and feet (the method is unit-free). The worksheet rounds to 4 figures.
     const r = rigidPlanePressure({ trackLengthM: 9, shoeWidthM: 4.5, gaugeM: 4.5, tracks: 2, verticalLoadKn: 18.632, momentAlongKnm: 71.52, momentAcrossKnm: 5.646 });
