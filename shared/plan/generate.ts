@@ -131,20 +131,26 @@ class StageDraft {
     if (movement) this.add('radio-check', radioCheckStep);
   }
 
+  /** The steps each step comes after, by full id, as the wording and the generator asked; resolved in `build`. */
+  private readonly wantedAfter = new Map<PlanStep, string[]>();
+
   /**
-   * Adds one step; its id is the stage id and the suffix. Its `after` holds the steps already in
-   * this stage that the wording or `extra.after` name; a name the stage does not have (an optional
-   * step left out for this configuration) is dropped.
+   * Adds one step; its id is the stage id and the suffix. Its `after` holds the steps of this
+   * stage that the wording or `extra.after` name (and the radio check for a step that moves the
+   * crane); a name the stage does not have (an optional step left out for this configuration) is
+   * dropped when the stage is built.
    */
   add(suffix: string, w: StepWording, vars: Vars = {}, extra: StepExtra = {}): this {
     const wanted = [...(w.after ?? []), ...(extra.after ?? []), ...(w.moves ? ['radio-check'] : [])].map((s) => `${this.id}.${s}`);
-    const present = new Set(this.steps.map((s) => s.id));
-    const after = [...new Set(wanted)].filter((id) => present.has(id));
-    this.steps.push(makeStep(this.ctx, `${this.id}.${suffix}`, w, { ...this.vars, ...vars }, extra, after));
+    const step = makeStep(this.ctx, `${this.id}.${suffix}`, w, { ...this.vars, ...vars }, extra, []);
+    this.wantedAfter.set(step, [...new Set(wanted)]);
+    this.steps.push(step);
     return this;
   }
 
   build(dependsOn: string[], valueCheck: PlanHold['valueCheck'] = null): PlanStage {
+    const present = new Set(this.steps.map((s) => s.id));
+    for (const step of this.steps) step.after = (this.wantedAfter.get(step) ?? []).filter((id) => id !== step.id && present.has(id));
     const h = this.w.hold;
     const hold: PlanHold | null = h
       ? {
