@@ -166,8 +166,9 @@ describe('live board views', () => {
     await screenshot(page, 'board-cab-stopped-phone');
     await screenshot(signaller.page, 'board-signaller-stopped-phone');
 
-    // A reason can follow the stop.
-    await signaller.page.getByRole('button', { name: 'Person in the exclusion zone' }).click();
+    // Whoever pressed stop records its cause; the signaller, who did not, is not offered the choice.
+    expect(await signaller.page.getByRole('button', { name: 'Person in the exclusion zone' }).count()).toBe(0);
+    await page.getByRole('button', { name: 'Person in the exclusion zone' }).click();
     await expect.poll(() => signaller.page.getByTestId('stopped-state').textContent()).toContain('Reason: Person in the exclusion zone');
     await expect.poll(() => page.getByTestId('stopped-state').textContent()).toContain('Reason: Person in the exclusion zone');
     await cab.context.close();

@@ -141,7 +141,7 @@ describe('the live board across devices', () => {
       if (box) expect(Math.min(box.width, box.height), `cab target ${i}`).toBeGreaterThanOrEqual(64);
     }
     for (const { context } of open.splice(0)) await context.close();
-  });
+  }, 240_000);
 
   it('a stop raised by the rigger reaches the cab as the stopped state', async () => {
     const cab = (await openView('operator', viewports.tablet)).page;
