@@ -286,7 +286,7 @@ export function computeGround(
       'ground.weights',
       'ground',
       'Weights in the ground pressure',
-      missing ? `Not included: ${notIncluded.join('; ')}` : 'Every weight in the crane data is included',
+      missing ? `Not included: ${notIncluded.join('; ')}. Complete the crane model’s data (Fleet) to include them.` : 'Every weight in the crane data is included',
       missing ? 'caution' : 'info',
       false,
       `${WEIGHTS_RULE}; a weight the crane data does not give is listed here and keeps every ground figure from passing until the data is completed (fleet: the crane model’s arrangement data)`,
