@@ -8,7 +8,10 @@ import { DemoBoardDriver } from '../../server/demo/board-driver.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { demoPhoto } from '../../server/demo/photos.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
+import { Job } from '../../server/entities/Job.js';
+import { JobPlan } from '../../server/entities/JobPlan.js';
 import { User } from '../../server/entities/User.js';
+import type { ValueCheckField } from '../../shared/schemas/plan.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
 
@@ -143,13 +146,41 @@ describe('the board in the hands of a crew', () => {
     await row.scrollIntoViewIfNeeded();
     await screenshot(rigger, 'crew-rigger-out-of-limit-phone');
 
-    // The rest of the stage is done and every role acknowledges the hold.
+    // The rest of the stage is done; the hold opens.
     await completeSteps('er-config');
+
+    // The operator's blind check fails three times (a boom length that is not the plan's): the hold locks.
+    const job = await server.context.dataSource.manager.findOneByOrFail(Job, { id: jobId });
+    const plan = await server.context.dataSource.manager.findOneByOrFail(JobPlan, { jobId, version: job.planVersion });
+    const expected = Object.fromEntries(plan.plan.stages.find((s) => s.id === 'er-config')!.hold!.valueCheck!.fields.map((f) => [f.field, f.expected])) as Record<ValueCheckField, string>;
+    for (let i = 0; i < 3; i++) {
+      const photoId = (await storeUpload(server.context, people.operator, { buffer: await demoPhoto('Controller screen', 'weld') })).id;
+      await expect(driver.send(people.operator, { type: 'hold.acknowledge', holdId, role: 'operator', values: { ...expected, boomLengthM: '99' }, photoId })).rejects.toThrow();
+      // The same person reads the controller again before the next try (30 s on the server's clock).
+      server.advance(31_000);
+    }
+    expect((await boardNow()).stages.find((s) => s.id === 'er-config')!.hold!.checkLocked).toBe(true);
+
+    // 2. The supervisor sees each failure (who, when, which field; never the values) and reviews it with the crew.
+    const supervisor = await openView('supervisor', viewports.desktop);
+    const failures = supervisor.getByTestId(`check-failures-${holdId}`);
+    await failures.waitFor({ timeout: 10_000 });
+    const failureText = (await failures.textContent()) ?? '';
+    expect(failureText).toContain('3 failed checks');
+    expect(failureText).toContain('Tomasz Wierzba (operator)');
+    expect(failureText).toContain('boom length (m) did not match the plan');
+    expect(failureText).not.toContain('99');
+    await failures.scrollIntoViewIfNeeded();
+    await screenshot(supervisor, 'crew-console-check-failures-laptop');
+    await failures.getByLabel('What you found with the crew').fill('Operator read the jib length line; boom length read again with the signaller');
+    await failures.getByRole('button', { name: 'Record the review' }).click();
+    await expect.poll(async () => (await boardNow()).stages.find((s) => s.id === 'er-config')!.hold!.checkLocked, { timeout: 10_000 }).toBe(false);
+
+    // Every role acknowledges the hold, the operator with the controller's true values.
     await driver.acknowledge('er-config');
     expect((await boardNow()).stages.find((s) => s.id === 'er-config')!.hold!.state).toBe('acknowledged');
 
-    // 2. The supervisor sees it at the hold (in words, beside the planned value) and on the console's list.
-    const supervisor = await openView('supervisor', viewports.desktop);
+    // The supervisor sees the count at the hold (in words, beside the planned value) and on the console's list.
     const limits = supervisor.getByTestId(`hold-limits-${holdId}`);
     await limits.waitFor({ timeout: 10_000 });
     expect(await limits.textContent()).toMatch(/Parts of line/);
