@@ -198,6 +198,10 @@ describe('jobs store', () => {
     expect(eventSummary({ ...base, type: 'configuration.set', data: { configuration: { boomLengthM: 18 }, figures: [{ status: 'fail' }, { status: 'pass' }], overridesWithdrawn: [] } })).toBe(
       'Configuration saved: 18 m boom; 1 failing',
     );
+    const twd = { boomLengthM: 60, ground: { allowablePressureKpa: 320, source: { kind: 'temporary_works_design', reference: 'TW-0042 rev C', designer: 'P. Marlow, Stanegate Temporary Works' } } };
+    expect(eventSummary({ ...base, type: 'configuration.set', data: { configuration: twd, figures: [], overridesWithdrawn: [] } })).toBe(
+      'Configuration saved: 60 m boom; 0 failing; ground 320 kPa from temporary-works design TW-0042 rev C by P. Marlow, Stanegate Temporary Works',
+    );
     // A kind of event the screen does not know is still a sentence, never its internal name or fields.
     expect(eventSummary({ ...base, type: 'board.somethingNew', data: { stageId: 's1' } })).toBe('Made a change this screen does not describe yet; it is kept in the record.');
     expect(fieldErrorOf({ 'siteHazards.powerLines.0.voltageKv': 'Enter a number' }, 'siteHazards.powerLines')).toBe('Enter a number');

@@ -104,7 +104,11 @@ export function eventSummary(event: Pick<JobEventDto, 'type' | 'data'>, job?: Pi
       const caution = figures.filter((f) => f.status === 'caution').length;
       const withdrawn = list(data.overridesWithdrawn).length;
       const bits = [`${failing} failing`, caution ? `${caution} needing care` : '', unverified ? `${unverified} unverified` : '', withdrawn ? `${withdrawn} override${withdrawn === 1 ? '' : 's'} withdrawn` : ''].filter(Boolean);
-      return `Configuration saved: ${text(config.boomLengthM)} m boom; ${bits.join(', ')}`;
+      const ground = record(config.ground);
+      const source = record(ground.source);
+      // A temporary-works allowable is recorded with its reference and designer, so the log says whose design it is.
+      const design = source.kind === 'temporary_works_design' ? `; ground ${text(ground.allowablePressureKpa)} kPa from temporary-works design ${text(source.reference)} by ${text(source.designer)}` : '';
+      return `Configuration saved: ${text(config.boomLengthM)} m boom; ${bits.join(', ')}${design}`;
     }
     case 'override.requested': {
       const o = record(data.override);
