@@ -130,7 +130,7 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(r.reeving).not.toBeNull();
     expect(r.reeving!.tipSheaveEfficiency).toBe(0.962);
     expect(r.reeving!.blockSheaveEfficiency).toBe(0.962);
-    expect(r.reeving!.leadSheaves).toEqual([{ id: 'tip-guide', efficiency: 0.962 }, { id: 'base-idler', efficiency: 0.917 }]);
+    expect(r.reeving!.leadSheaves).toEqual([{ id: 'tip-guide', bearing: 'rolling', efficiency: 0.962 }, { id: 'base-idler', bearing: 'plain', efficiency: 0.917 }]);
     expect(relErr(r.reeving!.leadLinePullKn, 92.522)).toBeLessThan(1e-4);
     expect(fig(r, 'rope.leadLinePull').status).toBe('pass');
     expect(fig(r, 'rope.leadLinePull').value).toBe('92.5 kN of 150 kN permissible');
