@@ -114,9 +114,9 @@ describe('configuration planner', () => {
     await expect.poll(async () => (await angle.textContent()) ?? '').toContain('at 12 m radius');
     expect(await angle.textContent()).not.toBe(before);
     // The share of the crane's own chart follows the radius: 20 t + 0.8 t + HB120 2.7 t + 6 falls of rope from the 17.1 m tip
-    // (0.39 t) = 23.89 t of the 18 m chart's 153.3 t at 12 m.
+    // (0.39 t) = 23.89 t of the 18 m chart's 81.5 t at 12 m, shown rounded up.
     const chartShare = figureValue(page, 'Heaviest lift: share of the crane’s chart');
-    await expect.poll(async () => (await chartShare.textContent()) ?? '').toBe('15.6 % of chart (23.89 t of 153.3 t at 12 m)');
+    await expect.poll(async () => (await chartShare.textContent()) ?? '').toBe('29.4 % of chart (23.89 t of 81.5 t at 12 m)');
 
     // The rule behind a figure opens on demand.
     const pullRow = page.locator('.planner-results .figure-row', { has: page.locator('.figure-label', { hasText: 'Lead-line pull' }) }).first();
@@ -191,11 +191,11 @@ describe('configuration planner', () => {
       .send({ name: 'Dismantling after the pump house', site: 'Riverside works, pad 2', craneUnitId: unitId, kind: 'dismantling' })
       .expect(201);
     const otherJobId = created.body.job.id as string;
-    // 90 t + 0.8 t + HB120 2.7 t + 0.70 t of rope at 10 m on the 18 m chart (182.0 t): 51.8 %, above a site caution share of 50 %: a matter of
+    // 56 t + 0.8 t + HB120 2.7 t + 0.70 t of rope at 10 m on the 18 m chart (105.4 t): 57.2 % rounded up, above a site caution share of 50 %: a matter of
     // judgement that may be overridden. 150 kPa allowable makes the ground fail too, and ground is never overridden.
     const config = configuration18m(unitId, {
       mainHook: { hookBlockId: 'HB120', parts: 10, lowestHookPositionM: 0 },
-      heaviestLoad: { description: 'Stator, 90 t', loadT: 90, riggingT: 0.8, radiusM: 10 },
+      heaviestLoad: { description: 'Stator, 56 t', loadT: 56, riggingT: 0.8, radiusM: 10 },
       chartCautionPercent: 50,
     });
     await request(server.app).put(`/api/jobs/${otherJobId}/configuration`).set(auth).send({ ...config, ground: { ...config.ground, allowablePressureKpa: 150 } }).expect(200);
@@ -211,7 +211,7 @@ describe('configuration planner', () => {
     await expect.poll(() => chartRow.isVisible()).toBe(true);
     expect(await page.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
     expect(await chartRow.locator('.tone-badge').textContent()).toContain('Caution');
-    expect(await chartRow.locator('.figure-value').textContent()).toBe('51.8 % of chart (94.20 t of 182 t at 10 m)');
+    expect(await chartRow.locator('.figure-value').textContent()).toBe('57.2 % of chart (60.20 t of 105.4 t at 10 m)');
     expect(await raisingRow.locator('.tone-badge').textContent()).toContain('FAIL');
     expect(await raisingRow.getByText('Cannot be overridden — change the configuration').isVisible()).toBe(true);
     expect(await raisingRow.getByRole('button', { name: 'Request override' }).count()).toBe(0);

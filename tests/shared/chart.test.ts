@@ -19,16 +19,16 @@ describe('readChart (common practice, no source)', () => {
   it('a listed radius reads its own row', () => {
     const r = readChart(chart36, 12);
     expect(r.covered && r.chartRadiusM).toBe(12);
-    expect(r.capacityT).toBe(172.0); // demo 36 m chart: 12 m → 172.0 t
-    if (r.covered) expect(r.capacityKn).toBeCloseTo(tToKn(172), 9);
+    expect(r.capacityT).toBe(113.3); // demo 36 m chart: 12 m → 113.3 t
+    if (r.covered) expect(r.capacityKn).toBeCloseTo(tToKn(113.3), 9);
   });
 
   it('between rows reads the next longer radius, never the interpolated value', () => {
-    // 12.5 m lies between 12 m (172.0 t) and 14 m (148.0 t): a straight line would give 166.0 t
+    // 12.5 m lies between 12 m (113.3 t) and 14 m (90.4 t): a straight line would give 107.6 t
     const r = readChart(chart36, 12.5);
     expect(r.chartRadiusM).toBe(14);
-    expect(r.capacityT).toBe(148.0);
-    expect(r.capacityT).toBeLessThan(166.0);
+    expect(r.capacityT).toBe(90.4);
+    expect(r.capacityT).toBeLessThan(107.5);
   });
 
   it('shorter than the first row is not covered; beyond the last row there is no capacity', () => {
@@ -131,13 +131,13 @@ function fig(r: ConfigurationResults, key: string): Figure {
 const ropeT = (radiusM: number, falls: number, lowestM = 0) => (falls * (2.6 + Math.sqrt(36 ** 2 - (radiusM - 1.4) ** 2) - lowestM) * 3.8) / 1000;
 
 describe('chart.lift: the heaviest lift as a share of the crane’s own chart', () => {
-  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) + 6 falls of rope from the 37.0 m tip (0.844 t) at 12 m: 44.54 t of 172.0 t = 25.90 %, pass', () => {
+  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) + 6 falls of rope from the 37.0 m tip (0.844 t) at 12 m: 44.54 t of 113.3 t = 39.31 %, shown rounded up, pass', () => {
     const r = run(plan());
     const f = fig(r, 'chart.lift');
     expect(f).toMatchObject({ status: 'pass', overridable: false, group: 'boom' });
     expect(ropeT(12, 6)).toBeCloseTo(0.8437, 4); // 6 × (2.6 + √(1296 − 112.36)) × 3.8 = 6 × 37.004 × 3.8 kg
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12, 6)) / 172) * 100, 9);
-    expect(f.value).toBe('25.9 % of chart (44.54 t of 172 t at 12 m)');
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12, 6)) / 113.3) * 100, 9);
+    expect(f.value).toBe('39.4 % of chart (44.54 t of 113.3 t at 12 m)');
     expect(f.detail).toMatch(/main hook block HB120 2\.70 t \+ main hoist rope below the tip \(6 falls × 37\.0 m\) 0\.84 t/);
     expect(r.figures.some((x) => x.key === 'boom.loadChart')).toBe(false);
   });
@@ -155,34 +155,34 @@ describe('chart.lift: the heaviest lift as a share of the crane’s own chart', 
     expect(f.detail).toMatch(/main hoist rope below the tip \(6 falls × 37\.0 m\) not in the data: NOT INCLUDED/);
   });
 
-  it('at 12.5 m the chart is read at 14 m (148.0 t), not interpolated', () => {
+  it('at 12.5 m the chart is read at 14 m (90.4 t), not interpolated', () => {
     const r = run(plan((c) => (c.heaviestLoad.radiusM = 12.5)));
     expect(r.chart!.lift!.chartRadiusM).toBe(14);
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12.5, 6)) / 148) * 100, 9);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12.5, 6)) / 90.4) * 100, 9);
   });
 
   it('the auxiliary hook, sheave head and one fall of auxiliary rope hang with the load: + BALL12 0.62 t + head 1.4 t', () => {
     const r = run(plan((c) => (c.auxiliary = { enabled: true, hookBlockId: 'BALL12' })));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((45.72 + ropeT(12, 6) + ropeT(12, 1)) / 172) * 100, 9);
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((45.72 + ropeT(12, 6) + ropeT(12, 1)) / 113.3) * 100, 9);
     expect(fig(r, 'chart.lift').status).toBe('pass');
   });
 
-  it('between the caution share and 100 %: HB160 (4.9 t) on 18 falls with 130 t + 1 t at 12 m = 138.43 ÷ 172 = 80.5 % → caution, overridable', () => {
-    const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 130))));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((135.9 + ropeT(12, 18)) / 172) * 100, 9);
+  it('between the caution share and 100 %: HB160 (4.9 t) on 18 falls with 83 t + 1 t at 12 m = 91.43 ÷ 113.3 = 80.7 % → caution, overridable', () => {
+    const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 83))));
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((88.9 + ropeT(12, 18)) / 113.3) * 100, 9);
     expect(fig(r, 'chart.lift')).toMatchObject({ status: 'caution', overridable: true });
     expect(fig(r, 'chart.lift').detail).toMatch(/above the site's caution share of 75 %/);
   });
 
-  it('above 100 %: 170 t + 1 t + 4.9 t + 2.53 t of rope = 178.43 ÷ 172 = 103.7 % → fail, never overridable', () => {
-    const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 170))));
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((175.9 + ropeT(12, 18)) / 172) * 100, 9);
+  it('above 100 %: 110 t + 1 t + 4.9 t + 2.53 t of rope = 118.43 ÷ 113.3 = 104.5 % → fail, never overridable', () => {
+    const r = run(plan((c) => ((c.mainHook = { hookBlockId: 'HB160', parts: 18, lowestHookPositionM: 0 }), (c.heaviestLoad.loadT = 110))));
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((115.9 + ropeT(12, 18)) / 113.3) * 100, 9);
     expect(fig(r, 'chart.lift')).toMatchObject({ status: 'fail', overridable: false });
   });
 
-  it('the caution share is the site’s setting: 85 t + 1 t + 2.7 t + 0.84 t = 89.54 ÷ 172 = 52.1 % passes at 75 %, needs care at 50 %', () => {
-    expect(fig(run(plan((c) => (c.heaviestLoad.loadT = 85))), 'chart.lift').status).toBe('pass');
-    expect(fig(run(plan((c) => ((c.heaviestLoad.loadT = 85), (c.chartCautionPercent = 50)))), 'chart.lift').status).toBe('caution');
+  it('the caution share is the site’s setting: 63 t + 1 t + 2.7 t + 0.84 t = 67.54 ÷ 113.3 = 59.6 % passes at 75 %, needs care at 50 %', () => {
+    expect(fig(run(plan((c) => (c.heaviestLoad.loadT = 63))), 'chart.lift').status).toBe('pass');
+    expect(fig(run(plan((c) => ((c.heaviestLoad.loadT = 63), (c.chartCautionPercent = 50)))), 'chart.lift').status).toBe('caution');
     expect(configurationSchema.safeParse({ ...plan(), chartCautionPercent: 49 }).success).toBe(false);
     expect(configurationSchema.safeParse({ ...plan(), chartCautionPercent: 101 }).success).toBe(false);
   });

@@ -238,8 +238,8 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(fig(r, 'assist.lift.0').status).toBe('pass');
   });
 
-  it('chart: 40 t + 1 t + HB120 2.7 t + 6 falls × 37.0 m × 3.8 kg/m of rope at 12 m of the 36 m chart’s 172.0 t → 25.9 %, pass (worked in chart.test.ts)', () => {
-    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + (6 * (2.6 + Math.sqrt(36 ** 2 - 10.6 ** 2)) * 3.8) / 1000) / 172) * 100, 9);
+  it('chart: 40 t + 1 t + HB120 2.7 t + 6 falls × 37.0 m × 3.8 kg/m of rope at 12 m of the 36 m chart’s 113.3 t → 39.4 %, pass (worked in chart.test.ts)', () => {
+    expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + (6 * (2.6 + Math.sqrt(36 ** 2 - 10.6 ** 2)) * 3.8) / 1000) / 113.3) * 100, 9);
     expect(fig(r, 'chart.lift').status).toBe('pass');
   });
 
@@ -538,5 +538,6 @@ describe('determinism and robustness', () => {
       }),
       { numRuns: 300, seed: 20251202 },
     );
-  });
+    // Each run sweeps the ground over the full slew; the machines that run this are shared.
+  }, 60_000);
 });
