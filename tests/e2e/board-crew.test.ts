@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -322,6 +323,15 @@ describe('the board in the hands of a crew', () => {
     const m = await measure(tablet);
     expect(m.header + m.bar, `stopped: header ${m.header} + bar ${m.bar}`).toBeLessThanOrEqual(m.height / 4);
     await screenshot(tablet, 'crew-cab-stopped-tablet');
+    // Stopped, in day and night: the band, the already-stopped control and the disabled controls keep their contrast (AAA in the cab).
+    for (const theme of ['day', 'night']) {
+      await tablet.evaluate((t) => localStorage.setItem('holdline.theme', t), theme);
+      await tablet.reload();
+      await tablet.getByTestId('stop-band').waitFor({ timeout: 10_000 });
+      const result = await new AxeBuilder({ page: tablet }).withRules(['color-contrast', 'color-contrast-enhanced', 'button-name', 'label']).analyze();
+      expect(result.violations.map((v) => `${theme} ${v.id}: ${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')}`)).toEqual([]);
+      await screenshot(tablet, `crew-cab-stopped-tablet-${theme}`);
+    }
     await display.getByTestId('stop-band').waitFor({ timeout: 10_000 });
     await screenshot(display, 'crew-display-stopped-tv');
     expect(await display.evaluate(() => document.documentElement.scrollHeight - window.innerHeight)).toBeLessThanOrEqual(0);
