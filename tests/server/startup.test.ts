@@ -29,7 +29,7 @@ function boot(env: Record<string, string>): Run {
   return { child, output: () => out, exited };
 }
 
-async function waitFor(check: () => boolean, ms = 20_000): Promise<void> {
+async function waitFor(check: () => boolean, ms = 45_000): Promise<void> {
   const until = Date.now() + ms;
   while (!check()) {
     if (Date.now() > until) throw new Error('timed out');
@@ -41,7 +41,7 @@ describe('the server process', () => {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'holdline-boot-'));
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-  it('starts on PORT, seeds the demo once, prints the sign-ins and stops cleanly on SIGTERM', { timeout: 60_000 }, async () => {
+  it('starts on PORT, seeds the demo once, prints the sign-ins and stops cleanly on SIGTERM', { timeout: 120_000 }, async () => {
     const port = await freePort();
     const env = { PORT: String(port), HOLDLINE_DB: path.join(dir, 'h.sqlite'), HOLDLINE_DEMO: '1' };
 
