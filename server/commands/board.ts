@@ -321,8 +321,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
     }
     const verdict = weatherVerdict(board, now.getTime());
-    // A resume needs a fresh reading within the limit of the phase; with no known limit, a fresh clear reading.
-    if (!verdict.ok && !(verdict.fresh && !verdict.overLimit && !verdict.limit)) throw refuse(409, 'weather_required', verdict.problem!);
+    // A resume needs a fresh reading within the limit of the phase; with no known limit there is
+    // nothing to hold the wind to, so work does not go on until the manufacturer's limit is known.
+    if (!verdict.ok) throw refuse(409, 'weather_required', verdict.problem!);
     return { type: 'job.resumed', role: 'supervisor', data: { reason: c.reason } };
   },
 

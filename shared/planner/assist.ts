@@ -200,6 +200,9 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
   if (t.hookBlockT === 0) missing.push('the assist crane’s hook block (entered as 0 t)');
   const tipKg = hangings.reduce((s, h) => s + (h.weightKg ?? 0), 0) + guyKg.reduce<number>((s, w) => s + (w ?? 0), 0);
   const footHeightM = inputs.arrangement.machine.boomFoot?.heightM ?? null;
+  // Without the foot height the tip is taken at the highest foot the data format allows (30 m):
+  // a higher tip is the harder one for the assist crane to reach, so reach is never overstated.
+  if (footHeightM === null) missing.push('the boom foot height');
   return guarded(figures, 'assist.tandem', 'assist', label, [] as TandemStepRow[], () => {
     const r = tandemRaise({
       boomWeightKn: boom.boomWeightKn,
@@ -207,7 +210,7 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
       boomLengthM: config.boomLengthM,
       tipLoadKn: kgToKn(tipKg),
       riggingKn: tonnesForceToKn(t.hookBlockT + t.slingsT + t.shacklesT + t.deductionsT),
-      footHeightM: footHeightM ?? 0,
+      footHeightM: footHeightM ?? 30,
       alongFromTipM: t.alongFromTipM!,
       sideM: t.sideM!,
       releaseAngleDeg: t.releaseAngleDeg!,
@@ -217,7 +220,7 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
     const tipT = knToTonnesForce(r.reactionKn);
     const carried = `boom sections ${fmt(knToTonnesForce(boom.boomWeightKn), 2)} t with their centre of gravity ${fmt(boom.boomCogFromFootM!, 2)} m from the foot of ${plain(config.boomLengthM)} m, plus at the tip ${fmt(tipKg / 1000, 2)} t (hook blocks, auxiliary head, guy lines taken whole at the tip) → ${fmt(tipT, 2)} t at the tip; plus ${onHook(t)}`;
     const missingNote = missing.length ? `${missing.join(', ')}: NOT INCLUDED` : '';
-    const heightNote = footHeightM === null ? 'boom foot height not in the data: tip heights from the foot pin' : '';
+    const heightNote = footHeightM === null ? 'boom foot height not in the data: taken at 30 m, the most the data allows' : '';
     const stop = `steps stop at ${plain(t.releaseAngleDeg!)}°: from there the main crane carries the boom alone and the tip leaves the assist (the release angle entered from the manufacturer’s raising procedure)`;
     return r.steps.map((s, i) => {
       const key = `assist.tandem.${i}`;

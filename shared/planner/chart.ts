@@ -149,13 +149,13 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
           'boom',
           raiseLabel,
           `${fmt(knownKg / 1000, 2)} t at the tip; limit not given in the data`,
-          'caution',
-          missing.length === 0,
+          'unverified',
+          false,
           raiseRule,
-          [`at the tip: ${listWeights(hangings)}`, 'the crane data does not give the weight allowed at the tip for an unassisted raise: check the manufacturer’s raising instructions and record the figure in the override’s reason', missingNote, support].filter((s) => s.length > 0).join('; '),
+          [`at the tip: ${listWeights(hangings)}`, 'the crane data does not give the weight allowed at the tip for an unassisted raise: it is the manufacturer’s rating, so it cannot be overridden; add it to the crane model’s arrangement data (Fleet) from the manufacturer’s raising instructions', missingNote, support].filter((s) => s.length > 0).join('; '),
         ),
       );
-      results.raise = { totalT: knownKg / 1000, limitT: null, sharePercent: null, status: 'caution' };
+      results.raise = { totalT: knownKg / 1000, limitT: null, sharePercent: null, status: 'unverified' };
     } else {
       guarded(figures, 'chart.raise', 'boom', raiseLabel, undefined, () => {
         const r = limitShare({ loadKn: kgToKn(knownKg), limitKn: kgToKn(limitKg), cautionPercent: caution });

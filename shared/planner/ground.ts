@@ -273,7 +273,9 @@ export function computeGround(
     const liftKn = tonnesForceToKn(config.heaviestLoad.loadT + config.heaviestLoad.riggingT);
     const load: GroundWeight = { label: 'load and rigging', weightKn: liftKn, armM: radiusM };
     const angleNote = `boom at ${fmt((Math.acos(cos) * 180) / Math.PI)}° to put the hook at ${plain(radiusM)} m from the slewing centre (foot ${plain(footAhead)} m ahead): its centre of gravity ${fmt(footAhead + boomCog * cos, 2)} m out, tip ${fmt(tipHeightM)} m up`;
-    const hangs = mainRope?.massKgPerM != null || (auxOn && auxRope?.massKgPerM != null) ? [tipHeightM, 0] : [0];
+    // The longest hang reaches the lowest hook position the planner gave (below ground adds rope).
+    const longestHangM = tipHeightM - Math.min(0, config.mainHook.lowestHookPositionM);
+    const hangs = mainRope?.massKgPerM != null || (auxOn && auxRope?.massKgPerM != null) ? [longestHangM, 0] : [0];
     const lifting = hangs.map((h) => [...fixed, ...boomWeights(cos, radiusM, h), load]);
     describe('heaviest lift (hook at the ground)', lifting[0]);
     evaluate('lift', lifting, `${angleNote}; load, rigging and hook block at ${plain(radiusM)} m`);

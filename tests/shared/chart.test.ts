@@ -234,11 +234,11 @@ describe('chart.raise: what hangs at the tip for an unassisted raise against the
     expect(fig(r, 'chart.raise')).toMatchObject({ status: 'fail', overridable: false });
   });
 
-  it('a limit the data does not give → caution “not given in the data”, overridable with the figure from the manual', () => {
+  it('a limit the data does not give → unverified “not given in the data”: a manufacturer’s rating, never overridden, the data must be completed', () => {
     const data = structuredClone(crane);
     data.arrangements.find((a) => a.boomLengthM === 36)!.raising.limits.maxTipLoadKg = null;
     const f = fig(run(plan(), data), 'chart.raise');
-    expect(f).toMatchObject({ status: 'caution', overridable: true });
+    expect(f).toMatchObject({ status: 'unverified', overridable: false });
     expect(f.value).toMatch(/limit not given in the data/);
   });
 });

@@ -269,6 +269,16 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
   });
 });
 
+describe('the hoist rope in the ground moments', () => {
+  it('a hook that goes 20 m below ground hangs more rope at the radius: the heaviest-lift pressure can only rise (common practice, no source)', () => {
+    const atGround = loadCase(run(basePlan()), 'lift');
+    const below = loadCase(run(plan((c) => (c.mainHook.lowestHookPositionM = -20))), 'lift');
+    // 6 falls × 20 m × 3.8 kg/m = 0.456 t more at 12 m (demo rope mass): more vertical load, more moment.
+    expect(below.verticalLoadKn).toBeGreaterThan(atGround.verticalLoadKn);
+    expect(below.worst.pressureKpa).toBeGreaterThan(atGround.worst.pressureKpa);
+  });
+});
+
 describe('failures and what may be overridden', () => {
   it('a quarantined insert → the boom cannot be built, not overridable, the serial named', () => {
     const r = run(basePlan(), fullKit({ 'T-INS6-01': 'quarantined' }));
