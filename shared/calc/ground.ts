@@ -634,19 +634,7 @@ export function slewPressureSweep(
   // A step that divides 90° puts the end and the side (0°, 90°, 180°, 270°) exactly on the grid.
   if (Math.abs(90 / step - Math.round(90 / step)) > 1e-9) throw new CalcInputError('stepDeg', `must divide 90° exactly, got ${step}°`);
   const strip = input.stripLengthM === undefined ? null : requirePositive('stripLengthM', input.stripLengthM);
-  const count = Math.round(360 / step);
-  const points: SlewPoint[] = new Array<SlewPoint>(count);
-  const blocks: TrackPressureResult[] = new Array<TrackPressureResult>(count);
-  for (let k = 0; k < count; k += 1) {
-    const angleDeg = Math.round(k * step * 1e6) / 1e6;
-    // The two tracks are a mirror image of each other about the track axis, so the pressure at
-    // 360° − θ is the pressure at θ with the sides swapped: computed once. Front and rear (θ and
-    // 180° − θ) are both computed, so a machine that is not symmetric front to back is still covered.
-    if (2 * k > count) {
-      points[k] = { ...points[count - k], angleDeg };
-      blocks[k] = blocks[count - k];
-      continue;
-    }
+  const pointAt = (angleDeg: number): { point: SlewPoint; block: TrackPressureResult } => {
     const rad = (angleDeg * Math.PI) / 180;
     // Exact zeros at the quarter turns, so "over the end" has no stray sideways moment.
     const cos = angleDeg % 180 === 90 ? 0 : Math.cos(rad);
@@ -673,18 +661,52 @@ export function slewPressureSweep(
         };
       }
     }
-    points[k] = { angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip };
-    blocks[k] = pt.track;
+    return {
+      point: { angleDeg, perTrackKpa, rigidPlaneKpa, pressureKpa: useRigid ? rigidPlaneKpa : perTrackKpa, method: useRigid ? 'rigid plane' : 'per track', heavyEndStrip },
+      block: pt.track,
+    };
+  };
+  const count = Math.round(360 / step);
+  const points: SlewPoint[] = new Array<SlewPoint>(count);
+  const blocks: TrackPressureResult[] = new Array<TrackPressureResult>(count);
+  for (let k = 0; k < count; k += 1) {
+    const angleDeg = Math.round(k * step * 1e6) / 1e6;
+    // The two tracks are a mirror image of each other about the track axis, so the pressure at
+    // 360° − θ is the pressure at θ with the sides swapped: computed once. Front and rear (θ and
+    // 180° − θ) are both computed, so a machine that is not symmetric front to back is still covered.
+    if (2 * k > count) {
+      points[k] = { ...points[count - k], angleDeg };
+      blocks[k] = blocks[count - k];
+      continue;
+    }
+    const at = pointAt(angleDeg);
+    points[k] = at.point;
+    blocks[k] = at.block;
   }
   let worstIndex = 0;
   for (let k = 1; k < count; k += 1) if (points[k].pressureKpa > points[worstIndex].pressureKpa * (1 + 1e-9)) worstIndex = k;
+  // The true peak can fall between grid angles (a 5° grid read 257.71 kPa where the peak is
+  // 257.79 kPa at 26.75°): search either side of the worst grid angle in 0.25° steps, so the
+  // figure is never below the peak by more than that finer grid allows.
+  let worst = points[worstIndex];
+  let worstTrack = blocks[worstIndex];
+  const fine = 0.25;
+  for (let d = -step + fine; d < step - 1e-9; d += fine) {
+    if (Math.abs(d) < 1e-9) continue;
+    const angleDeg = Math.round((((worst.angleDeg + d) % 360) + 360) % 360 * 1e6) / 1e6;
+    const at = pointAt(angleDeg);
+    if (at.point.pressureKpa > worst.pressureKpa * (1 + 1e-9)) {
+      worst = at.point;
+      worstTrack = at.block;
+    }
+  }
   return {
     points,
-    worst: points[worstIndex],
+    worst,
     overEnd: points[0],
     overSide: points[Math.round(count / 4)],
-    worstTrack: blocks[worstIndex],
+    worstTrack,
     stepDeg: step,
-    rule: `every ${step}° of slew from 0° to 360° (over the end and over the side exactly), M_along = M·cos θ, M_across = M·sin θ, the larger of the per-track method and the rigid pressure plane at each angle`,
+    rule: `every ${step}° of slew from 0° to 360° (over the end and over the side exactly), then every ${fine}° either side of the worst angle, M_along = M·cos θ, M_across = M·sin θ, the larger of the per-track method and the rigid pressure plane at each angle`,
   };
 }

@@ -219,7 +219,10 @@ describe('perTrackPressure and slewPressureSweep', () => {
     expect(s.worst.pressureKpa).toBeGreaterThan(s.overSide.pressureKpa);
     // about 264 kPa with the rigid plane, between 25° and 30°
     expect(s.worst.method).toBe('rigid plane');
-    expect([25, 30]).toContain(s.worst.angleDeg);
+    // the grid's worst angle, refined in 0.25° steps either side of it
+    expect(s.worst.angleDeg).toBeGreaterThanOrEqual(25);
+    expect(s.worst.angleDeg).toBeLessThanOrEqual(30);
+    expect(s.worst.pressureKpa).toBeGreaterThanOrEqual(Math.max(...s.points.map((p) => p.pressureKpa)));
     expect(s.worst.pressureKpa).toBeGreaterThan(263);
     expect(s.worst.pressureKpa).toBeLessThan(265);
     expect(Math.max(...s.points.map((p) => p.perTrackKpa))).toBeCloseTo(257.3, 1);
