@@ -29,6 +29,18 @@ export function figure(
   return f;
 }
 
+/** Rounds up (away from the safe side's limit) for loads, pulls and pressures shown against a limit. */
+export function fmtUp(value: number, decimals = 1): string {
+  const f = 10 ** decimals;
+  return fmt(Math.ceil(value * f - 1e-9) / f, decimals);
+}
+
+/** Rounds down for what is left or allowed (wraps, ratios, design factors) shown against a minimum. */
+export function fmtDown(value: number, decimals = 1): string {
+  const f = 10 ** decimals;
+  return fmt(Math.floor(value * f + 1e-9) / f, decimals);
+}
+
 /** A number for people: fixed decimals, no "-0". */
 export function fmt(value: number, decimals = 1): string {
   const s = value.toFixed(decimals);

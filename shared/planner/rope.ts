@@ -19,7 +19,7 @@ import {
 import { tonnesForceToKn } from '../calc/units.js';
 import type { ArrangementData, Drum, HookBlock, Rope, Sheave } from '../schemas/arrangement.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
-import { figure, fmt, guarded, plain, serviceableAtHand } from './figures.js';
+import { figure, fmt, fmtDown, fmtUp, guarded, plain, serviceableAtHand } from './figures.js';
 import type { ConfigurationResults, PlannerInputs } from './types.js';
 
 type Hoist = 'mainHoist' | 'auxiliaryHoist' | 'boomHoist';
@@ -196,8 +196,8 @@ export function computeRope(
   const ratingRule = 'load + rigging ≤ rated load of the hook block (manufacturer arrangement data)';
   figures.push(
     liftT <= hookBlock.ratedLoadT
-      ? figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmt(liftT, 2)} t of ${plain(hookBlock.ratedLoadT)} t`, 'pass', false, ratingRule)
-      : figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmt(liftT, 2)} t on a ${plain(hookBlock.ratedLoadT)} t block`, 'fail', false, ratingRule, 'choose a larger hook block'),
+      ? figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmtUp(liftT, 2)} t of ${plain(hookBlock.ratedLoadT)} t`, 'pass', false, ratingRule)
+      : figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmtUp(liftT, 2)} t on a ${plain(hookBlock.ratedLoadT)} t block`, 'fail', false, ratingRule, 'choose a larger hook block'),
   );
 
   const main = drumAndRope(arrangement, 'mainHoist');
@@ -219,8 +219,8 @@ export function computeRope(
     const notes = path.notes.length > 0 ? `; ${path.notes.join('; ')}` : '';
     figures.push(
       pull <= permissible
-        ? figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmt(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts${notes}`)
-        : figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmt(pull)} kN, above the ${plain(permissible)} kN permissible`, 'fail', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts: reeve more parts${notes}`),
+        ? figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmtUp(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts${notes}`)
+        : figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmtUp(pull)} kN, above the ${plain(permissible)} kN permissible`, 'fail', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts: reeve more parts${notes}`),
     );
 
     const needed = guarded(figures, 'rope.requiredParts', 'rope', 'Parts of line needed', null as number | null, () => {
@@ -294,15 +294,15 @@ function designFactorFigure(figures: Figure[], key: string, label: string, rope:
     const rule = `design factor = minimum breaking force (rope certificate, ${rope.id} ${plain(rope.minimumBreakingForceKn)} kN) ÷ ${pullWords}; ${df.rule}`;
     figures.push(
       df.pass
-        ? figure(key, 'rope', label, `${fmt(df.designFactor, 2)} (at least ${plain(df.minimumDesignFactor)})`, 'pass', false, rule)
-        : figure(key, 'rope', label, `${fmt(df.designFactor, 2)}, below ${plain(df.minimumDesignFactor)}`, 'fail', false, rule, `${rope.id} is ${rope.rotationResistant ? 'rotation-resistant' : 'running'} rope (${DESIGN_FACTOR_SOURCE}): ${fix}`),
+        ? figure(key, 'rope', label, `${fmtDown(df.designFactor, 2)} (at least ${plain(df.minimumDesignFactor)})`, 'pass', false, rule)
+        : figure(key, 'rope', label, `${fmtDown(df.designFactor, 2)}, below ${plain(df.minimumDesignFactor)}`, 'fail', false, rule, `${rope.id} is ${rope.rotationResistant ? 'rotation-resistant' : 'running'} rope (${DESIGN_FACTOR_SOURCE}): ${fix}`),
     );
   });
 }
 
 function dOverDFigure(figures: Figure[], key: string, label: string, pitchMm: number, ropeMm: number, element: BendingElement): void {
   const c = dOverDCheck({ pitchDiameterMm: pitchMm, ropeDiameterMm: ropeMm, element });
-  const value = `${fmt(c.ratio, 1)} (${plain(pitchMm)} mm ÷ ${plain(ropeMm)} mm; at least ${c.minimumRatio})`;
+  const value = `${fmtDown(c.ratio, 1)} (${plain(pitchMm)} mm ÷ ${plain(ropeMm)} mm; at least ${c.minimumRatio})`;
   // A D/d below the minimum is the crane's build, not a planning choice: never overridable.
   figures.push(
     c.pass
@@ -363,7 +363,7 @@ function wrapsFigures(
         `${o.keyPrefix}.lengthRequired`,
         'rope',
         o.keyPrefix === 'rope' ? 'Main hoist rope needed' : `${o.hoistLabel[0].toUpperCase()}${o.hoistLabel.slice(1)} rope needed`,
-        `${fmt(needed.ropeLengthRequiredM)} m of ${plain(o.drum.ropeLengthM)} m on the drum`,
+        `${fmtUp(needed.ropeLengthRequiredM)} m of ${plain(o.drum.ropeLengthM)} m on the drum`,
         'info',
         false,
         `${needed.rule}; ${run.rule}`,
@@ -373,8 +373,8 @@ function wrapsFigures(
     // Wraps are a code's "shall" (two full wraps at the lowest hook position): never overridable.
     figures.push(
       w.pass
-        ? figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps (at least ${w.minimumWraps})`, 'pass', false, rule, `${where}${missingWords}`)
-        : figure(key, 'rope', label, `${fmt(w.wrapsLeft)} wraps, fewer than ${w.minimumWraps}`, 'fail', false, rule, `${fmt(w.ropeShortM)} m of rope short (${where}): ${o.fix}${missingWords}`),
+        ? figure(key, 'rope', label, `${fmtDown(w.wrapsLeft)} wraps (at least ${w.minimumWraps})`, 'pass', false, rule, `${where}${missingWords}`)
+        : figure(key, 'rope', label, `${fmtDown(w.wrapsLeft)} wraps, fewer than ${w.minimumWraps}`, 'fail', false, rule, `${fmtUp(w.ropeShortM)} m of rope short (${where}): ${o.fix}${missingWords}`),
     );
     return { paidOutM, wrapsLeft: w.wrapsLeft };
   });
@@ -421,12 +421,12 @@ function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHo
     const notes = path.notes.length > 0 ? `; ${path.notes.join('; ')}` : '';
     figures.push(
       pull <= permissible
-        ? figure('rope.aux.leadLinePull', 'rope', 'Auxiliary hoist line pull', `${fmt(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, rule, `${aux.id} at its full ${plain(aux.ratedLoadT)} t rating on one part${notes}`)
+        ? figure('rope.aux.leadLinePull', 'rope', 'Auxiliary hoist line pull', `${fmtUp(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, rule, `${aux.id} at its full ${plain(aux.ratedLoadT)} t rating on one part${notes}`)
         : figure(
             'rope.aux.leadLinePull',
             'rope',
             'Auxiliary hoist line pull',
-            `${fmt(pull)} kN, above the ${plain(permissible)} kN permissible`,
+            `${fmtUp(pull)} kN, above the ${plain(permissible)} kN permissible`,
             'fail',
             false,
             rule,
@@ -516,7 +516,7 @@ function computeFleetAngles(config: Configuration, arrangement: ArrangementData,
       // Unknown drum surface: the smooth-drum limit, the stricter of the two.
       const c = drumFleetAngleCheck({ drumWidthM: drum.widthM, distanceM: first.distanceM, offsetFromDrumCentreM: first.offsetFromDrumCentreM, drumSurface: grooved === true ? 'grooved' : 'smooth' });
       const surface = grooved === null ? 'drum surface not in the crane data: the smooth-drum limit taken' : grooved ? 'grooved drum' : 'smooth drum';
-      const value = `${fmt(c.largestDeg, 2)}° (${surface}; at most ${plain(c.maxDeg)}°, at least ${plain(c.minDeg)}°)`;
+      const value = `${fmtUp(c.largestDeg, 2)}° (${surface}; at most ${plain(c.maxDeg)}°, at least ${plain(c.minDeg)}°)`;
       // The guidance is the rope makers’ recommendation for spooling, not a code's "shall"; the drum
       // and its first sheave are the crane's build. Outside it, the crew is told so, plainly.
       figures.push(

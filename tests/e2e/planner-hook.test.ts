@@ -47,15 +47,15 @@ describe('planner: the lowest hook position', () => {
     const page = await signIn(chromium.browser, server.url, supervisor.user.email, `/jobs/${jobId}?tab=planner`);
     const wraps = figureRow(page, 'Wraps left on the drum');
     // Demo data, 18 m, HB120 × 6, hook at ground level: tip 2.6 + 18 = 20.6 m; 6 × 20.6 + (6.5 + 18) = 148.1 m paid out;
-    // (640 − 148.1) ÷ (π × 0.64) = 244.65 wraps (two full wraps at the lowest hook position: ASME B30.5-2018 §5-1.3.1(a)(2)(-a))
-    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('244.7 wraps (at least 2)');
+    // (640 − 148.1) ÷ (π × 0.64) = 244.65 wraps, shown rounded down (two full wraps at the lowest hook position: ASME B30.5-2018 §5-1.3.1(a)(2)(-a))
+    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('244.6 wraps (at least 2)');
 
     const hook = page.getByRole('group', { name: 'Lowest hook position' });
     await hook.getByRole('button', { name: 'Below ground' }).click();
     const depth = page.getByLabel('Depth of the hook below ground');
     await depth.fill('20');
-    // 20 m down a pit: 6 × 40.6 + 24.5 = 268.1 m paid out → 371.9 ÷ 2.010619 = 184.97 wraps
-    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('185.0 wraps (at least 2)');
+    // 20 m down a pit: 6 × 40.6 + 24.5 = 268.1 m paid out → 371.9 ÷ 2.010619 = 184.97 wraps, shown rounded down
+    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('184.9 wraps (at least 2)');
     await hook.scrollIntoViewIfNeeded();
     await screenshot(page, 'planner-hook-below-ground-phone');
 
@@ -67,18 +67,18 @@ describe('planner: the lowest hook position', () => {
     await screenshot(page, 'planner-hook-wraps-fail-phone');
 
     await depth.fill('20');
-    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('185.0 wraps (at least 2)');
+    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('184.9 wraps (at least 2)');
     await page.getByRole('button', { name: 'Save configuration' }).click();
     await expect.poll(() => page.locator('.planner-results').getByText('Checked by the server').isVisible()).toBe(true);
     expect(await page.getByText("The server's figures match those computed on this device.").isVisible()).toBe(true);
     const saved = await request(server.app).get(`/api/jobs/${jobId}`).set({ Authorization: `Bearer ${supervisor.token}` }).expect(200);
     expect(saved.body.job.configuration.mainHook.lowestHookPositionM).toBe(-20);
-    expect(saved.body.job.figures.find((f: { key: string }) => f.key === 'rope.wraps').value).toBe('185.0 wraps (at least 2)');
+    expect(saved.body.job.figures.find((f: { key: string }) => f.key === 'rope.wraps').value).toBe('184.9 wraps (at least 2)');
 
     // Back to ground level: the distance field goes and the figure returns.
     await hook.getByRole('button', { name: 'Ground level' }).click();
     expect(await depth.isVisible()).toBe(false);
-    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('244.7 wraps (at least 2)');
+    await expect.poll(async () => (await wraps.locator('.figure-value').textContent()) ?? '').toBe('244.6 wraps (at least 2)');
     expect(pageErrors).toEqual([]);
     await page.context().close();
   });

@@ -133,7 +133,7 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(r.reeving!.leadSheaves).toEqual([{ id: 'tip-guide', bearing: 'rolling', efficiency: 0.962 }, { id: 'base-idler', bearing: 'plain', efficiency: 0.917 }]);
     expect(relErr(r.reeving!.leadLinePullKn, 92.522)).toBeLessThan(1e-4);
     expect(fig(r, 'rope.leadLinePull').status).toBe('pass');
-    expect(fig(r, 'rope.leadLinePull').value).toBe('92.5 kN of 150 kN permissible');
+    expect(fig(r, 'rope.leadLinePull').value).toBe('92.6 kN of 150 kN permissible'); // 92.52 shown rounded up
     expect(fig(r, 'rope.leadLinePull').rule).toMatch(/Wire Rope Users Manual 4th ed\./);
     expect(fig(r, 'rope.leadLinePull').rule).toMatch(/base-idler 91\.7 %/);
     // Required parts: 3 parts → MA = 0.962(1 − 0.890277)/0.038 = 2.77774, pull = 428.5506/2.77774/0.882154 = 174.9 kN > 150;
@@ -150,8 +150,8 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(f.rule).toMatch(/1926\.1414\(e\)\(2\)\(iii\)/);
   });
 
-  it('D/d per ASME B30.5 §5-1.7.4: drum 640/28 = 22.9 ≥ 18; hook block 560/28 = 20.0 ≥ 16', () => {
-    expect(fig(r, 'rope.dOverD.drum').value).toBe('22.9 (640 mm ÷ 28 mm; at least 18)');
+  it('D/d per ASME B30.5 §5-1.7.4: drum 640/28 = 22.86, shown rounded down 22.8 ≥ 18; hook block 560/28 = 20.0 ≥ 16', () => {
+    expect(fig(r, 'rope.dOverD.drum').value).toBe('22.8 (640 mm ÷ 28 mm; at least 18)');
     expect(fig(r, 'rope.dOverD.hookBlock').value).toBe('20.0 (560 mm ÷ 28 mm; at least 16)');
     expect(fig(r, 'rope.dOverD.drum').status).toBe('pass');
   });
@@ -160,8 +160,8 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     // Demo data: foot pin 2.6 m high, 6.5 m of rope from the main drum to the boom foot; hook at ground level (0 m).
     // tip at 2.6 + 36 = 38.6 m; paid out = 6 parts × 38.6 m + (6.5 + 36) m lead = 231.6 + 42.5 = 274.1 m; π × 0.640 = 2.010619 m a wrap
     // wraps left = (640 − 274.1) / 2.010619 = 181.98; needed = 274.1 + 2 × 2.010619 = 278.12 m
-    expect(fig(r, 'rope.wraps').value).toBe('182.0 wraps (at least 2)');
-    expect(fig(r, 'rope.lengthRequired').value).toBe('278.1 m of 640 m on the drum');
+    expect(fig(r, 'rope.wraps').value).toBe('181.9 wraps (at least 2)'); // 181.98 shown rounded down
+    expect(fig(r, 'rope.lengthRequired').value).toBe('278.2 m of 640 m on the drum'); // 278.12 shown rounded up
     expect(r.reeving!.ropePaidOutM).toBeCloseTo(274.1, 9);
   });
 
@@ -208,7 +208,7 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     const cells = cellSolution({ trackLengthM: 9.2, shoeWidthM: 1.2, gaugeM: 7 }, c.verticalLoadKn, c.momentKnm * Math.cos((c.worst.angleDeg * Math.PI) / 180), c.momentKnm * Math.sin((c.worst.angleDeg * Math.PI) / 180));
     expect(relErr(c.worst.rigidPlaneKpa!, cells.cornerKpa)).toBeLessThan(0.005);
     expect(fig(r, 'ground.lift').status).toBe('pass');
-    expect(fig(r, 'ground.lift').detail).toMatch(/over the end 160\.3 kPa/);
+    expect(fig(r, 'ground.lift').detail).toMatch(/over the end 160\.4 kPa/); // 160.32 shown rounded up
   });
 
   it('ground, unloaded: the 36 m plan passes at its worst slew angle, 257.7 kPa at 25° against 260 kPa (over the end alone says 242.0)', () => {
@@ -354,11 +354,11 @@ describe('failures and what may be overridden', () => {
     for (const k of ['ground.raising', 'ground.lift', 'ground.unloaded', 'ground.raising.mats', 'ground.weights']) expect(overrideReason(k)).toBeNull();
   });
 
-  it('the worst slew angle fails a plan the over-the-end check passed: 250 kPa allowed, 242.0 over the end, 257.7 at 25°', () => {
+  it('the worst slew angle fails a plan the over-the-end check passed: 250 kPa allowed, 242.0 over the end, 257.71 at 25° shown rounded up', () => {
     const r = run(plan((c) => (c.ground.allowablePressureKpa = 250)));
     expect(loadCase(r, 'unloaded').overEnd.pressureKpa).toBeLessThan(250);
     expect(fig(r, 'ground.unloaded')).toMatchObject({ status: 'fail', overridable: false });
-    expect(fig(r, 'ground.unloaded').value).toMatch(/^257\.7 kPa at 25° slew/);
+    expect(fig(r, 'ground.unloaded').value).toMatch(/^257\.8 kPa at 25° slew/);
   });
 
   it('a temporary-works design with its reference and designer raises the allowable and changes the verdict; without a designer it is refused', () => {
