@@ -69,7 +69,7 @@ describe('chartBand: above 100 % fails, above the site’s caution share needs c
     expect(chartShare({ loadKn: 1, points: chart36, radiusM: 40, cautionPercent: 75 }).band).toBe('fail');
   });
 
-  it('a limit share: 6.92 t against 8.0 t = 86.5 %', () => {
+  it('a limit share: 6.92 t against 8.0 t = 86.5 %, in the caution band (share of a limit and the 75 % band: common practice, no source)', () => {
     const r = limitShare({ loadKn: tToKn(6.92), limitKn: tToKn(8), cautionPercent: 75 });
     expect(r.sharePercent).toBeCloseTo(86.5, 9);
     expect(r.band).toBe('caution');

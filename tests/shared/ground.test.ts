@@ -200,7 +200,9 @@ describe('rigidPlanePressure: both tracks as one rigid footing, no tension', () 
 describe('perTrackPressure and slewPressureSweep', () => {
   // Issue 13's figures for the 36 m test plan unloaded (V = 258.2 t, M = −450.998 t·m): 246.5 kPa
   // over the end becomes about 257 kPa at 25° by the per-track method and about 264 kPa near 30°
-  // with the rigid plane (issue 13, hand check by the reporting engineer; not a published source).
+  // with the rigid plane. Those are a reviewer's hand check reported in issue 13, not a published
+  // source: treat them as from memory. The independent checks are the single-track eccentric footing
+  // form at 0° (Das) and the cell solution of the rigid plane in the planner tests.
   const v = 258.2 * G;
   const m = -450.998 * G;
 

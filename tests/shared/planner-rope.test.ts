@@ -76,6 +76,7 @@ function pullByWalkingBack(loadKn: number, reevedFromLead: number[], lead: numbe
 describe('rope paid out at the lowest hook position (issue 13, point 4)', () => {
   it('a hook 20 m down a shaft pays out 6 × 20 = 120 m more and leaves 59.7 fewer wraps; a hook 10 m up leaves 29.8 more', () => {
     // circumference π × 0.640 = 2.010619 m; 120 / 2.010619 = 59.68 wraps; 60 / 2.010619 = 29.84
+    // (rope paid out as parts × reeve height plus the lead: drum geometry, common practice, no source)
     const ground = run(plan()).reeving!;
     const shaft = run(plan((c) => (c.mainHook.lowestHookPositionM = -20))).reeving!;
     const high = run(plan((c) => (c.mainHook.lowestHookPositionM = 10))).reeving!;
