@@ -108,20 +108,25 @@ export function computeBoom(config: Configuration, inputs: PlannerInputs, figure
     );
   }
 
-  // The boom angle that puts the tip over the planned radius. The boom foot is taken at the
-  // slewing centre and at ground level: a simplification, since the real foot pin sits ahead of
-  // the centre and above the ground; the crane's own range of boom angles is not checked here.
-  const radiusRule =
-    'radius = boom length × cos(boom angle), the boom foot taken at the slewing centre (simplification: the real foot pin sits ahead of it; the crane’s own boom-angle range is not checked)';
+  // The boom angle that puts the tip over the planned radius, measured from the slewing centre
+  // with the foot pin where the data puts it (the ground and chart checks use the same geometry).
+  const footAheadM = arrangement.machine.boomFoot?.aheadOfSlewCentreM ?? 0;
+  const footWords = arrangement.machine.boomFoot ? `boom foot ${plain(footAheadM)} m ahead of the slewing centre` : 'boom foot position not in the data: taken at the slewing centre';
+  const radiusRule = `radius = foot offset + boom length × cos(boom angle), ${footWords}; the crane’s own boom-angle range is not checked (its chart and limiter govern)`;
   const radiusM = config.heaviestLoad.radiusM;
+  const projectedM = radiusM - footAheadM;
   let cosBoomAngle: number | null = null;
-  if (radiusM <= lengthM) {
-    cosBoomAngle = radiusM / lengthM;
+  if (projectedM <= 0) {
+    figures.push(
+      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is inside the boom foot`, 'fail', false, radiusRule, 'the planned radius is shorter than the boom foot’s offset: choose a longer radius'),
+    );
+  } else if (projectedM <= lengthM) {
+    cosBoomAngle = projectedM / lengthM;
     const angleDeg = (Math.acos(cosBoomAngle) * 180) / Math.PI;
     figures.push(figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${fmt(angleDeg)}° at ${plain(radiusM)} m radius`, 'info', false, radiusRule));
   } else {
     figures.push(
-      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is beyond the ${plain(lengthM)} m boom`, 'fail', false, radiusRule, 'the planned radius is longer than the boom: choose a longer boom or a shorter radius'),
+      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is beyond the ${plain(lengthM)} m boom`, 'fail', false, radiusRule, 'the planned radius is beyond the boom’s reach: choose a longer boom or a shorter radius'),
     );
   }
   // The crane's own chart is checked in chart.ts (chart.lift, chart.raise).

@@ -115,9 +115,9 @@ describe('a plan that passes (36 m, HB120 × 6 parts, 41 t at 12 m)', () => {
     expect(fig(r, 'boom.plates').value).toBe('Not required'); // 36 m < 66 m threshold
     expect(r.platesRequired).toBe(false);
     expect(fig(r, 'boom.guyLines').status).toBe('info');
-    // cos θ = 12 / 36 → θ = 70.53° (boom foot at the slewing centre, a simplification named in the rule)
-    expect(fig(r, 'boom.radius').value).toBe('70.5° at 12 m radius');
-    expect(fig(r, 'boom.radius').rule).toMatch(/simplification/);
+    // foot 1.4 m ahead (demo data): cos θ = (12 − 1.4) / 36 → θ = 72.88°, the angle the ground check uses too
+    expect(fig(r, 'boom.radius').value).toBe('72.9° at 12 m radius');
+    expect(fig(r, 'boom.radius').rule).toMatch(/boom foot 1\.4 m ahead/);
   });
 
   it('lead-line pull sheave by sheave (Wire Rope Users Manual 4th ed. pp. 86–88; Pipeline Rules of Thumb Handbook efficiencies)', () => {
