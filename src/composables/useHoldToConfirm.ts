@@ -8,7 +8,12 @@ export const HOLD_TO_CONFIRM_MS = 1500;
  * 1 while held, drops back when released early, and `onConfirm` runs once when it reaches 1.
  * Pointer and keyboard share it, so the same deliberate gesture works without a mouse.
  */
-export function useHoldToConfirm(onConfirm: () => void, durationMs: number = HOLD_TO_CONFIRM_MS, now: () => number = () => Date.now()) {
+export function useHoldToConfirm(
+  onConfirm: () => void,
+  durationMs: number = HOLD_TO_CONFIRM_MS,
+  now: () => number = () => Date.now(),
+  enabled: () => boolean = () => true,
+) {
   const progress = ref(0);
   const holding = ref(false);
   let startedAt = 0;
@@ -50,9 +55,25 @@ export function useHoldToConfirm(onConfirm: () => void, durationMs: number = HOL
     progress.value = 0;
   }
 
+  /** Pointer down: the pointer stays captured, so a finger sliding a little does not cancel the hold. */
+  function onPointerDown(event: PointerEvent) {
+    if (!enabled()) return;
+    (event.currentTarget as HTMLElement | null)?.setPointerCapture?.(event.pointerId);
+    start();
+  }
+  /** Space or Enter held down is the same gesture as a finger held on the control. */
+  function onKeyDown(event: KeyboardEvent) {
+    if (event.key !== ' ' && event.key !== 'Enter') return;
+    event.preventDefault();
+    if (!event.repeat && enabled()) start();
+  }
+  function onKeyUp(event: KeyboardEvent) {
+    if (event.key === ' ' || event.key === 'Enter') cancel();
+  }
+
   onBeforeUnmount(() => {
     stopTimer();
     clearTimeout(resetTimer);
   });
-  return { progress, holding, start, cancel };
+  return { progress, holding, start, cancel, onPointerDown, onKeyDown, onKeyUp };
 }
