@@ -228,6 +228,7 @@ export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[], wind
       dependsOn: stage.dependsOn,
       cautions: stage.cautions,
       involvesCraneMovement: stage.involvesCraneMovement,
+      ...(stage.boom ? { boom: stage.boom } : {}),
       steps,
       hold: stage.hold
         ? {

@@ -25,19 +25,26 @@ export function parseReading(value: string, unit: string | null): number | null 
   return Number.isFinite(n) ? n : null;
 }
 
-/** Stages during which the boom goes up or comes down: the raising wind limit applies. */
-const RAISING_STAGE = /(^|-)(preraise|raise|lower)$/;
-/** Stages in which the boom itself goes up or comes down (not the checks before it). */
-const BOOM_MOVING_STAGE = /(^|-)(raise|lower)$/;
+/** Plans written before stages declared their boom movement: known by the template's stage ids. */
+const LEGACY_PREPARES = /(^|-)preraise$/;
+const LEGACY_MOVES = /(^|-)(raise|lower)$/;
 
-/** Which wind limit applies now: raising while the boom is raised or lowered, assembly otherwise. */
+/** What a stage does with the boom: as the plan declares it, or by its id in an older plan. */
+function boomRole(stage: Pick<BoardStage, 'id' | 'boom'>): 'moves' | 'prepares' | null {
+  if (stage.boom) return stage.boom;
+  if (LEGACY_MOVES.test(stage.id)) return 'moves';
+  if (LEGACY_PREPARES.test(stage.id)) return 'prepares';
+  return null;
+}
+
+/** Which wind limit applies now: raising while the boom is readied, raised or lowered, assembly otherwise. */
 export function windPhase(state: BoardState): 'assembly' | 'raising' {
-  return state.stages.some((s) => (s.state === 'active' || s.state === 'holding') && RAISING_STAGE.test(s.id)) ? 'raising' : 'assembly';
+  return state.stages.some((s) => (s.state === 'active' || s.state === 'holding') && boomRole(s) !== null) ? 'raising' : 'assembly';
 }
 
 /** Does the boom go up or come down in this stage (erection's raise, dismantling's lowering)? */
-export function movesBoom(stage: Pick<BoardStage, 'id'>): boolean {
-  return BOOM_MOVING_STAGE.test(stage.id);
+export function movesBoom(stage: Pick<BoardStage, 'id' | 'boom'>): boolean {
+  return boomRole(stage) === 'moves';
 }
 
 /**

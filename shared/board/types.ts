@@ -94,6 +94,8 @@ export interface BoardStage {
   dependsOn: string[];
   cautions: string[];
   involvesCraneMovement: boolean;
+  /** The boom goes up or comes down in this stage, or the stage readies it; absent in older plans. */
+  boom?: 'moves' | 'prepares';
   steps: BoardStep[];
   hold: BoardHold | null;
   skipReason: string | null;

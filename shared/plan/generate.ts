@@ -170,6 +170,7 @@ class StageDraft {
       dependsOn,
       cautions: this.w.cautions.map((c) => fill(c, this.vars)),
       involvesCraneMovement: this.movement,
+      ...(this.w.boom ? { boom: this.w.boom } : {}),
       steps: this.steps,
       hold,
     };

@@ -547,6 +547,23 @@ function checkProblems(plan: Plan, reference: Plan): PlanProblem[] {
   return problems;
 }
 
+/** A stage the reference says raises, lowers or readies the boom keeps saying so: the wind rules hang on it. */
+function boomMovementProblems(plan: Plan, reference: Plan): PlanProblem[] {
+  const problems: PlanProblem[] = [];
+  reference.stages.forEach((refStage) => {
+    if (!refStage.boom) return;
+    const at = plan.stages.findIndex((s) => s.id === refStage.id);
+    if (at === -1 || plan.stages[at].boom === refStage.boom) return;
+    const what = refStage.boom === 'moves' ? 'raises or lowers the boom' : 'readies the boom to be raised';
+    problems.push({
+      code: 'boom_movement_undeclared',
+      message: `Stage “${refStage.title}” ${what}: it must keep saying so, or the fresh wind reading and the raising wind limit would no longer apply to it.`,
+      path: `stages.${at}.boom`,
+    });
+  });
+  return problems;
+}
+
 /**
  * Everything that stops a plan being locked. `reference` is the plan generated from the same
  * configuration (or a previous version of the same plan); without one only the structure is checked.
@@ -558,7 +575,7 @@ export function planProblems(plan: Plan, reference: Plan | null): PlanProblem[] 
     ...holdRoleProblems(plan),
     ...stepOrderProblems(plan),
     ...(reference
-      ? [...mandatoryProblems(plan, reference), ...gatingProblems(plan, reference), ...requiredStepProblems(plan, reference), ...checkProblems(plan, reference)]
+      ? [...mandatoryProblems(plan, reference), ...gatingProblems(plan, reference), ...requiredStepProblems(plan, reference), ...checkProblems(plan, reference), ...boomMovementProblems(plan, reference)]
       : []),
   ];
 }
@@ -569,6 +586,7 @@ export const MANDATORY_PROBLEM_CODES: ReadonlySet<PlanProblem['code']> = new Set
   'mandatory_role_removed',
   'mandatory_hold_bypassed',
   'required_step_removed',
+  'boom_movement_undeclared',
 ]);
 
 /** Does this problem weaken a mandatory hold (its existence, roles, value check, place, or a step it relies on)? */

@@ -98,6 +98,12 @@ export const stageSchema = z.object({
   cautions: z.array(text(500)).max(20),
   /** The crane or the assist crane moves in this stage: a radio check opens it. */
   involvesCraneMovement: z.boolean(),
+  /**
+   * The boom goes up or comes down in this stage ('moves'), or the stage gets it ready to
+   * ('prepares'): the raising wind limit applies, and a boom-moving stage needs a fresh reading.
+   * Absent in plans written before it was declared: then known by the template's stage ids.
+   */
+  boom: z.enum(['moves', 'prepares']).optional(),
   steps: z.array(stepSchema).max(200),
   hold: holdSchema.nullable(),
 });
@@ -135,7 +141,9 @@ export interface PlanProblem {
     /** A step's `after` names no step of its stage, the steps wait in a circle, or an order of the reference plan was dropped. */
     | 'step_order'
     /** A reading is no longer held to what the reference plan holds it to, or to something looser. */
-    | 'check_weakened';
+    | 'check_weakened'
+    /** A stage that raises or lowers the boom (or readies it) no longer says so: the wind rules would not apply. */
+    | 'boom_movement_undeclared';
   message: string;
   /** Where in the plan, as a path like "stages.3.dependsOn.0". */
   path?: string;

@@ -200,6 +200,9 @@ describe('the one wind rule', () => {
     expect(state.stages.filter(movesBoom).map((s) => s.id)).toEqual(['er-raise']);
     expect(movesBoom({ id: 'dm-lower' })).toBe(true);
     expect(movesBoom({ id: 'er-preraise' })).toBe(false);
+    // A stage renamed by hand still counts when its plan declares that it moves the boom.
+    expect(movesBoom({ id: 'raise-the-boom-today', boom: 'moves' })).toBe(true);
+    expect(movesBoom({ id: 'raise-the-boom-today' })).toBe(false);
     expect(holdGatesBoomMovement(state, 'er-preraise')).toBe(true);
     expect(holdGatesBoomMovement(state, 'er-ground')).toBe(false);
   });

@@ -197,7 +197,7 @@ describe('what a reading is held to cannot be loosened', () => {
 
 describe('what the board and the plan editor call', () => {
   it('the codes that weaken a mandatory hold, for a 409 refusal', () => {
-    expect([...MANDATORY_PROBLEM_CODES].sort()).toEqual(['mandatory_hold_bypassed', 'mandatory_hold_removed', 'mandatory_role_removed', 'required_step_removed']);
+    expect([...MANDATORY_PROBLEM_CODES].sort()).toEqual(['boom_movement_undeclared', 'mandatory_hold_bypassed', 'mandatory_hold_removed', 'mandatory_role_removed', 'required_step_removed']);
     expect(protectsMandatoryHold({ code: 'check_weakened' })).toBe(false);
     expect(protectsMandatoryHold({ code: 'cycle' })).toBe(false);
   });
@@ -215,5 +215,23 @@ describe('what the board and the plan editor call', () => {
   it('the generated plans of both kinds pass against themselves', () => {
     expect(planProblems(reference, reference)).toEqual([]);
     expect(planProblems(dmReference, dmReference)).toEqual([]);
+  });
+});
+
+describe('stages that move the boom say so, and keep saying so (common practice, no source: the wind rules hang on it)', () => {
+  it('the generated raise and lowering stages declare that they move the boom, the pre-raise checks that they ready it', () => {
+    expect(stage(reference, 'er-raise').boom).toBe('moves');
+    expect(stage(reference, 'er-preraise').boom).toBe('prepares');
+    expect(stage(dmReference, 'dm-lower').boom).toBe('moves');
+  });
+
+  it('an edit that drops the declaration is refused: the fresh wind reading would no longer apply', () => {
+    const dropped = edit((p) => {
+      delete stage(p, 'er-raise').boom;
+    });
+    const problems = problemsOf(dropped).filter((x) => x.code === 'boom_movement_undeclared');
+    expect(problems).toHaveLength(1);
+    expect(problems[0].message).toContain('Stage “Raise and test” raises or lowers the boom');
+    expect(protectsMandatoryHold(problems[0])).toBe(true);
   });
 });

@@ -41,6 +41,7 @@ export const dismantlingStages = {
 
   lower: {
     id: 'dm-lower',
+    boom: 'moves',
     title: 'Lower the boom onto blocking',
     summary: 'Re-check the ground and the wind, then bring the boom down onto blocking at the points the manual gives, landing the hook block on the way.',
     cautions: [

@@ -522,6 +522,8 @@ export const erectionStages = {
     summary: 'Everyone confirms the boom is ready to leave the ground.',
     cautions: ['If anyone is unsure, the boom stays down.'],
     involvesCraneMovement: false,
+    // The raise is decided here: the raising wind limit applies from this stage on.
+    boom: 'prepares',
     steps: {
       // The checks the ready-to-raise hold attests are required: the hold means nothing without them.
       clear: { text: 'Nothing left on the boom: tools, timber, pins, people.', roles: ['rigger'], required: true },
@@ -548,6 +550,7 @@ export const erectionStages = {
 
   raise: {
     id: 'er-raise',
+    boom: 'moves',
     title: 'Raise and test',
     summary: 'Lift the tip off the ground and stop to check, raise the boom to working angle, and prove every limit before any lift.',
     cautions: [

@@ -62,6 +62,8 @@ export interface StageWording {
   summary: string;
   cautions: readonly string[];
   involvesCraneMovement: boolean;
+  /** The boom goes up or comes down in this stage, or the stage readies it (see the plan schema). */
+  boom?: 'moves' | 'prepares';
   steps: Readonly<Record<string, StepWording>>;
   hold: HoldWording | null;
 }
