@@ -169,6 +169,7 @@ export async function setConfiguration(context: AppContext, actor: User, jobId: 
       data: {
         planRegenerated,
         windLimits: results.windLimits,
+        weatherFreshMinutes: config.weatherFreshMinutes,
         configuration: config,
         figures: results.figures.map((f) => ({ key: f.key, value: f.value, status: f.status, overridable: f.overridable })),
         overridesWithdrawn: dropped.map((o) => ({ id: o.id, figureKey: o.figureKey })),

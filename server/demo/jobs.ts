@@ -71,6 +71,7 @@ function liftConfiguration(fleet: DemoFleet): Configuration {
     },
     fallZoneMarginM: 5,
     chartCautionPercent: 75,
+    weatherFreshMinutes: 15,
   };
 }
 

@@ -36,6 +36,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
     ['Ground', `${c.ground.groundType || 'type not given'}, allowable ${c.ground.allowablePressureKpa} kPa — source: ${groundSourceLabels[c.ground.source.kind]}${c.ground.source.reference ? ` (${c.ground.source.reference})` : ''}${c.ground.source.designer ? `, designed by ${c.ground.source.designer}` : ''}`],
     ['Mats', c.mats.used ? `${c.mats.lengthM} × ${c.mats.widthM} × ${c.mats.thicknessM} m, ${c.mats.weightKg} kg each` : 'none'],
     ['Chart caution share', `${c.chartCautionPercent} % (above it a lift needs a second supervisor's approval; above 100 % never)`],
+    ['Age of a wind reading', `at most ${c.weatherFreshMinutes} min when the boom goes up or comes down, or work resumes`],
     [
       'Assist crane lifts',
       c.assist.lifts.length

@@ -32,6 +32,7 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     case 'configuration.set':
       next.windLimits = (d.windLimits as BoardState['windLimits']) ?? null;
+      if (typeof d.weatherFreshMinutes === 'number') next.weatherFreshMinutes = d.weatherFreshMinutes;
       break;
     case 'job.ready':
       next.job.state = 'ready';

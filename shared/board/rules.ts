@@ -79,15 +79,15 @@ export function weatherOverLimit(
 }
 
 /**
- * How old a weather reading may be for a raise, a lowering, the hold before them and a resume.
- * Every job uses this default today (there is no per-job setting yet): 15 minutes, the figure the
- * board's screens state. Common practice, no source: a reading is taken just before the boom moves.
+ * How old a weather reading may be for a raise, a lowering, the hold before them and a resume,
+ * unless the job sets its own (configuration `weatherFreshMinutes`). Common practice, no source:
+ * a reading is taken just before the boom moves.
  */
 export const WEATHER_FRESH_MS = 15 * 60 * 1000;
 
-/** The freshness limit of a job's weather readings (the default for every job until jobs carry their own). */
-export function weatherFreshMs(_state: BoardState): number {
-  return WEATHER_FRESH_MS;
+/** The freshness limit of a job's weather readings: the job's setting, or the default. */
+export function weatherFreshMs(state: Pick<BoardState, 'weatherFreshMinutes'>): number {
+  return state.weatherFreshMinutes !== undefined ? state.weatherFreshMinutes * 60_000 : WEATHER_FRESH_MS;
 }
 
 /**

@@ -149,6 +149,8 @@ export interface BoardState {
   briefed: { userId: string; name: string; planVersion: number; at: string }[];
   weather: WeatherReading | null;
   windLimits: { assembly: WindLimit; raising: WindLimit } | null;
+  /** The job's setting for how old a wind reading may be; absent on older boards (the default applies). */
+  weatherFreshMinutes?: number;
   defects: { id: string; description: string; componentId: string | null; stageId: string | null; photoId: string | null; at: string; by: string }[];
 }
 

@@ -175,6 +175,11 @@ export const configurationSchema = z
      * site setting; 75 % is common practice, no source). Above 100 % is never allowed.
      */
     chartCautionPercent: z.number().finite().min(50, 'Enter 50 % or more').max(100, 'Enter 100 % or less').default(75),
+    /**
+     * How old a wind reading may be when the boom is raised or lowered, the hold before that is
+     * released, or work resumes (a job setting; 15 minutes is common practice, no source).
+     */
+    weatherFreshMinutes: z.number().int('Enter whole minutes from 1 to 30').min(1, 'Enter whole minutes from 1 to 30').max(30, 'Enter whole minutes from 1 to 30').default(15),
   })
   .superRefine((c, ctx) => {
     if (c.ground.source.kind !== 'none' && c.ground.source.reference.length === 0) {

@@ -27,6 +27,7 @@ function configuration(overrides: Partial<Configuration> = {}): Configuration {
     siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     fallZoneMarginM: 5,
     chartCautionPercent: 75,
+    weatherFreshMinutes: 15,
     ...overrides,
   };
 }

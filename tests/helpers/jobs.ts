@@ -22,6 +22,7 @@ export function configuration18m(craneUnitId: string, overrides: Partial<Configu
     siteHazards: { powerLines: [], buriedServices: '', neighbours: '', loadAndTagLineAllowanceM: 3, swayAllowanceM: 2 },
     fallZoneMarginM: 5,
     chartCautionPercent: 75,
+    weatherFreshMinutes: 15,
     ...overrides,
   };
 }

@@ -224,6 +224,16 @@ describe('the one wind rule', () => {
     expect(weatherVerdict(state, now, 'raising')).toMatchObject({ ok: false, problem: 'No raising wind limit is known for this configuration: get the manufacturer’s limit first.' });
   });
 
+  it('a job that sets its own age for a wind reading is held to it; the setting arrives with the configuration (common practice, no source)', () => {
+    let state = board();
+    state = applyEvent(state, event(2, 'configuration.set', { windLimits: state.windLimits, weatherFreshMinutes: 5 }));
+    expect(state.weatherFreshMinutes).toBe(5);
+    state.weather = reading(5, 5, 3);
+    expect(weatherVerdict(state, now, 'raising')).toMatchObject({ fresh: true, ok: true });
+    state.weather = reading(6, 5, 3);
+    expect(weatherVerdict(state, now, 'raising')).toMatchObject({ fresh: false, ok: false, problem: 'Record a new weather reading: the last one is older than 5 minutes.' });
+  });
+
   it('a reading taken low down, or with no height (older events), carries a caution', () => {
     const state = board();
     state.weather = reading(1, 5, 3, 2);

@@ -33,6 +33,7 @@ const names: Record<string, string> = {
   'assist.tandem.deductionsT': 'Tandem raise: chart deductions',
   chartCautionPercent: 'Caution share of the chart',
   fallZoneMarginM: 'Fall-zone margin',
+  weatherFreshMinutes: 'Age of a wind reading',
   'siteHazards.buriedServices': 'Buried services',
   'siteHazards.neighbours': 'Neighbours',
   'siteHazards.loadAndTagLineAllowanceM': 'Hook, load and tag-line allowance',

@@ -52,6 +52,8 @@ export function blankConfiguration(craneUnitId: string): Configuration {
     fallZoneMarginM: 5,
     // Common practice, no source: the site's caution share of a chart.
     chartCautionPercent: 75,
+    // Common practice, no source: how old a wind reading may be before the boom moves.
+    weatherFreshMinutes: 15,
   };
 }
 
