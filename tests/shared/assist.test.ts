@@ -8,7 +8,7 @@ import { assistLiftCheck, chartCapacityKn, padPressure, tandemRadiusM, tandemRai
 import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
 import type { InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
-import { demoAssistCrane, demoCrane, expectCalcError, relErr } from './helpers';
+import { demoAssistCrane, demoCrane, expectCalcError, relErr, demoKit } from './helpers';
 
 const assist = demoAssistCrane();
 const chart = assist.charts[0]; // 11.6 m boom: 3.0 m 50 t, 3.5 m 45 t, 4 m 40.5 t, 5 m 33 t, 6 m 27.5 t, 7 m 23 t, 8 m 19.5 t, 9 m 16.5 t
@@ -135,14 +135,7 @@ describe('tandemRaise: steps every 10° up to the release angle, where the tip l
 const UNIT_ID = '6f1c2d3e-4a5b-4c6d-8e7f-0a1b2c3d4e5f';
 const ASSIST_ID = '7a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d';
 
-function kit(): InventoryItem[] {
-  const items: [InventoryItem['kind'], string, number][] = [
-    ['section', 'base', 1], ['section', 'ins3', 1], ['section', 'ins6', 1], ['section', 'ins12', 6], ['section', 'tip', 1],
-    ['guy_line', 'GT', 2], ['guy_line', 'GB', 2], ['guy_line', 'G3', 2], ['guy_line', 'G6', 2], ['guy_line', 'G12', 12],
-    ['hook_block', 'HB160', 1], ['hook_block', 'HB120', 1], ['hook_block', 'BALL12', 1], ['rope', 'R28-hoist', 2], ['rope', 'R22-boom', 1],
-  ];
-  return items.flatMap(([kind, typeId, n]) => Array.from({ length: n }, (_, i) => ({ serial: `A-${typeId}-${i}`, kind, typeId, status: 'serviceable' as const })));
-}
+const kit = (): InventoryItem[] => demoKit('A');
 
 const lift = (over: Partial<Configuration['assist']['lifts'][number]> = {}) => ({
   label: 'Tip section onto dollies',

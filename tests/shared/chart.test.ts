@@ -9,7 +9,7 @@ import { chartBand, chartShare, limitShare, percentUp, readChart } from '../../s
 import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
-import { demoAssistCrane, demoCrane, expectCalcError } from './helpers';
+import { demoAssistCrane, demoCrane, expectCalcError, demoKit } from './helpers';
 
 const tToKn = (t: number) => evaluate(`${t} tonne * gravity`).toNumber('kN') as number;
 const crane = demoCrane();
@@ -87,14 +87,7 @@ describe('chartBand: above 100 % fails, above the site’s caution share needs c
 const UNIT_ID = '6f1c2d3e-4a5b-4c6d-8e7f-0a1b2c3d4e5f';
 const ASSIST_ID = '7a2b3c4d-5e6f-4a7b-8c9d-0e1f2a3b4c5d';
 
-function kit(): InventoryItem[] {
-  const items: [InventoryItem['kind'], string, number][] = [
-    ['section', 'base', 1], ['section', 'ins3', 1], ['section', 'ins6', 1], ['section', 'ins12', 6], ['section', 'tip', 1],
-    ['guy_line', 'GT', 2], ['guy_line', 'GB', 2], ['guy_line', 'G3', 2], ['guy_line', 'G6', 2], ['guy_line', 'G12', 12],
-    ['hook_block', 'HB160', 1], ['hook_block', 'HB120', 1], ['hook_block', 'BALL12', 1], ['rope', 'R28-hoist', 2], ['rope', 'R22-boom', 1],
-  ];
-  return items.flatMap(([kind, typeId, n]) => Array.from({ length: n }, (_, i) => ({ serial: `C-${typeId}-${i}`, kind, typeId, status: 'serviceable' as const })));
-}
+const kit = (): InventoryItem[] => demoKit('C');
 
 function plan(change: (c: Configuration) => void = () => {}): Configuration {
   const c = configurationSchema.parse({

@@ -4,7 +4,7 @@ import { expect } from 'vitest';
 import { CalcInputError } from '../../shared/calc';
 import { fileURLToPath } from 'node:url';
 import { arrangementDataSchema, assistCraneSchema } from '../../shared/schemas/arrangement';
-import type { ArrangementData, AssistCrane } from '../../shared/schemas/arrangement';
+import type { ArrangementData, AssistCrane, InventoryItem } from '../../shared/schemas/arrangement';
 
 const dataDir = fileURLToPath(new URL('../../server/demo/data/', import.meta.url));
 
@@ -46,4 +46,14 @@ export function expectCalcError(fn: () => unknown, field: string): void {
   }
   expect(caught).toBeInstanceOf(CalcInputError);
   expect((caught as CalcInputError).field).toBe(field);
+}
+
+/** Every part the demo crane's longest boom needs, hoist ropes and hook blocks included, all serviceable. */
+export function demoKit(serialPrefix: string): InventoryItem[] {
+  const items: [InventoryItem['kind'], string, number][] = [
+    ['section', 'base', 1], ['section', 'ins3', 1], ['section', 'ins6', 1], ['section', 'ins12', 6], ['section', 'tip', 1],
+    ['guy_line', 'GT', 2], ['guy_line', 'GB', 2], ['guy_line', 'G3', 2], ['guy_line', 'G6', 2], ['guy_line', 'G12', 12],
+    ['hook_block', 'HB160', 1], ['hook_block', 'HB120', 1], ['hook_block', 'BALL12', 1], ['rope', 'R28-hoist', 2], ['rope', 'R22-boom', 1],
+  ];
+  return items.flatMap(([kind, typeId, n]) => Array.from({ length: n }, (_, i) => ({ serial: `${serialPrefix}-${typeId}-${i}`, kind, typeId, status: 'serviceable' as const })));
 }
