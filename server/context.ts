@@ -1,14 +1,17 @@
 import type { DataSource } from 'typeorm';
 import type { PresenceEntry } from '../shared/board/types.js';
-import type { JobEventDto } from '../shared/schemas/jobs.js';
+import type { JobEventDto } from '../shared/events/log.js';
 import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
 import type { Mailer } from './mail/mailer.js';
 import type { Storage } from './storage/index.js';
 
-/** Live connections the commands may need to act on, filled in when Socket.IO is attached. */
-export interface Realtime {
+/**
+ * What commands and routes may tell live connections. Made once in `createApp` (a
+ * `BoardPublisher`, server/sockets/publisher.ts) before anything uses it; nothing replaces it later.
+ */
+export interface Publisher {
   /** Tells every socket of a person why their session ended, then disconnects them. */
   endSessions(userId: string, reason: string): void;
   /** Broadcasts a committed job event to everyone on that job's board. */
@@ -30,5 +33,5 @@ export interface AppContext {
   secret: string;
   /** The clock; tests move it to check expiries. */
   now(): Date;
-  realtime: Realtime;
+  publisher: Publisher;
 }

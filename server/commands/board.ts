@@ -17,10 +17,11 @@ import { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
+import { crewRolesOf } from '../queries/crew.js';
 import { referencePlan, withFreshBriefing } from '../queries/plans.js';
 import { recordInspection } from './fleet.js';
-import { crewRolesOf } from './jobs.js';
-import { runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
+import type { EventData, EventDraft } from '../../shared/events/log.js';
+import { runJobCommand, type CommandOutcome } from './job-writer.js';
 import { attachUploads } from './uploads.js';
 
 const refuse = (status: number, code: string, message: string, fields?: { path: string; message: string }[]) => new HttpError(status, code, message, fields);
@@ -66,8 +67,8 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
  * The answer to a failed blind check. It never says which fields differed (the supervisor sees
  * that) so the check cannot be solved by trying values one field at a time.
  */
-function checkFailedRefusal(data: Record<string, unknown>): HttpError {
-  const attempt = data.failuresSinceReview as number;
+function checkFailedRefusal(data: EventData<'hold.check.failed'>): HttpError {
+  const attempt = data.failuresSinceReview ?? 1;
   const seconds = Math.round(CHECK_RETRY_MS / 1000);
   const locked = attempt >= CHECK_FAILURES_BEFORE_REVIEW;
   return refuse(
@@ -239,7 +240,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
         // then answered as a refusal that names no field.
         await attachUploads(manager, [c.photoId!], 'hold', job.id, actor.id, 'photoId');
         const failuresSinceReview = (hold.failuresSinceReview ?? 0) + 1;
-        return { type: 'hold.check.failed', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role, photoId: c.photoId, fields: differ.map((f) => f.field), failuresSinceReview } };
+        return { type: 'hold.check.failed', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role, photoId: c.photoId ?? null, fields: differ.map((f) => f.field), failuresSinceReview } };
       }
     }
     if (c.photoId) await attachUploads(manager, [c.photoId], 'hold', job.id, actor.id, 'photoId');

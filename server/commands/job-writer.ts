@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
-import type { JobEventDto } from '../../shared/schemas/jobs.js';
+import { checkNewEventData, type EventDraft, type JobEventDto } from '../../shared/events/log.js';
 import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
@@ -11,14 +11,6 @@ import { presentJobEvent } from '../presenters/job-event.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import { boardEffects } from '../../shared/board/effects.js';
 
-/** What a command handler decided: the event to append. The handler has already changed the job row. */
-export interface EventDraft {
-  type: string;
-  /** The role the actor acted in (a crew role, or "admin"). */
-  role: string;
-  /** Every resulting change, so a client can apply the event without asking again. */
-  data: Record<string, unknown>;
-}
 
 export interface CommandOutcome {
   event: JobEventDto;
@@ -89,6 +81,8 @@ async function findReplay(manager: EntityManager, jobId: string, command: JobCom
 }
 
 async function appendEvent(manager: EntityManager, job: Job, command: JobCommand, draft: EventDraft, now: Date): Promise<JobEvent> {
+  // A handler that writes what the log's schema does not declare is a bug: refuse it before anything is hashed.
+  checkNewEventData(draft);
   const base = {
     jobId: job.id,
     seq: job.lastSeq + 1,
@@ -103,7 +97,7 @@ async function appendEvent(manager: EntityManager, job: Job, command: JobCommand
   };
   // The board moves with the event: the same reducer the clients run. The stage and hold states it
   // changes go into the event as `effects`, so the record says what each command set in motion.
-  const board = applyEvent(job.board, presentJobEvent({ ...base, id: 0 } as JobEvent));
+  const board = applyEvent(job.board, presentJobEvent(base));
   const effects = boardEffects(job.board, board);
   const fields = { ...base, data: effects ? { ...base.data, effects } : base.data };
   const hash = eventHash(job.headHash, fields);

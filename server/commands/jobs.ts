@@ -15,14 +15,10 @@ import { JobOverride } from '../entities/JobOverride.js';
 import { User } from '../entities/User.js';
 import { badRequest, conflict, forbidden, HttpError } from '../errors.js';
 import { can } from '../policies/index.js';
+import { crewRolesOf } from '../queries/crew.js';
 import { unitInventory } from '../queries/fleet.js';
 import { refreshGeneratedDraft } from './plan-drafts.js';
-import { createJobWithEvent, runJobCommand, type CommandOutcome, type EventDraft } from './job-writer.js';
-
-/** The roles a person holds on a job. */
-export async function crewRolesOf(manager: EntityManager, jobId: string, userId: string): Promise<CrewRole[]> {
-  return (await manager.findBy(JobCrew, { jobId, userId })).map((c) => c.role);
-}
+import { createJobWithEvent, runJobCommand, type CommandOutcome } from './job-writer.js';
 
 /** The role a planning change is recorded under: the job's supervisor, or an admin acting as such. */
 export async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<string> {
@@ -221,4 +217,3 @@ export async function approveOverride(context: AppContext, actor: User, jobId: s
   });
 }
 
-export type { EventDraft };

@@ -1,5 +1,5 @@
 import type { BoardState } from '../../shared/board/types.js';
-import type { JobEventDto } from '../../shared/schemas/jobs.js';
+import type { JobEventDto } from '../../shared/events/log.js';
 
 /**
  * The board and its events as people who do not plan the job may see them. The blind

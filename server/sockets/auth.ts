@@ -1,8 +1,9 @@
 import type { Server, Socket } from 'socket.io';
-import { handshakeErrors, type ClientToServerEvents, type ServerToClientEvents } from '../../shared/events.js';
+import { handshakeErrors, type ClientToServerEvents, type ServerToClientEvents } from '../../shared/events/socket.js';
 import { verifyAccessToken } from '../auth/access-token.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
+import { HttpError, refusalOf } from '../errors.js';
 import { can } from '../policies/index.js';
 
 export interface SocketData {
@@ -49,25 +50,21 @@ export function socketTokenValid(socket: HoldlineSocket, now: Date): boolean {
 export function registerSessionHandlers(context: AppContext, socket: HoldlineSocket): void {
   socket.on('session:renew', async (payload, ack) => {
     if (typeof ack !== 'function') return;
-    const token = typeof payload?.token === 'string' ? payload.token : '';
-    const claims = verifyAccessToken(token, context.secret, context.now());
-    if (!claims || claims.userId !== socket.data.userId) {
-      ack({ ok: false, error: { code: 'token_invalid', message: 'That session token is not valid for this connection.' } });
-      return;
+    try {
+      const token = typeof payload?.token === 'string' ? payload.token : '';
+      const claims = verifyAccessToken(token, context.secret, context.now());
+      if (!claims || claims.userId !== socket.data.userId) throw new HttpError(401, 'token_invalid', 'That session token is not valid for this connection.');
+      const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
+      // The same row as the handshake: a person deactivated since connecting is let go.
+      if (!user || !can(user, 'socket.connect')) {
+        ack(refusalOf(new HttpError(403, 'account_inactive', 'This account is deactivated.'), context.logger, { event: 'session:renew' }));
+        socket.disconnect(true);
+        return;
+      }
+      socket.data.tokenExp = claims.exp;
+      ack({ ok: true, expiresAt: new Date(claims.exp * 1000).toISOString() });
+    } catch (error) {
+      ack(refusalOf(error, context.logger, { event: 'session:renew', userId: socket.data.userId }));
     }
-    const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
-    if (!user?.active) {
-      ack({ ok: false, error: { code: 'account_inactive', message: 'This account is deactivated.' } });
-      socket.disconnect(true);
-      return;
-    }
-    socket.data.tokenExp = claims.exp;
-    ack({ ok: true, expiresAt: new Date(claims.exp * 1000).toISOString() });
   });
-}
-
-/** Ends every socket of a person with a reason. */
-export function endSessions(io: HoldlineServer, userId: string, reason: string): void {
-  io.to(userRoom(userId)).emit('session:ended', { reason });
-  io.in(userRoom(userId)).disconnectSockets(true);
 }

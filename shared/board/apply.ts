@@ -1,5 +1,5 @@
-import type { JobEventDto } from '../schemas/jobs.js';
-import type { Plan, ValueCheckField } from '../schemas/plan.js';
+import type { JobEventDto, JobEventOf } from '../events/log.js';
+import type { Plan } from '../schemas/plan.js';
 import { readingOutOfLimit } from './readings.js';
 import { CHECK_FAILURES_BEFORE_REVIEW, stepsAfter } from './rules.js';
 import type { BoardHold, BoardStage, BoardState, StageState } from './types.js';
@@ -16,47 +16,46 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
   if (event.seq !== state.seq + 1) throw new Error(`event ${event.seq} does not follow ${state.seq}`);
   const next: BoardState = structuredClone(state);
   next.seq = event.seq;
-  const d = event.data as Record<string, unknown>;
   const by = { userId: event.by.userId, name: event.by.name, role: event.by.role, at: event.at };
 
   switch (event.type) {
     case 'job.updated': {
-      const changes = d.changes as { name?: string; site?: string; kind?: BoardState['job']['kind'] };
+      const { changes } = event.data;
       if (changes.name !== undefined) next.job.name = changes.name;
       if (changes.site !== undefined) next.job.site = changes.site;
       if (changes.kind !== undefined) next.job.kind = changes.kind;
       break;
     }
     case 'crew.set':
-      next.crew = d.crew as BoardState['crew'];
+      next.crew = event.data.crew;
       break;
     case 'configuration.set':
-      next.windLimits = (d.windLimits as BoardState['windLimits']) ?? null;
-      if (typeof d.weatherFreshMinutes === 'number') next.weatherFreshMinutes = d.weatherFreshMinutes;
+      next.windLimits = event.data.windLimits ?? null;
+      if (event.data.weatherFreshMinutes !== undefined) next.weatherFreshMinutes = event.data.weatherFreshMinutes;
       break;
     case 'job.ready':
       next.job.state = 'ready';
-      next.planVersion = d.planVersion as number;
-      next.stages = stagesFromPlan(d.plan as Plan, [], next.windLimits);
+      next.planVersion = event.data.planVersion;
+      next.stages = stagesFromPlan(event.data.plan, [], next.windLimits);
       break;
     case 'job.started':
       next.job.state = 'live';
       settle(next);
       break;
     case 'briefing.acknowledged':
-      next.briefed = [...next.briefed.filter((b) => b.userId !== by.userId), { userId: by.userId, name: by.name, planVersion: d.planVersion as number, at: by.at }];
+      next.briefed = [...next.briefed.filter((b) => b.userId !== by.userId), { userId: by.userId, name: by.name, planVersion: event.data.planVersion, at: by.at }];
       break;
     case 'step.completed': {
-      const step = findStep(next, d.stepId as string);
+      const step = findStep(next, event.data.stepId);
       step.state = 'done';
-      step.doneBy = { ...by, value: (d.value as string | null) ?? null, photoId: (d.photoId as string | null) ?? null };
+      step.doneBy = { ...by, value: event.data.value ?? null, photoId: event.data.photoId ?? null };
       step.outOfLimit = readingOutOfLimit(step.records, step.doneBy.value, next.windLimits);
       settle(next);
       break;
     }
     case 'step.reopened': {
-      const stage = findStage(next, d.stageId as string);
-      const step = findStep(next, d.stepId as string);
+      const stage = findStage(next, event.data.stageId);
+      const step = findStep(next, event.data.stepId);
       // Steps that were to come after it are open again too: the order is kept when the work is redone.
       for (const id of [step.id, ...stepsAfter(stage, step.id)]) {
         const s = findStep(next, id);
@@ -72,70 +71,73 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     }
     case 'hold.acknowledged': {
-      const hold = findStage(next, d.stageId as string).hold!;
-      hold.acknowledgments.push({ role: d.role as BoardState['crew'][number]['role'], userId: by.userId, name: by.name, at: by.at });
+      const hold = holdOf(next, event.data.stageId);
+      hold.acknowledgments.push({ role: event.data.role, userId: by.userId, name: by.name, at: by.at });
       if (hold.requiredRoles.every((r) => hold.acknowledgments.some((a) => a.role === r))) hold.state = 'acknowledged';
       break;
     }
     case 'hold.withdrawn': {
-      const hold = findStage(next, d.stageId as string).hold!;
-      hold.acknowledgments = hold.acknowledgments.filter((a) => !(a.role === d.role && a.userId === by.userId));
+      const { stageId, role } = event.data;
+      const hold = holdOf(next, stageId);
+      hold.acknowledgments = hold.acknowledgments.filter((a) => !(a.role === role && a.userId === by.userId));
       hold.state = 'open';
       break;
     }
     case 'hold.check.failed': {
-      const hold = holdOf(next, d.stageId as string);
-      hold.checkFailures = [...(hold.checkFailures ?? []), { userId: by.userId, name: by.name, role: by.role, at: by.at, fields: (d.fields as ValueCheckField[] | null | undefined) ?? null }];
+      const hold = holdOf(next, event.data.stageId);
+      hold.checkFailures = [...(hold.checkFailures ?? []), { userId: by.userId, name: by.name, role: by.role, at: by.at, fields: event.data.fields ?? null }];
       hold.failuresSinceReview = (hold.failuresSinceReview ?? 0) + 1;
       hold.checkLocked = hold.failuresSinceReview >= CHECK_FAILURES_BEFORE_REVIEW;
       break;
     }
     case 'hold.check.reviewed': {
-      const hold = holdOf(next, d.stageId as string);
+      const hold = holdOf(next, event.data.stageId);
       hold.failuresSinceReview = 0;
       hold.checkLocked = false;
-      hold.lastReview = { userId: by.userId, name: by.name, at: by.at, note: d.note as string };
+      hold.lastReview = { userId: by.userId, name: by.name, at: by.at, note: event.data.note };
       break;
     }
     case 'hold.released': {
-      const stage = findStage(next, d.stageId as string);
-      stage.hold!.state = 'released';
-      stage.hold!.releasedBy = by;
+      const stage = findStage(next, event.data.stageId);
+      const hold = holdOf(next, stage.id);
+      hold.state = 'released';
+      hold.releasedBy = by;
       stage.state = 'done';
       settle(next);
       break;
     }
     case 'stage.skipped': {
-      const stage = findStage(next, d.stageId as string);
+      const stage = findStage(next, event.data.stageId);
       stage.state = 'skipped';
-      stage.skipReason = d.reason as string;
+      stage.skipReason = event.data.reason;
       if (stage.hold) stage.hold.state = 'waived';
       settle(next);
       break;
     }
-    case 'job.stopped':
+    case 'job.stopped': {
+      const { pressedAt, reason } = event.data;
       if (state.job.state === 'stopped' && next.job.stop) {
         // A second press keeps the first stop and its cause; the press is kept beside it.
-        next.job.stop.alsoPressedBy = [...(next.job.stop.alsoPressedBy ?? []), { userId: by.userId, name: by.name, role: by.role, pressedAt: d.pressedAt as string, at: by.at }];
-        if (!next.job.stop.reason && d.reason) next.job.stop.reason = d.reason as string;
+        next.job.stop.alsoPressedBy = [...(next.job.stop.alsoPressedBy ?? []), { userId: by.userId, name: by.name, role: by.role, pressedAt, at: by.at }];
+        if (!next.job.stop.reason && reason) next.job.stop.reason = reason;
         break;
       }
       next.job.state = 'stopped';
-      next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: d.pressedAt as string, at: by.at, reason: (d.reason as string | null) ?? null, alsoPressedBy: [] };
+      next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt, at: by.at, reason: reason ?? null, alsoPressedBy: [] };
       break;
+    }
     case 'job.stop.noted':
-      if (next.job.stop) next.job.stop.reason = d.reason as string;
+      if (next.job.stop) next.job.stop.reason = event.data.reason;
       break;
     case 'job.resumed':
       next.job.state = 'live';
-      next.job.lastResume = { by: { userId: by.userId, name: by.name }, at: by.at, reason: d.reason as string };
+      next.job.lastResume = { by: { userId: by.userId, name: by.name }, at: by.at, reason: event.data.reason };
       next.job.stop = null;
       settle(next);
       break;
     case 'weather.recorded': {
-      const r = d.reading as { meanMs: number; gustMs: number; lightning: boolean; poorVisibility: boolean; ice: boolean; heightM?: number | null };
-      next.weather = { ...r, heightM: r.heightM ?? null, at: by.at, by: { userId: by.userId, name: by.name } };
-      const stop = d.stop as { reason: string } | null;
+      const { reading, stop } = event.data;
+      next.weather = { ...reading, heightM: reading.heightM ?? null, at: by.at, by: { userId: by.userId, name: by.name } };
       if (stop) {
         next.job.state = 'stopped';
         next.job.stop = { raisedBy: { userId: by.userId, name: by.name, role: by.role }, pressedAt: by.at, at: by.at, reason: stop.reason, alsoPressedBy: [] };
@@ -143,21 +145,14 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     }
     case 'defect.reported': {
-      next.defects.push({
-        id: d.defectId as string,
-        description: d.description as string,
-        componentId: (d.componentId as string | null) ?? null,
-        stageId: (d.stageId as string | null) ?? null,
-        photoId: (d.photoId as string | null) ?? null,
-        at: by.at,
-        by: by.name,
-      });
-      if (d.stageId) findStage(next, d.stageId as string).blockedBy = { description: d.description as string, at: by.at, by: by.name };
+      const { defectId, description, componentId, stageId, photoId } = event.data;
+      next.defects.push({ id: defectId, description, componentId, stageId, photoId, at: by.at, by: by.name });
+      if (stageId) findStage(next, stageId).blockedBy = { description, at: by.at, by: by.name };
       break;
     }
     case 'plan.revised':
-      next.planVersion = d.planVersion as number;
-      next.stages = stagesFromPlan(d.plan as Plan, state.stages, next.windLimits);
+      next.planVersion = event.data.planVersion;
+      next.stages = stagesFromPlan(event.data.plan, state.stages, next.windLimits);
       if (next.job.state === 'live' || next.job.state === 'stopped') settle(next);
       break;
     case 'job.completed':
@@ -165,17 +160,26 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     case 'job.cancelled':
       next.job.state = 'cancelled';
-      next.job.cancelReason = d.reason as string;
+      next.job.cancelReason = event.data.reason;
       break;
-    default:
-      // Planning events that do not change the board (overrides, plan drafts) only advance seq.
+    case 'override.requested':
+    case 'override.approved':
+    case 'plan.generated':
+    case 'plan.edited':
+      // Planning events that do not change the board only advance seq.
       break;
+    default: {
+      // Every type is handled above (the compiler checks); an event from a newer server only advances seq.
+      const unknown: never = event;
+      void unknown;
+      break;
+    }
   }
   return next;
 }
 
-function created(event: JobEventDto): BoardState {
-  const d = event.data as { job: { name: string; site: string; kind: BoardState['job']['kind'] }; craneFleetNumber: string; crew: BoardState['crew'] };
+function created(event: JobEventOf<'job.created'>): BoardState {
+  const d = event.data;
   return {
     seq: event.seq,
     job: { id: event.jobId, name: d.job.name, site: d.job.site, kind: d.job.kind, state: 'planning', craneFleetNumber: d.craneFleetNumber, stop: null, lastResume: null, cancelReason: null },

@@ -1,5 +1,5 @@
-import type { JoinAnswer } from '../events.js';
-import type { JobEventDto } from '../schemas/jobs.js';
+import type { JoinAnswer } from '../events/socket.js';
+import type { JobEventDto } from '../events/log.js';
 import { applyEvent } from './apply.js';
 import type { BoardSnapshot, PresenceEntry } from './types.js';
 

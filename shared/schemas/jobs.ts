@@ -118,19 +118,7 @@ export const readinessSchema = z.object({
 });
 export type Readiness = z.infer<typeof readinessSchema>;
 
-/** An event of a job's log as the API presents it. */
-export const jobEventSchema = z.object({
-  jobId: z.string(),
-  seq: z.number().int(),
-  type: z.string(),
-  at: z.string(),
-  by: z.object({ userId: z.string(), name: z.string(), role: z.string() }),
-  data: z.record(z.string(), z.unknown()),
-});
-export type JobEventDto = z.infer<typeof jobEventSchema>;
-
 export const verifySchema = z.object({ valid: z.boolean(), checked: z.number().int(), firstBadSeq: z.number().int().nullable() });
 
 export const jobEnvelopeSchema = z.object({ job: jobSchema });
 export const jobListSchema = z.object({ items: z.array(jobSummarySchema) });
-export const jobEventListSchema = z.object({ items: z.array(jobEventSchema), lastSeq: z.number().int() });

@@ -1,5 +1,5 @@
 import { computed, ref } from 'vue';
-import type { CommandAnswer } from '../../shared/events';
+import type { CommandAnswer } from '../../shared/events/socket';
 import { useBoardStore, type CommandInput } from '../stores/board';
 
 /** A refusal in plain words: the server's message, then what each named field needs. */

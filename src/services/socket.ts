@@ -1,5 +1,5 @@
 import { io, type Socket } from 'socket.io-client';
-import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events';
+import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events/socket';
 
 export type HoldlineSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 

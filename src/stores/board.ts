@@ -1,10 +1,11 @@
 import { defineStore } from 'pinia';
 import { computed, ref, shallowRef } from 'vue';
 import { BoardFollower } from '../../shared/board/follower';
-import type { BoardSnapshot } from '../../shared/board/types';
-import type { CommandAnswer } from '../../shared/events';
+import type { BoardSnapshot, BoardState } from '../../shared/board/types';
+import type { CommandAnswer } from '../../shared/events/socket';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
-import { jobEventListSchema, type CrewRole, type JobEventDto } from '../../shared/schemas/jobs';
+import { type CrewRole } from '../../shared/schemas/jobs';
+import { jobEventListSchema, type JobEventDto } from '../../shared/events/log';
 import { api } from '../services/api';
 import { connectSocket, type HoldlineSocket } from '../services/socket';
 import { BLOCKED_WORDS } from '../components/board/words';
@@ -13,6 +14,9 @@ import { useSessionStore } from './session';
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
 /** A command as a view sends it; the store adds the id. */
 export type CommandInput = DistributiveOmit<BoardCommand, 'commandId'>;
+
+/** A reader of the open board's events: the event and the board right after it. */
+export type BoardEventListener = (event: JobEventDto, board: BoardState) => void;
 
 /** A stop pressed while the board was not live: kept until the server has it. */
 export interface QueuedStop {
@@ -45,6 +49,14 @@ export const useBoardStore = defineStore('board', () => {
   const queuedStop = ref<QueuedStop | null>(null);
   /** The last event applied, for flashes, sounds and announcements. */
   const lastEvent = shallowRef<JobEventDto | null>(null);
+
+  /** The stores that follow the open job's events (jobs, plan): one socket, one follower, several readers. */
+  const listeners = new Set<BoardEventListener>();
+  /** Calls `listener` with every event the open board applies, in seq order; answers a function that stops it. */
+  function onBoardEvent(listener: BoardEventListener): () => void {
+    listeners.add(listener);
+    return () => listeners.delete(listener);
+  }
 
   let socket: HoldlineSocket | null = null;
   let follower: BoardFollower | null = null;
@@ -92,8 +104,9 @@ export const useBoardStore = defineStore('board', () => {
       },
       {
         onChange: refresh,
-        onEvent: (event) => {
+        onEvent: (event, applied) => {
           lastEvent.value = event;
+          for (const listener of listeners) listener(event, applied);
         },
       },
     );
@@ -198,7 +211,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, blockReason, open, close, send, stop, setQueuedStopReason, isWaiting };
+  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

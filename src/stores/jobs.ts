@@ -4,25 +4,14 @@ import { reactive, ref } from 'vue';
 import type { z } from 'zod';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import type { FieldError } from '../../shared/schemas/errors';
-import {
-  createJobSchema,
-  jobEnvelopeSchema,
-  jobEventListSchema,
-  jobListSchema,
-  overrideActionSchema,
-  readinessSchema,
-  setCrewSchema,
-  updateJobSchema,
-  verifySchema,
-  type CrewMember,
-  type CrewRole,
-  type JobDto,
-  type JobEventDto,
-  type JobSummary,
-  type Readiness,
-} from '../../shared/schemas/jobs';
+import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema, readinessSchema, setCrewSchema, updateJobSchema, verifySchema, type CrewMember, type CrewRole, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs';
+import { jobEventListSchema, type JobEventDto, type JobEventType } from '../../shared/events/log';
+import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
 import { api, ApiRequestError, describeError, download } from '../services/api';
+import { useBoardStore } from './board';
+import { createBurstRunner } from './bursts';
+import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
 
 /** The roles without which a job can never leave planning. */
 export const requiredCrewRoles = ['supervisor', 'operator', 'signaller'] as const satisfies readonly CrewRole[];
@@ -30,46 +19,6 @@ export const requiredCrewRoles = ['supervisor', 'operator', 'signaller'] as cons
 /** The required roles nobody in the crew holds yet. */
 export function missingCrewRoles(crew: readonly Pick<CrewMember, 'role'>[]): CrewRole[] {
   return requiredCrewRoles.filter((role) => !crew.some((m) => m.role === role));
-}
-
-/** Field errors keyed by the full path ("heaviestLoad.radiusM"); the first message per path is kept. */
-export type FieldErrors = Partial<Record<string, string>>;
-
-/** Zod's own wording for its generic checks; a message a schema wrote itself never starts like these. */
-const GENERIC_MESSAGE = /^(Invalid|Too small|Too big)/;
-
-/** A message for people from a zod issue: the schema's own words, or plain ones for zod's generic checks. */
-export function readableIssue(issue: z.core.$ZodIssue): string {
-  if (!GENERIC_MESSAGE.test(issue.message)) return issue.message;
-  if (issue.code === 'invalid_type' && issue.expected === 'number') return 'Enter a number';
-  if (issue.code === 'too_small' && issue.origin === 'number') return issue.inclusive ? `Enter ${String(issue.minimum)} or more` : `Enter a number above ${String(issue.minimum)}`;
-  if (issue.code === 'too_big' && issue.origin === 'number') return `Enter ${String(issue.maximum)} or less`;
-  if (issue.code === 'too_small' && issue.origin === 'string') return 'Fill this in';
-  if (issue.code === 'too_big' && issue.origin === 'string') return `Use at most ${String(issue.maximum)} characters`;
-  if (issue.code === 'invalid_format' && issue.format === 'email') return 'Enter a valid e-mail';
-  if (issue.code === 'invalid_format' && issue.format === 'uuid') return 'Choose one';
-  return issue.message;
-}
-
-/** Zod issues as the server would name them. */
-export function fieldsFromZod(error: z.ZodError): FieldError[] {
-  return error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: readableIssue(i) }));
-}
-
-/** Field errors by full path, first message per path. */
-export function fieldErrorsFrom(fields: readonly FieldError[]): FieldErrors {
-  const out: FieldErrors = {};
-  for (const f of fields) out[f.path || '(body)'] ??= f.message;
-  return out;
-}
-
-/** The message for a field: its own path, or the first message of anything under it. */
-export function fieldErrorOf(errors: FieldErrors, path: string): string {
-  const own = errors[path];
-  if (own) return own;
-  const prefix = `${path}.`;
-  for (const [key, message] of Object.entries(errors)) if (key.startsWith(prefix) && message) return message;
-  return '';
 }
 
 /** One figure that reads differently on this device and on the server. */
@@ -113,6 +62,24 @@ export interface ServerCheck {
 }
 
 const id = (value: string) => encodeURIComponent(value);
+
+/**
+ * Events that change what GET /api/jobs/:id answers beyond the board's own fields (name, site,
+ * kind, state, plan version): the crew, the configuration and its figures, overrides, the
+ * distribution and communications plan, and what the person may edit (it ends with planning).
+ * After one of these the open job is read back; after any other its fields come from the board.
+ */
+const eventsReadBack: ReadonlySet<JobEventType> = new Set<JobEventType>([
+  'job.updated',
+  'crew.set',
+  'configuration.set',
+  'override.requested',
+  'override.approved',
+  'plan.generated',
+  'plan.edited',
+  'job.ready',
+  'job.cancelled',
+]);
 
 /** Jobs: the list, each job with its readiness and event log, and every change a planner makes. */
 export const useJobsStore = defineStore('jobs', () => {
@@ -176,6 +143,31 @@ export const useJobsStore = defineStore('jobs', () => {
     );
     return job;
   }
+
+  /**
+   * One event of a job this tab follows live (through the board store's one socket): the list line
+   * and the open job take their state, plan version and names from the board right after the
+   * event, with no request; the event log takes the event itself when it follows on. Only what the
+   * board does not carry is read back, once per burst of events.
+   */
+  const bursts = createBurstRunner();
+  function followEvent(event: JobEventDto, board: BoardState) {
+    const jobId = event.jobId;
+    const fromBoard = { name: board.job.name, site: board.job.site, kind: board.job.kind, craneFleetNumber: board.job.craneFleetNumber, state: board.job.state, planVersion: board.planVersion, updatedAt: event.at };
+    if (items.value.some((s) => s.id === jobId)) items.value = items.value.map((s) => (s.id === jobId ? { ...s, ...fromBoard } : s));
+    const held = details[jobId];
+    if (held) details[jobId] = { ...held, ...fromBoard, lastSeq: Math.max(held.lastSeq, event.seq) };
+    const log = events[jobId];
+    if (log) {
+      const last = log.length ? log[log.length - 1].seq : 0;
+      if (event.seq === last + 1) events[jobId] = [...log, event];
+      else if (event.seq > last) bursts.run(`events:${jobId}`, () => loadEvents(jobId));
+    }
+    if (!eventsReadBack.has(event.type)) return;
+    if (held) bursts.run(`job:${jobId}`, () => loadJob(jobId));
+    if (readiness[jobId]) bursts.run(`readiness:${jobId}`, () => loadReadiness(jobId));
+  }
+  useBoardStore().onBoardEvent(followEvent);
 
   /** After a change: readiness and, when it is being shown, the event log follow. */
   function followUp(jobId: string) {

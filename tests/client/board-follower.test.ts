@@ -2,7 +2,7 @@ import { describe, expect, it, vi } from 'vitest';
 import { BoardFollower, STALE_AFTER_MS, type FollowerTransport } from '../../shared/board/follower.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import type { BoardSnapshot } from '../../shared/board/types.js';
-import type { JobEventDto } from '../../shared/schemas/jobs.js';
+import type { JobEventDto } from '../../shared/events/log.js';
 
 const jobId = '11111111-1111-4111-8111-111111111111';
 const by = { userId: 'u1', name: 'Supervisor', role: 'supervisor' };

@@ -1,7 +1,8 @@
 import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { Configuration, Figure } from '../../shared/schemas/configuration';
-import type { JobDto, JobEventDto } from '../../shared/schemas/jobs';
+import type { JobDto } from '../../shared/schemas/jobs';
+import type { JobEventDto } from '../../shared/events/log';
 import { eventSummary } from '../../src/components/jobs/words';
 import { fieldErrorOf, figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
 import { buildJob, JOB_ID, json, UNIT_ID } from './helpers';

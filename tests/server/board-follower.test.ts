@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BoardFollower } from '../../shared/board/follower.js';
-import { jobEventListSchema } from '../../shared/schemas/jobs.js';
+import { jobEventListSchema } from '../../shared/events/log.js';
 import { signedInUser } from '../helpers/auth.js';
 import { BoardClient, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import SocketMock from 'socket.io-mock';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CommandAnswer, JoinAnswer } from '../../shared/events.js';
+import type { CommandAnswer, JoinAnswer } from '../../shared/events/socket.js';
 import type { HoldlineServer, HoldlineSocket } from '../../server/sockets/auth.js';
 import { createBoardHub } from '../../server/sockets/board.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';

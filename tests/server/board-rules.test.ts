@@ -5,7 +5,7 @@ import { replay } from '../../shared/board/apply.js';
 import { outOfLimitSteps } from '../../shared/board/readings.js';
 import { weatherVerdict } from '../../shared/board/rules.js';
 import type { BoardState } from '../../shared/board/types.js';
-import { jobEventListSchema, type JobEventDto } from '../../shared/schemas/jobs.js';
+import { isEventOf, jobEventListSchema, type JobEventDto } from '../../shared/events/log.js';
 import type { Plan, PlanStep } from '../../shared/schemas/plan.js';
 import { signAccessToken } from '../../server/auth/access-token.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
@@ -140,7 +140,7 @@ describe('board rules', () => {
       // Every screen reads the same list: the console's.
       expect(outOfLimitSteps(board).map((e) => [e.stepId, e.by?.userId])).toEqual([['er-ground.test-parts', crew.rigger.user.id]]);
       // The record says it too, for whoever reads the history.
-      const recorded = (await events(crew.supervisor, jobId)).filter((e) => e.type === 'step.completed' && e.data.stepId === 'er-ground.test-parts').at(-1)!;
+      const recorded = (await events(crew.supervisor, jobId)).filter((e) => isEventOf(e, 'step.completed')).filter((e) => e.data.stepId === 'er-ground.test-parts').at(-1)!;
       expect(recorded.data.outOfLimit).toMatchObject({ reason: '5 parts was recorded; the plan says 6 parts.' });
 
       const hold = await acknowledgeAll(jobId, 'er-ground');
@@ -425,7 +425,7 @@ describe('board rules', () => {
       expect((await check(crew.operator, 'operator', controllerValues18m)).status).toBe(200);
       expect((await check(crew.signaller, 'signaller', controllerValues18m)).status).toBe(200);
       // The signaller checked blind: the operator's values never reached them.
-      const operatorAck = (log: JobEventDto[]) => log.find((e) => e.type === 'hold.acknowledged' && e.data.holdId === hold.id && e.data.role === 'operator')!;
+      const operatorAck = (log: JobEventDto[]) => log.filter((e) => isEventOf(e, 'hold.acknowledged')).find((e) => e.data.holdId === hold.id && e.data.role === 'operator')!;
       expect(operatorAck(await events(crew.signaller, jobId)).data.values).toBeNull();
       expect(operatorAck(await events(crew.supervisor, jobId)).data.values).toEqual(controllerValues18m);
       const after = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-config')!.hold!;

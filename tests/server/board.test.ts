@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { replay } from '../../shared/board/apply.js';
-import { jobEventListSchema } from '../../shared/schemas/jobs.js';
+import { jobEventListSchema } from '../../shared/events/log.js';
 import { createApp } from '../../server/app.js';
 import { openDatabase } from '../../server/db/data-source.js';
 import { createLogger } from '../../server/logger.js';

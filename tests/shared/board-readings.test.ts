@@ -3,8 +3,9 @@ import { applyEvent } from '../../shared/board/apply.js';
 import { outOfLimitBeforeHold, outOfLimitSteps, parseReading, readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/readings.js';
 import { checkRetryAt, CHECK_RETRY_MS, holdGatesBoomMovement, movesBoom, stepsAfter, stepsNeededFirst, weatherVerdict, WEATHER_FRESH_MS } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState, BoardStep } from '../../shared/board/types.js';
-import type { JobEventDto } from '../../shared/schemas/jobs.js';
+import { parseJobEvent, type EventData, type JobEventDto, type JobEventType } from '../../shared/events/log.js';
 import type { StepRecord } from '../../shared/schemas/plan.js';
+import { config } from './plan-fixtures.js';
 
 /**
  * The pure board rules. The figures compared here are the plan's and the crane data's, not
@@ -141,13 +142,14 @@ function board(): BoardState {
   };
 }
 
-const event = (seq: number, type: string, data: Record<string, unknown>, at = '2026-01-01T10:00:00.000Z'): JobEventDto => ({ jobId: 'j', seq, type, at, by: { userId: 'u', name: 'Rigger', role: 'rigger' }, data });
+const event = <T extends JobEventType>(seq: number, type: T, data: EventData<T>, at = '2026-01-01T10:00:00.000Z'): JobEventDto =>
+  parseJobEvent({ jobId: 'j', seq, type, at, by: { userId: 'u', name: 'Rigger', role: 'rigger' }, data });
 
 describe('out-of-limit steps on the board', () => {
   it('the reducer marks the step; the console list and the holds that follow it read the same mark', () => {
     let state = board();
     state.stages[1].state = 'active';
-    state = applyEvent(state, event(2, 'step.completed', { stageId: 'er-upper', stepId: 'u1', value: '2.5' }));
+    state = applyEvent(state, event(2, 'step.completed', { stageId: 'er-upper', stepId: 'u1', value: '2.5', photoId: null }));
     expect(state.stages[1].steps[0].outOfLimit?.reason).toBe('2.5 was recorded; the limit is at most 1.');
     expect(outOfLimitSteps(state).map((e) => e.stepId)).toEqual(['u1']);
     // The pre-raise hold depends on er-upper: blocked. The side stage does not: not blocked. Ground is upstream only.
@@ -156,10 +158,10 @@ describe('out-of-limit steps on the board', () => {
     expect(readingsBlockingRelease(state, 'er-ground')).toEqual([]);
     expect(outOfLimitBeforeHold(state, 'er-raise').map((e) => e.stepId)).toEqual(['u1']);
     // Reopened (the steps after it with it) and redone within the limit: nothing blocks.
-    state = applyEvent(state, event(3, 'step.completed', { stageId: 'er-upper', stepId: 'u2', value: null }));
-    state = applyEvent(state, event(4, 'step.reopened', { stageId: 'er-upper', stepId: 'u1' }));
+    state = applyEvent(state, event(3, 'step.completed', { stageId: 'er-upper', stepId: 'u2', value: null, photoId: null }));
+    state = applyEvent(state, event(4, 'step.reopened', { stageId: 'er-upper', stepId: 'u1', clearedAcknowledgments: 0 }));
     expect(state.stages[1].steps.map((s) => s.state)).toEqual(['open', 'open', 'open']);
-    state = applyEvent(state, event(5, 'step.completed', { stageId: 'er-upper', stepId: 'u1', value: '0.8' }));
+    state = applyEvent(state, event(5, 'step.completed', { stageId: 'er-upper', stepId: 'u1', value: '0.8', photoId: null }));
     expect(readingsBlockingRelease(state, 'er-preraise')).toEqual([]);
   });
 
@@ -226,7 +228,7 @@ describe('the one wind rule', () => {
 
   it('a job that sets its own age for a wind reading is held to it; the setting arrives with the configuration (common practice, no source)', () => {
     let state = board();
-    state = applyEvent(state, event(2, 'configuration.set', { windLimits: state.windLimits, weatherFreshMinutes: 5 }));
+    state = applyEvent(state, event(2, 'configuration.set', { windLimits: state.windLimits, weatherFreshMinutes: 5, planRegenerated: false, configuration: config(), figures: [], overridesWithdrawn: [] }));
     expect(state.weatherFreshMinutes).toBe(5);
     state.weather = reading(5, 5, 3);
     expect(weatherVerdict(state, now, 'raising')).toMatchObject({ fresh: true, ok: true });
@@ -246,7 +248,7 @@ describe('the one wind rule', () => {
 
   it('an old weather event without a height still applies, as height unknown', () => {
     let state = board();
-    state = applyEvent(state, event(2, 'weather.recorded', { reading: { meanMs: 4, gustMs: 7, lightning: false, poorVisibility: false, ice: false }, phase: 'assembly', limit: null, stop: null }));
+    state = applyEvent(state, event(2, 'weather.recorded', { reading: { meanMs: 4, gustMs: 7, lightning: false, poorVisibility: false, ice: false }, phase: 'assembly', limit: null, stop: null, overLimit: null }));
     expect(state.weather).toMatchObject({ meanMs: 4, gustMs: 7, heightM: null });
   });
 });
@@ -255,7 +257,7 @@ describe('the blind check’s retry and lock', () => {
   it('the same person waits after a failure; three failures lock the hold until a review clears the count', () => {
     let state = board();
     state.stages[0].state = 'holding';
-    const failed = (seq: number, at: string) => event(seq, 'hold.check.failed', { stageId: 'er-ground', holdId: 'er-ground.hold', role: 'operator', fields: ['parts'] }, at);
+    const failed = (seq: number, at: string) => event(seq, 'hold.check.failed', { stageId: 'er-ground', holdId: 'er-ground.hold', role: 'operator', photoId: null, fields: ['parts'] }, at);
     state = applyEvent(state, failed(2, '2026-01-01T10:00:00.000Z'));
     const hold = () => state.stages[0].hold!;
     expect(checkRetryAt(hold(), 'u', Date.parse('2026-01-01T10:00:10.000Z'))).toBe(new Date(Date.parse('2026-01-01T10:00:00.000Z') + CHECK_RETRY_MS).toISOString());
@@ -265,7 +267,7 @@ describe('the blind check’s retry and lock', () => {
     expect(hold().checkLocked).toBe(false);
     state = applyEvent(state, failed(4, '2026-01-01T10:02:00.000Z'));
     expect(hold()).toMatchObject({ checkLocked: true, failuresSinceReview: 3 });
-    state = applyEvent(state, event(5, 'hold.check.reviewed', { stageId: 'er-ground', holdId: 'er-ground.hold', note: 'Reviewed' }));
+    state = applyEvent(state, event(5, 'hold.check.reviewed', { stageId: 'er-ground', holdId: 'er-ground.hold', note: 'Reviewed', failuresReviewed: 3 }));
     expect(hold()).toMatchObject({ checkLocked: false, failuresSinceReview: 0, lastReview: { note: 'Reviewed' } });
     expect(hold().checkFailures).toHaveLength(3);
   });
@@ -277,13 +279,13 @@ describe('a gust typed into a step is wind information too', () => {
     let state = board();
     state.stages[2].steps.push({ ...state.stages[2].steps[0], id: 'p-gust', text: 'Read the gust', records: record({ kind: 'wind', phase: 'raising' }, 'm/s') });
     state.stages[2].state = 'active';
-    state = applyEvent(state, event(2, 'weather.recorded', { reading: { meanMs: 4, gustMs: 7, heightM: 10, lightning: false, poorVisibility: false, ice: false } }, '2026-01-01T09:58:00.000Z'));
+    state = applyEvent(state, event(2, 'weather.recorded', { reading: { meanMs: 4, gustMs: 7, heightM: 10, lightning: false, poorVisibility: false, ice: false }, phase: 'raising', limit: null, stop: null, overLimit: null }, '2026-01-01T09:58:00.000Z'));
     expect(weatherVerdict(state, now, 'raising').ok).toBe(true);
-    state = applyEvent(state, event(3, 'step.completed', { stageId: 'er-preraise', stepId: 'p-gust', value: '14' }, '2026-01-01T09:59:00.000Z'));
+    state = applyEvent(state, event(3, 'step.completed', { stageId: 'er-preraise', stepId: 'p-gust', value: '14', photoId: null }, '2026-01-01T09:59:00.000Z'));
     expect(weatherVerdict(state, now, 'raising')).toMatchObject({ ok: false, overLimit: 'Gust 14 m/s is over the raising limit of 13 m/s (typed at “Read the gust”)' });
     // For assembly the same 14 m/s is within 16 m/s.
     expect(weatherVerdict(state, now, 'assembly').ok).toBe(true);
-    state = applyEvent(state, event(4, 'weather.recorded', { reading: { meanMs: 4, gustMs: 8, heightM: 10, lightning: false, poorVisibility: false, ice: false } }, '2026-01-01T09:59:30.000Z'));
+    state = applyEvent(state, event(4, 'weather.recorded', { reading: { meanMs: 4, gustMs: 8, heightM: 10, lightning: false, poorVisibility: false, ice: false }, phase: 'raising', limit: null, stop: null, overLimit: null }, '2026-01-01T09:59:30.000Z'));
     expect(weatherVerdict(state, now, 'raising')).toMatchObject({ ok: true, overLimit: null });
     // The step stays out of limit on its own, and the panel lists it.
     expect(weatherVerdict(state, now, 'raising').stepsOverLimit.map((s) => s.stepId)).toEqual(['p-gust']);

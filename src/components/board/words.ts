@@ -1,8 +1,8 @@
 import type { BoardState, HoldState, StageState } from '../../../shared/board/types';
-import type { JobEventDto } from '../../../shared/schemas/jobs';
+import type { JobEventDto } from '../../../shared/events/log';
 import { valueCheckFieldLabels, type ValueCheckField } from '../../../shared/schemas/plan';
 import { roleLabel, type Tone } from '../jobs/words';
-import type { BoardStatus } from './progress';
+import type { BoardStatus } from '../../../shared/board/status';
 
 export { formatWhen } from '../../services/time';
 export { roleLabel };

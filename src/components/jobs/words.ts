@@ -1,5 +1,6 @@
 import type { Figure, FigureStatus } from '../../../shared/schemas/configuration';
-import { jobStateLabels, type CrewRole, type JobDto, type JobEventDto, type JobKind, type JobState } from '../../../shared/schemas/jobs';
+import { jobStateLabels, type CrewRole, type JobDto, type JobKind, type JobState } from '../../../shared/schemas/jobs';
+import { type JobEventDto } from '../../../shared/events/log';
 import { qualificationLabels } from '../../../shared/schemas/users';
 
 export { formatWhen } from '../../services/time';

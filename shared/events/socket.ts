@@ -1,6 +1,6 @@
-import type { BoardSnapshot, PresenceEntry } from './board/types.js';
-import type { BoardCommand } from './schemas/commands.js';
-import type { JobEventDto } from './schemas/jobs.js';
+import type { BoardSnapshot, PresenceEntry } from '../board/types.js';
+import type { BoardCommand } from '../schemas/commands.js';
+import type { JobEventDto } from './log.js';
 
 /** Acknowledgment of every client-to-server event: success with data, or a readable refusal. */
 export type Ack<T = Record<string, never>> =
@@ -24,39 +24,6 @@ export const handshakeErrors = {
   unauthenticated: 'unauthenticated',
   inactive: 'account_inactive',
 } as const;
-
-
-/** Event types the board log may carry, planning included. */
-export const jobEventTypes = [
-  'job.created',
-  'job.updated',
-  'crew.set',
-  'configuration.set',
-  'override.requested',
-  'override.approved',
-  'plan.generated',
-  'plan.edited',
-  'job.ready',
-  'job.started',
-  'briefing.acknowledged',
-  'step.completed',
-  'step.reopened',
-  'hold.acknowledged',
-  'hold.withdrawn',
-  'hold.released',
-  'hold.check.failed',
-  'hold.check.reviewed',
-  'stage.skipped',
-  'job.stopped',
-  'job.stop.noted',
-  'job.resumed',
-  'weather.recorded',
-  'defect.reported',
-  'plan.revised',
-  'job.completed',
-  'job.cancelled',
-] as const;
-export type JobEventType = (typeof jobEventTypes)[number];
 
 /** Answer to a board command. */
 export type CommandAnswer = Ack<{ seq: number; event: JobEventDto }>;
