@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { arrangementDataSchema, assistCraneSchema } from './arrangement.js';
+import { arrangementDataSchema, assistCraneSchema, boomArrangementSchema } from './arrangement.js';
 
 /** What a physical component is. */
 export const componentKinds = ['section', 'guy_line', 'hook_block', 'rope'] as const;
@@ -198,3 +198,33 @@ export const inspectionListSchema = z.object({ items: z.array(inspectionSchema) 
 export const inspectionCreatedSchema = z.object({ inspection: inspectionSchema, component: componentSchema });
 /** Query of GET /api/crane-units/:id/boom-makeup. */
 export const boomMakeupQuerySchema = z.object({ lengthM: z.coerce.number().positive().max(500) });
+/**
+ * Answer of GET /api/crane-units/:id/boom-makeup: the BoomMakeup of shared/calc/boom.ts as the
+ * client reads it; unknown keys are dropped.
+ */
+export const boomMakeupEnvelopeSchema = z.object({
+  makeup: z.object({
+    boomLengthM: z.number(),
+    buildable: z.boolean(),
+    reasons: z.array(z.string()),
+    sections: z.array(
+      z.object({
+        position: z.number().int(),
+        typeId: z.string(),
+        lengthM: z.number(),
+        weightKg: z.number(),
+        startM: z.number(),
+        endM: z.number(),
+        serial: z.string().nullable(),
+      }),
+    ),
+    guyLines: z.array(z.object({ mark: z.string(), lengthM: z.number(), quantity: z.number().int(), pinsEach: z.number().int(), serials: z.array(z.string()) })),
+    totalSectionWeightKg: z.number(),
+    pinCount: z.object({ jointPins: z.number().int(), guyLinePins: z.number().int(), total: z.number().int() }),
+    arrangement: boomArrangementSchema.nullable().optional(),
+    platesRequired: z.boolean(),
+    auxSheaveAllowed: z.boolean(),
+    rule: z.string(),
+  }),
+});
+export type BoomMakeupAnswer = z.infer<typeof boomMakeupEnvelopeSchema>['makeup'];

@@ -1,5 +1,5 @@
 import { computed } from 'vue';
-import { boardStatus, currentStages } from '../components/board/progress';
+import { boardStatus, currentStages } from '../../shared/board/status';
 import { useBoardStore } from '../stores/board';
 import { useSessionStore } from '../stores/session';
 

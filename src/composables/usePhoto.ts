@@ -40,26 +40,39 @@ export function usePhotoThumbnail(photoId: Ref<string | null>) {
   return { url, problem };
 }
 
-/** Uploads one photo (POST /api/uploads) and keeps its state for a form. */
+/** The photo's own name when the device gave one, so a list of several says which one failed. */
+const photoName = (file: File) => (file.name ? `The photo ${file.name}` : 'The photo');
+
+/**
+ * The one way a photo reaches the server (POST /api/uploads), for the board and the fleet forms
+ * alike: the stored photo, or a sentence saying what to do instead.
+ */
+export async function uploadPhoto(file: File): Promise<{ photo: UploadDto } | { problem: string }> {
+  const form = new FormData();
+  form.append('file', file);
+  try {
+    return { photo: await api('/uploads', { method: 'POST', body: form, schema: uploadSchema }) };
+  } catch (error) {
+    if (error instanceof ApiRequestError && error.code === 'too_large') return { problem: `${photoName(file)} is larger than 10 MB. Take it again at a lower resolution.` };
+    if (error instanceof ApiRequestError && error.code === 'unsupported_image') return { problem: `${photoName(file)} is not a JPEG, PNG or WebP photo.` };
+    return { problem: describeError(error) };
+  }
+}
+
+/** One photo for a form: its upload state beside `uploadPhoto`'s answer. */
 export function usePhotoUpload() {
   const photo = ref<UploadDto | null>(null);
   const uploading = ref(false);
   const problem = ref('');
 
   async function upload(file: File): Promise<UploadDto | null> {
-    const form = new FormData();
-    form.append('file', file);
     uploading.value = true;
     problem.value = '';
     try {
-      photo.value = await api('/uploads', { method: 'POST', body: form, schema: uploadSchema });
+      const answer = await uploadPhoto(file);
+      photo.value = 'photo' in answer ? answer.photo : null;
+      problem.value = 'problem' in answer ? answer.problem : '';
       return photo.value;
-    } catch (error) {
-      photo.value = null;
-      if (error instanceof ApiRequestError && error.code === 'too_large') problem.value = 'The photo is larger than 10 MB. Take it again at a lower resolution.';
-      else if (error instanceof ApiRequestError && error.code === 'unsupported_image') problem.value = 'That file is not a JPEG, PNG or WebP photo.';
-      else problem.value = describeError(error);
-      return null;
     } finally {
       uploading.value = false;
     }

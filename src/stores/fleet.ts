@@ -1,12 +1,13 @@
 import { defineStore } from 'pinia';
 import { useLoadTracker } from '../composables/useLoadTracker';
 import { computed, reactive, ref } from 'vue';
-import { z } from 'zod';
-import { arrangementDataSchema, boomArrangementSchema, type ArrangementData } from '../../shared/schemas/arrangement';
+import type { z } from 'zod';
+import { arrangementDataSchema, type ArrangementData } from '../../shared/schemas/arrangement';
 import type { FieldError } from '../../shared/schemas/errors';
 import {
   assistCraneEnvelopeSchema,
   assistCraneListSchema,
+  boomMakeupEnvelopeSchema,
   componentDetailSchema,
   componentEnvelopeSchema,
   componentFilterSchema,
@@ -19,8 +20,8 @@ import {
   createInspectionSchema,
   inspectionCreatedSchema,
   updateCraneUnitSchema,
-  uploadSchema,
   type AssistCraneUnitDto,
+  type BoomMakeupAnswer,
   type ComponentDto,
   type ComponentFilter,
   type ComponentStatus,
@@ -29,41 +30,10 @@ import {
   type CraneUnitDto,
   type CreateInspectionRequest,
   type InspectionDto,
-  type UploadDto,
 } from '../../shared/schemas/fleet';
 import { api, ApiRequestError, describeError } from '../services/api';
+import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, withoutFieldError, type FieldErrors } from './form-errors';
 import { useSessionStore } from './session';
-
-/**
- * The answer of GET /api/crane-units/:id/boom-makeup: the BoomMakeup of shared/calc/boom.ts.
- * Kept here because shared/schemas has no schema for it yet; unknown keys are dropped.
- */
-export const boomMakeupEnvelopeSchema = z.object({
-  makeup: z.object({
-    boomLengthM: z.number(),
-    buildable: z.boolean(),
-    reasons: z.array(z.string()),
-    sections: z.array(
-      z.object({
-        position: z.number().int(),
-        typeId: z.string(),
-        lengthM: z.number(),
-        weightKg: z.number(),
-        startM: z.number(),
-        endM: z.number(),
-        serial: z.string().nullable(),
-      }),
-    ),
-    guyLines: z.array(z.object({ mark: z.string(), lengthM: z.number(), quantity: z.number().int(), pinsEach: z.number().int(), serials: z.array(z.string()) })),
-    totalSectionWeightKg: z.number(),
-    pinCount: z.object({ jointPins: z.number().int(), guyLinePins: z.number().int(), total: z.number().int() }),
-    arrangement: boomArrangementSchema.nullable().optional(),
-    platesRequired: z.boolean(),
-    auxSheaveAllowed: z.boolean(),
-    rule: z.string(),
-  }),
-});
-export type BoomMakeupAnswer = z.infer<typeof boomMakeupEnvelopeSchema>['makeup'];
 
 /** A component detail as the screen holds it. */
 export interface ComponentDetail {
@@ -93,19 +63,6 @@ export function countByStatus(components: readonly Pick<ComponentDto, 'status'>[
   const out: Record<ComponentStatus, number> = { serviceable: 0, quarantined: 0, retired: 0 };
   for (const c of components) out[c.status] += 1;
   return out;
-}
-
-/** Field errors keyed by the top-level field; the first message per field is the one to fix first. */
-export type FieldErrors = Partial<Record<string, string>>;
-
-function fieldErrorsFrom(fields: readonly FieldError[]): FieldErrors {
-  const out: FieldErrors = {};
-  for (const f of fields) out[f.path.split('.')[0] || '(body)'] ??= f.message;
-  return out;
-}
-
-function fieldsFromZod(error: z.ZodError): FieldError[] {
-  return error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message }));
 }
 
 /** Outcome of an arrangement file import. */
@@ -423,17 +380,13 @@ export const useFleetStore = defineStore('fleet', () => {
     });
   }
 
-  /** Uploads one photo; answers the stored photo or a sentence saying what to do instead. */
-  async function uploadPhoto(file: File): Promise<{ photo: UploadDto } | { problem: string }> {
-    const form = new FormData();
-    form.append('file', file);
-    try {
-      return { photo: await api('/uploads', { method: 'POST', body: form, schema: uploadSchema }) };
-    } catch (error) {
-      if (error instanceof ApiRequestError && error.code === 'too_large') return { problem: `${file.name} is larger than 10 MB. Take the photo again at a lower resolution.` };
-      if (error instanceof ApiRequestError && error.code === 'unsupported_image') return { problem: `${file.name} is not a JPEG, PNG or WebP photo.` };
-      return { problem: describeError(error) };
-    }
+  /** The message for one field of the open form, or for anything under it. */
+  function errorOf(path: string): string {
+    return fieldErrorOf(fieldErrors.value, path);
+  }
+  /** The person changed a field: its old message goes. */
+  function clearFieldError(path: string) {
+    fieldErrors.value = withoutFieldError(fieldErrors.value, path);
   }
 
   return {
@@ -469,6 +422,8 @@ export const useFleetStore = defineStore('fleet', () => {
     saveProblem,
     fieldErrors,
     fieldList,
+    errorOf,
+    clearFieldError,
     resetForm,
     createUnit,
     updateUnit,
@@ -477,6 +432,5 @@ export const useFleetStore = defineStore('fleet', () => {
     fetchArrangementFile,
     retireComponent,
     recordInspection,
-    uploadPhoto,
   };
 });

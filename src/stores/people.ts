@@ -1,6 +1,5 @@
 import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
-import type { z } from 'zod';
 import {
   inboxListSchema,
   signInAuditListSchema,
@@ -16,8 +15,8 @@ import {
   type UpdateUserRequest,
   type UserDto,
 } from '../../shared/schemas/users';
-import type { FieldError } from '../../shared/schemas/errors';
 import { api, ApiRequestError, describeError } from '../services/api';
+import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
 
 /** How a person's account stands, in the order the list sorts them. */
 export type PersonStatus = 'active' | 'pending' | 'deactivated';
@@ -34,23 +33,6 @@ export function filterPeople(people: readonly UserDto[], search: string): UserDt
   const needle = search.trim().toLowerCase();
   if (!needle) return [...people];
   return people.filter((p) => p.displayName.toLowerCase().includes(needle) || p.email.toLowerCase().includes(needle));
-}
-
-/** Field errors keyed by the top-level field, so `qualifications.2` lands on the qualifications control. */
-export type FieldErrors = Partial<Record<string, string>>;
-
-function fieldErrorsFrom(fields: readonly FieldError[]): FieldErrors {
-  const out: FieldErrors = {};
-  for (const f of fields) {
-    const key = f.path.split('.')[0] || '(body)';
-    // Keep the first message per field: it is the one the person should fix first.
-    out[key] ??= f.message;
-  }
-  return out;
-}
-
-function fieldErrorsFromZod(error: z.ZodError): FieldErrors {
-  return fieldErrorsFrom(error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: i.message })));
 }
 
 /** The people list and the invite and edit forms of the admin's People screen. */
@@ -86,6 +68,11 @@ export const usePeopleStore = defineStore('people', () => {
       }
     })();
     return inFlight;
+  }
+
+  /** The message for one field of the open form, or for anything under it. */
+  function errorOf(path: string): string {
+    return fieldErrorOf(fieldErrors.value, path);
   }
 
   function resetForm() {
@@ -132,7 +119,7 @@ export const usePeopleStore = defineStore('people', () => {
   async function invite(input: InviteUserRequest): Promise<UserDto | null> {
     const parsed = inviteUserSchema.safeParse(input);
     if (!parsed.success) {
-      fieldErrors.value = fieldErrorsFromZod(parsed.error);
+      fieldErrors.value = fieldErrorsFrom(fieldsFromZod(parsed.error));
       saveProblem.value = '';
       return null;
     }
@@ -147,7 +134,7 @@ export const usePeopleStore = defineStore('people', () => {
   async function update(id: string, patch: UpdateUserRequest): Promise<UserDto | null> {
     const parsed = updateUserSchema.safeParse(patch);
     if (!parsed.success) {
-      fieldErrors.value = fieldErrorsFromZod(parsed.error);
+      fieldErrors.value = fieldErrorsFrom(fieldsFromZod(parsed.error));
       saveProblem.value = fieldErrors.value['(body)'] ?? '';
       return null;
     }
@@ -182,6 +169,7 @@ export const usePeopleStore = defineStore('people', () => {
     saving,
     saveProblem,
     fieldErrors,
+    errorOf,
     load,
     resetForm,
     invite,

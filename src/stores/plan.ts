@@ -4,304 +4,37 @@ import { reactive, toRaw } from 'vue';
 import type { z } from 'zod';
 import type { FieldError } from '../../shared/schemas/errors';
 import { jobEnvelopeSchema, type CrewRole, type JobDto } from '../../shared/schemas/jobs';
+import { planEnvelopeSchema, planSchema, planVersionListSchema, type Plan, type PlanVersionDto } from '../../shared/schemas/plan';
 import {
-  planEnvelopeSchema,
-  planSchema,
-  planVersionListSchema,
-  type Plan,
-  type PlanHold,
-  type PlanStage,
-  type PlanStep,
-  type PlanVersionDto,
-} from '../../shared/schemas/plan';
+  addHold,
+  addStage,
+  addStep,
+  done,
+  lockedHoldRoles,
+  moveStage,
+  moveStep,
+  refused,
+  removeHold,
+  removeStage,
+  removeStep,
+  removeValueCheckField,
+  setHoldRole,
+  type HelperResult,
+} from '../../shared/plan/edit';
 import { api, ApiRequestError, describeError, download } from '../services/api';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, useJobsStore, type FieldErrors } from './jobs';
+import type { JobEventDto, JobEventType } from '../../shared/events/log';
+import { useBoardStore } from './board';
+import { createBurstRunner } from './bursts';
+import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
+import { useJobsStore } from './jobs';
 
 export type PlanEnvelope = z.infer<typeof planEnvelopeSchema>;
 
-/** The answer of a helper that may refuse: the refusal is a sentence for the screen. */
-export type HelperResult = { ok: true } | { ok: false; reason: string };
-
-const refused = (reason: string): HelperResult => ({ ok: false, reason });
-const done: HelperResult = { ok: true };
-
-// ---------------------------------------------------------------------------------------------
-// Pure helpers on a plan. They change the plan they are given (the store hands them its draft)
-// and keep every stage, step and hold id unique, as the server insists.
-// ---------------------------------------------------------------------------------------------
-
-/** Every id used in the plan: stages, steps and holds share one namespace on the server. */
-export function planIds(plan: Plan): Set<string> {
-  const ids = new Set<string>();
-  for (const stage of plan.stages) {
-    ids.add(stage.id);
-    for (const step of stage.steps) ids.add(step.id);
-    if (stage.hold) ids.add(stage.hold.id);
-  }
-  return ids;
-}
-
-/** A new id of our own (`custom-…`) that the plan does not use yet. */
-export function newPlanId(plan: Plan, random: () => number = Math.random): string {
-  const taken = planIds(plan);
-  for (;;) {
-    const id = `custom-${Math.floor(random() * 36 ** 8).toString(36).padStart(8, '0')}`;
-    if (!taken.has(id)) return id;
-  }
-}
-
-/** Why a stage cannot be removed, or '' when it can. */
-export function stageRemovalBlock(stage: PlanStage): string {
-  return stage.hold?.mandatory ? `Its hold “${stage.hold.title}” is mandatory, and a mandatory hold can never be removed.` : '';
-}
-
-/** Why a hold cannot be removed, or '' when it can. */
-export function holdRemovalBlock(hold: PlanHold): string {
-  return hold.mandatory ? 'This hold is mandatory: it can never be removed or skipped.' : '';
-}
-
-function move<T>(list: T[], index: number, delta: number): boolean {
-  const to = index + delta;
-  if (index < 0 || index >= list.length || to < 0 || to >= list.length) return false;
-  const [item] = list.splice(index, 1);
-  list.splice(to, 0, item);
-  return true;
-}
-
-/** Moves a stage up (delta −1) or down (+1). Dependencies stay as they are: they, not the order, decide when a stage starts. */
-export function moveStage(plan: Plan, index: number, delta: -1 | 1): HelperResult {
-  return move(plan.stages, index, delta) ? done : refused(delta < 0 ? 'This is already the first stage.' : 'This is already the last stage.');
-}
-
-/** A blank step a supervisor then words; by default the supervisor and riggers may complete it. */
-export function blankStep(plan: Plan): PlanStep {
-  return { id: newPlanId(plan), text: 'New step: say what is done', allowedRoles: ['supervisor', 'rigger'], requiresPhoto: false, records: null, caution: null };
-}
-
-/**
- * Adds a stage after `afterIndex` (−1: at the top). It starts after the stage above it, the
- * default the board uses, and comes with one step to word.
- */
-export function addStage(plan: Plan, afterIndex: number): PlanStage {
-  const above = plan.stages[afterIndex];
-  const stage: PlanStage = {
-    id: newPlanId(plan),
-    title: 'New stage',
-    summary: '',
-    dependsOn: above ? [above.id] : [],
-    cautions: [],
-    involvesCraneMovement: false,
-    steps: [],
-    hold: null,
-  };
-  plan.stages.splice(afterIndex + 1, 0, stage);
-  stage.steps.push(blankStep(plan));
-  return stage;
-}
-
-/**
- * Removes a stage unless its hold is mandatory. Stages that waited for it wait instead for what
- * it waited for, so removing a stage never leaves a dependency on nothing.
- */
-export function removeStage(plan: Plan, index: number): HelperResult {
-  const stage = plan.stages[index];
-  if (!stage) return refused('There is no such stage.');
-  const block = stageRemovalBlock(stage);
-  if (block) return refused(block);
-  plan.stages.splice(index, 1);
-  for (const other of plan.stages) {
-    if (!other.dependsOn.includes(stage.id)) continue;
-    const inherited = stage.dependsOn.filter((d) => d !== other.id);
-    other.dependsOn = [...new Set(other.dependsOn.flatMap((d) => (d === stage.id ? inherited : [d])))];
-  }
-  return done;
-}
-
-/** Adds a blank step after `afterIndex` (the end when omitted). */
-export function addStep(plan: Plan, stageIndex: number, afterIndex?: number): PlanStep | null {
-  const stage = plan.stages[stageIndex];
-  if (!stage) return null;
-  const step = blankStep(plan);
-  stage.steps.splice(afterIndex === undefined ? stage.steps.length : afterIndex + 1, 0, step);
-  return step;
-}
-
-export function removeStep(plan: Plan, stageIndex: number, stepIndex: number): HelperResult {
-  const stage = plan.stages[stageIndex];
-  if (!stage?.steps[stepIndex]) return refused('There is no such step.');
-  stage.steps.splice(stepIndex, 1);
-  return done;
-}
-
-export function moveStep(plan: Plan, stageIndex: number, stepIndex: number, delta: -1 | 1): HelperResult {
-  const stage = plan.stages[stageIndex];
-  if (!stage) return refused('There is no such stage.');
-  return move(stage.steps, stepIndex, delta) ? done : refused(delta < 0 ? 'This is already the first step.' : 'This is already the last step.');
-}
-
-/** Gives a stage without a hold a new, non-mandatory one that the supervisor releases. */
-export function addHold(plan: Plan, stageIndex: number): HelperResult {
-  const stage = plan.stages[stageIndex];
-  if (!stage) return refused('There is no such stage.');
-  if (stage.hold) return refused('This stage already has its hold: a stage has at most one.');
-  stage.hold = {
-    id: newPlanId(plan),
-    title: `${stage.title}: checked`,
-    instruction: 'Say what each person checks before acknowledging.',
-    requiredRoles: ['supervisor'],
-    releasingRole: 'supervisor',
-    mandatory: false,
-    valueCheck: null,
-  };
-  return done;
-}
-
-export function removeHold(plan: Plan, stageIndex: number): HelperResult {
-  const hold = plan.stages[stageIndex]?.hold;
-  if (!hold) return refused('This stage has no hold.');
-  const block = holdRemovalBlock(hold);
-  if (block) return refused(block);
-  plan.stages[stageIndex].hold = null;
-  return done;
-}
-
-/** Removes one field of a hold's value check; a mandatory hold's check stays as generated. */
-export function removeValueCheckField(plan: Plan, stageIndex: number, fieldIndex: number): HelperResult {
-  const hold = plan.stages[stageIndex]?.hold;
-  if (!hold?.valueCheck?.fields[fieldIndex]) return refused('There is no such value check field.');
-  if (hold.mandatory) return refused('The value check of a mandatory hold is part of what makes it safe: it stays as generated.');
-  hold.valueCheck.fields.splice(fieldIndex, 1);
-  if (hold.valueCheck.fields.length === 0) hold.valueCheck = null;
-  return done;
-}
-
-/**
- * The roles of a mandatory hold that may not be unticked: those the last saved plan has. The
- * server checks against the plan generated from the configuration; the saved copy is the
- * closest thing the client holds, and roles added since can still be taken away again.
- */
-export function lockedHoldRoles(saved: Plan | null, hold: PlanHold): CrewRole[] {
-  if (!hold.mandatory || !saved) return [];
-  for (const stage of saved.stages) if (stage.hold?.id === hold.id) return stage.hold.mandatory ? [...stage.hold.requiredRoles] : [];
-  return [];
-}
-
-/** Ticks or unticks a role a hold asks to acknowledge, refusing to untick a locked one. */
-export function setHoldRole(plan: Plan, stageIndex: number, role: CrewRole, on: boolean, saved: Plan | null): HelperResult {
-  const hold = plan.stages[stageIndex]?.hold;
-  if (!hold) return refused('This stage has no hold.');
-  if (on) {
-    if (!hold.requiredRoles.includes(role)) hold.requiredRoles.push(role);
-    return done;
-  }
-  if (lockedHoldRoles(saved, hold).includes(role)) return refused('A mandatory hold’s roles can be added to, never removed.');
-  hold.requiredRoles = hold.requiredRoles.filter((r) => r !== role);
-  return done;
-}
-
-// ---------------------------------------------------------------------------------------------
-// Comparing two versions by ids and text.
-// ---------------------------------------------------------------------------------------------
-
-export interface StageChange {
-  stageId: string;
-  title: string;
-  /** What differs, in words: "title", "hold", "starts after", ... */
-  what: string[];
-}
-
-export interface StepChange {
-  stepId: string;
-  stageTitle: string;
-  /** The step's text in the newer plan, or the older one for a removed step. */
-  text: string;
-  /** For a changed step: its text before, when the text itself changed. */
-  before?: string;
-  what: string[];
-}
-
-export interface PlanComparison {
-  stages: { added: StageChange[]; removed: StageChange[]; changed: StageChange[] };
-  steps: { added: StepChange[]; removed: StepChange[]; changed: StepChange[] };
-  /** Nothing differs. */
-  same: boolean;
-}
-
-const same = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
-
-function stageDifferences(a: PlanStage, b: PlanStage, orderMoved: boolean): string[] {
-  const what: string[] = [];
-  if (a.title !== b.title) what.push('title');
-  if (a.summary !== b.summary) what.push('summary');
-  if (!same(a.cautions, b.cautions)) what.push('cautions');
-  if (!same([...a.dependsOn].sort(), [...b.dependsOn].sort())) what.push('starts after');
-  if (a.involvesCraneMovement !== b.involvesCraneMovement) what.push('crane movement');
-  if (!same(a.hold, b.hold)) what.push(a.hold && b.hold ? 'hold' : a.hold ? 'hold removed' : 'hold added');
-  if (orderMoved) what.push('place in the order');
-  return what;
-}
-
-function stepDifferences(a: PlanStep, b: PlanStep): string[] {
-  const what: string[] = [];
-  if (a.text !== b.text) what.push('text');
-  if (!same([...a.allowedRoles].sort(), [...b.allowedRoles].sort())) what.push('roles');
-  if (a.requiresPhoto !== b.requiresPhoto) what.push('photo');
-  if (!same(a.records, b.records)) what.push('recorded value');
-  if ((a.caution ?? '') !== (b.caution ?? '')) what.push('caution');
-  return what;
-}
-
-/** What changed from `older` to `newer`: stages and steps matched by id, then compared field by field. */
-export function comparePlans(older: Plan, newer: Plan): PlanComparison {
-  const olderStages = new Map(older.stages.map((s, i) => [s.id, { stage: s, index: i }]));
-  const newerStages = new Map(newer.stages.map((s, i) => [s.id, { stage: s, index: i }]));
-  const olderSteps = new Map(older.stages.flatMap((s) => s.steps.map((step) => [step.id, { step, stage: s }] as const)));
-  const newerSteps = new Map(newer.stages.flatMap((s) => s.steps.map((step) => [step.id, { step, stage: s }] as const)));
-
-  // The relative order of the stages both versions share, so adding one does not mark every later stage as moved.
-  const sharedOld = older.stages.filter((s) => newerStages.has(s.id)).map((s) => s.id);
-  const sharedNew = newer.stages.filter((s) => olderStages.has(s.id)).map((s) => s.id);
-
-  const out: PlanComparison = { stages: { added: [], removed: [], changed: [] }, steps: { added: [], removed: [], changed: [] }, same: true };
-  for (const s of newer.stages) {
-    const before = olderStages.get(s.id);
-    if (!before) {
-      out.stages.added.push({ stageId: s.id, title: s.title, what: [] });
-      continue;
-    }
-    const what = stageDifferences(before.stage, s, sharedOld.indexOf(s.id) !== sharedNew.indexOf(s.id));
-    if (what.length) out.stages.changed.push({ stageId: s.id, title: s.title, what });
-  }
-  for (const s of older.stages) if (!newerStages.has(s.id)) out.stages.removed.push({ stageId: s.id, title: s.title, what: [] });
-
-  for (const [id, { step, stage }] of newerSteps) {
-    const before = olderSteps.get(id);
-    if (!before) {
-      out.steps.added.push({ stepId: id, stageTitle: stage.title, text: step.text, what: [] });
-      continue;
-    }
-    const what = stepDifferences(before.step, step);
-    if (before.stage.id !== stage.id) what.push('stage');
-    if (what.length) out.steps.changed.push({ stepId: id, stageTitle: stage.title, text: step.text, ...(before.step.text !== step.text ? { before: before.step.text } : {}), what });
-  }
-  for (const [id, { step, stage }] of olderSteps) if (!newerSteps.has(id)) out.steps.removed.push({ stepId: id, stageTitle: stage.title, text: step.text, what: [] });
-
-  out.same = [out.stages, out.steps].every((g) => g.added.length + g.removed.length + g.changed.length === 0);
-  return out;
-}
-
-/** The stage index a problem or field path ("stages.3.hold.requiredRoles") points at, or null. */
-export function stageIndexOfPath(path: string | undefined): number | null {
-  const match = /^stages\.(\d+)(\.|$)/.exec(path ?? '');
-  return match ? Number(match[1]) : null;
-}
-
-// ---------------------------------------------------------------------------------------------
-// The store.
-// ---------------------------------------------------------------------------------------------
-
 const idOf = (value: string) => encodeURIComponent(value);
 const copy = (plan: Plan): Plan => structuredClone(toRaw(plan));
+
+/** Events after which the server's copy of a job's plan (or its list of versions) is different. */
+const eventsChangingPlan: ReadonlySet<JobEventType> = new Set<JobEventType>(['plan.generated', 'plan.edited', 'job.ready', 'plan.revised']);
 
 interface SaveState {
   saving: boolean;
@@ -350,7 +83,7 @@ export const usePlanStore = defineStore('plan', () => {
   function isDirty(jobId: string): boolean {
     const draft = drafts[jobId];
     const envelope = envelopes[jobId];
-    return !!draft && !!envelope && !envelope.locked && !same(draft, envelope.plan);
+    return !!draft && !!envelope && !envelope.locked && JSON.stringify(draft) !== JSON.stringify(envelope.plan);
   }
 
   /** Puts the server's copy in place and starts a fresh draft from it. */
@@ -393,6 +126,20 @@ export const usePlanStore = defineStore('plan', () => {
       return versions[jobId];
     });
   }
+
+  /**
+   * A plan event of a job whose plan is shown: the plan and its versions are read back, once per
+   * burst. A draft with unsaved edits is left alone: the person's work is never replaced under
+   * them, and the server checks their save against the version in force.
+   */
+  const bursts = createBurstRunner();
+  function followEvent(event: JobEventDto) {
+    if (!eventsChangingPlan.has(event.type)) return;
+    const jobId = event.jobId;
+    if ((envelopes[jobId] || missing.has(jobId)) && !isDirty(jobId)) bursts.run(`plan:${jobId}`, () => loadPlan(jobId));
+    if (versions[jobId]) bursts.run(`versions:${jobId}`, () => loadVersions(jobId));
+  }
+  useBoardStore().onBoardEvent(followEvent);
 
   /**
    * Runs one helper on the draft. A change of structure clears the field errors of the last

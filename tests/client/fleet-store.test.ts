@@ -143,7 +143,10 @@ describe('fleet store', () => {
     const result = await fleet.recordInspection('c-1', { result: 'damaged', notes: 'dent', photoIds: [photoId] });
     expect(result).toBeNull();
     expect(fleet.saving).toBe(false);
-    expect(fleet.fieldErrors).toEqual({ notes: 'Describe the damage found', photoIds: 'That photo was not found; add it again' });
+    expect(fleet.fieldErrors).toEqual({ notes: 'Describe the damage found', 'photoIds.0': 'That photo was not found; add it again' });
+    // A control finds the message of anything under it: the photo list shows the first photo's.
+    expect(fleet.errorOf('photoIds')).toBe('That photo was not found; add it again');
+    expect(fleet.errorOf('result')).toBe('');
     expect(fleet.fieldList).toHaveLength(2);
     expect(fleet.saveProblem).toBe('The inspection has invalid fields.');
     const [url, init] = fetchMock.mock.calls[0];
@@ -159,7 +162,9 @@ describe('fleet store', () => {
     const fleet = useFleetStore();
     expect(await fleet.recordInspection('c-1', { result: 'damaged', notes: '   ', photoIds: [] })).toBeNull();
     expect(fetchMock).not.toHaveBeenCalled();
-    expect(fleet.fieldErrors.notes).toBe('Describe the damage found');
+    expect(fleet.errorOf('notes')).toBe('Describe the damage found');
+    fleet.clearFieldError('notes');
+    expect(fleet.errorOf('notes')).toBe('');
   });
 
   it('puts the component quarantined by a damage finding into the list and the detail', async () => {
@@ -240,7 +245,7 @@ describe('fleet store', () => {
     );
     expect(await fleet.createAssistCrane({ fleetNumber: 'AC-9', operatorName: '', location: '', chartFileText: '{"charts":[]}' })).toBeNull();
     expect(fleet.fieldList.map((f) => f.path)).toEqual(['data.charts.0.points.1.radiusM', 'operatorName']);
-    expect(fleet.fieldErrors.operatorName).toBe('Enter the name');
+    expect(fleet.errorOf('operatorName')).toBe('Enter the name');
     const sent = JSON.parse(String(fetchMock.mock.calls[0][1]?.body)) as { fleetNumber: string; data: unknown };
     expect(sent).toMatchObject({ fleetNumber: 'AC-9', data: { charts: [] } });
   });

@@ -4,7 +4,8 @@ import type { Configuration, Figure } from '../../shared/schemas/configuration';
 import type { JobDto } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
 import { eventSummary } from '../../src/components/jobs/words';
-import { fieldErrorOf, figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
+import { fieldErrorOf } from '../../src/stores/form-errors';
+import { figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
 import { buildJob, JOB_ID, json, UNIT_ID } from './helpers';
 
 const SUPERVISOR_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';

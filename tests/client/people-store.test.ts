@@ -116,7 +116,10 @@ describe('people store', () => {
 
     expect(result).toBeNull();
     expect(store.saving).toBe(false);
-    expect(store.fieldErrors).toEqual({ email: 'Use a company e-mail address', qualifications: 'Pick each qualification once' });
+    expect(store.fieldErrors).toEqual({ email: 'Use a company e-mail address', 'qualifications.1': 'Pick each qualification once', 'qualifications.2': 'A second message for the same field' });
+    // The qualifications control shows the first message of any of its entries.
+    expect(store.errorOf('qualifications')).toBe('Pick each qualification once');
+    expect(store.errorOf('displayName')).toBe('');
     expect(store.saveProblem).toBe('The request has invalid fields.');
     expect(store.people).toEqual([]);
     const [url, init] = fetchMock.mock.calls[0];
@@ -140,8 +143,8 @@ describe('people store', () => {
     const store = usePeopleStore();
     expect(await store.invite({ email: 'not an e-mail', displayName: '   ' })).toBeNull();
     expect(fetchMock).not.toHaveBeenCalled();
-    expect(store.fieldErrors.email).toBe('Enter a valid e-mail');
-    expect(store.fieldErrors.displayName).toBe('Enter a name');
+    expect(store.errorOf('email')).toBe('Enter a valid e-mail');
+    expect(store.errorOf('displayName')).toBe('Enter a name');
   });
 
   it('adds an invited person to the list as pending', async () => {

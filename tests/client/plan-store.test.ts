@@ -1,50 +1,15 @@
 import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import type { Plan, PlanHold, PlanStage, PlanStep } from '../../shared/schemas/plan';
-import { comparePlans, moveStage, newPlanId, removeHold, removeStage, usePlanStore } from '../../src/stores/plan';
+import type { Plan } from '../../shared/schemas/plan';
+import { usePlanStore } from '../../src/stores/plan';
+import { allIds, plan } from '../shared/plan/small-plan';
 import { buildJob, JOB_ID, json } from './helpers';
-
-function step(id: string, text: string, overrides: Partial<PlanStep> = {}): PlanStep {
-  return { id, text, allowedRoles: ['rigger'], requiresPhoto: false, records: null, caution: null, ...overrides };
-}
-
-function hold(id: string, overrides: Partial<PlanHold> = {}): PlanHold {
-  return { id, title: 'Checked', instruction: 'Look at it yourself.', requiredRoles: ['supervisor'], releasingRole: 'supervisor', mandatory: false, valueCheck: null, ...overrides };
-}
-
-function stage(id: string, overrides: Partial<PlanStage> = {}): PlanStage {
-  return { id, title: `Stage ${id}`, summary: '', dependsOn: [], cautions: [], involvesCraneMovement: false, steps: [step(`${id}.a`, `First step of ${id}`)], hold: null, ...overrides };
-}
-
-/** Three stages in a chain; the first has a mandatory hold with a value check, the second an ordinary one. */
-function plan(): Plan {
-  return {
-    kind: 'erection',
-    stages: [
-      stage('ground', {
-        hold: hold('ground.hold', {
-          mandatory: true,
-          requiredRoles: ['supervisor', 'operator', 'signaller'],
-          valueCheck: { fields: [{ field: 'boomLengthM', expected: '18' }] },
-        }),
-      }),
-      stage('upper', { dependsOn: ['ground'], steps: [step('upper.a', 'Set the gauge'), step('upper.b', 'Fit counterweight')], hold: hold('upper.hold') }),
-      stage('laydown', { dependsOn: ['upper'] }),
-    ],
-    briefing: { title: 'Toolbox talk', sections: [{ heading: 'The job', items: ['An 18 m boom.'] }] },
-  };
-}
 
 function envelope(p: Plan = plan(), overrides: Record<string, unknown> = {}) {
   return { version: 0, locked: false, stale: false, plan: p, problems: [], ...overrides };
 }
 
 const job = buildJob;
-
-/** Every id of the plan, with repeats: a duplicate shows as a longer list than the set. */
-function allIds(p: Plan): string[] {
-  return p.stages.flatMap((s) => [s.id, ...s.steps.map((x) => x.id), ...(s.hold ? [s.hold.id] : [])]);
-}
 
 type FetchArgs = [input: string, init?: RequestInit];
 
@@ -158,27 +123,6 @@ describe('plan store', () => {
     expect(p.stages[2].hold?.id).toMatch(/^custom-/);
   });
 
-  it('draws a new id until it is free, even when the random source repeats', () => {
-    const p = plan();
-    const taken = newPlanId(p, () => 0.5);
-    p.stages[2].steps.push(step(taken, 'A step whose id the next draw repeats'));
-    const draws = [0.5, 0.5, 0.25];
-    const next = newPlanId(p, () => draws.shift() ?? 0.75);
-    expect(next).not.toBe(taken);
-    expect(next).toBe(newPlanId(plan(), () => 0.25));
-    expect(draws).toEqual([]);
-    expect(next).toMatch(/^custom-[a-z0-9]{8}$/);
-  });
-
-  it('moves stages without going past either end, and keeps what each waits for', () => {
-    const p = plan();
-    expect(moveStage(p, 0, -1)).toEqual({ ok: false, reason: 'This is already the first stage.' });
-    expect(moveStage(p, 2, 1).ok).toBe(false);
-    expect(moveStage(p, 2, -1).ok).toBe(true);
-    expect(p.stages.map((s) => s.id)).toEqual(['ground', 'laydown', 'upper']);
-    expect(p.stages[1].dependsOn).toEqual(['upper']);
-  });
-
   it('never removes a mandatory hold or its stage, and says why', async () => {
     const store = await loaded();
     const p = store.drafts[JOB_ID];
@@ -199,12 +143,6 @@ describe('plan store', () => {
     expect(p.stages[0].hold?.valueCheck?.fields).toHaveLength(1);
     expect(p.stages).toHaveLength(3);
     expect(store.isDirty(JOB_ID)).toBe(false);
-
-    // The pure helpers refuse in the same way.
-    const other = plan();
-    expect(removeHold(other, 0).ok).toBe(false);
-    expect(removeStage(other, 0).ok).toBe(false);
-    expect(other.stages[0].hold).not.toBeNull();
   });
 
   it('removes an ordinary hold and stage; later stages wait for what the removed one waited for', async () => {
@@ -264,63 +202,5 @@ describe('plan store', () => {
     await store.loadPlan(JOB_ID);
     expect(store.missing.has(JOB_ID)).toBe(true);
     expect(store.problemOf(`plan:${JOB_ID}`)).toBe('');
-  });
-});
-
-describe('comparing two versions', () => {
-  it('finds added, removed and changed steps and stages by id and text', () => {
-    const older = plan();
-    const newer = plan();
-    // Step text changed, a step removed, a step added, a step's roles changed.
-    newer.stages[1].steps[0].text = 'Set the crawler gauge to 7 m';
-    newer.stages[1].steps.splice(1, 1);
-    newer.stages[2].steps.push(step('custom-1', 'Photograph every keeper'));
-    newer.stages[0].steps[0].allowedRoles = ['rigger', 'supervisor'];
-    // A stage added, one removed is simulated by a new one in place of laydown's id.
-    newer.stages.push(stage('custom-stage', { title: 'Extra check', dependsOn: ['laydown'], steps: [] }));
-    newer.stages[1].hold = null;
-
-    const c = comparePlans(older, newer);
-
-    expect(c.same).toBe(false);
-    expect(c.steps.added.map((s) => s.stepId)).toEqual(['custom-1']);
-    expect(c.steps.added[0].stageTitle).toBe('Stage laydown');
-    expect(c.steps.removed.map((s) => s.stepId)).toEqual(['upper.b']);
-    expect(c.steps.removed[0].text).toBe('Fit counterweight');
-    expect(c.steps.changed).toEqual([
-      { stepId: 'ground.a', stageTitle: 'Stage ground', text: 'First step of ground', what: ['roles'] },
-      { stepId: 'upper.a', stageTitle: 'Stage upper', text: 'Set the crawler gauge to 7 m', before: 'Set the gauge', what: ['text'] },
-    ]);
-    expect(c.stages.added.map((s) => s.stageId)).toEqual(['custom-stage']);
-    expect(c.stages.removed).toEqual([]);
-    expect(c.stages.changed).toEqual([{ stageId: 'upper', title: 'Stage upper', what: ['hold removed'] }]);
-  });
-
-  it('finds a removed stage and a moved one, and nothing in two equal plans', () => {
-    const older = plan();
-    const newer = plan();
-    expect(comparePlans(older, newer).same).toBe(true);
-
-    newer.stages.splice(1, 1);
-    newer.stages.reverse();
-    const c = comparePlans(older, newer);
-    expect(c.stages.removed.map((s) => s.stageId)).toEqual(['upper']);
-    expect(c.steps.removed.map((s) => s.stepId)).toEqual(['upper.a', 'upper.b']);
-    // Both remaining stages swapped places: each is marked as moved.
-    expect(c.stages.changed.map((s) => [s.stageId, s.what])).toEqual([
-      ['laydown', ['place in the order']],
-      ['ground', ['place in the order']],
-    ]);
-  });
-
-  it('marks a step that moved to another stage', () => {
-    const older = plan();
-    const newer = plan();
-    const [moved] = newer.stages[1].steps.splice(1, 1);
-    newer.stages[2].steps.push(moved);
-    const c = comparePlans(older, newer);
-    expect(c.steps.changed).toEqual([{ stepId: 'upper.b', stageTitle: 'Stage laydown', text: 'Fit counterweight', what: ['stage'] }]);
-    expect(c.steps.added).toEqual([]);
-    expect(c.steps.removed).toEqual([]);
   });
 });

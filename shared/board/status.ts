@@ -1,5 +1,11 @@
-import type { BoardHold, BoardStage, BoardState, BoardStep } from '../../../shared/board/types';
-import type { CrewRole } from '../../../shared/schemas/jobs';
+import type { CrewRole } from '../schemas/jobs.js';
+import type { BoardHold, BoardStage, BoardState, BoardStep } from './types.js';
+
+/**
+ * What the board says now, derived from its state alone: which stages are current, what comes
+ * next, the board's status in a word, what a person still has to answer, and the readings out of
+ * limit. Pure, so every view and its tests read the same answer.
+ */
 
 /** Stages the crew is working on now (in progress or at their hold point), in plan order. */
 export function currentStages(board: Pick<BoardState, 'stages'>): BoardStage[] {
