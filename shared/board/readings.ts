@@ -1,3 +1,4 @@
+import { asStated } from '../format.js';
 import type { StepRecord } from '../schemas/plan.js';
 import { gustOverLimit, parseReading } from './rules.js';
 import type { BoardStage, BoardState, OutOfLimit } from './types.js';
@@ -13,8 +14,9 @@ export { parseReading };
 /** Typed decimals are not exact in binary: 6.4 − 6.5 is 0.1000000000000005. Differences this small are the representation, not the reading. */
 const REPRESENTATION_EPSILON = 1e-9;
 
-function fmt(n: number, unit: string | null): string {
-  const text = String(Number(n.toPrecision(12)));
+/** A reading or limit as stated (never rounded: it is compared, not estimated), with its unit. */
+function withUnit(n: number, unit: string | null): string {
+  const text = asStated(n);
   return unit ? `${text} ${unit}` : text;
 }
 
@@ -34,21 +36,21 @@ export function readingOutOfLimit(
   const unit = check.kind === 'wind' ? 'm/s' : records.unit;
   const n = parseReading(value, unit);
   const base = { kind: check.kind, value, valueNumber: n, unit, planned: null, tolerance: null, limit: null } as const;
-  const typed = n === null ? `“${value}” is not a number` : `${fmt(n, unit)} was recorded`;
+  const typed = n === null ? `“${value}” is not a number` : `${withUnit(n, unit)} was recorded`;
   switch (check.kind) {
     case 'plan': {
       const within = n !== null && Math.abs(n - check.planned) <= check.tolerance + REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.planned));
       if (within) return null;
-      const tol = check.tolerance > 0 ? ` (±${fmt(check.tolerance, unit)})` : '';
-      return { ...base, planned: check.planned, tolerance: check.tolerance, source: check.source || null, reason: `${typed}; the plan says ${fmt(check.planned, unit)}${tol}.` };
+      const tol = check.tolerance > 0 ? ` (±${withUnit(check.tolerance, unit)})` : '';
+      return { ...base, planned: check.planned, tolerance: check.tolerance, source: check.source || null, reason: `${typed}; the plan says ${withUnit(check.planned, unit)}${tol}.` };
     }
     case 'max': {
       if (n !== null && n <= check.limit + REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.limit))) return null;
-      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; the limit is at most ${fmt(check.limit, unit)}.` };
+      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; the limit is at most ${withUnit(check.limit, unit)}.` };
     }
     case 'min': {
       if (n !== null && n >= check.limit - REPRESENTATION_EPSILON * Math.max(1, Math.abs(check.limit))) return null;
-      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; it must be at least ${fmt(check.limit, unit)}.` };
+      return { ...base, limit: check.limit, source: check.source || null, reason: `${typed}; it must be at least ${withUnit(check.limit, unit)}.` };
     }
     case 'wind': {
       const limit = windLimits ? windLimits[check.phase] : null;

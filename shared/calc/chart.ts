@@ -5,6 +5,7 @@
  * never rises with radius), never interpolated between rows and never extended beyond them. The
  * crane's own chart, its notes and its rated capacity limiter always govern.
  */
+import { fmtUp } from '../format';
 import { CalcInputError, finiteResult, requireInRange, requireNonNegative, requirePositive } from './errors';
 import { STANDARD_GRAVITY_MPS2 } from './units';
 
@@ -110,6 +111,5 @@ export function limitShare(input: { loadKn: number; limitKn: number; cautionPerc
 
 /** A percentage for people, rounded UP to one decimal so a share never reads lower than it is. */
 export function percentUp(sharePercent: number): string {
-  // The small tolerance stops 32.5 (stored as 32.50000000000001) from showing as 32.6.
-  return (Math.ceil(sharePercent * 10 - 1e-9) / 10).toFixed(1);
+  return fmtUp(sharePercent, 1);
 }

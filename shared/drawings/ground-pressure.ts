@@ -9,13 +9,10 @@
  * (one kPa scale for every panel), so the cases can be compared by eye.
  */
 import { CalcInputError } from '../calc/errors';
+// Pressures are shown rounded up, as on the figures: never lower than computed.
+import { fmtUp } from '../format';
 import type { LoadCaseResult } from '../planner/types';
 import { escapeXml } from './boom-makeup';
-
-/** Pressures are shown rounded up, as on the figures: never lower than computed. */
-function kpaUp(kpa: number): string {
-  return (Math.ceil(kpa * 10 - 1e-9) / 10).toFixed(1);
-}
 
 /** Drawing options. */
 export interface GroundPressureDrawingOptions {
@@ -169,8 +166,8 @@ export function groundPressureSvg(
     const word = over ? 'FAIL' : options.caution ? 'CAUTION' : options.unverified ? 'UNVERIFIED' : 'PASS';
 
     out.push(text(MARGIN_X, top + 18, c.label, `font-size="${narrow ? 14 : 15}" font-weight="700" fill="${p.ink}"`));
-    const worstLine = `worst ${kpaUp(c.worst.pressureKpa)} kPa at ${c.worst.angleDeg}° slew (${c.worst.method})`;
-    const endsLine = `over the end ${kpaUp(c.overEnd.pressureKpa)} kPa · over the side ${kpaUp(c.overSide.pressureKpa)} kPa`;
+    const worstLine = `worst ${fmtUp(c.worst.pressureKpa)} kPa at ${c.worst.angleDeg}° slew (${c.worst.method})`;
+    const endsLine = `over the end ${fmtUp(c.overEnd.pressureKpa)} kPa · over the side ${fmtUp(c.overSide.pressureKpa)} kPa`;
     if (narrow) {
       out.push(text(MARGIN_X, top + 36, worstLine, `font-size="12" fill="${p.muted}"`));
       out.push(text(MARGIN_X, top + 52, endsLine, `font-size="12" fill="${p.muted}"`));
@@ -221,7 +218,7 @@ export function groundPressureSvg(
     out.push(`<polygon points="${px(wx)},${px(wy - 7)} ${px(wx - 6)},${px(wy + 4)} ${px(wx + 6)},${px(wy + 4)}" fill="${over ? p.stop : p.ink}" data-worst="${c.key}"/>`);
     // The worst value is written at the foot of the dotted line, clear of the curve.
     const labelRight = c.worst.angleDeg <= 180;
-    out.push(plate(wx + (labelRight ? 6 : -6), base - 8, `worst ${kpaUp(c.worst.pressureKpa)} kPa at ${c.worst.angleDeg}°`, 12, labelRight ? 'start' : 'end', p.background, `font-weight="700" fill="${p.ink}"`));
+    out.push(plate(wx + (labelRight ? 6 : -6), base - 8, `worst ${fmtUp(c.worst.pressureKpa)} kPa at ${c.worst.angleDeg}°`, 12, labelRight ? 'start' : 'end', p.background, `font-weight="700" fill="${p.ink}"`));
 
     // The result word in a box (colour never alone), then the mats.
     const [ink, fill] = word === 'FAIL' ? [p.stop, p.stopFill] : word === 'UNVERIFIED' || word === 'CAUTION' ? [p.warn, p.warnFill] : [p.pass, p.passFill];
@@ -235,10 +232,10 @@ export function groundPressureSvg(
       const mx = narrow ? MARGIN_X : boxX;
       const my = narrow ? base + 80 : boxY + 46;
       if (narrow) {
-        out.push(text(mx, my, `mats ${kpaUp(c.mats.pressureKpa)} kPa at ${c.mats.angleDeg}°: ${matsWord}`, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
+        out.push(text(mx, my, `mats ${fmtUp(c.mats.pressureKpa)} kPa at ${c.mats.angleDeg}°: ${matsWord}`, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
       } else {
         out.push(text(mx, my, 'with mats', `font-size="11" fill="${p.muted}"`));
-        out.push(text(mx, my + 16, `${kpaUp(c.mats.pressureKpa)} kPa`, `font-size="12" font-weight="700" fill="${p.ink}"`));
+        out.push(text(mx, my + 16, `${fmtUp(c.mats.pressureKpa)} kPa`, `font-size="12" font-weight="700" fill="${p.ink}"`));
         out.push(text(mx, my + 32, `at ${c.mats.angleDeg}°`, `font-size="11" fill="${p.muted}"`));
         out.push(text(mx, my + 48, matsWord, `font-size="12" font-weight="700" fill="${matsOver ? p.stop : p.ink}"`));
       }

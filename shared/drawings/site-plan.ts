@@ -8,6 +8,7 @@
  * Pure: no DOM and no Node modules, explicit colours, every piece of text through `escapeXml`.
  */
 import { CalcInputError } from '../calc/errors';
+import { fmt, fmtDown } from '../format';
 import type { PowerLineResult } from '../planner/types';
 import { escapeXml } from './boom-makeup';
 
@@ -151,16 +152,15 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const maxChars = Math.floor((size - 32) / (12 * 0.56));
   const notAMap = wrap('Not a map: the lines are drawn at their distance, their bearing is not known here.', maxChars);
   const header = 48 + notAMap.length * 16;
-  // Rounded down: the drawing never shows more room than there is (the 1e-9 keeps 15.6 from reading 15.599… → 15.5).
-  const down = (m: number) => (Math.floor(m * 10 + 1e-9) / 10).toFixed(1);
+  // Room available is rounded down: the drawing never shows more room than there is.
   const lineWords = input.powerLines.map((l, i) => {
-    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${l.requiredClearanceM.toFixed(2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
+    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${fmt(l.requiredClearanceM, 2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
     const volts = l.voltageKv === null ? 'voltage unknown' : `${l.voltageKv} kV`;
     // Results stored before the assist crane was checked have no `assist`: read as not planned.
-    const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${down(l.assist.availableClearanceM)} m available`}`;
+    const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${fmtDown(l.assist.availableClearanceM)} m available`}`;
     const clear = l.pass && (!l.assist || l.assist.pass);
     const status = clear ? 'CLEAR' : 'TOO CLOSE';
-    const rows = wrap(`${status} ${i + 1}. ${l.label}: ${volts}, ${l.distanceM} m away; ${req}; ${down(l.availableClearanceM)} m available${assist}`, maxChars);
+    const rows = wrap(`${status} ${i + 1}. ${l.label}: ${volts}, ${l.distanceM} m away; ${req}; ${fmtDown(l.availableClearanceM)} m available${assist}`, maxChars);
     return { clear, status, rows };
   });
   const footer = 48 + lineWords.reduce((sum, w) => sum + w.rows.length * 16 + 6, 0);
@@ -168,7 +168,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const cx = size / 2;
   const cy = header + size / 2;
   const scale = (size / 2 - 16) / extentM;
-  const title = `Site plan: boom ${boomM} m, reach ${reachM.toFixed(1)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
+  const title = `Site plan: boom ${boomM} m, reach ${fmt(reachM)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
 
   const out: string[] = [];
 
@@ -180,8 +180,8 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   // Labels on the lower-left diagonal, where the lines are spread last.
   const diag = Math.SQRT1_2;
   const labels: string[] = [
-    plate(cx - fallM * scale * diag, cy + fallM * scale * diag + 4, `Fall zone ${fallM.toFixed(1)} m`, 12, p.background, `font-weight="700" fill="${p.fallZone}"`),
-    plate(cx - reachM * scale * diag, cy + reachM * scale * diag - 14, `${reachWords} ${reachM.toFixed(1)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
+    plate(cx - fallM * scale * diag, cy + fallM * scale * diag + 4, `Fall zone ${fmt(fallM)} m`, 12, p.background, `font-weight="700" fill="${p.fallZone}"`),
+    plate(cx - reachM * scale * diag, cy + reachM * scale * diag - 14, `${reachWords} ${fmt(reachM)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
   ];
 
   // Tracks: two rectangles either side of the centre, to scale.

@@ -12,7 +12,8 @@ import type { AssistChart, AssistCrane, HookBlock } from '../schemas/arrangement
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
 import { tipHangings } from './chart.js';
-import { figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import { figure, guarded, kgToKn } from './figures.js';
+import { fmt, plain } from '../format.js';
 import type { AssistLiftResultRow, PlannerInputs, TandemStepRow } from './types.js';
 
 /** Said with every step of a tandem raise (common practice, no source). */

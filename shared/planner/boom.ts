@@ -2,7 +2,8 @@
 import { boomMakeup, platesRequired, type BoomMakeup } from '../calc/boom.js';
 import type { BoomArrangement } from '../schemas/arrangement.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
-import { emptyMakeup, figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import { emptyMakeup, figure, guarded, kgToKn } from './figures.js';
+import { fmt, plain } from '../format.js';
 import type { PlannerInputs } from './types.js';
 
 export interface BoomOutcome {

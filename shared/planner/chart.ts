@@ -7,7 +7,8 @@ import { chartShare, limitShare, percentUp, type ShareResult } from '../calc/cha
 import type { CapacityChart, HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
-import { figure, fmt, guarded, kgToKn, plain } from './figures.js';
+import { figure, guarded, kgToKn } from './figures.js';
+import { fmt, plain } from '../format.js';
 import { ROPE_RUN_ASSUMED_WHEN_MISSING } from './rope.js';
 import type { ChartResults, PlannerInputs } from './types.js';
 

@@ -1,6 +1,6 @@
 /**
- * The small helpers every part of the planner uses to build its figures: one figure with its rule,
- * number formats for people, and a guard that turns a refused input into a failing figure.
+ * The small helpers every part of the planner uses to build its figures: one figure with its rule
+ * and a guard that turns a refused input into a failing figure (numbers for people: shared/format.ts).
  */
 import type { BoomMakeup } from '../calc/boom.js';
 import { CalcInputError } from '../calc/errors.js';
@@ -27,29 +27,6 @@ export function figure(
   const f: Figure = { key, group, label, value, status, overridable: mayOverride, rule };
   if (detail !== undefined && detail.length > 0) f.detail = detail;
   return f;
-}
-
-/** Rounds up (away from the safe side's limit) for loads, pulls and pressures shown against a limit. */
-export function fmtUp(value: number, decimals = 1): string {
-  const f = 10 ** decimals;
-  return fmt(Math.ceil(value * f - 1e-9) / f, decimals);
-}
-
-/** Rounds down for what is left or allowed (wraps, ratios, design factors) shown against a minimum. */
-export function fmtDown(value: number, decimals = 1): string {
-  const f = 10 ** decimals;
-  return fmt(Math.floor(value * f + 1e-9) / f, decimals);
-}
-
-/** A number for people: fixed decimals, no "-0". */
-export function fmt(value: number, decimals = 1): string {
-  const s = value.toFixed(decimals);
-  return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s;
-}
-
-/** A number without trailing zeros (lengths and counts from the data). */
-export function plain(value: number): string {
-  return String(Math.round(value * 1000) / 1000);
 }
 
 /** Kilograms to kilonewtons through tonne-force (1 tf = 9.80665 kN). */

@@ -10,7 +10,8 @@ import { tonnesForceToKn } from '../calc/units.js';
 import type { HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
-import { figure, fmt, fmtUp, guarded, kgToKn, plain } from './figures.js';
+import { figure, guarded, kgToKn } from './figures.js';
+import { fmt, fmtUp, plain } from '../format.js';
 import type { LoadCaseResult, PlannerInputs } from './types.js';
 
 /** One weight in the moments: its name, its weight and its horizontal arm from the slewing centre (positive towards the boom). */

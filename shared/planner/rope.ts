@@ -19,7 +19,8 @@ import {
 import { tonnesForceToKn } from '../calc/units.js';
 import type { ArrangementData, Drum, HookBlock, Rope, Sheave } from '../schemas/arrangement.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
-import { figure, fmt, fmtDown, fmtUp, guarded, plain, serviceableAtHand } from './figures.js';
+import { figure, guarded, serviceableAtHand } from './figures.js';
+import { fmt, fmtDown, fmtUp, plain } from '../format.js';
 import type { ConfigurationResults, PlannerInputs } from './types.js';
 
 type Hoist = 'mainHoist' | 'auxiliaryHoist' | 'boomHoist';
@@ -113,7 +114,7 @@ function hoistPath(arrangement: ArrangementData, hoist: Hoist, block: HookBlock 
     }
   }
   const lead = path.filter((s) => s.role === 'idler').map((s) => ({ id: s.id, bearing: s.bearing, efficiency: efficiencyOf(s.bearing) }));
-  const pct = (e: number) => `${(e * 100).toFixed(1)} %`;
+  const pct = (e: number) => `${fmt(e * 100)} %`;
   const words = [
     `tip sheaves ${pct(tipEfficiency)}`,
     block && block.sheaveCount > 0 ? `block sheaves ${pct(blockEfficiency)}` : null,

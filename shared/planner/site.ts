@@ -1,7 +1,8 @@
 /** Site hazards: the fall zone and the distance to power lines, for the main crane and the assist crane. */
 import { fallZoneRadiusM, powerLineClearanceCheck, powerLineMinimumDistance } from '../calc/site.js';
 import type { Configuration, Figure, PowerLine } from '../schemas/configuration.js';
-import { figure, fmt, guarded, plain } from './figures.js';
+import { figure, guarded } from './figures.js';
+import { fmt, fmtUp, plain } from '../format.js';
 import type { PlannerInputs, PowerLineResult } from './types.js';
 
 /**
@@ -115,7 +116,7 @@ export function computeSite(config: Configuration, inputs: PlannerInputs, figure
 
   const reach = sumReach([...boom, ...loadParts(config)]);
   if (config.siteHazards.powerLines.length > 0) {
-    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${fmt(Math.ceil(reach.reachM * 10 - 1e-9) / 10)} m from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
+    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${fmtUp(reach.reachM)} m from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
   }
   const assist = assistBoom(config, inputs);
   const assistReach =
