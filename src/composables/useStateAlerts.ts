@@ -1,6 +1,6 @@
 import { onBeforeUnmount, onMounted, ref, watch } from 'vue';
 import type { BoardState } from '../../shared/board/types';
-import { describeChange } from '../components/board/words';
+import { describeChange } from '../words/board';
 import { useBoardStore } from '../stores/board';
 
 /** Speech is per device and off until the operator turns it on; it is never kept across reloads. */

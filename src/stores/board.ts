@@ -4,11 +4,11 @@ import { BoardFollower } from '../../shared/board/follower';
 import type { BoardSnapshot, BoardState } from '../../shared/board/types';
 import type { CommandAnswer } from '../../shared/events/socket';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
-import { type CrewRole } from '../../shared/schemas/jobs';
+import type { CrewRole } from '../../shared/schemas/jobs';
 import { jobEventListSchema, type JobEventDto } from '../../shared/events/log';
 import { api } from '../services/api';
 import { connectSocket, type HoldlineSocket } from '../services/socket';
-import { BLOCKED_WORDS } from '../components/board/words';
+import { BLOCKED_WORDS } from '../words/board';
 import { useSessionStore } from './session';
 
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;

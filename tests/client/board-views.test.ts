@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { BoardHold, BoardStage, BoardState, BoardStep } from '../../shared/board/types';
 import { openJobTarget, viewForRoles, viewsForRoles } from '../../src/components/board/views';
-import { boardEventLine, clause, describeChange, sentences } from '../../src/components/board/words';
+import { describeChange } from '../../src/words/board';
 
 function step(id: string, overrides: Partial<BoardStep> = {}): BoardStep {
   return { id, text: `Step ${id}`, state: 'open', allowedRoles: ['rigger'], requiresPhoto: false, records: null, caution: null, doneBy: null, required: false, after: [], outOfLimit: null, ...overrides };
@@ -89,38 +89,4 @@ describe('words for changes', () => {
     expect(describeChange(b, { ...b, seq: 11 })).toBeNull();
   });
 
-  it('words board events as plain sentences with step and hold names and the value recorded', () => {
-    const parts = { kind: 'reading' as const, label: 'Parts of line', unit: null, componentKind: null, typeId: null, plannedSerial: null };
-    const b = board([
-      stage('t', 1, {
-        steps: [step('t.1', { text: 'Pin the tip.' }), step('t.2', { text: 'Count the parts of line', records: parts })],
-        hold: hold('t.hold', { title: 'Pins counted' }),
-      }),
-    ]);
-    const by = { userId: 'u', name: 'Priya', role: 'rigger' };
-    // The step's own full stop is not doubled.
-    expect(boardEventLine({ type: 'step.completed', data: { stepId: 't.1', value: null }, by }, b)).toBe('Marked done: Pin the tip.');
-    expect(boardEventLine({ type: 'step.completed', data: { stepId: 't.2', value: '5', outOfLimit: { reason: 'Parts of line 5, planned 6.' } }, by }, b)).toBe(
-      'Marked done: Count the parts of line. Recorded parts of line 5. OUT OF LIMIT: Parts of line 5, planned 6.',
-    );
-    expect(boardEventLine({ type: 'hold.acknowledged', data: { holdId: 't.hold', role: 'signaller' }, by }, b)).toBe('Acknowledged the hold point “Pins counted” as signaller.');
-    expect(boardEventLine({ type: 'job.stopped', data: { reason: null }, by }, b)).toBe('Raised an ALL STOP.');
-    expect(boardEventLine({ type: 'weather.recorded', data: { reading: { meanMs: 6.5, gustMs: 9.1, heightM: 12 }, overLimit: null }, by }, b)).toBe(
-      'Recorded the wind: mean 6.5 m/s, gust 9.1 m/s at 12 m. Within the limit.',
-    );
-  });
-
-  it('never shows an internal event name or a list of fields, even for an event it does not know', () => {
-    const by = { userId: 'u', name: 'Priya', role: 'rigger' };
-    const line = boardEventLine({ type: 'board.somethingNew', data: { stageId: 's1', secretField: 1 }, by }, null);
-    expect(line).not.toMatch(/somethingNew|stageId|secretField/);
-    expect(line).toMatch(/^[A-Z].*\.$/);
-    // A step or hold the names do not know is said in words, not by its id.
-    expect(boardEventLine({ type: 'step.reopened', data: { stepId: 'er-reeve.block' }, by }, null)).toBe('Reopened: a step no longer in the plan.');
-  });
-
-  it('joins sentences with exactly one full stop each', () => {
-    expect(sentences('Reason: Wind over the limit.', 'Within the limit', '', null, false)).toBe('Reason: Wind over the limit. Within the limit.');
-    expect(clause('Boom hoist stopped..')).toBe('Boom hoist stopped');
-  });
 });

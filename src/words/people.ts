@@ -1,7 +1,5 @@
-import type { SignInAuditKind } from '../../../shared/schemas/audit';
-import type { PersonStatus } from '../../stores/people';
-
-export { formatWhen } from '../../services/time';
+import type { SignInAuditKind } from '../../shared/schemas/audit';
+import type { PersonStatus } from '../stores/people';
 
 /** What each audit entry means, in words a site office reads without a manual. */
 export const auditKindWords: Record<SignInAuditKind, string> = {

@@ -1,8 +1,5 @@
-import type { RouteLocationRaw } from 'vue-router';
-import type { ComponentKind, ComponentStatus, InspectionResult } from '../../../shared/schemas/fleet';
-
-export { componentKindLabels } from '../../../shared/schemas/fleet';
-export { formatWhen } from '../../services/time';
+import { grouped, plain } from '../../shared/format';
+import type { ComponentKind, ComponentStatus, InspectionResult } from '../../shared/schemas/fleet';
 
 /** A component's status in words, with the icon that goes with its colour. */
 export const componentStatusWords: Record<ComponentStatus, { label: string; icon: string; hint: string }> = {
@@ -29,19 +26,12 @@ export const inspectionChecklist: Record<ComponentKind, string[]> = {
   rope: ['Broken wires', 'Kinks', 'Crushing', 'Bird-caging', 'Core protrusion', 'Heat damage', 'Loss of diameter'],
 };
 
-/** The weight of a part in tonnes, for people; the data keeps kilograms. */
+/** The weight of a part in tonnes to the nearest 0.1 t, for reading the fleet (no check uses it); the data keeps kilograms. */
 export function tonnes(weightKg: number): string {
-  return `${(Math.round(weightKg / 100) / 10).toLocaleString('en-GB')} t`;
+  return `${grouped(weightKg / 1000, 1)} t`;
 }
 
-/** A length with its unit, without trailing zeros. */
+/** A length from the data to the nearest centimetre, without trailing zeros. */
 export function metres(lengthM: number): string {
-  return `${Math.round(lengthM * 100) / 100} m`;
-}
-
-/** One labelled fact on a detail screen; `to` makes the value a link. */
-export interface Fact {
-  label: string;
-  value: string;
-  to?: RouteLocationRaw;
+  return `${plain(lengthM, 2)} m`;
 }

@@ -1,8 +1,6 @@
-import type { CrewRole } from '../../../shared/schemas/jobs';
-import type { StepRecord } from '../../../shared/schemas/plan';
-import { roleLabel } from '../jobs/words';
-
-export { roleLabel };
+import type { CrewRole } from '../../shared/schemas/jobs';
+import type { StepRecord } from '../../shared/schemas/plan';
+import { roleLabel } from '../../shared/schemas/users';
 
 /** Roles a step or hold can name; viewers only read the board, so they never complete or acknowledge. */
 export const actingRoles: readonly CrewRole[] = ['supervisor', 'operator', 'signaller', 'rigger'];
@@ -20,14 +18,4 @@ export function rolesInWords(roles: readonly string[]): string {
   const words = roles.map((r, i) => (i === 0 ? roleLabel(r) : roleLabel(r).toLowerCase()));
   if (words.length <= 1) return words[0] ?? 'Nobody';
   return `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
-}
-
-/** "1 step", "3 steps". */
-export function counted(n: number, one: string, many: string): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
-
-/** DOM id of a stage's card, so a problem can scroll to it. */
-export function stageAnchor(stageId: string): string {
-  return `plan-stage-${stageId.replace(/[^A-Za-z0-9_-]/g, '_')}`;
 }

@@ -1,3 +1,25 @@
+import type { Figure, FigureStatus } from '../../shared/schemas/configuration';
+import type { Tone } from './common';
+
+/** A figure's result in words, with its icon and colour. FAIL is in capitals to stand out in glare. */
+export const figureStatusWords: Record<FigureStatus, { label: string; icon: string; tone: Tone }> = {
+  pass: { label: 'Pass', icon: 'check_circle', tone: 'done' },
+  fail: { label: 'FAIL', icon: 'cancel', tone: 'stop' },
+  info: { label: 'Info', icon: 'info', tone: 'info' },
+  unverified: { label: 'Unverified', icon: 'help', tone: 'hold' },
+  caution: { label: 'Caution', icon: 'warning', tone: 'hold' },
+};
+
+/** Headings of the figure groups, in the order the results panel shows them. */
+export const figureGroups: { group: Figure['group']; label: string }[] = [
+  { group: 'boom', label: 'Boom' },
+  { group: 'rope', label: 'Hook and rope' },
+  { group: 'ground', label: 'Ground' },
+  { group: 'assist', label: 'Assist crane' },
+  { group: 'site', label: 'Site' },
+  { group: 'wind', label: 'Wind' },
+];
+
 /** Words for the configuration's fields, so a list of what is missing reads like the form. */
 const names: Record<string, string> = {
   craneUnitId: 'Crane unit',

@@ -1,0 +1,103 @@
+import type { BoardState, HoldState, StageState } from '../../shared/board/types';
+import { valueCheckFieldLabels, type ValueCheckField } from '../../shared/schemas/plan';
+import type { BoardStatus } from '../../shared/board/status';
+import type { Tone } from './common';
+
+/** A state in words with its icon and colour family; the word always carries the meaning. */
+export interface StateWords {
+  label: string;
+  icon: string;
+  tone: Tone;
+}
+
+export const stageStateWords: Record<StageState, StateWords> = {
+  locked: { label: 'Not started', icon: 'lock', tone: 'plain' },
+  active: { label: 'In progress', icon: 'construction', tone: 'info' },
+  holding: { label: 'At hold point', icon: 'pause_circle', tone: 'hold' },
+  done: { label: 'Done', icon: 'check_circle', tone: 'done' },
+  skipped: { label: 'Skipped', icon: 'redo', tone: 'plain' },
+};
+
+export const holdStateWords: Record<HoldState, StateWords> = {
+  waiting: { label: 'Not open yet', icon: 'schedule', tone: 'plain' },
+  open: { label: 'Hold open: acknowledgments needed', icon: 'pause_circle', tone: 'hold' },
+  acknowledged: { label: 'Acknowledged: waiting for release', icon: 'how_to_reg', tone: 'hold' },
+  released: { label: 'Released', icon: 'lock_open', tone: 'done' },
+  waived: { label: 'Waived (stage skipped)', icon: 'redo', tone: 'plain' },
+};
+
+/**
+ * The board's overall state. "Open" is blue information, never green: an open board says work is
+ * in progress on the plan, not that anything may move.
+ */
+export const boardStatusWords: Record<BoardStatus, StateWords & { shape: 'octagon' | 'triangle' | 'circle' | 'square'; detail: string }> = {
+  stopped: { label: 'STOPPED', icon: 'pan_tool', tone: 'stop', shape: 'octagon', detail: 'All stop recorded. Nothing moves until the supervisor resumes.' },
+  holding: { label: 'Holding', icon: 'pause_circle', tone: 'hold', shape: 'triangle', detail: 'A hold point is open.' },
+  open: { label: 'Board open', icon: 'construction', tone: 'info', shape: 'circle', detail: 'Work in progress on the plan.' },
+  'not-started': { label: 'Not started', icon: 'flag', tone: 'plain', shape: 'square', detail: 'The job has not started on the board.' },
+  finished: { label: 'Finished', icon: 'task_alt', tone: 'plain', shape: 'square', detail: 'The job is closed.' },
+};
+
+/** The line every crew view carries with the board's state. */
+export const SIGNAL_RULE = 'Move only on the signaller’s signal.';
+
+/** What every stop control says, so nobody takes it for the crane's stop. */
+export const STOP_RULE = 'Stop by radio and signal first. This records an all stop and alerts the crew; it does not stop the crane.';
+
+/** The mark on a step whose reading is outside its limit or differs from the plan. */
+export const OUT_OF_LIMIT = 'Out of limit';
+
+/** Words of the press-and-hold buttons that let work go on (release, resume). */
+export const HOLD_WORDS = {
+  howLong: 'Press and hold 1.5 s',
+  keyboard: '(or hold Space)',
+  keepHolding: 'Keep holding…',
+  sending: 'Sending…',
+  release: 'Hold to release',
+  resume: 'Hold to resume the job',
+} as const;
+
+/** Why a control cannot act now, said beside it (never a blue button that fails on tap). */
+export const BLOCKED_WORDS = {
+  notLive: 'The board is not live: wait for it to reconnect.',
+  stopped: 'Job stopped: wait for the supervisor’s resume.',
+} as const;
+
+/** The same rule in one line, for the fixed bar on a phone (the full rule is read out to screen readers). */
+export const STOP_RULE_SHORT = 'Radio and signal first: this does not stop the crane.';
+
+/** A value-check field in words. */
+export function fieldLabel(field: ValueCheckField): string {
+  return valueCheckFieldLabels[field];
+}
+
+/**
+ * A sentence for what changed between two boards, for the live region, the flash and speech; null
+ * when no job, stage or hold state changed. Always a statement of what the board shows, never an
+ * instruction: speech must not sound like a signal.
+ */
+export function describeChange(before: BoardState | null, after: BoardState | null): string | null {
+  if (!before || !after || before.job.id !== after.job.id) return null;
+  const parts: string[] = [];
+  if (before.job.state !== after.job.state) {
+    if (after.job.state === 'stopped') parts.push(`Job stopped on the board by ${after.job.stop?.raisedBy.name ?? 'a crew member'}.`);
+    else if (before.job.state === 'stopped' && after.job.state === 'live') parts.push('Stop cleared on the board by the supervisor.');
+    else parts.push(`Job now ${after.job.state}.`);
+  }
+  const old = new Map(before.stages.map((s) => [s.id, s]));
+  for (const stage of after.stages) {
+    const prev = old.get(stage.id);
+    if (!prev) continue;
+    if (prev.hold && stage.hold && prev.hold.state !== stage.hold.state) {
+      if (stage.hold.state === 'open') parts.push(`Hold point open: ${stage.hold.title}.`);
+      else if (stage.hold.state === 'acknowledged') parts.push(`Hold point acknowledged by every role: ${stage.hold.title}.`);
+      else if (stage.hold.state === 'released') parts.push(`Hold point released: ${stage.hold.title}.`);
+      continue;
+    }
+    if (prev.state !== stage.state && stage.state === 'active') parts.push(`Stage ${stage.order} in progress: ${stage.title}.`);
+    if (prev.state !== stage.state && stage.state === 'skipped') parts.push(`Stage ${stage.order} skipped: ${stage.title}.`);
+    if (!prev.blockedBy && stage.blockedBy) parts.push(`Stage ${stage.order} blocked by a defect.`);
+  }
+  if (before.planVersion !== after.planVersion) parts.push(`Plan revised to version ${after.planVersion}.`);
+  return parts.length ? parts.join(' ') : null;
+}

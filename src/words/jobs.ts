@@ -1,0 +1,20 @@
+import { jobStateLabels, type JobKind, type JobState } from '../../shared/schemas/jobs';
+import type { Tone } from './common';
+
+/** The sections of a job's page. */
+export type JobTab = 'overview' | 'crew' | 'comms' | 'planner' | 'log';
+
+/** A job's state in words, with its icon and colour. */
+export const jobStateWords: Record<JobState, { label: string; icon: string; tone: Tone; hint: string }> = {
+  planning: { label: jobStateLabels.planning, icon: 'edit_note', tone: 'info', hint: 'The configuration, crew and plan are being prepared.' },
+  ready: { label: jobStateLabels.ready, icon: 'flag', tone: 'hold', hint: 'The plan is locked; the crew is briefed before work starts.' },
+  live: { label: jobStateLabels.live, icon: 'play_circle', tone: 'done', hint: 'Work is under way on the board.' },
+  stopped: { label: jobStateLabels.stopped, icon: 'pan_tool', tone: 'stop', hint: 'All stop recorded. Nothing moves until the supervisor resumes.' },
+  complete: { label: jobStateLabels.complete, icon: 'task_alt', tone: 'plain', hint: 'Finished; the record is closed.' },
+  cancelled: { label: jobStateLabels.cancelled, icon: 'block', tone: 'plain', hint: 'Called off before it was complete.' },
+};
+
+export const jobKindLabels: Record<JobKind, string> = { erection: 'Erection', dismantling: 'Dismantling' };
+
+/** What a job's closed record is called: a dismantling job never talks of an erection record. */
+export const jobRecordNames: Record<JobKind, string> = { erection: 'erection record', dismantling: 'dismantling record' };
