@@ -7,7 +7,7 @@ import type { Briefing, PlanStage } from '../schemas/plan.js';
 import { qualificationLabels } from '../schemas/users.js';
 import { listWords, num, tidy, tonnes } from './format.js';
 import { commsWords } from './comms.js';
-import type { GeneratePlanInput } from './generate.js';
+import type { GeneratePlanInput } from './types.js';
 
 const STOP_RULES = [
   'Anyone may call a stop at any time, for any reason, without having to explain first.',
