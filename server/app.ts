@@ -32,6 +32,7 @@ import { LocalDiskStorage } from './storage/local-disk.js';
 import type { Storage } from './storage/index.js';
 import type { HoldlineServer } from './sockets/auth.js';
 import { attachSockets } from './sockets/index.js';
+import { BoardPublisher } from './sockets/publisher.js';
 
 export interface AppDeps {
   config: Config;
@@ -60,6 +61,10 @@ export interface HoldlineApp {
 export function createApp(deps: AppDeps): HoldlineApp {
   const { config, dataSource, logger } = deps;
   const queue = new WriteQueue(dataSource);
+  // The Socket.IO server exists before the context so the publisher can be made once, here, and
+  // handed to everyone; it is attached to the HTTP server below.
+  const io: HoldlineServer = new SocketServer({ serveClient: false });
+  const publisher = new BoardPublisher(io);
   const context: AppContext = {
     config,
     dataSource,
@@ -69,7 +74,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     storage: deps.storage ?? new LocalDiskStorage(path.join(config.dataDir, 'uploads')),
     secret: resolveSecret(config.secret, config.dataDir),
     now: deps.now ?? (() => new Date()),
-    realtime: { endSessions: () => undefined, publishJobEvent: () => undefined, presenceOf: () => [] },
+    publisher,
   };
 
   const app = express();
@@ -123,8 +128,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
   app.use(errorHandler(logger));
 
   const httpServer = http.createServer(app);
-  const io: HoldlineServer = new SocketServer(httpServer, { serveClient: false });
-  const stopSockets = attachSockets(io, context);
+  io.attach(httpServer);
+  const stopSockets = attachSockets(io, context, publisher);
 
   let closing: Promise<void> | undefined;
   const close = () => {

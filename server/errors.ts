@@ -42,17 +42,28 @@ export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new HttpError(404, 'not_found', `No API route ${req.method} ${req.path}.`));
 };
 
-/** The one place errors become JSON; unknown errors are logged in full and answered generically. */
+/**
+ * The one place a thrown error becomes what the client is told, over HTTP and over the socket
+ * alike: an HttpError as it is, a body-parser failure as its 4xx, anything else logged in full
+ * (with `where` it happened) and worded generically.
+ */
+export function toHttpError(err: unknown, logger: Logger, where: Record<string, unknown>): HttpError {
+  if (err instanceof HttpError) return err;
+  if (isBodyParserError(err)) return bodyParserError(err);
+  logger.error({ err, ...where }, 'unhandled error');
+  return new HttpError(500, 'internal', 'Something went wrong on the server. Try again; if it keeps happening, tell your administrator.');
+}
+
+/** A socket acknowledgment's refusal, worded exactly as the HTTP error body. */
+export function refusalOf(err: unknown, logger: Logger, where: Record<string, unknown>): { ok: false; error: ApiError } {
+  return { ok: false, error: toHttpError(err, logger, where).toBody().error };
+}
+
+/** Express's error handler: every HTTP error body comes from `toHttpError`. */
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err: unknown, req, res, _next) => {
     if (res.headersSent) return;
-    let httpError: HttpError;
-    if (err instanceof HttpError) httpError = err;
-    else if (isBodyParserError(err)) httpError = bodyParserError(err);
-    else {
-      logger.error({ err, method: req.method, url: req.originalUrl }, 'unhandled error');
-      httpError = new HttpError(500, 'internal', 'Something went wrong on the server. Try again; if it keeps happening, tell your administrator.');
-    }
+    const httpError = toHttpError(err, logger, { method: req.method, url: req.originalUrl });
     res.status(httpError.status).json(httpError.toBody());
   };
 }

@@ -16,6 +16,7 @@ import { JobPlan } from '../entities/JobPlan.js';
 import { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
+import { authorizeBoardCommand } from '../policies/index.js';
 import { redactPlan } from '../presenters/plan.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { referencePlan, withFreshBriefing } from '../queries/plans.js';
@@ -27,34 +28,23 @@ import { attachUploads } from './uploads.js';
 const refuse = (status: number, code: string, message: string, fields?: { path: string; message: string }[]) => new HttpError(status, code, message, fields);
 const invalidState = (message: string) => refuse(409, 'invalid_state', message);
 
-/** Who may send each command, beyond being in the crew: the role it is recorded under. */
-const supervisorOnly: ReadonlySet<BoardCommand['type']> = new Set(['job.start', 'job.complete', 'job.cancel', 'hold.release', 'hold.check.review', 'stage.skip', 'job.resume', 'plan.revise']);
-
-/** What a viewer may send: an operator obeys a stop signal from anyone (ASME B30.5, from memory), and whoever stops records why. */
-const viewerCommands: ReadonlySet<BoardCommand['type']> = new Set(['job.stop', 'job.stop.note']);
-
 /**
- * Runs one board command through the command writer: checks the person, the state and the rules,
- * and returns the event it produced (or the first answer for a repeated command id). A failed
- * blind value check is recorded as its own event and then answered as a refusal (a repeated
- * command id gets the same refusal).
+ * The one way in for a board command, whatever the transport (POST /api/jobs/:jobId/commands and
+ * the socket's `board:command` both call it). Inside the command writer's queued transaction it
+ * reads the person's crew roles, asks the policy (`authorizeBoardCommand`: in the crew at all,
+ * and a role that sends this command), then checks the state and the rules, and returns the event
+ * it produced (or the first answer for a repeated command id). A failed blind value check is
+ * recorded as its own event and then answered as a refusal (a repeated command id gets the same
+ * refusal).
  */
 export async function runBoardCommand(context: AppContext, actor: User, jobId: string, command: BoardCommand): Promise<CommandOutcome> {
   const outcome = await runJobCommand(context, jobId, { commandId: command.commandId, body: command, actor }, async (manager, job) => {
+    // Read under the queue, so a crew change committed before this command counts.
+    const roles = authorizeBoardCommand(actor, command.type, await crewRolesOf(manager, job.id, actor.id));
     const board = job.board;
     if (!board) throw invalidState('This job has no board yet.');
-    const all = await crewRolesOf(manager, job.id, actor.id);
-    let roles: CrewRole[] = all.filter((r) => r !== 'viewer');
-    if (roles.length === 0) {
-      if (!all.includes('viewer')) throw refuse(403, 'not_crew', 'You are not in this job’s crew. Ask its supervisor to add you.');
-      if (!viewerCommands.has(command.type)) throw refuse(403, 'role_not_allowed', 'Viewers watch the board and may raise a stop; they cannot act on it otherwise.');
-      roles = ['viewer'];
-    }
     if (board.job.state === 'stopped' && !commandsWhileStopped.has(command.type)) {
       throw refuse(409, 'job_stopped', 'The job is stopped. Only the supervisor’s resume (after a fresh weather reading), stop notes, weather readings and defect reports are accepted.');
-    }
-    if (supervisorOnly.has(command.type) && !roles.includes('supervisor')) {
-      throw refuse(403, 'role_not_allowed', 'Only the job’s supervisor can do that.');
     }
     const ctx: HandlerContext = { context, manager, job, board, actor, roles, now: context.now() };
     return handlers[command.type](ctx, command as never);

@@ -48,7 +48,7 @@ export async function runJobCommand(
     const event = await appendEvent(manager, job, command, draft, context.now());
     return { event: presentJobEvent(event), job, replayed: false };
   });
-  if (!outcome.replayed) context.realtime.publishJobEvent(outcome.event);
+  if (!outcome.replayed) context.publisher.publishJobEvent(outcome.event);
   return outcome;
 }
 

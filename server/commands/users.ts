@@ -110,6 +110,6 @@ export async function updateUser(context: AppContext, userId: string, changes: U
     }
     return { user: found, deactivated: wasActive && !found.active };
   });
-  if (deactivated) context.realtime.endSessions(user.id, 'Your account was deactivated by an administrator.');
+  if (deactivated) context.publisher.endSessions(user.id, 'Your account was deactivated by an administrator.');
   return user;
 }

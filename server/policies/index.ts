@@ -1,3 +1,5 @@
+import type { BoardCommandType } from '../../shared/schemas/commands.js';
+import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { Qualification } from '../../shared/schemas/users.js';
 import type { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
@@ -19,11 +21,33 @@ export interface PolicyRow {
   allow: readonly Subject[];
   /** The routes guarded by this action; the policy test calls each one as every kind of person. */
   routes: readonly string[];
+  /** The Socket.IO events guarded by this action (`connect` is the handshake). */
+  events?: readonly string[];
+  /**
+   * Set when the route admits anyone and then checks what the request itself carries (a password,
+   * the refresh cookie, an e-mailed link): its own refusals are about that proof, not this table.
+   */
+  proof?: string;
+  /** The words of the 403 when a signed-in person is refused, when the generic ones would not help. */
+  refusal?: string;
 }
 
-/** The one table of who may do what. Every route and socket handler asks it through `can`. */
+/**
+ * The one table of who may do what. Every route and socket event has a row (a test walks the real
+ * app and the socket handlers to check); the guarded ones ask it through `can` or `authorize`.
+ */
 export const policyTable = [
   { action: 'health.read', allow: ['anyone'], routes: ['GET /api/health'] },
+  {
+    action: 'session.start',
+    allow: ['anyone'],
+    routes: ['POST /api/auth/login', 'POST /api/auth/refresh', 'POST /api/auth/set-password', 'GET /api/auth/links/:token'],
+    proof: 'a password, the refresh cookie or an e-mailed sign-in link',
+  },
+  // Signing out revokes whichever refresh cookie is sent, if any; it answers the same either way.
+  { action: 'session.end', allow: ['anyone'], routes: ['POST /api/auth/logout'] },
+  // Anyone may ask; the answer never says whether the address has an account.
+  { action: 'password.reset', allow: ['anyone'], routes: ['POST /api/auth/password-reset'] },
   { action: 'session.read', allow: ['signed_in'], routes: ['GET /api/auth/me'] },
   { action: 'users.list', allow: ['admin'], routes: ['GET /api/users'] },
   { action: 'users.invite', allow: ['admin'], routes: ['POST /api/users', 'POST /api/users/:userId/invitation'] },
@@ -31,7 +55,14 @@ export const policyTable = [
   { action: 'users.update', allow: ['admin'], routes: ['PATCH /api/users/:userId'] },
   { action: 'audit.read', allow: ['admin'], routes: ['GET /api/audit/sign-ins'] },
   { action: 'inbox.read', allow: ['admin'], routes: ['GET /api/dev/inbox'] },
-  { action: 'socket.connect', allow: ['signed_in'], routes: [] },
+  {
+    // What any connected socket may do for itself: connect, renew its own session with a fresh
+    // token (checked again against this row), and leave a board it joined.
+    action: 'socket.connect',
+    allow: ['signed_in'],
+    routes: [],
+    events: ['connect', 'session:renew', 'board:leave'],
+  },
   {
     action: 'fleet.read',
     allow: ['signed_in'],
@@ -110,13 +141,16 @@ export const policyTable = [
     action: 'board.watch',
     allow: ['admin', 'crew:any'],
     routes: ['GET /api/jobs/:jobId/board'],
+    events: ['board:join'],
   },
   {
-    // Acting on the board: the command layer then checks the role each command needs. Viewers
-    // may raise a stop and record its cause (an operator obeys a stop from anyone), nothing else.
+    // Acting on the board at all; `boardCommandRoles` below then says which crew roles send each
+    // command, and the handlers check the finer rules (a step's roles, a hold's roles).
     action: 'board.command',
     allow: ['crew:supervisor', 'crew:operator', 'crew:signaller', 'crew:rigger', 'crew:viewer'],
     routes: ['POST /api/jobs/:jobId/commands'],
+    events: ['board:command'],
+    refusal: 'You are not in this job’s crew. Ask its supervisor to add you.',
   },
   {
     // The job's supervisors ask for an override; another supervisor or an admin approves it.
@@ -141,7 +175,7 @@ export interface PolicyTarget {
   crewRoles?: readonly Qualification[];
 }
 
-const rows = new Map<string, readonly Subject[]>(policyTable.map((r) => [r.action, r.allow]));
+const rows = new Map<string, PolicyRow>(policyTable.map((r) => [r.action, r]));
 
 function admits(subject: Subject, actor: User | null, target: PolicyTarget): boolean {
   if (subject === 'anyone') return true;
@@ -157,9 +191,9 @@ function admits(subject: Subject, actor: User | null, target: PolicyTarget): boo
 
 /** May this person (or nobody signed in) do this action to this thing? */
 export function can(actor: User | null, action: Action, target: PolicyTarget = {}): boolean {
-  const allow = rows.get(action);
-  if (!allow) return false;
-  return allow.some((subject) => admits(subject, actor, target));
+  const row = rows.get(action);
+  if (!row) return false;
+  return row.allow.some((subject) => admits(subject, actor, target));
 }
 
 /** May this person see this photo? Decided by what it belongs to, after `uploads.read` admitted them. */
@@ -185,5 +219,51 @@ export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedB
 export function authorize(actor: User | null, action: Action, target: PolicyTarget = {}, signInProblem?: HttpError): void {
   if (can(actor, action, target)) return;
   if (!actor) throw signInProblem ?? unauthorized();
-  throw forbidden();
+  throw forbidden(rows.get(action)?.refusal);
+}
+
+const acting: readonly CrewRole[] = ['supervisor', 'operator', 'signaller', 'rigger'];
+const supervisor: readonly CrewRole[] = ['supervisor'];
+/** Everyone in the crew: an operator obeys a stop signal from anyone (ASME B30.5, from memory), and whoever stops records why. */
+const wholeCrew: readonly CrewRole[] = [...acting, 'viewer'];
+
+/** Which crew roles may send each board command, after `board.command` admitted the person. */
+export const boardCommandRoles: { readonly [T in BoardCommandType]: readonly CrewRole[] } = {
+  'job.start': supervisor,
+  'job.complete': supervisor,
+  'job.cancel': supervisor,
+  'briefing.acknowledge': acting,
+  'step.complete': acting,
+  'step.reopen': acting,
+  'hold.acknowledge': acting,
+  'hold.withdraw': acting,
+  'hold.release': supervisor,
+  'hold.check.review': supervisor,
+  'stage.skip': supervisor,
+  'job.stop': wholeCrew,
+  'job.stop.note': wholeCrew,
+  'job.resume': supervisor,
+  'weather.record': acting,
+  'defect.report': acting,
+  'plan.revise': supervisor,
+};
+
+/**
+ * The one check of who may send a board command, asked by every transport through
+ * `runBoardCommand`: 401 without a person, 403 `forbidden` outside the crew, 403
+ * `role_not_allowed` when none of the person's crew roles sends this command. Returns the roles
+ * the command may be recorded under; a viewer's role counts only when the person holds no other.
+ */
+export function authorizeBoardCommand(actor: User | null, type: BoardCommandType, crewRoles: readonly CrewRole[]): CrewRole[] {
+  authorize(actor, 'board.command', { crewRoles });
+  const allowed = boardCommandRoles[type];
+  const admitted = crewRoles.filter((r) => allowed.includes(r));
+  const actingRoles = admitted.filter((r) => r !== 'viewer');
+  if (actingRoles.length) return actingRoles;
+  if (admitted.length) return admitted;
+  if (crewRoles.every((r) => r === 'viewer')) {
+    throw new HttpError(403, 'role_not_allowed', 'Viewers watch the board and may raise a stop; they cannot act on it otherwise.');
+  }
+  if (allowed.length === 1 && allowed[0] === 'supervisor') throw new HttpError(403, 'role_not_allowed', 'Only the job’s supervisor can do that.');
+  throw new HttpError(403, 'role_not_allowed', `This is for: ${allowed.join(', ')}.`);
 }

@@ -13,6 +13,8 @@ export function boardRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
 
+  // `board.command` is asked before the body is read, so someone outside the crew learns nothing
+  // from a validation answer; runBoardCommand then asks the policy again with the command's type.
   router.post('/jobs/:jobId/commands', async (req, res) => {
     const { job, actor } = await loadJobFor(context, req, 'board.command');
     const command = parseOrThrow(boardCommandSchema, req.body, 'command');
@@ -25,7 +27,7 @@ export function boardRouter(context: AppContext): Router {
     const { job, actor, crewRoles } = await loadJobFor(context, req, 'board.watch');
     const current = await context.queue.run(() => manager.findOneByOrFail(Job, { id: job.id }));
     if (!current.board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
-    res.json({ ...redactBoardFor(current.board, can(actor, 'jobs.plan', { crewRoles })), presence: context.realtime.presenceOf(job.id) });
+    res.json({ ...redactBoardFor(current.board, can(actor, 'jobs.plan', { crewRoles })), presence: context.publisher.presenceOf(job.id) });
   });
 
   return router;

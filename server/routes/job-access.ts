@@ -1,12 +1,12 @@
 import type { Request } from 'express';
 import { z } from 'zod';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
-import { crewRolesOf } from '../commands/jobs.js';
 import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import type { User } from '../entities/User.js';
 import { badRequest, unauthorized } from '../errors.js';
 import { authorize, type Action } from '../policies/index.js';
+import { crewRolesOf } from '../queries/crew.js';
 import { findByIdOr404 } from './find.js';
 
 /**

@@ -7,7 +7,7 @@ import { MAX_UPLOAD_BYTES, storeUpload } from '../commands/uploads.js';
 import type { AppContext } from '../context.js';
 import { Upload } from '../entities/Upload.js';
 import { badRequest, forbidden, HttpError, notFound } from '../errors.js';
-import { crewRolesOf } from '../commands/jobs.js';
+import { crewRolesOf } from '../queries/crew.js';
 import { authorize, canSeeUpload } from '../policies/index.js';
 import { presentUpload } from '../presenters/upload.js';
 

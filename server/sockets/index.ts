@@ -1,13 +1,15 @@
 import type { AppContext } from '../context.js';
-import { attachBoard } from './board.js';
-import { endSessions, handshakeAuth, registerSessionHandlers, type HoldlineServer } from './auth.js';
+import { createBoardHub } from './board.js';
+import { handshakeAuth, registerSessionHandlers, type HoldlineServer } from './auth.js';
+import type { BoardPublisher } from './publisher.js';
 
 /** Wires Socket.IO: handshake checks, then the handlers for each connection. Returns a stopper for the ticks. */
-export function attachSockets(io: HoldlineServer, context: AppContext): () => void {
-  context.realtime.endSessions = (userId, reason) => endSessions(io, userId, reason);
+export function attachSockets(io: HoldlineServer, context: AppContext, publisher: BoardPublisher): () => void {
+  const hub = createBoardHub(context, publisher);
   io.use(handshakeAuth(context));
   io.on('connection', (socket) => {
     registerSessionHandlers(context, socket);
+    hub.register(socket);
   });
-  return attachBoard(io, context);
+  return hub.stop;
 }

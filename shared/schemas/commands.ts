@@ -77,24 +77,45 @@ export type BoardCommandType = BoardCommand['type'];
 /** Commands accepted while the job is stopped; everything else waits for the resume. */
 export const commandsWhileStopped: ReadonlySet<BoardCommandType> = new Set(['job.stop', 'job.stop.note', 'weather.record', 'defect.report', 'job.resume']);
 
-/** The codes a refusal carries, so clients can react without parsing words. */
+/**
+ * Every code a board command's refusal can carry, over HTTP or the socket, so clients can react
+ * without parsing words. tests/server/policies/refusal-codes.test.ts scans the server code a
+ * command passes through and fails when a code sent there is missing here (or listed but never sent).
+ */
 export const refusalCodes = [
-  'not_crew',
+  // Who may act (server/policies/index.ts)
+  'forbidden',
   'role_not_allowed',
+  // The session and the transport
+  'unauthenticated',
+  'token_invalid',
+  'token_expired',
+  'account_inactive',
+  'not_found',
+  'validation',
+  'malformed_json',
+  'too_large',
+  'unsupported_encoding',
+  'bad_request',
+  'internal',
+  'command_id_reused',
+  // The board's state and rules (server/commands/board.ts)
   'invalid_state',
   'job_stopped',
-  'one_person_two_roles',
+  'already_briefed',
   'briefing_required',
+  'one_person_two_roles',
   'values_mismatch',
-  'mandatory_hold',
-  'command_id_reused',
-  'validation',
-  'stage_blocked',
-  'weather_required',
-  'token_expired',
-  'out_of_limit',
-  'out_of_order',
   'check_wait',
   'check_locked',
+  'mandatory_hold',
+  'stage_blocked',
+  'weather_required',
+  'out_of_limit',
+  'out_of_order',
   'stop_cause_required',
+  // A defect report quarantines its component through the fleet's inspection path
+  'component_retired',
+  // Joining a board (not a command, but the same socket's answers)
+  'not_crew',
 ] as const;

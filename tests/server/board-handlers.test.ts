@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CommandAnswer, JoinAnswer } from '../../shared/events/socket.js';
 import type { HoldlineServer, HoldlineSocket } from '../../server/sockets/auth.js';
 import { createBoardHub } from '../../server/sockets/board.js';
+import { BoardPublisher } from '../../server/sockets/publisher.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 
@@ -31,7 +32,7 @@ describe('board socket handlers (socket.io-mock)', () => {
   beforeAll(async () => {
     server = await startTestServer();
     rigger = await signedInUser(server, { qualifications: ['rigger'] });
-    hub = createBoardHub(fakeIo, server.context);
+    hub = createBoardHub(server.context, new BoardPublisher(fakeIo));
   });
   afterAll(async () => {
     hub.stop();

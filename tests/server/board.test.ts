@@ -237,12 +237,20 @@ describe('the live board engine', () => {
     const outside = client(outsider);
     const refused = await outside.join(jobId);
     expect(refused).toMatchObject({ ok: false, error: { code: 'not_crew' } });
-    expect(await outside.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() })).toMatchObject({ ok: false, error: { code: 'not_crew' } });
+    // A command from outside the crew is refused by the same policy over both transports, in the same words.
+    const outsideStop = await outside.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
+    expect(outsideStop).toMatchObject({ ok: false, error: { code: 'forbidden' } });
+    const outsideHttp = await httpCommand(server, outsider, jobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
+    expect(outsideHttp.status).toBe(403);
+    expect(outsideStop.ok ? null : outsideStop.error).toEqual(outsideHttp.body.error);
 
     const watcher = client(viewer);
     expect((await watcher.join(jobId)).ok).toBe(true);
     expect(await watcher.command(jobId, { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 })).toMatchObject({ ok: false, error: { code: 'role_not_allowed' } });
-    expect((await httpCommand(server, viewer, jobId, { type: 'briefing.acknowledge' })).status).toBe(403);
+    const viewerBriefing = await httpCommand(server, viewer, jobId, { type: 'briefing.acknowledge' });
+    expect(viewerBriefing).toMatchObject({ status: 403, body: { error: { code: 'role_not_allowed' } } });
+    const viewerBriefingSocket = await watcher.command(jobId, { type: 'briefing.acknowledge' });
+    expect(viewerBriefingSocket.ok ? null : viewerBriefingSocket.error).toEqual(viewerBriefing.body.error);
     // An operator obeys a stop signal from anyone (ASME B30.5, from memory): a viewer's stop counts.
     const viewerStop = await watcher.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
     expect(viewerStop).toMatchObject({ ok: true, event: { type: 'job.stopped', by: { role: 'viewer' } } });
