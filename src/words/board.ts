@@ -1,7 +1,18 @@
 import type { BoardState, HoldState, StageState } from '../../shared/board/types';
 import { valueCheckFieldLabels, type ValueCheckField } from '../../shared/schemas/plan';
 import type { BoardStatus } from '../../shared/board/status';
+import type { BoardView } from '../components/board/views';
 import type { Tone } from './common';
+
+/** Each view of the board in words, for the header's links. */
+export const boardViewLabels: Record<BoardView, string> = {
+  board: 'Whole board',
+  cab: 'Cab',
+  signaller: 'Signaller',
+  rigger: 'Rigger checklist',
+  console: 'Supervisor console',
+  display: 'Site display',
+};
 
 /** A state in words with its icon and colour family; the word always carries the meaning. */
 export interface StateWords {

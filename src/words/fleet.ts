@@ -1,4 +1,5 @@
 import { grouped, plain } from '../../shared/format';
+import type { Drum, SectionType, Sheave } from '../../shared/schemas/arrangement';
 import type { ComponentKind, ComponentStatus, InspectionResult } from '../../shared/schemas/fleet';
 
 /** A component's status in words, with the icon that goes with its colour. */
@@ -25,6 +26,14 @@ export const inspectionChecklist: Record<ComponentKind, string[]> = {
   hook_block: ['Sheaves turn freely and are not cracked', 'Hook latch works', 'Cracked welds', 'Corrosion', 'Pin hole wear'],
   rope: ['Broken wires', 'Kinks', 'Crushing', 'Bird-caging', 'Core protrusion', 'Heat damage', 'Loss of diameter'],
 };
+
+/** What each part of the arrangement data does, as the model's page lists it. */
+export const sectionRoleWords: Record<SectionType['role'], string> = { base: 'Base', insert: 'Insert', tip: 'Tip' };
+export const drumRoleWords: Record<Drum['role'], string> = { mainHoist: 'Main hoist', auxiliaryHoist: 'Auxiliary hoist', boomHoist: 'Boom hoist' };
+export const sheaveRoleWords: Record<Sheave['role'], string> = { load: 'Load', boomHoist: 'Boom hoist', idler: 'Idler' };
+
+/** Where an inspection photo is on its way to the server. */
+export const photoStateWords = { uploading: 'Uploading…', done: 'Uploaded', failed: 'Not uploaded' } as const;
 
 /** The weight of a part in tonnes to the nearest 0.1 t, for reading the fleet (no check uses it); the data keeps kilograms. */
 export function tonnes(weightKg: number): string {

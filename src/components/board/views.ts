@@ -3,16 +3,6 @@ import type { CrewRole, JobState } from '../../../shared/schemas/jobs';
 /** The routed views of a job's live board. */
 export type BoardView = 'board' | 'cab' | 'signaller' | 'rigger' | 'console' | 'display';
 
-/** Each view in words, for the header's links. */
-export const boardViewLabels: Record<BoardView, string> = {
-  board: 'Whole board',
-  cab: 'Cab',
-  signaller: 'Signaller',
-  rigger: 'Rigger checklist',
-  console: 'Supervisor console',
-  display: 'Site display',
-};
-
 /** Which view belongs to which role; the first role a person holds in this order wins. */
 const viewByRole: [CrewRole, BoardView][] = [
   ['supervisor', 'console'],
