@@ -4,13 +4,13 @@ import { applyEvent, replay, settle, stagesFromPlan } from '../../../shared/boar
 import type { BoardStage, BoardState } from '../../../shared/board/types.js';
 import type { Plan } from '../../../shared/schemas/plan.js';
 import { event, eventLog, JOB_ID, minutes, people, type TestData, type Who } from './events.js';
-import { smallPlan, testWindLimits } from './small-plan.js';
+import { smallPlan, testWindLimits } from './board-plan.js';
 
 /**
  * The board reducer on its own: what each event type does to the board, the seq guards, how
  * stages move forward (`settle`) and how a revision keeps or restarts progress (`stagesFromPlan`).
- * The readings compared here are held to invented plan figures (small-plan.ts); the comparison
- * itself has its own tests (tests/shared/board-readings.test.ts).
+ * The readings compared here are held to invented plan figures (board-plan.ts); the comparison
+ * itself has its own tests (readingOutOfLimit in the readings test file).
  */
 
 const crew: BoardState['crew'] = [

@@ -15,12 +15,12 @@ import {
 import type { BoardStage, BoardState } from '../../../shared/board/types.js';
 import type { Plan } from '../../../shared/schemas/plan.js';
 import { eventLog, minutes, people, T0, type TestData, type Who } from './events.js';
-import { planStep, smallPlan, testWindLimits } from './small-plan.js';
+import { planStep, smallPlan, testWindLimits } from './board-plan.js';
 
 /**
  * The board's pure rules (shared/board/rules.ts): the one wind rule, the wind phase, which stages
  * move the boom, step order and the retry after a failed value check. Boards are built by
- * replaying events of the small hand-written plan (small-plan.ts, invented limits: assembly gust
+ * replaying events of the small hand-written plan (board-plan.ts, invented limits: assembly gust
  * 16 / mean 11 m/s, raising gust 13 / mean 9 m/s), so the rules see boards as the reducer makes them.
  */
 
