@@ -83,24 +83,36 @@ export async function api<S extends z.ZodType | undefined = undefined>(
 }
 
 /**
- * Fetches a file (a PDF sheet, a CSV) with the session's token and hands it to the browser to
- * save as `fileName`. A plain link cannot carry the token, which lives in memory only.
+ * Fetches a file (a PDF sheet) with the session's token and saves it as `fileName`. A plain link
+ * cannot carry the token, which lives in memory only.
  */
 export async function download(path: string, fileName: string): Promise<void> {
-  const response = await fetchWithToken(path, { method: 'GET', headers: { Accept: '*/*' } });
-  if (!response.ok) {
-    const text = await response.text();
-    throw refusal(response, text ? safeJson(text) : undefined);
-  }
-  const url = URL.createObjectURL(await response.blob());
+  saveFile(await fetchBlob(path), fileName);
+}
+
+/**
+ * How long a saved file's object URL stays valid after the click. The click only asks the browser
+ * to start the download, which may read the Blob later: revoking on the next turn can cancel it.
+ * FileSaver.js (Eli Grey's saveAs, github.com/eligrey/FileSaver.js, its Blob branch) keeps the URL
+ * 40 s for the same reason.
+ */
+const SAVED_FILE_URL_LIFETIME_MS = 40_000;
+
+/** Hands a Blob the client already holds to the browser to save as `fileName`: the one way a file is saved. */
+export function saveFile(blob: Blob, fileName: string): void {
+  const url = URL.createObjectURL(blob);
   const link = document.createElement('a');
   link.href = url;
   link.download = fileName;
-  document.body.appendChild(link);
+  document.body.append(link);
   link.click();
   link.remove();
-  // Revoked on the next turn: the click has started the download by then.
-  setTimeout(() => URL.revokeObjectURL(url), 0);
+  setTimeout(() => URL.revokeObjectURL(url), SAVED_FILE_URL_LIFETIME_MS);
+}
+
+/** Words people typed (a fleet number, a job name) as part of a file name: letters, digits, dots and dashes, at most 80 characters. */
+export function fileNamePart(words: string, fallback: string): string {
+  return words.replace(/[^\w.-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || fallback;
 }
 
 /** Fetches a file (a photo thumbnail) with the session's token, for an object URL a screen can show. */

@@ -8,7 +8,7 @@ import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema
 import { jobEventListSchema, type JobEventDto, type JobEventType } from '../../shared/events/log';
 import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
-import { api, ApiRequestError, describeError, download } from '../services/api';
+import { api, ApiRequestError, describeError, download, fileNamePart } from '../services/api';
 import { useBoardStore } from './board';
 import { createBurstRunner } from './bursts';
 import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
@@ -316,7 +316,7 @@ export const useJobsStore = defineStore('jobs', () => {
 
   /** Saves the configuration sheet PDF; answers a sentence when it could not. */
   async function downloadConfigurationSheet(job: Pick<JobDto, 'id' | 'craneFleetNumber' | 'name'>): Promise<string> {
-    const safeName = `${job.craneFleetNumber} ${job.name}`.replace(/[^\w.-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'job';
+    const safeName = fileNamePart(`${job.craneFleetNumber} ${job.name}`, 'job');
     try {
       await download(`/jobs/${id(job.id)}/configuration.pdf`, `configuration-${safeName}.pdf`);
       return '';

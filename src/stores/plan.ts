@@ -21,7 +21,7 @@ import {
   setHoldRole,
   type HelperResult,
 } from '../../shared/plan/edit';
-import { api, ApiRequestError, describeError, download } from '../services/api';
+import { api, ApiRequestError, describeError, download, fileNamePart } from '../services/api';
 import type { JobEventDto, JobEventType } from '../../shared/events/log';
 import { useBoardStore } from './board';
 import { createBurstRunner } from './bursts';
@@ -258,7 +258,7 @@ export const usePlanStore = defineStore('plan', () => {
 
   /** Saves the printable plan (with the briefing) as a PDF; answers a sentence when it could not. */
   async function downloadPlanPdf(job: Pick<JobDto, 'id' | 'craneFleetNumber' | 'name'>, version: number): Promise<string> {
-    const safeName = `${job.craneFleetNumber} ${job.name}`.replace(/[^\w.-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 80) || 'job';
+    const safeName = fileNamePart(`${job.craneFleetNumber} ${job.name}`, 'job');
     try {
       await download(`/jobs/${idOf(job.id)}/plan.pdf`, `plan-${safeName}-${version > 0 ? `v${version}` : 'draft'}.pdf`);
       return '';
