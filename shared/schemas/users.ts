@@ -14,6 +14,15 @@ export const qualificationLabels: Record<Qualification, string> = {
   viewer: 'Viewer',
 };
 
+function isQualification(role: string): role is Qualification {
+  return (qualifications as readonly string[]).includes(role);
+}
+
+/** The role someone acted in, in words: a crew role, or an administrator acting on a job. */
+export function roleLabel(role: string): string {
+  return isQualification(role) ? qualificationLabels[role] : role === 'admin' ? 'Administrator' : role;
+}
+
 /** A person as the API presents them (never a hash or token). */
 export const userSchema = z.object({
   id: z.string(),

@@ -2,20 +2,20 @@ import { describe, expect, it, vi } from 'vitest';
 import { BoardFollower, STALE_AFTER_MS, type FollowerTransport } from '../../shared/board/follower.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import type { BoardSnapshot } from '../../shared/board/types.js';
-import type { JobEventDto } from '../../shared/events/log.js';
+import { parseJobEvent, type EventData, type JobEventDto, type JobEventType } from '../../shared/events/log.js';
 
 const jobId = '11111111-1111-4111-8111-111111111111';
 const by = { userId: 'u1', name: 'Supervisor', role: 'supervisor' };
 
-function event(seq: number, type: string, data: Record<string, unknown> = {}): JobEventDto {
-  return { jobId, seq, type, at: new Date(1_700_000_000_000 + seq * 1000).toISOString(), by, data };
+function event<T extends JobEventType>(seq: number, type: T, data: EventData<T>): JobEventDto {
+  return parseJobEvent({ jobId, seq, type, at: new Date(1_700_000_000_000 + seq * 1000).toISOString(), by, data });
 }
 
 /** A log of n events: creation, then renames. */
 function log(n: number): JobEventDto[] {
   return [
     event(1, 'job.created', { job: { name: 'Job', site: 'Site', kind: 'erection' }, craneFleetNumber: 'FL-1', crew: [] }),
-    ...Array.from({ length: n - 1 }, (_, i) => event(i + 2, 'job.updated', { changes: { name: `Name ${i + 2}` } })),
+    ...Array.from({ length: n - 1 }, (_, i) => event(i + 2, 'job.updated', { changes: { name: `Name ${i + 2}` }, planRegenerated: false })),
   ];
 }
 

@@ -3,7 +3,6 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { Configuration, Figure } from '../../shared/schemas/configuration';
 import type { JobDto } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
-import { eventSummary } from '../../src/components/jobs/words';
 import { fieldErrorOf } from '../../src/stores/form-errors';
 import { figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
 import { buildJob, JOB_ID, json, UNIT_ID } from './helpers';
@@ -175,13 +174,13 @@ describe('jobs store', () => {
 
   it('asks only for the events after the last one it holds', async () => {
     const jobs = useJobsStore();
-    const event = (seq: number, type = 'job.updated'): JobEventDto => ({
+    const event = (seq: number): JobEventDto => ({
       jobId: JOB_ID,
       seq,
-      type,
+      type: 'job.updated',
       at: '2026-10-01T07:00:00.000Z',
       by: { userId: SUPERVISOR_ID, name: 'Maren Holt', role: 'supervisor' },
-      data: { changes: { site: 'Pad 3' } },
+      data: { changes: { site: 'Pad 3' }, planRegenerated: false },
     });
     fetchMock.mockResolvedValueOnce(json(200, { items: [event(1), event(2)], lastSeq: 2 }));
     await jobs.loadEvents(JOB_ID);
@@ -189,24 +188,9 @@ describe('jobs store', () => {
     await jobs.loadEvents(JOB_ID);
     expect(fetchMock.mock.calls.map(([u]) => u)).toEqual([`/api/jobs/${JOB_ID}/events?after=0`, `/api/jobs/${JOB_ID}/events?after=2`]);
     expect(jobs.events[JOB_ID].map((e) => e.seq)).toEqual([1, 2, 3]);
-    expect(eventSummary(event(3))).toBe('Changed the site');
   });
 
-  it('words the events of the log in one line each', () => {
-    const crew = job({ crew: [{ userId: SUPERVISOR_ID, name: 'Maren Holt', role: 'supervisor' }] });
-    const base = { type: '', data: {} as Record<string, unknown> };
-    expect(eventSummary({ ...base, type: 'crew.set', data: { crew: [{ userId: 'u2', name: 'Ola Brandt', role: 'operator' }], added: [{ userId: 'u2', role: 'operator' }], removed: [{ userId: SUPERVISOR_ID, role: 'rigger' }] } }, crew)).toBe(
-      'Crew: added Ola Brandt as operator; removed Maren Holt as rigger',
-    );
-    expect(eventSummary({ ...base, type: 'configuration.set', data: { configuration: { boomLengthM: 18 }, figures: [{ status: 'fail' }, { status: 'pass' }], overridesWithdrawn: [] } })).toBe(
-      'Configuration saved: 18 m boom; 1 failing',
-    );
-    const twd = { boomLengthM: 60, ground: { allowablePressureKpa: 320, source: { kind: 'temporary_works_design', reference: 'TW-0042 rev C', designer: 'P. Marlow, Stanegate Temporary Works' } } };
-    expect(eventSummary({ ...base, type: 'configuration.set', data: { configuration: twd, figures: [], overridesWithdrawn: [] } })).toBe(
-      'Configuration saved: 60 m boom; 0 failing; ground 320 kPa from temporary-works design TW-0042 rev C by P. Marlow, Stanegate Temporary Works',
-    );
-    // A kind of event the screen does not know is still a sentence, never its internal name or fields.
-    expect(eventSummary({ ...base, type: 'board.somethingNew', data: { stageId: 's1' } })).toBe('Made a change this screen does not describe yet; it is kept in the record.');
+  it('finds the message of a field inside a list', () => {
     expect(fieldErrorOf({ 'siteHazards.powerLines.0.voltageKv': 'Enter a number' }, 'siteHazards.powerLines')).toBe('Enter a number');
   });
 });
