@@ -2,7 +2,6 @@ import bcrypt from 'bcryptjs';
 
 /** bcrypt work factor; 10 is the floor the product promises. */
 export const BCRYPT_COST = 10;
-export const MIN_PASSWORD_LENGTH = 10;
 
 /** Hashes a password with bcrypt. */
 export function hashPassword(password: string): Promise<string> {

@@ -5,8 +5,9 @@ import { CalcInputError, finiteResult, requireInRange, requireInteger, requireNo
 
 /**
  * Minimum breaking force factor K per rope class and core (EN 12385-4 / ISO 2408 factors, as
- * tabulated in a rope maker's published "calculation variables" table). Rotation-resistant ropes
- * have no preset here: use the breaking force certified for the rope, held in the crane data.
+ * tabulated in a rope maker's published "calculation variables" table; class 6x7 FC checked against
+ * API Spec 9A Table C.1). Rotation-resistant ropes have no preset here: use the breaking force
+ * certified for the rope, held in the crane data.
  */
 export const BREAKING_FORCE_FACTOR_K = {
   '6x7-FC': 0.332,
@@ -18,13 +19,6 @@ export const BREAKING_FORCE_FACTOR_K = {
   '8x36-FC': 0.293,
   '8x36-IWRC': 0.356,
 } as const satisfies Record<string, number>;
-
-/** A rope class with a K preset. */
-export type RopeClassWithK = keyof typeof BREAKING_FORCE_FACTOR_K;
-
-/** Where the K presets come from. */
-export const BREAKING_FORCE_FACTOR_SOURCE =
-  'ISO 2408 / EN 12385-4 breaking force factors K per rope class, checked against API Spec 9A Table C.1 (class 6x7 FC)';
 
 /** Minimum breaking force F = K·d²·R/1000 (kN from mm and N/mm²). */
 export function minimumBreakingForceKn(input: { diameterMm: number; gradeNpmm2: number; factorK: number }): {
@@ -95,7 +89,7 @@ export function designFactorCheck(input: { minimumBreakingForceKn: number; lineP
 /** Where the rope bends, which sets its minimum D/d. */
 export type BendingElement = 'drum' | 'boomHoistDrum' | 'loadSheave' | 'boomHoistSheave' | 'lowerBlockSheave';
 
-/** Minimum pitch-diameter-to-rope-diameter ratios. */
+/** Minimum pitch-diameter-to-rope-diameter ratios; each one's paragraph of ASME B30.5 is in D_OVER_D_BASIS. */
 export const D_OVER_D_MINIMUMS: Readonly<Record<BendingElement, number>> = {
   drum: 18,
   boomHoistDrum: 15,
@@ -103,10 +97,6 @@ export const D_OVER_D_MINIMUMS: Readonly<Record<BendingElement, number>> = {
   boomHoistSheave: 15,
   lowerBlockSheave: 16,
 };
-
-/** Where the D/d minimums are published. */
-export const D_OVER_D_SOURCE =
-  'ASME B30.5 §5-1.7.4: (a) boom hoisting sheaves 15d, (b) load hoisting sheaves 18d (every sheave the hoist rope runs over: tip, guide and idler sheaves), (c) lower load block sheaves 16d; ASME B30.5-2018 §5-1.3.1(a)(3): load hoist drum first layer 18d (wording as published; paragraph numbers from memory); boom hoist drum 15d (ASME B30.5 §5-1.3.2, from memory)';
 
 /** Each element in words, with the paragraph that sets its minimum. */
 const D_OVER_D_BASIS: Readonly<Record<BendingElement, { words: string; source: string }>> = {

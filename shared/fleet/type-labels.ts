@@ -24,16 +24,3 @@ export function componentTypeLabel(arrangement: ArrangementData, kind: Component
     }
   }
 }
-
-/** Every type a component of this kind may have in this model, for pickers. */
-export function componentTypeOptions(arrangement: ArrangementData, kind: ComponentKind): { typeId: string; label: string }[] {
-  const ids =
-    kind === 'section'
-      ? arrangement.sectionTypes.map((s) => s.id)
-      : kind === 'guy_line'
-        ? [...new Set(arrangement.arrangements.flatMap((a) => a.guyLines.map((g) => g.mark)))]
-        : kind === 'hook_block'
-          ? arrangement.hookBlocks.map((b) => b.id)
-          : arrangement.ropes.map((r) => r.id);
-  return ids.map((typeId) => ({ typeId, label: componentTypeLabel(arrangement, kind, typeId) ?? typeId }));
-}

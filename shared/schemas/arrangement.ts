@@ -363,8 +363,6 @@ export const arrangementDataSchema = z.preprocess(upgradeArrangementData, arrang
 
 /** A section type. */
 export type SectionType = z.infer<typeof sectionTypeSchema>;
-/** One guy-line entry of a set. */
-export type GuyLine = z.infer<typeof guyLineSchema>;
 /** A gust and mean wind limit. */
 export type WindLimit = z.infer<typeof windLimitSchema>;
 /** The arrangement for one boom length. */
@@ -379,10 +377,6 @@ export type Rope = z.infer<typeof ropeSchema>;
 export type Drum = z.infer<typeof drumSchema>;
 /** A sheave. */
 export type Sheave = z.infer<typeof sheaveSchema>;
-/** Crawler tracks. */
-export type Tracks = z.infer<typeof tracksSchema>;
-/** Machine weights and centres of gravity. */
-export type Machine = z.infer<typeof machineSchema>;
 /** The whole arrangement data of a crane model. */
 export type ArrangementData = z.infer<typeof arrangementDataSchema>;
 
@@ -413,8 +407,6 @@ export const assistCraneSchema = z.object({
   charts: z.array(assistChartSchema).min(1),
 });
 
-/** One radius/capacity point. */
-export type AssistChartPoint = z.infer<typeof assistChartPointSchema>;
 /** One configuration's chart. */
 export type AssistChart = z.infer<typeof assistChartSchema>;
 /** An assist crane with its charts. */

@@ -8,7 +8,6 @@ export const loginRequestSchema = z.object({
   email: z.string().trim().min(1, 'Enter your e-mail').max(254).pipe(z.email('Enter a valid e-mail')),
   password: z.string().min(1, 'Enter your password').max(200),
 });
-export type LoginRequest = z.infer<typeof loginRequestSchema>;
 
 /** Answer of sign-in, refresh and set-password: a short-lived access token. */
 export const sessionSchema = z.object({
@@ -45,4 +44,3 @@ export const linkInfoSchema = z.object({
 });
 export type LinkInfo = z.infer<typeof linkInfoSchema>;
 
-export const meSchema = z.object({ user: userSchema });

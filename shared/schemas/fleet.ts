@@ -194,7 +194,6 @@ export const craneModelEnvelopeSchema = z.object({ model: craneModelSchema });
 export const craneUnitEnvelopeSchema = z.object({ unit: craneUnitSchema });
 export const assistCraneEnvelopeSchema = z.object({ assistCrane: assistCraneUnitSchema });
 export const componentEnvelopeSchema = z.object({ component: componentSchema });
-export const inspectionListSchema = z.object({ items: z.array(inspectionSchema) });
 export const inspectionCreatedSchema = z.object({ inspection: inspectionSchema, component: componentSchema });
 /** Query of GET /api/crane-units/:id/boom-makeup. */
 export const boomMakeupQuerySchema = z.object({ lengthM: z.coerce.number().positive().max(500) });

@@ -39,7 +39,3 @@ export function disconnectSocket(): void {
   socket?.disconnect();
   socket = null;
 }
-
-export function currentSocket(): HoldlineSocket | null {
-  return socket;
-}

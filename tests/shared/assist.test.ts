@@ -5,7 +5,8 @@
 import { evaluate } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { assistLiftCheck, chartCapacityKn, padPressure, tandemRadiusM, tandemRaise, tipReactionKn } from '../../shared/calc';
-import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import type { InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import { demoAssistCrane, demoCrane, expectCalcError, relErr, demoKit } from './helpers';

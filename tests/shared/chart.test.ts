@@ -6,7 +6,8 @@
 import { evaluate } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { chartBand, chartShare, limitShare, percentUp, readChart } from '../../shared/calc';
-import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import { demoAssistCrane, demoCrane, expectCalcError, demoKit } from './helpers';

@@ -2,7 +2,8 @@
 // the longest boom needs, a communications plan, and the plan generated for a configuration.
 import type { z } from 'zod';
 import { generatePlan } from '../../shared/plan';
-import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration } from '../../shared/schemas/configuration';
 import type { CommsPlan } from '../../shared/schemas/jobs';

@@ -5,7 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import type { z } from 'zod';
 import { activeStages, generatePlan, holdsNeedPeople, OPERATING_MODE_EXPECTED, planProblems } from '../../shared/plan';
-import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, type Configuration } from '../../shared/schemas/configuration';
 import type { CommsPlan, CrewRole } from '../../shared/schemas/jobs';

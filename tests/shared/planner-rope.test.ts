@@ -4,7 +4,8 @@
 // published form they follow; the crane data is the invented demo model.
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { computeConfiguration, type ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import { overrideReason } from '../../shared/planner/overrides';
 import type { ArrangementData, InventoryItem } from '../../shared/schemas/arrangement';
 import { arrangementDataSchema } from '../../shared/schemas/arrangement';

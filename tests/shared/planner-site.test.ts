@@ -2,8 +2,8 @@
 // crane data lacks a dimension, and what the wind limits say beside them. Distances per 29 CFR
 // 1926.1407-1409 (from memory); the reach geometry and allowances are common practice, no source.
 import { describe, expect, it } from 'vitest';
-import { computeConfiguration } from '../../shared/planner';
-import type { ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import { configurationSchema, type Figure } from '../../shared/schemas/configuration';
 import { demoAssistCrane, demoCrane } from './helpers';
 

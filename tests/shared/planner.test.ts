@@ -3,8 +3,8 @@
 // inventory is a full demo kit built below (the same kit the demo seed gives unit FL-07).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { computeConfiguration } from '../../shared/planner';
-import type { ConfigurationResults } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
+import type { ConfigurationResults } from '../../shared/planner/types';
 import type { InventoryItem } from '../../shared/schemas/arrangement';
 import { configurationSchema, figureSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import { allNumbers, demoAssistCrane, demoCrane, relErr } from './helpers';

@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import * as calc from '../../shared/calc';
 import { CalcInputError } from '../../shared/calc';
 import type { z } from 'zod';
-import { computeConfiguration } from '../../shared/planner';
+import { computeConfiguration } from '../../shared/planner/compute';
 import { configurationSchema } from '../../shared/schemas/configuration';
 import type { InventoryItem } from '../../shared/schemas/arrangement';
 import { allNumbers, demoAssistCrane, demoCrane } from './helpers';
