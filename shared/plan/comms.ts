@@ -22,7 +22,7 @@ function personLabel(userId: string, comms: CommsPlan, names: Record<string, str
 }
 
 /** The motions this job has: the assist crane and auxiliary hoist only when planned. */
-export function motionsFor(cfg: Configuration): Motion[] {
+function motionsFor(cfg: Configuration): Motion[] {
   return allMotions.filter((m) => {
     if (m === 'auxiliary hoist') return cfg.auxiliary.enabled;
     if (m === 'assist crane') return cfg.assist.assistCraneId !== null || cfg.assist.lifts.length > 0;

@@ -17,7 +17,7 @@ import { fmt, plain } from '../format.js';
 import type { AssistLiftResultRow, PlannerInputs, TandemStepRow } from './types.js';
 
 /** Said with every step of a tandem raise (common practice, no source). */
-export const TANDEM_CAUTION =
+const TANDEM_CAUTION =
   'TANDEM LIFT: two cranes carry the boom. One person directs both cranes; both charts and both limiters govern; the assist crane’s hoist line stays vertical over the tip (a side pull is outside every chart); the share assumes the main crane’s boom hoist carries nothing — if the procedure shares the tip differently, the manufacturer’s raising procedure governs';
 
 const onHook = (l: { hookBlockT: number; slingsT: number; shacklesT: number; deductionsT: number }) =>

@@ -39,7 +39,7 @@ export function tipHangings(config: Configuration, inputs: PlannerInputs, hookBl
  * a foot height the data lacks taken at the most the data format allows), so the rope is never
  * understated. Charts differ on whether this rope counts: counting it is the safe side.
  */
-export function ropeBelowTip(config: Configuration, inputs: PlannerInputs): { items: Hanging[]; note: string } {
+function ropeBelowTip(config: Configuration, inputs: PlannerInputs): { items: Hanging[]; note: string } {
   const { arrangement } = inputs;
   const ahead = Math.max(0, arrangement.machine.boomFoot?.aheadOfSlewCentreM ?? 0);
   const footHeightM = arrangement.machine.boomFoot?.heightM ?? ROPE_RUN_ASSUMED_WHEN_MISSING.footPinHeightM;

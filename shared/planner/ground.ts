@@ -15,7 +15,7 @@ import { fmt, fmtUp, plain } from '../format.js';
 import type { LoadCaseResult, PlannerInputs } from './types.js';
 
 /** One weight in the moments: its name, its weight and its horizontal arm from the slewing centre (positive towards the boom). */
-export interface GroundWeight {
+interface GroundWeight {
   label: string;
   weightKn: number;
   armM: number;

@@ -5,7 +5,7 @@
  * configuration must change, or, for ground, mats or a temporary-works design must raise the
  * allowable pressure. An override still needs a reason and a second person's approval.
  */
-export const OVERRIDABLE_FIGURES: readonly { key: RegExp; why: string }[] = [
+const OVERRIDABLE_FIGURES: readonly { key: RegExp; why: string }[] = [
   {
     key: /^chart\.lift$/,
     why: 'Within the chart but above the site’s caution share: whether such a lift goes ahead, and under what extra controls (a critical-lift plan), is the lift planner’s judgement. Above 100 % of the chart is never allowed.',

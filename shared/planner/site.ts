@@ -9,22 +9,22 @@ import type { PlannerInputs, PowerLineResult } from './types.js';
  * Taken for the boom foot's offset ahead of the slewing centre when the crane data does not give
  * it: more than the foot sits ahead on the crawler cranes we know of (common practice, no source).
  */
-export const BOOM_FOOT_ALLOWANCE_M = 3;
+const BOOM_FOOT_ALLOWANCE_M = 3;
 
 /**
  * Taken for the auxiliary sheave's reach beyond the main tip when the crane data does not give it
  * (common practice, no source; twice the 1.5 m this used to assume).
  */
-export const AUX_SHEAVE_ALLOWANCE_M = 3;
+const AUX_SHEAVE_ALLOWANCE_M = 3;
 
 /**
  * Added to the assist crane's boom length for its boom foot and head: its data gives neither
  * (common practice, no source).
  */
-export const ASSIST_FOOT_AND_HEAD_ALLOWANCE_M = 2;
+const ASSIST_FOOT_AND_HEAD_ALLOWANCE_M = 2;
 
 /** Local rules may ask for more; said beside every power-line figure. */
-export const LOCAL_RULES_CAUTION =
+const LOCAL_RULES_CAUTION =
   'Local rules may differ and may ask for more (for example in the UK, HSE GS6 exclusion zones with ground-level barriers and goalposts): the stricter rule applies.';
 
 const GEOMETRY_RULE =
