@@ -50,7 +50,7 @@ const fake = vi.hoisted(() => {
   };
 });
 
-vi.mock('../../src/services/socket', () => ({ connectSocket: () => fake.socket, currentSocket: () => fake.socket }));
+vi.mock('../../src/services/socket', () => ({ connectSocket: () => fake.socket }));
 
 const by = { userId: 'u-sup', name: 'Maren Holt', role: 'supervisor' };
 
