@@ -33,6 +33,7 @@ describe('fleet screens', () => {
   let supervisor: SignedInUser;
   let rigger: SignedInUser;
   let unitId: string;
+  let modelId: string;
   const serials = new Map<string, string>();
 
   beforeAll(async () => {
@@ -44,7 +45,7 @@ describe('fleet screens', () => {
     const auth = { Authorization: `Bearer ${supervisor.token}` };
     const arrangement = JSON.parse(readFileSync(new URL('../../server/demo/data/crane-model.json', import.meta.url), 'utf8')) as unknown;
     const imported = await request(server.app).post('/api/crane-models/import').set(auth).send(arrangement as object).expect(201);
-    const modelId = imported.body.model.id as string;
+    modelId = imported.body.model.id as string;
     const unit = await request(server.app).post('/api/crane-units').set(auth).send({ fleetNumber: 'TX-04', modelId, location: 'East laydown' }).expect(201);
     unitId = unit.body.unit.id as string;
     const parts: [string, string][] = [
@@ -170,6 +171,23 @@ describe('fleet screens', () => {
     expect(await page.getByText('Cannot be built from the parts at hand.').isVisible()).toBe(true);
     expect(await page.locator('.reasons').textContent()).toContain('TX-INS12-02');
     await screenshot(page, 'fleet-unit-tablet');
+    await page.context().close();
+  });
+
+  it('saves the model’s arrangement file as JSON named for its id', async () => {
+    const raw = JSON.parse(readFileSync(new URL('../../server/demo/data/crane-model.json', import.meta.url), 'utf8')) as { id: string; sectionTypes: unknown[] };
+    const page = await signIn(chromium.browser, server.url, viewports.desktop, supervisor.user.email, `/fleet/models/${modelId}`);
+    const button = page.getByRole('button', { name: 'Download arrangement file' });
+    await expect.poll(() => button.isVisible()).toBe(true);
+    const downloading = page.waitForEvent('download');
+    await button.click();
+    const download = await downloading;
+    expect(download.suggestedFilename()).toBe(`${raw.id}.json`);
+    const saved = await download.path();
+    const file = JSON.parse(readFileSync(saved, 'utf8')) as { id: string; sectionTypes: unknown[] };
+    expect(file.id).toBe(raw.id);
+    expect(file.sectionTypes).toHaveLength(raw.sectionTypes.length);
+    expect(await page.getByRole('alert').count()).toBe(0);
     await page.context().close();
   });
 });
