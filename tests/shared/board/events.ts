@@ -31,7 +31,7 @@ interface Neutral {
 }
 type NeutralKeys<T extends JobEventType> = T extends keyof Neutral ? Neutral[T] & keyof EventData<T> : never;
 /** What a test gives for an event of type T. */
-export type TestData<T extends JobEventType> = Omit<EventData<T>, NeutralKeys<T> | 'effects'> & Partial<Pick<EventData<T>, Extract<NeutralKeys<T>, keyof EventData<T>>>>;
+export type TestData<T extends JobEventType> = Omit<EventData<T>, NeutralKeys<T>> & Partial<Pick<EventData<T>, Extract<NeutralKeys<T>, keyof EventData<T>>>>;
 
 const neutral: { [T in keyof Neutral]: Record<Neutral[T], unknown> } = {
   'job.updated': { planRegenerated: false },
