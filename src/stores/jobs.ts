@@ -204,8 +204,10 @@ export const useJobsStore = defineStore('jobs', () => {
         held = [...held, ...page.items.filter((e) => e.seq > after)];
         if (page.items.length === 0 || held[held.length - 1].seq >= page.lastSeq) break;
       }
-      events[jobId] = held;
-      return held;
+      // A live event may have been appended while the pages were loading: it stays.
+      const last = held.length ? held[held.length - 1].seq : 0;
+      events[jobId] = [...held, ...(events[jobId] ?? []).filter((e) => e.seq > last)];
+      return events[jobId];
     });
   }
 

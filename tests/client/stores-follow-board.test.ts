@@ -157,6 +157,24 @@ describe('stores that follow the open board', () => {
     expect(jobs.details[JOB_ID].distribution).toEqual(['office@hire.test']);
   });
 
+  it('adds a live event to the shown event log, and keeps it when a page that was already on its way arrives', async () => {
+    const jobs = useJobsStore();
+    const briefed: JobEventDto = { jobId: JOB_ID, seq: 5, type: 'briefing.acknowledged', at: at(5), by, data: { planVersion: 1 } };
+    fetchMock.mockResolvedValueOnce(json(200, { items: [briefed], lastSeq: 5 }));
+    await jobs.loadEvents(JOB_ID);
+    await useBoardStore().open(JOB_ID);
+
+    let answer: (response: Response) => void = () => undefined;
+    fetchMock.mockReturnValueOnce(new Promise<Response>((resolve) => (answer = resolve)));
+    const loading = jobs.loadEvents(JOB_ID);
+    fake.deliver('board:event', started(6));
+    expect(jobs.events[JOB_ID].map((e) => e.seq)).toEqual([5, 6]);
+    // The page was asked for before event 6 was committed.
+    answer(json(200, { items: [], lastSeq: 5 }));
+    await loading;
+    expect(jobs.events[JOB_ID].map((e) => e.seq)).toEqual([5, 6]);
+  });
+
   it('reads the shown plan back once after a revision on the board', async () => {
     const planStore = usePlanStore();
     const envelope = (version: number) => ({ version, locked: true, stale: false, plan: plan(), problems: [] });
