@@ -212,6 +212,8 @@ describe('each event type', () => {
     expect(stageOf(job.state, 'ground').hold?.acknowledgments).toHaveLength(1);
   });
 
+  // Three failures before the lock is the board's own rule (CHECK_FAILURES_BEFORE_REVIEW): common
+  // practice, no source.
   it('hold.check.failed counts failures and locks the hold at the third; hold.check.reviewed clears the count and the lock but keeps every failure for the record', () => {
     const job = liveJob();
     const fail = (n: number) => job.apply('hold.check.failed', { stageId: 'ground', holdId: 'ground.hold', role: 'operator', fields: ['parts'] }, { by: people.otto, at: minutes(20 + n) });
