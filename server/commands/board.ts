@@ -20,6 +20,7 @@ import { authorizeBoardCommand } from '../policies/index.js';
 import { redactPlan } from '../presenters/plan.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { referencePlan, withFreshBriefing } from '../queries/plans.js';
+import { recordAsBuilt } from './as-built.js';
 import { recordInspection } from './fleet.js';
 import type { EventData, EventDraft } from '../../shared/events/log.js';
 import { runJobCommand, type CommandOutcome } from './job-writer.js';
@@ -43,6 +44,9 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
     const roles = authorizeBoardCommand(actor, command.type, await crewRolesOf(manager, job.id, actor.id));
     const board = job.board;
     if (!board) throw invalidState('This job has no board yet.');
+    if (board.job.state === 'complete' || board.job.state === 'cancelled') {
+      throw refuse(409, 'job_closed', `The job is ${board.job.state}: its board is read-only and its record is closed. Stop any movement by radio and signal.`);
+    }
     if (board.job.state === 'stopped' && !commandsWhileStopped.has(command.type)) {
       throw refuse(409, 'job_stopped', 'The job is stopped. Only the supervisor’s resume (after a fresh weather reading), stop notes, weather readings and defect reports are accepted.');
     }
@@ -127,6 +131,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
 
   async 'job.complete'({ board }) {
     requireLive(board, 'complete the job');
+    const signOff = board.stages.find((s) => s.hold?.signOff);
+    if (signOff) throw invalidState(`This plan ends with “${signOff.hold!.title}”: the job completes when that hold is released.`);
     const open = board.stages.filter((s) => s.state !== 'done' && s.state !== 'skipped');
     if (open.length) throw invalidState(`${open.length} stage${open.length > 1 ? 's are' : ' is'} not finished: ${open.map((s) => s.title).join('; ')}.`);
     return { type: 'job.completed', role: 'supervisor', data: {} };
@@ -194,16 +200,24 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     notBlocked(stage);
     const hold = stage.hold!;
     if (!roles.includes(c.role)) throw refuse(403, 'role_not_allowed', `You are not a ${c.role} on this job.`);
-    if (!hold.requiredRoles.includes(c.role)) throw refuse(403, 'role_not_allowed', `This hold is acknowledged by: ${hold.requiredRoles.join(', ')}.`);
+    if (c.asInspector) {
+      if (!hold.signOff) throw invalidState(`“${hold.title}” is not the job’s final sign-off; it has no inspection to acknowledge.`);
+      if (!actor.canInspect) {
+        throw refuse(403, 'not_inspector', 'Only a person the administrator marks as qualified to inspect cranes can acknowledge the inspection. Ask the administrator, or the inspector on site.');
+      }
+    } else if (!hold.requiredRoles.includes(c.role)) {
+      throw refuse(403, 'role_not_allowed', `This hold is acknowledged by: ${hold.requiredRoles.join(', ')}${hold.signOff ? ', and a qualified inspector' : ''}.`);
+    }
     if (!board.briefed.some((b) => b.userId === actor.id && b.planVersion === board.planVersion)) {
       throw refuse(409, 'briefing_required', `Acknowledge the briefing for plan version ${board.planVersion} first.`);
     }
     if (hold.state === 'waiting') throw invalidState(`“${hold.title}” is not open yet: the steps of “${stage.title}” are not all done.`);
     if (hold.state !== 'open') throw invalidState(`“${hold.title}” is already ${hold.state}.`);
+    const slot = c.asInspector ? 'the inspector' : c.role;
     const mine = hold.acknowledgments.find((a) => a.userId === actor.id);
-    if (mine) throw refuse(409, 'one_person_two_roles', `You have already acknowledged this hold as ${mine.role}; another person must acknowledge as ${c.role}.`);
-    const taken = hold.acknowledgments.find((a) => a.role === c.role);
-    if (taken) throw invalidState(`${taken.name} has already acknowledged as ${c.role}.`);
+    if (mine) throw refuse(409, 'one_person_two_roles', `You have already acknowledged this hold as ${mine.inspector ? 'the inspector' : mine.role}; another person must acknowledge as ${slot}.`);
+    const taken = hold.acknowledgments.find((a) => (c.asInspector ? a.inspector : !a.inspector && a.role === c.role));
+    if (taken) throw invalidState(`${taken.name} has already acknowledged as ${slot}.`);
     if (hold.valueCheck) {
       if (hold.checkLocked) {
         throw refuse(409, 'check_locked', `“${hold.title}” is locked after ${hold.failuresSinceReview} failed checks. The supervisor must review them with the crew before anyone checks again.`);
@@ -234,7 +248,11 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       }
     }
     if (c.photoId) await attachUploads(manager, [c.photoId], 'hold', job.id, actor.id, 'photoId');
-    return { type: 'hold.acknowledged', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role, photoId: c.photoId ?? null, values: c.values ?? null } };
+    return {
+      type: 'hold.acknowledged',
+      role: c.role,
+      data: { stageId: stage.id, holdId: hold.id, role: c.role, photoId: c.photoId ?? null, values: c.values ?? null, ...(c.asInspector ? { inspector: true } : {}) },
+    };
   },
 
   async 'hold.withdraw'({ board, actor }, c) {
@@ -246,18 +264,23 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'hold.withdrawn', role: c.role, data: { stageId: stage.id, holdId: hold.id, role: c.role } };
   },
 
-  async 'hold.release'({ board, actor, now }, c) {
+  async 'hold.release'({ manager, job, board, actor, now }, c) {
     requireLive(board, 'release holds');
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
     const hold = stage.hold!;
     if (hold.state !== 'acknowledged') {
-      const missing = hold.requiredRoles.filter((r) => !hold.acknowledgments.some((a) => a.role === r));
+      const missing: string[] = hold.requiredRoles.filter((r) => !hold.acknowledgments.some((a) => !a.inspector && a.role === r));
+      if (hold.signOff && !hold.acknowledgments.some((a) => a.inspector)) missing.push('a qualified inspector');
       throw invalidState(hold.state === 'open' ? `“${hold.title}” still needs: ${missing.join(', ')}.` : `“${hold.title}” is ${hold.state}; it cannot be released now.`);
     }
-    // A hold meant for two people is not passed by one: whoever acknowledged under another role does not release.
-    const mine = hold.acknowledgments.find((a) => a.userId === actor.id && a.role !== 'supervisor');
-    if (mine) throw refuse(409, 'one_person_two_roles', `You acknowledged “${hold.title}” as ${mine.role}; another supervisor must release it.`);
+    // A hold meant for two people is not passed by one: whoever acknowledged under another role, or as the inspector, does not release.
+    const mine = hold.acknowledgments.find((a) => a.userId === actor.id && (a.role !== 'supervisor' || a.inspector));
+    if (mine) throw refuse(409, 'one_person_two_roles', `You acknowledged “${hold.title}” as ${mine.inspector ? 'the inspector' : mine.role}; another supervisor must release it.`);
+    if (hold.signOff) {
+      const open = board.stages.filter((s) => s.id !== stage.id && s.state !== 'done' && s.state !== 'skipped');
+      if (open.length) throw invalidState(`The job cannot be signed off while ${open.length === 1 ? 'a stage is' : `${open.length} stages are`} not finished: ${open.map((s) => `“${s.title}”`).join(', ')}.`);
+    }
     const blocking = readingsBlockingRelease(board, stage.id);
     if (blocking.length) {
       throw refuse(
@@ -272,6 +295,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       );
     }
     if (holdGatesBoomMovement(board, stage.id)) requireRaisingWeather(board, now, `Releasing “${hold.title}” lets the boom move`);
+    // The sign-off completes the job: the crane unit now stands as it was built, in the same transaction.
+    if (hold.signOff) await recordAsBuilt(manager, job, board, now);
     return { type: 'hold.released', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id } };
   },
 

@@ -15,6 +15,7 @@ export interface NewUser {
   displayName: string;
   qualifications: Qualification[];
   isAdmin?: boolean;
+  canInspect?: boolean;
   password?: string;
 }
 
@@ -32,6 +33,7 @@ export async function createUser(manager: EntityManager, input: NewUser): Promis
     qualifications: [...new Set(input.qualifications)],
     isAdmin: input.isAdmin ?? false,
     active: true,
+    canInspect: input.canInspect ?? false,
     createdAt: now,
     updatedAt: now,
   });
@@ -100,6 +102,7 @@ export async function updateUser(context: AppContext, userId: string, changes: U
     if (changes.qualifications !== undefined) found.qualifications = [...new Set(changes.qualifications)];
     if (changes.isAdmin !== undefined) found.isAdmin = changes.isAdmin;
     if (changes.active !== undefined) found.active = changes.active;
+    if (changes.canInspect !== undefined) found.canInspect = changes.canInspect;
     found.updatedAt = now.toISOString();
     await manager.save(found);
     if (wasActive && !found.active) {

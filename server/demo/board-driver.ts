@@ -27,6 +27,8 @@ export class DemoBoardDriver {
     private readonly context: AppContext,
     private readonly jobId: string,
     private readonly crew: Partial<Record<CrewRole, User>>,
+    /** Who signs off the job's final inspection, in which of their crew roles. */
+    private readonly inspector: { who: User; role: CrewRole } | null = null,
   ) {}
 
   async send(who: User, command: DistributiveOmit<BoardCommand, 'commandId'>): Promise<void> {
@@ -104,6 +106,10 @@ export class DemoBoardDriver {
       const who = this.crew[role]!;
       const extra = hold.valueCheck ? { values: Object.fromEntries(expected.map((f) => [f.field, f.expected])) as Record<ValueCheckField, string>, photoId: await this.photo(who, 'Controller screen') } : {};
       await this.send(who, { type: 'hold.acknowledge', holdId: hold.id, role, ...extra });
+    }
+    if (hold.signOff && !roles) {
+      if (!this.inspector) throw new Error(`demo: ${stageId} needs an inspector`);
+      await this.send(this.inspector.who, { type: 'hold.acknowledge', holdId: hold.id, role: this.inspector.role, asInspector: true });
     }
   }
 

@@ -117,7 +117,7 @@ function pastContext(context: AppContext, start: Date, stepMs: number): AppConte
 
 /**
  * The invented jobs, all made by running the real commands:
- * - a 21 m trial erection on FL-12 at the depot, run to completion three days ago;
+ * - a 21 m trial erection on FL-12 at the depot, signed off and complete three days ago;
  * - the 60 m erection on FL-07 for the transformer lift, live, at the guy-line tensioning hold,
  *   acknowledged by the operator and waiting for the signaller;
  * - the dismantling of FL-07 after the lift, being planned.
@@ -150,14 +150,14 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   });
   await makeReady(past, p.supervisor, trialId);
   const trialCrew = { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger };
-  const trialDriver = new DemoBoardDriver(past, trialId, trialCrew);
+  const trialDriver = new DemoBoardDriver(past, trialId, trialCrew, { who: p.rigger2, role: 'rigger' });
   await trialDriver.send(p.supervisor, { type: 'job.start' });
   for (const who of [p.supervisor, p.operator, p.signaller, p.rigger, p.rigger2]) await trialDriver.send(who, { type: 'briefing.acknowledge' });
   await trialDriver.send(p.rigger, { type: 'weather.record', meanMs: 4, gustMs: 7, heightM: 10 });
   // The rigger reads the wind again before the boom leaves the ground (a raise needs a fresh reading).
   trialDriver.weatherBy(p.rigger, { meanMs: 4.2, gustMs: 6.8, heightM: 10 });
+  // Through to the post-assembly inspection, signed off by the rigger qualified to inspect: its release completes the job.
   await trialDriver.runUntil();
-  await trialDriver.send(p.supervisor, { type: 'job.complete' });
 
   // The live erection for the transformer lift, started this morning.
   const morning = pastContext(context, new Date(context.now().getTime() - 4 * 3_600_000), 40_000);

@@ -1,4 +1,5 @@
 import { Column, Entity, PrimaryColumn } from 'typeorm';
+import type { AsBuilt } from '../../shared/schemas/fleet.js';
 
 /** A physical crane, known on site by its fleet number. */
 @Entity('crane_unit')
@@ -20,6 +21,9 @@ export class CraneUnit {
 
   @Column('text')
   notes!: string;
+
+  @Column('simple-json', { name: 'as_built', nullable: true })
+  asBuilt!: AsBuilt | null;
 
   @Column('varchar', { length: 30, name: 'created_at' })
   createdAt!: string;

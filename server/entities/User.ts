@@ -27,6 +27,10 @@ export class User {
   @Column('boolean', { default: true })
   active!: boolean;
 
+  /** The admin marks this person as qualified to inspect an assembled crane (the job's final sign-off). */
+  @Column('boolean', { name: 'can_inspect', default: false })
+  canInspect!: boolean;
+
   @Column('varchar', { length: 30, name: 'created_at' })
   createdAt!: string;
 

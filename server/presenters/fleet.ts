@@ -40,6 +40,7 @@ export function presentCraneUnit(unit: CraneUnit, model: CraneModel, counts: Rec
     location: unit.location,
     notes: unit.notes,
     componentCounts: counts,
+    asBuilt: unit.asBuilt,
     createdAt: unit.createdAt,
     updatedAt: unit.updatedAt,
   };

@@ -10,6 +10,7 @@ export function presentUser(user: User): UserDto {
     qualifications: user.qualifications,
     isAdmin: user.isAdmin,
     active: user.active,
+    canInspect: user.canInspect,
     hasPassword: user.passwordHash !== null,
     createdAt: user.createdAt,
   };

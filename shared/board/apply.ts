@@ -72,8 +72,8 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
     }
     case 'hold.acknowledged': {
       const hold = holdOf(next, event.data.stageId);
-      hold.acknowledgments.push({ role: event.data.role, userId: by.userId, name: by.name, at: by.at });
-      if (hold.requiredRoles.every((r) => hold.acknowledgments.some((a) => a.role === r))) hold.state = 'acknowledged';
+      hold.acknowledgments.push({ role: event.data.role, userId: by.userId, name: by.name, at: by.at, ...(event.data.inspector ? { inspector: true } : {}) });
+      if (holdFullyAcknowledged(hold)) hold.state = 'acknowledged';
       break;
     }
     case 'hold.withdrawn': {
@@ -103,6 +103,8 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       hold.state = 'released';
       hold.releasedBy = by;
       stage.state = 'done';
+      // The final sign-off ends the job: its board is read-only from here on.
+      if (hold.signOff) next.job.state = 'complete';
       settle(next);
       break;
     }
@@ -244,6 +246,7 @@ export function stagesFromPlan(plan: Plan, previous: readonly BoardStage[], wind
             mandatory: stage.hold.mandatory,
             requiredRoles: stage.hold.requiredRoles,
             valueCheck: stage.hold.valueCheck ? { fields: stage.hold.valueCheck.fields.map((f) => f.field) } : null,
+            ...(stage.hold.signOff ? { signOff: true } : {}),
             acknowledgments: finished && old.hold ? old.hold.acknowledgments : [],
             releasedBy: finished && old.hold ? old.hold.releasedBy : null,
             checkFailures: sameHold?.checkFailures ?? [],
@@ -287,6 +290,12 @@ export function settle(state: BoardState): void {
       }
     }
   }
+}
+
+/** Every required role has acknowledged (each slot by another person), and a sign-off's inspector too. */
+export function holdFullyAcknowledged(hold: BoardHold): boolean {
+  const roles = hold.acknowledgments.filter((a) => !a.inspector);
+  return hold.requiredRoles.every((r) => roles.some((a) => a.role === r)) && (!hold.signOff || hold.acknowledgments.some((a) => a.inspector));
 }
 
 /** The stage with this id; throws when the board has none (a bug, not a user error). */

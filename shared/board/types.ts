@@ -73,7 +73,8 @@ export interface BoardHold {
   requiredRoles: CrewRole[];
   /** The fields a value check asks for; the expected values never reach the board. */
   valueCheck: { fields: ValueCheckField[] } | null;
-  acknowledgments: { role: CrewRole; userId: string; name: string; at: string }[];
+  /** `inspector`: the qualified inspector's acknowledgment of the final sign-off. */
+  acknowledgments: { role: CrewRole; userId: string; name: string; at: string; inspector?: boolean }[];
   releasedBy: Actor | null;
   /** Every failed value check on this hold, kept for the record (never the values). */
   checkFailures: CheckFailure[];
@@ -83,6 +84,8 @@ export interface BoardHold {
   checkLocked: boolean;
   /** The supervisor's last review of the failed checks. */
   lastReview: { userId: string; name: string; at: string; note: string } | null;
+  /** The job's final sign-off: a qualified inspector acknowledges too, and its release completes the job. */
+  signOff?: boolean;
 }
 
 export interface BoardStage {

@@ -70,6 +70,8 @@ export const eventDataSchemas = {
       site: z.string().optional(),
       kind: jobKindSchema.optional(),
       distribution: z.array(z.string()).optional(),
+      /** since 2026-12-03 */
+      holdReminderMinutes: z.number().int().optional(),
       commsPlan: carried<CommsPlan>().optional(),
     }),
     planRegenerated: z.boolean(),
@@ -114,6 +116,8 @@ export const eventDataSchemas = {
     photoId: z.string().nullable(),
     /** What a value check typed; null on the copy people who do not plan the job receive. */
     values: z.partialRecord(valueCheckFieldSchema, z.string()).nullable(),
+    /** since 2026-12-03: acknowledged the final sign-off as the qualified inspector. */
+    inspector: z.boolean().optional(),
   }),
   'hold.withdrawn': data({ ...stageHold, role: crewRoleSchema }),
   'hold.released': data(stageHold),

@@ -136,6 +136,7 @@ export class StageDraft {
           releasingRole: 'supervisor',
           mandatory: h.mandatory,
           valueCheck,
+          ...(h.signOff ? { signOff: true } : {}),
         }
       : null;
     return {

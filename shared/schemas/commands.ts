@@ -40,6 +40,8 @@ export const boardCommandSchema = z.discriminatedUnion('type', [
     role: crewRoleSchema,
     values: z.partialRecord(valueCheckFieldSchema, z.string().trim().max(64)).optional(),
     photoId: z.uuid().optional(),
+    /** Acknowledges the job's final sign-off as the qualified inspector (in the person's crew role). */
+    asInspector: z.boolean().optional(),
   }),
   z.object({ commandId, type: z.literal('hold.withdraw'), holdId: z.string().min(1).max(64), role: crewRoleSchema }),
   z.object({ commandId, type: z.literal('hold.release'), holdId: z.string().min(1).max(64) }),
@@ -102,6 +104,8 @@ export const refusalCodes = [
   // The board's state and rules (server/commands/board.ts)
   'invalid_state',
   'job_stopped',
+  'job_closed',
+  'not_inspector',
   'already_briefed',
   'briefing_required',
   'one_person_two_roles',

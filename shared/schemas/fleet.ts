@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { arrangementDataSchema, assistCraneSchema, boomArrangementSchema } from './arrangement.js';
+import { valueCheckFieldSchema } from './plan.js';
 
 /** What a physical component is. */
 export const componentKinds = ['section', 'guy_line', 'hook_block', 'rope'] as const;
@@ -64,6 +65,26 @@ export const craneModelInputSchema = z.object({ arrangement: arrangementDataSche
 
 // ---- crane units ----
 
+/**
+ * What a crane unit was last built to (or taken down from), written when a job's final sign-off is
+ * released: the configuration, the controller values that passed the blind check, and the serial
+ * fitted at each recorded position.
+ */
+export const asBuiltSchema = z.object({
+  jobId: z.string(),
+  jobName: z.string(),
+  site: z.string(),
+  kind: z.enum(['erection', 'dismantling']),
+  completedAt: z.string(),
+  planVersion: z.number().int(),
+  boomLengthM: z.number().nullable(),
+  hookBlockId: z.string().nullable(),
+  parts: z.number().int().nullable(),
+  controllerValues: z.partialRecord(valueCheckFieldSchema, z.string()),
+  serials: z.array(z.object({ stepId: z.string(), position: z.string(), serial: z.string() })),
+});
+export type AsBuilt = z.infer<typeof asBuiltSchema>;
+
 export const craneUnitSchema = z.object({
   id: z.string(),
   fleetNumber: z.string(),
@@ -73,6 +94,8 @@ export const craneUnitSchema = z.object({
   location: z.string(),
   notes: z.string(),
   componentCounts: z.object({ serviceable: z.number().int(), quarantined: z.number().int(), retired: z.number().int() }),
+  /** The configuration the last completed job left it in; null before any job completed on it. */
+  asBuilt: asBuiltSchema.nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

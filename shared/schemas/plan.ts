@@ -85,6 +85,12 @@ export const holdSchema = z.object({
   /** Can never be skipped, removed, or lose a required role. */
   mandatory: z.boolean(),
   valueCheck: valueCheckSchema.nullable(),
+  /**
+   * The job's final sign-off: besides its roles, a crew member the admin marks as qualified to
+   * inspect acknowledges it (post-assembly inspection: OSHA 29 CFR 1926.1412(c), from memory),
+   * and its release completes the job. Absent in plans written before the job had an ending.
+   */
+  signOff: z.boolean().optional(),
 });
 export type PlanHold = z.infer<typeof holdSchema>;
 

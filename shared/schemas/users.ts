@@ -31,6 +31,8 @@ export const userSchema = z.object({
   qualifications: z.array(qualificationSchema),
   isAdmin: z.boolean(),
   active: z.boolean(),
+  /** Qualified to inspect an assembled crane: may acknowledge a job's final sign-off as the inspector. */
+  canInspect: z.boolean(),
   /** False while an invited person has not yet set a password. */
   hasPassword: z.boolean(),
   createdAt: z.string(),
@@ -56,6 +58,7 @@ export const updateUserSchema = z
     qualifications: z.array(qualificationSchema).max(qualifications.length),
     isAdmin: z.boolean(),
     active: z.boolean(),
+    canInspect: z.boolean(),
   })
   .partial()
   .strict()

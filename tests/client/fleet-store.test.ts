@@ -40,6 +40,7 @@ function signInAs(overrides: Partial<UserDto>) {
     displayName: 'Someone',
     qualifications: [],
     isAdmin: false,
+    canInspect: false,
     active: true,
     hasPassword: true,
     createdAt: '2026-10-01T07:00:00.000Z',

@@ -11,6 +11,7 @@ function person(overrides: Partial<UserDto>): UserDto {
     displayName: 'Someone',
     qualifications: ['rigger'],
     isAdmin: false,
+    canInspect: false,
     active: true,
     hasPassword: true,
     createdAt: '2026-11-02T07:30:00.000Z',

@@ -115,7 +115,7 @@ describe('a mandatory hold keeps gating every stage it gated', () => {
       stage(p, 'er-handover').hold = stage(p, 'er-preraise').hold;
       stage(p, 'er-preraise').hold = null;
     });
-    expect(problemsOf(holdMoved).map((x) => x.message).join('\n')).toMatch(/The mandatory hold “Ready to raise” belongs to stage “Pre-raise checks” and was moved to stage “Examination and handover”/);
+    expect(problemsOf(holdMoved).map((x) => x.message).join('\n')).toMatch(/The mandatory hold “Ready to raise” belongs to stage “Pre-raise checks” and was moved to stage “Post-assembly inspection and hand-over”/);
   });
 });
 

@@ -343,10 +343,11 @@ export const dismantlingStages = {
       site: { text: 'Take down the exclusion zone once the supervisor says so, and leave the site as agreed.', roles: ['supervisor'] },
     },
     hold: {
-      title: 'Taking down complete',
-      instruction: 'Every part is set down, counted and stowed, and the site is handed back.',
+      title: 'Crane made safe and off hire',
+      instruction: 'A qualified person has checked that every part is set down, counted and stowed and the crane is safe for transport; the site is handed back. Releasing this hold completes the job and closes its record.',
       roles: ['supervisor'],
-      mandatory: false,
+      mandatory: true,
+      signOff: true,
     },
   },
 } as const satisfies Record<string, StageWording>;

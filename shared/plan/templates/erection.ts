@@ -609,8 +609,8 @@ export const erectionStages = {
 
   handover: {
     id: 'er-handover',
-    title: 'Examination and handover',
-    summary: 'A competent person examines the assembled crane, then it is handed over for lifting.',
+    title: 'Post-assembly inspection and hand-over',
+    summary: 'A qualified person inspects the assembled crane against this configuration, then it is handed over for lifting.',
     cautions: ['No lifting until the examination is recorded and the crane is handed over.'],
     involvesCraneMovement: false,
     steps: {
@@ -626,10 +626,11 @@ export const erectionStages = {
       handover: { text: 'Hand the crane over to the lifting team with this record.', roles: ['supervisor'], required: true, after: ['examination', 'record'] },
     },
     hold: {
-      title: 'Examined and handed over',
-      instruction: 'The thorough examination is recorded and the crane is handed over for lifting.',
+      title: 'Post-assembly inspection and hand-over',
+      instruction: 'A qualified person has inspected the crane against this configuration and the inspection is recorded; the crane is handed over for lifting. Releasing this hold completes the job and closes its record.',
       roles: ['supervisor', 'operator'],
       mandatory: true,
+      signOff: true,
     },
   },
 } as const satisfies Record<string, StageWording>;

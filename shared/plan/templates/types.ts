@@ -53,6 +53,8 @@ export interface HoldWording {
   roles: readonly CrewRole[];
   /** Can never be skipped, removed, or lose a role. */
   mandatory: boolean;
+  /** The job's final sign-off: an inspector acknowledges too, and its release completes the job. */
+  signOff?: true;
 }
 
 /** One stage's wording: its id (a pattern for repeated stages), texts, steps and hold. */
