@@ -6,7 +6,7 @@ import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import type { User } from '../entities/User.js';
 import { conflict, notFound } from '../errors.js';
-import { commandHash, eventHash, GENESIS_HASH } from '../events/chain.js';
+import { commandHash, eventHash, GENESIS_HASH } from '../../shared/events/chain.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import { boardEffects } from '../../shared/board/effects.js';
@@ -48,7 +48,11 @@ export async function runJobCommand(
     const event = await appendEvent(manager, job, command, draft, context.now());
     return { event: presentJobEvent(event), job, replayed: false };
   });
-  if (!outcome.replayed) context.publisher.publishJobEvent(outcome.event);
+  if (!outcome.replayed) {
+    context.publisher.publishJobEvent(outcome.event);
+    // E-mail for the record goes out after the commit and can never hold up or fail the command.
+    context.outbox.jobEventCommitted(outcome.event);
+  }
   return outcome;
 }
 

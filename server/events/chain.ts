@@ -1,72 +1,58 @@
-import { createHash } from 'node:crypto';
-import canonicalize from 'canonicalize';
 import type { EntityManager } from 'typeorm';
+import { ChainWalker, type ChainCheck, type ChainedEvent } from '../../shared/events/chain.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { Job } from '../entities/Job.js';
 
-/** The hash before a job's first event. */
-export const GENESIS_HASH = '0'.repeat(64);
+/** Rows read from the database at a time, when walking or exporting a log. */
+export const EVENT_PAGE_SIZE = 500;
 
-/** The fields of an event that its hash covers. */
-export interface HashedEventFields {
-  jobId: string;
-  seq: number;
-  commandId: string;
-  type: string;
-  byUserId: string;
-  byName: string;
-  role: string;
-  at: string;
-  data: Record<string, unknown>;
-}
-
-/** SHA-256 of the previous hash and the RFC 8785 canonical JSON of the event. */
-export function eventHash(prevHash: string, event: HashedEventFields): string {
-  const canonical = canonicalize({
-    jobId: event.jobId,
-    seq: event.seq,
-    commandId: event.commandId,
-    type: event.type,
-    by: event.byUserId,
-    byName: event.byName,
-    role: event.role,
-    at: event.at,
-    data: event.data,
-  });
-  if (canonical === undefined) throw new Error('event cannot be canonicalised');
-  return createHash('sha256').update(prevHash).update(canonical).digest('hex');
-}
-
-/** SHA-256 of a command's canonical JSON, to tell a repeated command from a reused id. */
-export function commandHash(command: unknown): string {
-  return createHash('sha256').update(canonicalize(command) ?? 'null').digest('hex');
-}
-
-export interface ChainCheck {
-  valid: boolean;
-  checked: number;
-  firstBadSeq: number | null;
+/** A stored row as the chain and the exported log see it. */
+export function chainedEventOf(row: JobEvent): ChainedEvent {
+  return {
+    jobId: row.jobId,
+    seq: row.seq,
+    commandId: row.commandId,
+    type: row.type,
+    byUserId: row.byUserId,
+    byName: row.byName,
+    role: row.role,
+    at: row.at,
+    data: row.data,
+    prevHash: row.prevHash,
+    hash: row.hash,
+  };
 }
 
 /**
- * Walks a job's events in order and checks the sequence has no gaps, each event's prevHash is the
- * hash before it, each hash matches its content, and the job row's head matches the last event.
+ * A job's stored events in storage order (seq, then row id, so a repeated or swapped seq still
+ * shows), read a page at a time so no log is ever held whole. `untilSeq` stops at a head read
+ * beforehand, so an export is one consistent prefix even while commands keep appending.
  */
-export async function verifyJobChain(manager: EntityManager, jobId: string): Promise<ChainCheck> {
-  const job = await manager.findOneByOrFail(Job, { id: jobId });
-  const events = await manager.find(JobEvent, { where: { jobId }, order: { seq: 'ASC', id: 'ASC' } });
-  let prev = GENESIS_HASH;
-  let checked = 0;
-  for (let i = 0; i < events.length; i++) {
-    const event = events[i];
-    const expectedSeq = i + 1;
-    if (event.seq !== expectedSeq) return { valid: false, checked, firstBadSeq: expectedSeq };
-    if (event.prevHash !== prev || eventHash(prev, event) !== event.hash) return { valid: false, checked, firstBadSeq: event.seq };
-    prev = event.hash;
-    checked += 1;
+export async function* storedEvents(manager: EntityManager, jobId: string, untilSeq = Number.MAX_SAFE_INTEGER): AsyncGenerator<JobEvent> {
+  let after = { seq: -1, id: -1 };
+  for (;;) {
+    const page = await manager
+      .createQueryBuilder(JobEvent, 'e')
+      .where('e.job_id = :jobId AND e.seq <= :untilSeq AND (e.seq > :seq OR (e.seq = :seq AND e.id > :id))', { jobId, untilSeq, ...after })
+      .orderBy('e.seq', 'ASC')
+      .addOrderBy('e.id', 'ASC')
+      .limit(EVENT_PAGE_SIZE)
+      .getMany();
+    for (const row of page) yield row;
+    if (page.length < EVENT_PAGE_SIZE) return;
+    const last = page[page.length - 1];
+    after = { seq: last.seq, id: last.id };
   }
-  // A deleted tail, or a job row pointing past its events, shows here.
-  if (job.lastSeq !== events.length) return { valid: false, checked, firstBadSeq: events.length + 1 };
-  if (job.headHash !== prev) return { valid: false, checked, firstBadSeq: Math.max(1, events.length) };
-  return { valid: true, checked, firstBadSeq: null };
+}
+
+/**
+ * Walks a job's events with the shared chain check and then compares the job row's head (last seq
+ * and head hash) with the last event, which is where a deleted tail shows. `expectHash`, a head
+ * hash kept outside the database, is looked for among the verified events.
+ */
+export async function verifyJobChain(manager: EntityManager, jobId: string, expectHash: string | null = null): Promise<ChainCheck> {
+  const job = await manager.findOneByOrFail(Job, { id: jobId });
+  const walker = new ChainWalker(expectHash);
+  for await (const row of storedEvents(manager, jobId)) if (!walker.push(chainedEventOf(row))) break;
+  return walker.result({ lastSeq: job.lastSeq, headHash: job.headHash });
 }
