@@ -191,4 +191,26 @@ describe('stores that follow the open board', () => {
     expect(fetchMock.mock.calls.slice(requestsBefore).map(([url]) => url)).toEqual([`/api/jobs/${JOB_ID}/plan`]);
     expect(planStore.envelopes[JOB_ID].version).toBe(2);
   });
+
+  it('leaves a draft with unsaved edits alone when another device edits the plan, and reads a clean one back', async () => {
+    const planStore = usePlanStore();
+    const envelope = { version: 0, locked: false, stale: false, plan: plan(), problems: [] };
+    fetchMock.mockResolvedValueOnce(json(200, envelope));
+    await planStore.loadPlan(JOB_ID);
+    await useBoardStore().open(JOB_ID);
+    const requestsBefore = fetchMock.mock.calls.length;
+    const edited = (seq: number): JobEventDto => ({ jobId: JOB_ID, seq, type: 'plan.edited', at: at(seq), by, data: { plan: plan(), problems: [] } });
+
+    planStore.drafts[JOB_ID].stages[0].title = 'Ground and exclusion zone, checked twice';
+    fake.deliver('board:event', edited(6));
+    await wait(BURST_MS + 100);
+    expect(fetchMock.mock.calls.length).toBe(requestsBefore);
+    expect(planStore.drafts[JOB_ID].stages[0].title).toBe('Ground and exclusion zone, checked twice');
+
+    planStore.discardDraft(JOB_ID);
+    fetchMock.mockResolvedValue(json(200, envelope));
+    fake.deliver('board:event', edited(7));
+    await wait(BURST_MS + 100);
+    expect(fetchMock.mock.calls.slice(requestsBefore).map(([url]) => url)).toEqual([`/api/jobs/${JOB_ID}/plan`]);
+  });
 });
