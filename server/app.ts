@@ -26,6 +26,7 @@ import { healthRouter } from './routes/health.js';
 import { boardRouter } from './routes/board.js';
 import { jobsRouter } from './routes/jobs.js';
 import { plansRouter } from './routes/plans.js';
+import { recordsListRouter } from './routes/records-list.js';
 import { usersRouter } from './routes/users.js';
 import { uploadsRouter } from './routes/uploads.js';
 import { LocalDiskStorage } from './storage/local-disk.js';
@@ -120,6 +121,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(uploadsRouter(context));
   api.use(jobsRouter(context));
   api.use(plansRouter(context));
+  api.use(recordsListRouter(context));
   api.use(boardRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);

@@ -106,6 +106,8 @@ export const policyTable = [
     routes: ['POST /api/uploads'],
   },
   { action: 'jobs.list', allow: ['signed_in'], routes: ['GET /api/jobs'] },
+  // Each person's list holds only the jobs they may read (`seesAllJobs`, as GET /api/jobs).
+  { action: 'records.list', allow: ['signed_in'], routes: ['GET /api/records'] },
   // Supervisors pick their crews from the active people and their qualifications (no e-mails).
   { action: 'people.candidates', allow: ['admin', 'qualification:supervisor'], routes: ['GET /api/crew-candidates'] },
   { action: 'jobs.create', allow: ['admin', 'qualification:supervisor'], routes: ['POST /api/jobs'] },

@@ -30,9 +30,14 @@ export async function jobFor(manager: EntityManager, job: Job, viewer: User): Pr
   });
 }
 
+/** Whether a person sees every job (admins and supervisors); everyone else sees the jobs they are crew on. */
+export function seesAllJobs(viewer: User): boolean {
+  return viewer.isAdmin || viewer.qualifications.includes('supervisor');
+}
+
 /** The jobs a person may see: all for admins and supervisors, otherwise those they are crew on. */
 export async function jobsVisibleTo(manager: EntityManager, viewer: User): Promise<JobSummary[]> {
-  const seesAll = viewer.isAdmin || viewer.qualifications.includes('supervisor');
+  const seesAll = seesAllJobs(viewer);
   const mine = await manager.findBy(JobCrew, { userId: viewer.id });
   const jobs = seesAll
     ? await manager.find(Job, { order: { updatedAt: 'DESC' } })
