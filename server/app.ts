@@ -14,7 +14,9 @@ import { WriteQueue } from './db/write-queue.js';
 import { apiNotFound, errorHandler } from './errors.js';
 import type { Logger } from './logger.js';
 import { resolveSecret } from './auth/secret.js';
+import { HoldReminders } from './mail/hold-reminders.js';
 import { createMailer, type Mailer } from './mail/mailer.js';
+import { MailOutboxService, type OutboxOptions } from './mail/outbox.js';
 import { authenticate } from './middlewares/authenticate.js';
 import { assistCranesRouter } from './routes/assist-cranes.js';
 import { auditRouter } from './routes/audit.js';
@@ -26,7 +28,10 @@ import { healthRouter } from './routes/health.js';
 import { boardRouter } from './routes/board.js';
 import { jobsRouter } from './routes/jobs.js';
 import { plansRouter } from './routes/plans.js';
+import { mailRouter } from './routes/mail.js';
+import { recordsRouter } from './routes/records.js';
 import { recordsListRouter } from './routes/records-list.js';
+import { recordPdfRouter } from './routes/record-pdf.js';
 import { usersRouter } from './routes/users.js';
 import { uploadsRouter } from './routes/uploads.js';
 import { LocalDiskStorage } from './storage/local-disk.js';
@@ -43,6 +48,8 @@ export interface AppDeps {
   clientDir?: string;
   /** Defaults to SMTP_URL or a local fake mail server. */
   mailer?: Mailer;
+  /** Retry waits and the record PDF source of the e-mail outbox; tests pass short waits. */
+  outbox?: OutboxOptions;
   /** The clock; tests pass their own. */
   now?: () => Date;
   /** Defaults to the local disk under `<dataDir>/uploads/`. */
@@ -54,6 +61,8 @@ export interface HoldlineApp {
   io: HoldlineServer;
   httpServer: http.Server;
   context: AppContext;
+  /** The once-a-minute look for holds waiting on someone who is not on the board; tests call `check()`. */
+  reminders: HoldReminders;
   /** Stops accepting, closes sockets, finishes queued writes, closes the database. */
   close(): Promise<void>;
 }
@@ -66,17 +75,24 @@ export function createApp(deps: AppDeps): HoldlineApp {
   // handed to everyone; it is attached to the HTTP server below.
   const io: HoldlineServer = new SocketServer({ serveClient: false });
   const publisher = new BoardPublisher(io);
+  const mailer = deps.mailer ?? createMailer(config.smtpUrl, logger, path.join(config.dataDir, 'mail'));
+  const now = deps.now ?? (() => new Date());
+  const outbox = new MailOutboxService({ config, dataSource, queue, logger, mailer, now }, deps.outbox);
   const context: AppContext = {
     config,
     dataSource,
     queue,
     logger,
-    mailer: deps.mailer ?? createMailer(config.smtpUrl, logger),
+    mailer,
+    outbox,
     storage: deps.storage ?? new LocalDiskStorage(path.join(config.dataDir, 'uploads')),
     secret: resolveSecret(config.secret, config.dataDir),
-    now: deps.now ?? (() => new Date()),
+    now,
     publisher,
   };
+  const reminders = new HoldReminders(context, outbox);
+  outbox.start();
+  reminders.start();
 
   const app = express();
   app.disable('x-powered-by');
@@ -114,6 +130,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(authRouter(context));
   api.use(usersRouter(context));
   api.use(auditRouter(context));
+  api.use(mailRouter(context));
   api.use(craneModelsRouter(context));
   api.use(craneUnitsRouter(context));
   api.use(assistCranesRouter(context));
@@ -121,7 +138,9 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(uploadsRouter(context));
   api.use(jobsRouter(context));
   api.use(plansRouter(context));
+  api.use(recordsRouter(context));
   api.use(recordsListRouter(context));
+  api.use(recordPdfRouter(context));
   api.use(boardRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
@@ -137,6 +156,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
   const close = () => {
     closing ??= (async () => {
       stopSockets();
+      await reminders.stop();
+      await outbox.stop();
       // io.close() also closes the HTTP server, so no new requests or sockets are accepted.
       await new Promise<void>((resolve) => io.close(() => resolve()));
       httpServer.closeAllConnections();
@@ -147,7 +168,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     return closing;
   };
 
-  return { app, io, httpServer, context, close };
+  return { app, io, httpServer, context, reminders, close };
 }
 
 /** Serves the built client and answers client routes with index.html. */

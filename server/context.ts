@@ -5,6 +5,7 @@ import type { Config } from './config.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
 import type { Mailer } from './mail/mailer.js';
+import type { MailOutboxService } from './mail/outbox.js';
 import type { Storage } from './storage/index.js';
 
 /**
@@ -27,6 +28,8 @@ export interface AppContext {
   queue: WriteQueue;
   logger: Logger;
   mailer: Mailer;
+  /** Every e-mail sent for the record goes through it, after the commit (server/mail/outbox.ts). */
+  outbox: MailOutboxService;
   /** Photo bytes, behind a small interface (local disk under the data folder by default). */
   storage: Storage;
   /** The token-signing secret (configured or generated in the data folder). */

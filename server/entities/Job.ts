@@ -52,6 +52,10 @@ export class Job {
   @Column('simple-json')
   distribution!: string[];
 
+  /** How long a hold waits for an absent crew member before they are e-mailed (server/mail/hold-reminders.ts). */
+  @Column('integer', { name: 'hold_reminder_minutes', default: 10 })
+  holdReminderMinutes!: number;
+
   /** The board as the shared reducer builds it from the log; the snapshot clients start from. */
   @Column('simple-json', { nullable: true })
   board!: BoardState | null;

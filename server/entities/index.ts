@@ -8,6 +8,7 @@ import { JobCrew } from './JobCrew.js';
 import { JobEvent } from './JobEvent.js';
 import { JobOverride } from './JobOverride.js';
 import { JobPlan } from './JobPlan.js';
+import { MailOutbox } from './MailOutbox.js';
 import { RefreshToken } from './RefreshToken.js';
 import { SignInAudit } from './SignInAudit.js';
 import { SignInLink } from './SignInLink.js';
@@ -15,5 +16,5 @@ import { Upload } from './Upload.js';
 import { User } from './User.js';
 
 /** Every entity the data source knows; migrations create their tables. */
-export const entities = [User, RefreshToken, SignInLink, SignInAudit, Upload, CraneModel, CraneUnit, AssistCrane, Component, Inspection, Job, JobCrew, JobEvent, JobOverride, JobPlan, JobPlan];
-export { AssistCrane, Component, CraneModel, CraneUnit, Inspection, Job, JobCrew, JobEvent, JobOverride, JobPlan, RefreshToken, SignInAudit, SignInLink, Upload, User };
+export const entities = [User, RefreshToken, SignInLink, SignInAudit, Upload, CraneModel, CraneUnit, AssistCrane, Component, Inspection, Job, JobCrew, JobEvent, JobOverride, JobPlan, JobPlan, MailOutbox];
+export { AssistCrane, Component, CraneModel, CraneUnit, Inspection, Job, JobCrew, JobEvent, JobOverride, JobPlan, MailOutbox, RefreshToken, SignInAudit, SignInLink, Upload, User };

@@ -55,6 +55,8 @@ export const policyTable = [
   { action: 'users.update', allow: ['admin'], routes: ['PATCH /api/users/:userId'] },
   { action: 'audit.read', allow: ['admin'], routes: ['GET /api/audit/sign-ins'] },
   { action: 'inbox.read', allow: ['admin'], routes: ['GET /api/dev/inbox'] },
+  // E-mails for the record that failed or wait for another try: addresses of crews and clients, so admins only.
+  { action: 'mail.problems.read', allow: ['admin'], routes: ['GET /api/mail/problems'] },
   {
     // What any connected socket may do for itself: connect, renew its own session with a fresh
     // token (checked again against this row), and leave a board it joined.
@@ -119,6 +121,11 @@ export const policyTable = [
       'GET /api/jobs/:jobId/events',
       'GET /api/jobs/:jobId/readiness',
       'GET /api/jobs/:jobId/record/verify',
+      // The log leaves the server here; blind-check values are redacted for all but the job's planners.
+      'GET /api/jobs/:jobId/events.jsonl',
+      'GET /api/jobs/:jobId/events.csv',
+      'GET /api/jobs/:jobId/site-file.zip',
+      'GET /api/jobs/:jobId/record.pdf',
       'GET /api/jobs/:jobId/configuration.pdf',
       'GET /api/jobs/:jobId/plan',
       'GET /api/jobs/:jobId/plan/versions',

@@ -20,6 +20,7 @@ export function presentJob(
     figures: job.results?.figures ?? [],
     crew: rel.crew,
     distribution: job.distribution,
+    holdReminderMinutes: job.holdReminderMinutes,
     commsPlan: job.commsPlan,
     overrides: rel.overrides.map((o) => ({
       id: o.id,

@@ -34,6 +34,7 @@ const changeWords: Record<string, string> = {
   site: 'site',
   kind: 'kind of job',
   distribution: 'distribution list',
+  holdReminderMinutes: 'hold reminder time',
   commsPlan: 'communications plan',
 };
 

@@ -35,6 +35,8 @@ export const inboxMessageSchema = z.object({
   to: z.array(z.string()),
   subject: z.string(),
   text: z.string(),
+  /** Files that came with it (the record PDF); older stored messages have none. */
+  attachments: z.array(z.object({ filename: z.string(), contentType: z.string(), size: z.number().int() })).default([]),
 });
 export type InboxMessage = z.infer<typeof inboxMessageSchema>;
 export const inboxListSchema = z.object({ items: z.array(inboxMessageSchema) });

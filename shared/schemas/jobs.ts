@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { configurationSchema, figureSchema } from './configuration.js';
+import { HOLD_REMINDER_DEFAULT_MINUTES, holdReminderMinutesSchema } from './mail.js';
 import { qualificationSchema } from './users.js';
 
 export const jobStates = ['planning', 'ready', 'live', 'stopped', 'complete', 'cancelled'] as const;
@@ -67,6 +68,8 @@ export const jobSchema = z.object({
   figures: z.array(figureSchema),
   crew: z.array(crewMemberSchema),
   distribution: z.array(z.string()),
+  /** Minutes a hold waits for a crew member who is not on the board before they are e-mailed. */
+  holdReminderMinutes: holdReminderMinutesSchema.default(HOLD_REMINDER_DEFAULT_MINUTES),
   commsPlan: commsPlanSchema,
   overrides: z.array(overrideSchema),
   lastSeq: z.number().int(),
@@ -96,6 +99,7 @@ export const updateJobSchema = z
     site,
     kind: jobKindSchema,
     distribution: z.array(z.email()).max(50),
+    holdReminderMinutes: holdReminderMinutesSchema,
     commsPlan: commsPlanSchema,
   })
   .partial()
@@ -118,7 +122,16 @@ export const readinessSchema = z.object({
 });
 export type Readiness = z.infer<typeof readinessSchema>;
 
-export const verifySchema = z.object({ valid: z.boolean(), checked: z.number().int(), firstBadSeq: z.number().int().nullable() });
+/** The answer of GET /jobs/:id/record/verify (the check itself is shared/events/chain.ts). */
+export const verifySchema = z.object({
+  valid: z.boolean(),
+  checked: z.number().int(),
+  firstBadSeq: z.number().int().nullable(),
+  /** The log's last hash when the whole chain verifies; null when it does not. */
+  finalHash: z.string().nullable(),
+  /** With `?expect=<hash>`: whether the verified log leads to a hash kept outside (paper, e-mail). */
+  expected: z.object({ hash: z.string(), found: z.boolean(), seq: z.number().int().nullable() }).optional(),
+});
 
 export const jobEnvelopeSchema = z.object({ job: jobSchema });
 export const jobListSchema = z.object({ items: z.array(jobSummarySchema) });

@@ -6,6 +6,7 @@ import { createApp, type HoldlineApp } from '../../server/app.js';
 import { loadConfig, type Config } from '../../server/config.js';
 import { openDatabase } from '../../server/db/data-source.js';
 import { createLogger } from '../../server/logger.js';
+import type { OutboxOptions } from '../../server/mail/outbox.js';
 
 export interface TestServer extends HoldlineApp {
   url: string;
@@ -14,6 +15,7 @@ export interface TestServer extends HoldlineApp {
   port: number;
   config: Config;
   dataDir: string;
+  /** Closes the app and removes its data folder (`close()` keeps the folder, for a restart on the same data). */
   stop(): Promise<void>;
 }
 
@@ -21,11 +23,15 @@ export interface TestServerOptions {
   /** Serve the built client from dist/, or from HOLDLINE_TEST_CLIENT_DIR when set (browser tests). */
   withClient?: boolean;
   env?: Record<string, string>;
+  /** Short retry waits for the e-mail outbox, or a record PDF source. */
+  outbox?: OutboxOptions;
+  /** Start on the data folder of an earlier server (after its `close()`), as a restart does. */
+  dataDir?: string;
 }
 
 /** Boots the real app on an ephemeral port with its own SQLite file in a temporary folder. */
 export async function startTestServer(options: TestServerOptions = {}): Promise<TestServer> {
-  const dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-test-'));
+  const dataDir = options.dataDir ?? mkdtempSync(path.join(os.tmpdir(), 'holdline-test-'));
   const config = loadConfig({
     HOLDLINE_DB: path.join(dataDir, 'holdline.sqlite'),
     HOLDLINE_DEMO: '0',
@@ -37,6 +43,7 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
   let offsetMs = 0;
   const holdline = createApp({
     now: () => new Date(Date.now() + offsetMs),
+    outbox: options.outbox,
     config,
     dataSource,
     logger: createLogger(config.logLevel),
