@@ -71,8 +71,8 @@ export interface ShareResult {
 }
 
 function bandReason(band: ChartBand, share: number, cautionPercent: number, where: string): string | null {
-  if (band === 'fail') return `${share.toFixed(1)} % of ${where}: above 100 %`;
-  if (band === 'caution') return `${share.toFixed(1)} % of ${where}: above the site's caution share of ${cautionPercent} %`;
+  if (band === 'fail') return `${percentUp(share)} % of ${where}: above 100 %`;
+  if (band === 'caution') return `${percentUp(share)} % of ${where}: above the site's caution share of ${cautionPercent} %`;
   return null;
 }
 

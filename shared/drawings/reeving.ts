@@ -7,7 +7,7 @@
  * shapes with explicit colours, every piece of text through `escapeXml`. Schematic, not to scale.
  */
 import { CalcInputError } from '../calc/errors';
-import { fmt } from '../format';
+import { fmtUp } from '../format';
 import { escapeXml } from './boom-makeup';
 
 /** What the reeving drawing needs; the planner's `reeving` result carries all of it. */
@@ -97,7 +97,7 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   const used = sheavesUsed(parts);
   const unusedBlock = Math.max(0, sheaveCount - used.block);
   const tooFewSheaves = used.block > sheaveCount;
-  const title = `Reeving: ${parts} parts of line on hook block ${hookBlockId}, lead-line pull ${fmt(leadLinePullKn)} kN`;
+  const title = `Reeving: ${parts} parts of line on hook block ${hookBlockId}, lead-line pull ${fmtUp(leadLinePullKn)} kN`;
 
   // Part k hangs at x_k; the lead sheave sits left of part 1, unused block sheaves right of the last part.
   const marginLeft = 150;
@@ -146,7 +146,7 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   const lead = xOf(0);
   out.push(`<line x1="${px(lead)}" y1="${px(tipY)}" x2="${px(24)}" y2="${px(blockY + 20)}" stroke="${p.lead}" stroke-width="3.5" data-lead="1"/>`);
   out.push(text(20, blockY + 44, 'Lead line to the drum', `font-size="13" font-weight="700" fill="${p.lead}"`));
-  out.push(text(20, blockY + 62, `Pull ${fmt(leadLinePullKn)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
+  out.push(text(20, blockY + 62, `Pull ${fmtUp(leadLinePullKn)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
   const leadSheaves = input.leadSheaves ?? [];
 
   // Dead end: at the block for an odd number of parts, at the tip for an even number.
@@ -156,7 +156,7 @@ export function reevingSvg(input: ReevingDrawingInput, options: ReevingDrawingOp
   out.push(`<rect x="${px(deadX - 6)}" y="${px(deadY - 6)}" width="12" height="12" fill="${p.ink}" data-dead-end="${deadAtBlock ? 'block' : 'tip'}"/>`);
   const deadLabel = `Dead end (${deadAtBlock ? 'at the hook block' : 'at the boom tip'})`;
 
-  out.push(text(20, 26, `${parts} part${parts === 1 ? '' : 's'} of line · lead-line pull ${fmt(leadLinePullKn)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
+  out.push(text(20, 26, `${parts} part${parts === 1 ? '' : 's'} of line · lead-line pull ${fmtUp(leadLinePullKn)} kN`, `font-size="15" font-weight="700" fill="${p.ink}"`));
   let footerY = hookTop + 88;
   // The dead end is named in a key under the drawing: a label beside the square crossed the parts of line on narrow screens.
   out.push(`<rect x="20" y="${px(footerY - 10)}" width="10" height="10" fill="${p.ink}"/>`);

@@ -8,7 +8,7 @@
  * Pure: no DOM and no Node modules, explicit colours, every piece of text through `escapeXml`.
  */
 import { CalcInputError } from '../calc/errors';
-import { fmt, fmtDown } from '../format';
+import { fmtDown, fmtUp } from '../format';
 import type { PowerLineResult } from '../planner/types';
 import { escapeXml } from './boom-makeup';
 
@@ -154,7 +154,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const header = 48 + notAMap.length * 16;
   // Room available is rounded down: the drawing never shows more room than there is.
   const lineWords = input.powerLines.map((l, i) => {
-    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${fmt(l.requiredClearanceM, 2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
+    const req = l.requiredClearanceM === null ? 'clearance: ask the line owner' : `clearance ${fmtUp(l.requiredClearanceM, 2)} m${l.basisWords ? ` (${l.basisWords})` : ''}`;
     const volts = l.voltageKv === null ? 'voltage unknown' : `${l.voltageKv} kV`;
     // Results stored before the assist crane was checked have no `assist`: read as not planned.
     const assist = !l.assist ? '' : `; assist crane ${l.assist.availableClearanceM === null ? 'not checked' : `${fmtDown(l.assist.availableClearanceM)} m available`}`;
@@ -168,7 +168,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const cx = size / 2;
   const cy = header + size / 2;
   const scale = (size / 2 - 16) / extentM;
-  const title = `Site plan: boom ${boomM} m, reach ${fmt(reachM)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
+  const title = `Site plan: boom ${boomM} m, reach ${fmtUp(reachM)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
 
   const out: string[] = [];
 
@@ -180,8 +180,8 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   // Labels on the lower-left diagonal, where the lines are spread last.
   const diag = Math.SQRT1_2;
   const labels: string[] = [
-    plate(cx - fallM * scale * diag, cy + fallM * scale * diag + 4, `Fall zone ${fmt(fallM)} m`, 12, p.background, `font-weight="700" fill="${p.fallZone}"`),
-    plate(cx - reachM * scale * diag, cy + reachM * scale * diag - 14, `${reachWords} ${fmt(reachM)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
+    plate(cx - fallM * scale * diag, cy + fallM * scale * diag + 4, `Fall zone ${fmtUp(fallM)} m`, 12, p.background, `font-weight="700" fill="${p.fallZone}"`),
+    plate(cx - reachM * scale * diag, cy + reachM * scale * diag - 14, `${reachWords} ${fmtUp(reachM)} m`, 12, p.background, `font-weight="700" fill="${p.reach}"`),
   ];
 
   // Tracks: two rectangles either side of the centre, to scale.

@@ -13,7 +13,7 @@ import type { Configuration, Figure, FigureStatus } from '../schemas/configurati
 import type { BoomOutcome } from './boom.js';
 import { tipHangings } from './chart.js';
 import { figure, guarded, kgToKn } from './figures.js';
-import { fmt, plain } from '../format.js';
+import { fmt, fmtDown, fmtUp, plain } from '../format.js';
 import type { AssistLiftResultRow, PlannerInputs, TandemStepRow } from './types.js';
 
 /** Said with every step of a tandem raise (common practice, no source). */
@@ -82,7 +82,7 @@ function computeLift(config: Configuration, lift: Lift, i: number, chart: Assist
     const noHook = lift.hookBlockT === 0;
     const value =
       r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
-        ? `${percentUp(r.sharePercent)} % (${fmt(totalT, 2)} t of ${fmt(knToTonnesForce(r.capacityKn), 1)} t at ${plain(r.chartRadiusM)} m)`
+        ? `${percentUp(r.sharePercent)} % (${fmtUp(totalT, 2)} t of ${fmtDown(knToTonnesForce(r.capacityKn), 1)} t at ${plain(r.chartRadiusM)} m)`
         : `Off the chart at ${plain(lift.radiusM)} m`;
     const status: FigureStatus = r.band === 'fail' ? 'fail' : noHook ? 'caution' : r.band;
     const detail = [
@@ -127,20 +127,20 @@ function computeSlings(config: Configuration, figures: Figure[]): void {
       const rule = `two legs from one hook over the centre of gravity: θ = atan(hook height ÷ distance to the centre of gravity), leg = load × the other distance ÷ (sum of distances) ÷ sin θ; load = lift + rigging below the hook (${MINIMUM_SLING_ANGLE_SOURCE})`;
       if (flat.length > 0) {
         figures.push(
-          figure(key, 'assist', label, `Leg ${flat.map((x) => `${x.leg} at ${fmt(x.a)}°`).join(', ')} from horizontal`, 'fail', false, rule, `below the ${MINIMUM_SLING_ANGLE_DEG}° minimum: raise the hook or use longer slings or a spreader`),
+          figure(key, 'assist', label, `Leg ${flat.map((x) => `${x.leg} at ${fmtDown(x.a)}°`).join(', ')} from horizontal`, 'fail', false, rule, `below the ${MINIMUM_SLING_ANGLE_DEG}° minimum: raise the hook or use longer slings or a spreader`),
         );
         return;
       }
       const r = slingLegTensionsFromHookHeight({ loadKn: tonnesForceToKn(l.liftT + l.riggingT), distancesToCogM: [legs.toCogAM, legs.toCogBM], hookHeightM: legs.hookHeightM });
       const [a, b] = r.legs.map((x) => knToTonnesForce(x.tensionKn));
-      const value = `leg A ${fmt(a, 2)} t at ${fmt(r.legs[0].angleFromHorizontalDeg)}°, leg B ${fmt(b, 2)} t at ${fmt(r.legs[1].angleFromHorizontalDeg)}°`;
+      const value = `leg A ${fmtUp(a, 2)} t at ${fmtDown(r.legs[0].angleFromHorizontalDeg)}°, leg B ${fmtUp(b, 2)} t at ${fmtDown(r.legs[1].angleFromHorizontalDeg)}°`;
       const rated = legs.legRatedLoadT;
       const worst = Math.max(a, b);
       const status: FigureStatus = rated === null ? 'info' : worst > rated ? 'fail' : 'pass';
       const detail =
         rated === null
           ? 'no rated load entered: the rigger compares each leg with its tag'
-          : `${fmt(worst, 2)} t in the heavier leg against ${plain(rated)} t rated per leg${worst > rated ? ': above the sling’s rating, choose a stronger sling' : ''}`;
+          : `${fmtUp(worst, 2)} t in the heavier leg against ${plain(rated)} t rated per leg${worst > rated ? ': above the sling’s rating, choose a stronger sling' : ''}`;
       figures.push(figure(key, 'assist', label, value, status, false, rule, `legs ${fmt(r.legs[0].legLengthM, 2)} m and ${fmt(r.legs[1].legLengthM, 2)} m from hook to pick point; ${detail}`));
     });
   }
@@ -168,11 +168,11 @@ function computePads(config: Configuration, figures: Figure[]): void {
         'assist.ground',
         'assist',
         label,
-        `${fmt(r.pressureKpa)} kPa (allowable ${plain(allowable)} kPa)`,
+        `${fmtUp(r.pressureKpa)} kPa (allowable ${plain(allowable)} kPa)`,
         status,
         false,
         `${rule}; ${r.rule}; the site’s allowable pressure (where the assist crane stands on other ground, that ground’s allowable governs)`,
-        `${plain(pads.loadT!)} t + pad ${plain(pads.weightKg)} kg on ${plain(pads.lengthM!)} m × ${plain(pads.widthM!)} m = ${fmt(r.areaM2, 2)} m²; ${source}${pads.weightKg === 0 ? '; pad weight entered as 0 kg: not included' : ''}${status === 'fail' ? '; a larger pad or mat spreads the load: a person cannot override the ground' : ''}`,
+        `${plain(pads.loadT!)} t + pad ${plain(pads.weightKg)} kg on ${plain(pads.lengthM!)} m × ${plain(pads.widthM!)} m = ${fmtDown(r.areaM2, 2)} m²; ${source}${pads.weightKg === 0 ? '; pad weight entered as 0 kg: not included' : ''}${status === 'fail' ? '; a larger pad or mat spreads the load: a person cannot override the ground' : ''}`,
       ),
     );
   });
@@ -219,7 +219,7 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
       cautionPercent: config.chartCautionPercent,
     });
     const tipT = knToTonnesForce(r.reactionKn);
-    const carried = `boom sections ${fmt(knToTonnesForce(boom.boomWeightKn), 2)} t with their centre of gravity ${fmt(boom.boomCogFromFootM!, 2)} m from the foot of ${plain(config.boomLengthM)} m, plus at the tip ${fmt(tipKg / 1000, 2)} t (hook blocks, auxiliary head, guy lines taken whole at the tip) → ${fmt(tipT, 2)} t at the tip; plus ${onHook(t)}`;
+    const carried = `boom sections ${fmtUp(knToTonnesForce(boom.boomWeightKn), 2)} t with their centre of gravity ${fmt(boom.boomCogFromFootM!, 2)} m from the foot of ${plain(config.boomLengthM)} m, plus at the tip ${fmtUp(tipKg / 1000, 2)} t (hook blocks, auxiliary head, guy lines taken whole at the tip) → ${fmtUp(tipT, 2)} t at the tip; plus ${onHook(t)}`;
     const missingNote = missing.length ? `${missing.join(', ')}: NOT INCLUDED` : '';
     const heightNote = footHeightM === null ? 'boom foot height not in the data: taken at 30 m, the most the data allows' : '';
     const stop = `steps stop at ${plain(t.releaseAngleDeg!)}°: from there the main crane carries the boom alone and the tip leaves the assist (the release angle entered from the manufacturer’s raising procedure)`;
@@ -231,7 +231,7 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
         : '';
       const value =
         s.share.sharePercent !== null && s.share.capacityKn !== null && s.share.chartRadiusM !== null
-          ? `${percentUp(s.share.sharePercent)} % (${fmt(knToTonnesForce(s.share.totalKn), 2)} t of ${fmt(knToTonnesForce(s.share.capacityKn), 1)} t at ${fmt(s.radiusM, 1)} m; tip ${fmt(s.tipHeightM, 1)} m up${reach})`
+          ? `${percentUp(s.share.sharePercent)} % (${fmtUp(knToTonnesForce(s.share.totalKn), 2)} t of ${fmtDown(knToTonnesForce(s.share.capacityKn), 1)} t at ${fmt(s.radiusM, 1)} m; tip ${fmt(s.tipHeightM, 1)} m up${reach})`
           : `Off the chart at ${fmt(s.radiusM, 1)} m (tip ${fmt(s.tipHeightM, 1)} m up${reach})`;
       figures.push(
         figure(

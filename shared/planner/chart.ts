@@ -8,7 +8,7 @@ import type { CapacityChart, HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
 import { figure, guarded, kgToKn } from './figures.js';
-import { fmt, plain } from '../format.js';
+import { fmt, fmtDown, fmtUp, plain } from '../format.js';
 import { ROPE_RUN_ASSUMED_WHEN_MISSING } from './rope.js';
 import type { ChartResults, PlannerInputs } from './types.js';
 
@@ -65,7 +65,7 @@ function statusOf(r: ShareResult): FigureStatus {
 }
 
 function listWeights(items: readonly Hanging[]): string {
-  return items.map((h) => `${h.what} ${h.weightKg === null ? 'not in the data: NOT INCLUDED' : `${fmt(h.weightKg / 1000, 2)} t`}`).join(' + ');
+  return items.map((h) => `${h.what} ${h.weightKg === null ? 'not in the data: NOT INCLUDED' : `${fmtUp(h.weightKg / 1000, 2)} t`}`).join(' + ');
 }
 
 /** The chart figures (chart.lift, chart.raise); their results feed the plan and the record. */
@@ -103,7 +103,7 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
         const status: FigureStatus = r.band === 'fail' ? 'fail' : liftMissing.length ? 'caution' : statusOf(r);
         const value =
           r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
-            ? `${percentUp(r.sharePercent)} % of chart (${fmt(totalKg / 1000, 2)} t of ${plain(r.capacityKn / 9.80665)} t at ${plain(r.chartRadiusM)} m)`
+            ? `${percentUp(r.sharePercent)} % of chart (${fmtUp(totalKg / 1000, 2)} t of ${fmtDown(r.capacityKn / 9.80665, 1)} t at ${plain(r.chartRadiusM)} m)`
             : `Off the chart at ${plain(radiusM)} m`;
         const detail = [
           `on the hook: load ${plain(loadT)} t + rigging ${plain(riggingT)} t + ${listWeights(onHook)}`,
@@ -149,7 +149,7 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
           'chart.raise',
           'boom',
           raiseLabel,
-          `${fmt(knownKg / 1000, 2)} t at the tip; limit not given in the data`,
+          `${fmtUp(knownKg / 1000, 2)} t at the tip; limit not given in the data`,
           'unverified',
           false,
           raiseRule,
@@ -166,7 +166,7 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
             'chart.raise',
             'boom',
             raiseLabel,
-            `${percentUp(r.sharePercent ?? 0)} % (${fmt(knownKg / 1000, 2)} t of ${fmt(limitKg / 1000, 2)} t allowed)`,
+            `${percentUp(r.sharePercent ?? 0)} % (${fmtUp(knownKg / 1000, 2)} t of ${fmtDown(limitKg / 1000, 2)} t allowed)`,
             status,
             r.band !== 'fail' && missing.length === 0,
             `${raiseRule}; ${r.rule}`,

@@ -125,14 +125,14 @@ function fig(r: ConfigurationResults, key: string): Figure {
 const ropeT = (radiusM: number, falls: number, lowestM = 0) => (falls * (2.6 + Math.sqrt(36 ** 2 - (radiusM - 1.4) ** 2) - lowestM) * 3.8) / 1000;
 
 describe('chart.lift: the heaviest lift as a share of the crane’s own chart', () => {
-  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) + 6 falls of rope from the 37.0 m tip (0.844 t) at 12 m: 44.54 t of 113.3 t = 39.31 %, shown rounded up, pass', () => {
+  it('40 t + 1 t rigging + the HB120 block (2.7 t, counted as load) + 6 falls of rope from the 37.0 m tip (0.844 t) at 12 m: 44.544 t of 113.3 t = 39.31 %, load and share shown rounded up, pass', () => {
     const r = run(plan());
     const f = fig(r, 'chart.lift');
     expect(f).toMatchObject({ status: 'pass', overridable: false, group: 'boom' });
     expect(ropeT(12, 6)).toBeCloseTo(0.8437, 4); // 6 × (2.6 + √(1296 − 112.36)) × 3.8 = 6 × 37.004 × 3.8 kg
     expect(r.chart!.lift!.sharePercent).toBeCloseTo(((43.7 + ropeT(12, 6)) / 113.3) * 100, 9);
-    expect(f.value).toBe('39.4 % of chart (44.54 t of 113.3 t at 12 m)');
-    expect(f.detail).toMatch(/main hook block HB120 2\.70 t \+ main hoist rope below the tip \(6 falls × 37\.0 m\) 0\.84 t/);
+    expect(f.value).toBe('39.4 % of chart (44.55 t of 113.3 t at 12 m)');
+    expect(f.detail).toMatch(/main hook block HB120 2\.70 t \+ main hoist rope below the tip \(6 falls × 37\.0 m\) 0\.85 t/);
     expect(r.figures.some((x) => x.key === 'boom.loadChart')).toBe(false);
   });
 
