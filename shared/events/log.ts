@@ -157,7 +157,6 @@ export const eventDataSchemas = {
 } as const;
 
 export type JobEventType = keyof typeof eventDataSchemas;
-export const jobEventTypes = Object.keys(eventDataSchemas) as JobEventType[];
 
 /** Planning events: they change the job before it reaches the board (the reducer only counts them). */
 export const planningEventTypes: ReadonlySet<JobEventType> = new Set([
