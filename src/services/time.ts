@@ -9,3 +9,20 @@ export function formatWhen(iso: string, now: Date = new Date()): string {
   if (Number.isNaN(at.getTime())) return iso;
   return sameDay(at, now) ? clock.format(at) : `${day.format(at)}, ${clock.format(at)}`;
 }
+
+const instant = new Intl.DateTimeFormat('en-GB', {
+  day: 'numeric',
+  month: 'short',
+  year: 'numeric',
+  hour: '2-digit',
+  minute: '2-digit',
+  second: '2-digit',
+  hourCycle: 'h23',
+  timeZoneName: 'short',
+});
+
+/** A moment for the record: date, time to the second and the zone, never shortened to "today". */
+export function formatInstant(iso: string): string {
+  const at = new Date(iso);
+  return Number.isNaN(at.getTime()) ? iso : instant.format(at);
+}
