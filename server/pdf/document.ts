@@ -1,7 +1,9 @@
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
+import { woffToSfnt } from './woff.js';
 
 const require = createRequire(import.meta.url);
 const fontDir = path.join(path.dirname(require.resolve('@fontsource/dejavu-sans/package.json')), 'files');
@@ -19,23 +21,33 @@ export const FONTS = {
 export const SAFETY_TEXT =
   'Holdline is a coordination record, not a safety device. It does not replace the crane manufacturer’s manual and arrangement data, the lift plan, the crane’s rated capacity limiter, local regulations, or the judgement of competent people. Move only on the signaller’s signal.';
 
+// Unpacked once per thread: pdfkit reads a WOFF font's compressed tables again for every line.
+let unpacked: { regular: Buffer; bold: Buffer } | null = null;
+const fontBytes = () => (unpacked ??= { regular: woffToSfnt(readFileSync(FONTS.regular)), bold: woffToSfnt(readFileSync(FONTS.bold)) });
+
 /** A small writer over pdfkit: headings, key/value rows, tables, drawings, page breaks. */
 export class PdfWriter {
   readonly doc: PDFKit.PDFDocument;
   private readonly chunks: Buffer[] = [];
   private readonly done: Promise<Buffer>;
 
-  constructor(title: string, footer: string) {
+  /**
+   * `footer` is printed at the foot of every page with "page N of M"; a second line (e.g. a hash)
+   * goes above it. `stamp`, when given, is printed at the top of every page (e.g. "in progress").
+   */
+  constructor(title: string, footer: string | [string, string], options: { stamp?: string } = {}) {
     this.doc = new PDFDocument({ size: 'A4', margins: { top: 48, bottom: 56, left: 48, right: 48 }, info: { Title: title, Creator: 'Holdline' }, bufferPages: true });
-    this.doc.registerFont('Body', FONTS.regular);
-    this.doc.registerFont('Body-Bold', FONTS.bold);
+    this.doc.registerFont('Body', fontBytes().regular);
+    this.doc.registerFont('Body-Bold', fontBytes().bold);
     this.doc.font('Body');
     this.doc.on('data', (c: Buffer) => this.chunks.push(c));
     this.done = new Promise((resolve) => this.doc.on('end', () => resolve(Buffer.concat(this.chunks))));
-    this.footer = footer;
+    this.footer = typeof footer === 'string' ? [footer] : footer;
+    this.stamp = options.stamp ?? null;
   }
 
-  private footer: string;
+  private readonly footer: string[];
+  private readonly stamp: string | null;
 
   get width(): number {
     return this.doc.page.width - this.doc.page.margins.left - this.doc.page.margins.right;
@@ -127,6 +139,12 @@ export class PdfWriter {
     return this;
   }
 
+  /** Places a raster image (JPEG or PNG bytes) within a box, keeping its proportions. */
+  image(bytes: Uint8Array, x: number, y: number, box: { width: number; height: number }): this {
+    this.doc.image(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), x, y, { fit: [box.width, box.height], align: 'center', valign: 'center' });
+    return this;
+  }
+
   /** Numbers every page with the footer line and returns the finished file. */
   async finish(): Promise<Buffer> {
     const range = this.doc.bufferedPageRange();
@@ -135,7 +153,17 @@ export class PdfWriter {
       const bottom = this.doc.page.height - 36;
       // Writing inside the bottom margin would make pdfkit start a new page.
       this.doc.page.margins.bottom = 0;
-      this.doc.font('Body').fontSize(8).fillColor('#3b434c').text(`${this.footer}  ·  page ${i + 1} of ${range.count}`, this.doc.page.margins.left, bottom, { width: this.width, lineBreak: false });
+      const lines = [...this.footer];
+      lines[lines.length - 1] += `  ·  page ${i + 1} of ${range.count}`;
+      lines.forEach((line, n) => {
+        this.doc.font('Body').fontSize(8).fillColor('#3b434c').text(line, this.doc.page.margins.left, bottom - (lines.length - 1 - n) * 10, { width: this.width, lineBreak: false });
+      });
+      if (this.stamp) {
+        const top = this.doc.page.margins.top;
+        this.doc.page.margins.top = 0;
+        this.doc.font('Body-Bold').fontSize(9).fillColor('#9a1c12').text(this.stamp, this.doc.page.margins.left, 20, { width: this.width, align: 'right', lineBreak: false });
+        this.doc.page.margins.top = top;
+      }
     }
     this.doc.end();
     return this.done;

@@ -131,6 +131,8 @@ export const policyTable = [
       'GET /api/jobs/:jobId/plan/versions',
       'GET /api/jobs/:jobId/plan.pdf',
     ],
+    // A list follows the jobs it shows, each one checked against this row.
+    events: ['jobs:follow'],
   },
   {
     // Only the job's own supervisors (or an admin) change a job.

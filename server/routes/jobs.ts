@@ -10,8 +10,7 @@ import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import type { User } from '../entities/User.js';
 import { parseOrThrow } from '../errors.js';
-import { verifyJobChain } from '../events/chain.js';
-import { configurationSheetPdf } from '../pdf/configuration-sheet.js';
+import { renderPdf } from '../pdf/pool.js';
 import { authorize, can } from '../policies/index.js';
 import { redactEventFor } from '../presenters/board.js';
 import { presentJobEvent } from '../presenters/job-event.js';
@@ -22,7 +21,7 @@ import { commandIdOf, loadJobFor } from './job-access.js';
 export const EVENTS_PAGE_LIMIT = 1000;
 const eventsQuerySchema = z.object({ after: z.coerce.number().int().min(0).default(0) });
 
-/** Jobs: list, create, read, change, crew, configuration, overrides, events and verification. */
+/** Jobs: list, create, read, change, crew, configuration, overrides and events (the record's exports are in records.ts). */
 export function jobsRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
@@ -95,17 +94,11 @@ export function jobsRouter(context: AppContext): Router {
     res.json(await context.queue.run(() => readinessOf(manager, job)));
   });
 
-  // Read through the queue so a half-written command is never seen as a broken chain.
-  router.get('/jobs/:jobId/record/verify', async (req, res) => {
-    const { job } = await loadJobFor(context, req, 'jobs.read');
-    res.json(await context.queue.run(() => verifyJobChain(manager, job.id)));
-  });
-
   router.get('/jobs/:jobId/configuration.pdf', async (req, res) => {
     const { job, actor } = await loadJobFor(context, req, 'jobs.read');
     const unit = await manager.findOneByOrFail(CraneUnit, { id: job.craneUnitId });
     const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
-    const pdf = await configurationSheetPdf(await jobFor(manager, job, actor), job.results, model.arrangement, context.now());
+    const pdf = await renderPdf({ kind: 'configuration', job: await jobFor(manager, job, actor), results: job.results, arrangement: model.arrangement, printedAt: context.now().toISOString() });
     res.type('application/pdf').attachment(`configuration-${job.id.slice(0, 8)}.pdf`).send(pdf);
   });
 

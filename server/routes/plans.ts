@@ -6,7 +6,7 @@ import { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
 import { User } from '../entities/User.js';
 import { HttpError, parseOrThrow } from '../errors.js';
-import { planChecklistPdf } from '../pdf/plan-checklist.js';
+import { renderPdf } from '../pdf/pool.js';
 import { can } from '../policies/index.js';
 import { redactPlan } from '../presenters/plan.js';
 import { jobFor } from '../queries/jobs.js';
@@ -72,7 +72,7 @@ export function plansRouter(context: AppContext): Router {
     const row = await manager.findOneBy(JobPlan, { jobId: job.id, version: job.planVersion });
     if (!row) throw noPlan();
     const plan = can(actor, 'jobs.plan', { crewRoles }) ? row.plan : redactPlan(row.plan);
-    const pdf = await planChecklistPdf(await jobFor(manager, job, actor), plan, row.version, context.now());
+    const pdf = await renderPdf({ kind: 'plan', job: await jobFor(manager, job, actor), plan, version: row.version, printedAt: context.now().toISOString() });
     res.type('application/pdf').attachment(`plan-${job.id.slice(0, 8)}-v${row.version}.pdf`).send(pdf);
   });
 

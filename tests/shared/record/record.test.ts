@@ -2,6 +2,7 @@
 // own schema). Expected sentences are written out here, so a change in the wording or in what the
 // record picks up from the log shows as a failure.
 import { describe, expect, it } from 'vitest';
+import { parseJobEvent } from '../../../shared/events/log.js';
 import { buildRecord } from '../../../shared/record/record.js';
 import type { Plan } from '../../../shared/schemas/plan.js';
 import type { Figure } from '../../../shared/schemas/configuration.js';
@@ -165,7 +166,9 @@ describe('buildRecord', () => {
     expect(live.signOff).toMatchObject({ stageTitle: 'Stage lift-boom', hold: { title: 'Inspected and handed over', released: null } });
 
     log.next('hold.acknowledged', { stageId: 'lift-boom', holdId: 'lift.signoff', role: 'rigger', photoId: null, values: null }, { by: people.rita });
-    log.next('hold.released', { stageId: 'lift-boom', holdId: 'lift.signoff', effects: { job: { state: 'complete' } } }, { by: people.sue });
+    const release = log.next('hold.released', { stageId: 'lift-boom', holdId: 'lift.signoff' }, { by: people.sue });
+    // The writer adds the effects to the stored event; here they are added the same way.
+    log.events[log.events.length - 1] = parseJobEvent({ ...release, data: { ...release.data, effects: { job: { state: 'complete' } } } });
     const done = buildRecord(log.events, { finalHash: HASH });
     // The ending may be recorded as an effect of the release rather than as its own event.
     expect(done.status).toBe('complete');

@@ -1,0 +1,286 @@
+import { boomMakeupSvg } from '../../shared/drawings/boom-makeup.js';
+import type { ConfigurationResults } from '../../shared/planner/types.js';
+import type { JobRecord, RecordEntry, RecordHold, RecordStage } from '../../shared/record/record.js';
+import type { ArrangementData } from '../../shared/schemas/arrangement.js';
+import type { Configuration } from '../../shared/schemas/configuration.js';
+import { roleLabel } from '../../shared/schemas/users.js';
+import { configurationDrawings, configurationFacts, statusWords } from './configuration-sheet.js';
+import { PdfWriter, SAFETY_TEXT, svgAspect } from './document.js';
+
+/** What the record PDF is drawn from; plain data, so it can be sent to a worker thread. */
+export interface RecordPdfInput {
+  record: JobRecord;
+  /** The configuration in force with the server's results and the crane's arrangement data, for the drawings; null when never planned. */
+  drawings: { configuration: Configuration; results: ConfigurationResults; arrangement: ArrangementData } | null;
+  /** Thumbnails of the photos the record names, as JPEG bytes; a photo missing here is listed as not found. */
+  photos: { id: string; jpeg: Uint8Array }[];
+  printedAt: string;
+}
+
+/** A time as the record prints it: to the second, in UTC, so readers in any time zone agree. */
+export const recordTime = (iso: string | null) => (iso ? `${iso.slice(0, 10)} ${iso.slice(11, 19)} UTC` : '—');
+const who = (e: Pick<RecordEntry, 'name' | 'role'>) => `${e.name} (${roleLabel(e.role).toLowerCase()})`;
+const by = (e: RecordEntry) => `${who(e)}, ${recordTime(e.at)}`;
+
+const statusText = { in_progress: 'IN PROGRESS: live job, this record is not final', complete: 'Complete', cancelled: 'Cancelled' } as const;
+const holdEntryWords = { acknowledged: 'Acknowledged', withdrawn: 'Withdrew acknowledgment', check_failed: 'Configuration check did not match', check_reviewed: 'Failed checks reviewed' } as const;
+
+/**
+ * The job's record as a site file: cover and crew, the configuration with every figure, its rule
+ * and every override, the drawings, stage by stage with every step and hold, stops, weather,
+ * defects, plan versions and briefings, the final sign-off, photos and the whole log in words.
+ * Every page carries the final hash and "page N of M"; a live job is marked in progress on each.
+ */
+export async function recordPdf(input: RecordPdfInput): Promise<Buffer> {
+  const { record } = input;
+  const live = record.status === 'in_progress';
+  const kindWord = record.job.kind === 'erection' ? 'Erection' : 'Dismantling';
+  const hashLine = `Final hash: ${record.finalHash}`;
+  const title = `${kindWord} record · ${record.job.name} · crane ${record.job.craneFleetNumber}${live ? ' · IN PROGRESS' : ''}`;
+  const pdf = new PdfWriter(`${kindWord} record — ${record.job.name}`, [hashLine, `${title} · printed ${recordTime(input.printedAt)}`], {
+    stamp: live ? 'IN PROGRESS — live job, not a final record' : undefined,
+  });
+
+  cover(pdf, input, kindWord);
+  configuration(pdf, input);
+  planVersions(pdf, record);
+  stages(pdf, record);
+  stopsAndWeather(pdf, record);
+  defects(pdf, record);
+  signOff(pdf, record);
+  photos(pdf, input);
+  timeline(pdf, record);
+  return pdf.finish();
+}
+
+function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string) {
+  const { record } = input;
+  pdf.title(`${kindWord} record`, `${record.job.name} — ${record.job.site}`);
+  pdf.facts([
+    ['State', statusText[record.status]],
+    ['Crane unit', record.job.crane ?? record.job.craneFleetNumber],
+    ['Created', recordTime(record.dates.created)],
+    ['Started on the board', record.dates.started ? recordTime(record.dates.started) : 'not started'],
+    [record.status === 'cancelled' ? 'Cancelled' : 'Completed', record.dates.finished ? recordTime(record.dates.finished) : 'not yet'],
+    ['Log', `${record.lastSeq} events, the last at ${recordTime(record.dates.lastEvent)}`],
+  ]);
+  pdf.paragraph(`Final hash (SHA-256, event ${record.lastSeq}):`, { size: 10 });
+  pdf.paragraph(record.finalHash, { size: 9 });
+  if (record.cancelled) pdf.paragraph(`Cancelled by ${by(record.cancelled)}. Reason: ${record.cancelled.reason}`);
+  pdf.paragraph(
+    'The final hash is the SHA-256 chain over every event of the job’s log, up to the last event printed here. Ask the server to verify the job’s log and compare the hash it gives with this one, and with any hash e-mailed or printed earlier: a log that was changed after this was printed leads to a different hash.',
+    { size: 8.5, color: '#3b434c' },
+  );
+  pdf.notice(SAFETY_TEXT);
+
+  pdf.heading('Crew');
+  if (record.crew.length === 0) pdf.paragraph('No crew recorded.');
+  else
+    pdf.table(
+      ['Name', 'Roles on this job', 'Qualifications held when printed'],
+      [0.34, 0.33, 0.33],
+      record.crew.map((c) => [c.name, c.roles.map(roleLabel).join(', '), c.qualifications === null ? 'not given' : c.qualifications.length ? c.qualifications.map(roleLabel).join(', ') : 'none']),
+    );
+}
+
+function configuration(pdf: PdfWriter, input: RecordPdfInput) {
+  const { record } = input;
+  pdf.doc.addPage();
+  pdf.heading('Configuration');
+  const saved = record.configuration;
+  if (!saved) {
+    pdf.paragraph('No configuration was saved for this job.');
+    return;
+  }
+  pdf.paragraph(`Saved by ${by(saved.saved)}.`, { size: 9, color: '#3b434c' });
+  pdf.facts(configurationFacts(saved.configuration));
+
+  pdf.heading('Computed figures');
+  if (saved.figuresFrom === 'log')
+    pdf.paragraph('The server’s figures for this configuration were not available: the values and states below are the log’s copy, which does not carry the rules.', { size: 9 });
+  for (const f of saved.figures) {
+    const state = statusWords[f.status] + ((f.status === 'fail' || f.status === 'caution') && !f.overridable ? ', cannot be overridden' : '');
+    pdf.table([], [0.4, 0.42, 0.18], [[f.label, f.value, state]]);
+    if (f.rule) pdf.paragraph(`Rule and source: ${f.rule}${f.detail ? ` — ${f.detail}` : ''}`, { size: 7.5, color: '#3b434c' });
+  }
+
+  pdf.heading('Overrides');
+  if (record.overrides.length === 0) pdf.paragraph('None asked for.');
+  else
+    pdf.table(
+      ['Figure', 'Reason', 'Asked by', 'Approved by'],
+      [0.22, 0.38, 0.2, 0.2],
+      record.overrides.map((o) => [
+        `${o.figureLabel} (${o.figureValue})${o.withdrawn ? `; withdrawn when the configuration was saved again, ${recordTime(o.withdrawn.at)}` : ''}`,
+        o.reason,
+        by(o.requested),
+        o.approved ? by(o.approved) : 'NOT APPROVED',
+      ]),
+    );
+
+  const d = input.drawings;
+  if (!d) return;
+  pdf.heading('Boom make-up');
+  const svg = boomMakeupSvg(d.results.makeup, { sectionTypes: d.arrangement.sectionTypes, widthPx: 960 });
+  pdf.drawing(svg, svgAspect(svg));
+  for (const drawn of configurationDrawings(d.configuration, d.results, d.arrangement)) {
+    pdf.heading(drawn.title);
+    pdf.drawing(drawn.svg, svgAspect(drawn.svg));
+  }
+}
+
+function planVersions(pdf: PdfWriter, record: JobRecord) {
+  pdf.heading('Plan versions and briefings');
+  if (record.revisions.length === 0) {
+    pdf.paragraph('The plan was never locked for the board.');
+    return;
+  }
+  pdf.table(
+    ['Version', 'Put in force', 'Reason', 'Briefing acknowledged by'],
+    [0.1, 0.28, 0.27, 0.35],
+    record.revisions.map((r) => [String(r.version), by(r.made), r.reason ?? 'first version', r.briefings.length ? r.briefings.map(by).join('; ') : 'nobody yet']),
+  );
+}
+
+function holdTable(pdf: PdfWriter, hold: RecordHold) {
+  pdf.ensure(50);
+  pdf.paragraph(`HOLD POINT${hold.mandatory ? ' (mandatory)' : ''}: ${hold.title}${hold.requiredRoles.length ? ` — acknowledged by: ${hold.requiredRoles.map(roleLabel).join(', ')}; released by the supervisor` : ''}`, { size: 10 });
+  const rows = hold.entries.map((e) => [holdEntryWords[e.kind], e.name, roleLabel(e.role), recordTime(e.at), e.sentence]);
+  rows.push(hold.released ? ['RELEASED', hold.released.name, roleLabel(hold.released.role), recordTime(hold.released.at), hold.released.sentence] : ['NOT RELEASED', '', '', '', '']);
+  pdf.table(['', 'Name', 'Role', 'Time', 'What the log says'], [0.15, 0.16, 0.11, 0.22, 0.36], rows, { size: 8 });
+}
+
+function stage(pdf: PdfWriter, s: RecordStage, n: number) {
+  pdf.heading(`${n}. ${s.title}`);
+  if (!s.inPlan) pdf.paragraph('A revision removed this stage from the plan after work was recorded in it.', { size: 9 });
+  if (s.skipped) pdf.paragraph(`Skipped by ${by(s.skipped)}. Reason: ${s.skipped.reason}`, { size: 9 });
+  const rows: string[][] = [];
+  for (const step of s.steps) {
+    if (step.history.length === 0) {
+      rows.push([step.text, 'not done', '', '']);
+      continue;
+    }
+    step.history.forEach((h, i) => {
+      const recorded = [h.value !== null ? `Value: ${h.value}` : '', h.photoId ? `Photo ${h.photoId.slice(0, 8)}` : ''].filter(Boolean).join('; ');
+      rows.push([i === 0 ? step.text : '', `${h.kind === 'done' ? 'Done' : 'REOPENED'} by ${by(h)}`, recorded, h.outOfLimit ? `OUT OF LIMIT: ${h.outOfLimit}` : '']);
+    });
+  }
+  if (rows.length) pdf.table(['Step', 'Who, when', 'Recorded', 'Against its limit'], [0.38, 0.27, 0.15, 0.2], rows, { size: 8 });
+  if (s.hold) holdTable(pdf, s.hold);
+}
+
+function stages(pdf: PdfWriter, record: JobRecord) {
+  pdf.doc.addPage();
+  pdf.title('Stage by stage');
+  if (record.stages.length === 0) pdf.paragraph('No stages: the plan was never locked for the board.');
+  record.stages.forEach((s, i) => stage(pdf, s, i + 1));
+}
+
+function stopsAndWeather(pdf: PdfWriter, record: JobRecord) {
+  pdf.heading('Stops and resumes');
+  if (record.stops.length === 0) pdf.paragraph('No stop was raised.');
+  else
+    pdf.table(
+      ['Stop', 'Cause', 'Resumed'],
+      [0.3, 0.35, 0.35],
+      record.stops.map((s) => [
+        `${s.byWeather ? 'Stopped by a weather reading' : 'ALL STOP'} — ${by(s.pressed)}${s.alsoPressed.length ? `; also pressed by ${s.alsoPressed.map(by).join('; ')}` : ''}`,
+        [s.pressed.reason, ...s.causes.map((c) => `${c.reason} (${who(c)})`)].filter(Boolean).join('; ') || 'NO CAUSE RECORDED',
+        s.resumed ? `${by(s.resumed)}: ${s.resumed.reason}` : 'NOT RESUMED',
+      ]),
+    );
+
+  pdf.heading('Weather readings');
+  if (record.weather.length === 0) pdf.paragraph('No reading recorded.');
+  else
+    pdf.table(
+      ['Time', 'By', 'Mean / gust', 'Height', 'Limit (mean / gust)', 'Verdict'],
+      [0.19, 0.2, 0.13, 0.09, 0.15, 0.24],
+      record.weather.map((w) => [
+        recordTime(w.at),
+        who(w),
+        `${w.meanMs} / ${w.gustMs} m/s`,
+        w.heightM === null ? 'not given' : `${w.heightM} m`,
+        w.limit ? `${w.limit.meanMs} / ${w.limit.gustMs} m/s (${w.phase})` : `none set (${w.phase})`,
+        [w.overLimit ? `OVER: ${w.overLimit}` : 'within the limit', ...w.flags].join('; '),
+      ]),
+      { size: 8 },
+    );
+}
+
+function defects(pdf: PdfWriter, record: JobRecord) {
+  pdf.heading('Defects');
+  if (record.defects.length === 0) pdf.paragraph('No defect reported.');
+  else
+    pdf.table(
+      ['Reported', 'Part', 'Stage', 'Description'],
+      [0.28, 0.14, 0.2, 0.38],
+      record.defects.map((d) => [by(d), d.serial ?? 'not named', d.stageTitle ?? '—', d.description + (d.photoId ? ` (photo ${d.photoId.slice(0, 8)})` : '')]),
+    );
+}
+
+function signOff(pdf: PdfWriter, record: JobRecord) {
+  pdf.heading('Final sign-off');
+  if (!record.signOff) {
+    pdf.paragraph('This job’s plan has no final sign-off hold (a plan written before jobs had an ending), so none is recorded.');
+    return;
+  }
+  pdf.paragraph(`Stage: ${record.signOff.stageTitle}.`, { size: 9 });
+  holdTable(pdf, record.signOff.hold);
+  if (!record.signOff.hold.released) pdf.paragraph('Not signed off yet: the job is not complete.', { size: 10 });
+}
+
+/** Where a photo is named in the record, for its caption. */
+function photoCaption(record: JobRecord, id: string): string {
+  for (const s of record.stages) {
+    for (const step of s.steps) {
+      const h = step.history.find((x) => x.photoId === id);
+      if (h) return `${s.title}: ${step.text} — ${by(h)}`;
+    }
+    const e = s.hold?.entries.find((x) => x.photoId === id);
+    if (e) return `${s.hold!.title}: ${holdEntryWords[e.kind].toLowerCase()} — ${by(e)}`;
+  }
+  const d = record.defects.find((x) => x.photoId === id);
+  return d ? `Defect: ${d.description} — ${by(d)}` : 'Named in the log';
+}
+
+function photos(pdf: PdfWriter, input: RecordPdfInput) {
+  const { record } = input;
+  pdf.heading('Photos');
+  if (record.photoIds.length === 0) {
+    pdf.paragraph('No photo was taken.');
+    return;
+  }
+  pdf.paragraph('Thumbnails; the full photos are kept with the job and listed by their id.', { size: 8.5, color: '#3b434c' });
+  const cols = 3;
+  const gap = 10;
+  const cell = (pdf.width - gap * (cols - 1)) / cols;
+  const imageH = cell * 0.75;
+  const rowH = imageH + 44;
+  const bytes = new Map(input.photos.map((p) => [p.id, p.jpeg]));
+  for (let i = 0; i < record.photoIds.length; i += cols) {
+    pdf.ensure(rowH);
+    const y = pdf.doc.y;
+    record.photoIds.slice(i, i + cols).forEach((id, j) => {
+      const x = pdf.doc.page.margins.left + j * (cell + gap);
+      const jpeg = bytes.get(id);
+      pdf.doc.rect(x, y, cell, imageH).lineWidth(0.5).strokeColor('#b9ad97').stroke();
+      if (jpeg) pdf.image(jpeg, x, y, { width: cell, height: imageH });
+      else pdf.doc.font('Body').fontSize(8).fillColor('#9a1c12').text('PHOTO NOT FOUND in storage', x + 6, y + imageH / 2 - 5, { width: cell - 12, align: 'center' });
+      pdf.doc.font('Body').fontSize(7).fillColor('#14181d').text(`${id.slice(0, 8)} · ${photoCaption(record, id)}`, x, y + imageH + 3, { width: cell, height: 40, ellipsis: true });
+    });
+    pdf.doc.x = pdf.doc.page.margins.left;
+    pdf.doc.y = y + rowH;
+  }
+}
+
+function timeline(pdf: PdfWriter, record: JobRecord) {
+  pdf.doc.addPage();
+  pdf.title('The whole log', 'Every event in order, in the words the board showed.');
+  pdf.table(
+    ['#', 'Time', 'Who', 'What'],
+    [0.06, 0.2, 0.2, 0.54],
+    record.timeline.map((t) => [String(t.seq), recordTime(t.at), who(t), t.sentence]),
+    { size: 7.5 },
+  );
+}

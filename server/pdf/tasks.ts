@@ -1,0 +1,25 @@
+import type { ConfigurationResults } from '../../shared/planner/types.js';
+import type { ArrangementData } from '../../shared/schemas/arrangement.js';
+import type { JobDto } from '../../shared/schemas/jobs.js';
+import type { Plan } from '../../shared/schemas/plan.js';
+import { configurationSheetPdf } from './configuration-sheet.js';
+import { planChecklistPdf } from './plan-checklist.js';
+import { recordPdf, type RecordPdfInput } from './record.js';
+
+/** One PDF to render, as plain data a worker thread receives by structured clone. */
+export type PdfTask =
+  | { kind: 'configuration'; job: JobDto; results: ConfigurationResults | null; arrangement: ArrangementData; printedAt: string }
+  | { kind: 'plan'; job: JobDto; plan: Plan; version: number; printedAt: string }
+  | ({ kind: 'record' } & RecordPdfInput);
+
+/** Renders one task in the calling thread; the worker runs this, and so can a test. */
+export function renderTask(task: PdfTask): Promise<Buffer> {
+  switch (task.kind) {
+    case 'configuration':
+      return configurationSheetPdf(task.job, task.results, task.arrangement, new Date(task.printedAt));
+    case 'plan':
+      return planChecklistPdf(task.job, task.plan, task.version, new Date(task.printedAt));
+    case 'record':
+      return recordPdf(task);
+  }
+}

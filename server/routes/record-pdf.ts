@@ -1,0 +1,123 @@
+import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+import type { Readable } from 'node:stream';
+import { Router } from 'express';
+import sharp from 'sharp';
+import { In } from 'typeorm';
+import { buildRecord } from '../../shared/record/record.js';
+import type { CrewRole } from '../../shared/schemas/jobs.js';
+import type { AppContext } from '../context.js';
+import { CraneModel } from '../entities/CraneModel.js';
+import { CraneUnit } from '../entities/CraneUnit.js';
+import { Job } from '../entities/Job.js';
+import { JobEvent } from '../entities/JobEvent.js';
+import { Upload } from '../entities/Upload.js';
+import { User } from '../entities/User.js';
+import { renderPdf } from '../pdf/pool.js';
+import { can, canSeeUpload } from '../policies/index.js';
+import { redactEventFor } from '../presenters/board.js';
+import { presentJobEvent } from '../presenters/job-event.js';
+import { loadJobFor } from './job-access.js';
+
+/** Who asks for the record, and so what of the log they may see. */
+export interface RecordReader {
+  job: Job;
+  actor: User;
+  crewRoles: CrewRole[];
+  /** The job's planners see which blind-check fields differed; everyone else gets them redacted. */
+  planner: boolean;
+}
+
+/** What a reader sees of the record: it names the cached file, so one audience never gets another's copy. */
+function audienceOf(reader: RecordReader): string {
+  // Board photos are for the crew and watchers (canSeeUpload); a supervisor outside the crew reads the job without them.
+  const photos = can(reader.actor, 'board.watch', { crewRoles: reader.crewRoles });
+  return `${reader.planner ? 'planners' : 'crew'}${photos ? '' : '-no-photos'}`;
+}
+
+/** Longest side of a photo in the record, in pixels: about 300 dpi at the printed thumbnail's width. */
+const THUMBNAIL_PX = 640;
+
+const finished = (state: string) => state === 'complete' || state === 'cancelled';
+
+async function bytesOf(stream: Readable): Promise<Buffer> {
+  const chunks: Buffer[] = [];
+  for await (const chunk of stream) chunks.push(Buffer.isBuffer(chunk) ? chunk : Buffer.from(String(chunk)));
+  return Buffer.concat(chunks);
+}
+
+/** Where a finished job's record is kept once rendered: by its final hash, per audience. */
+export function cachedRecordPath(context: AppContext, jobId: string, finalHash: string, audience: string): string {
+  return path.join(context.config.dataDir, 'records', `${jobId}-${finalHash}-${audience}.pdf`);
+}
+
+/**
+ * The record PDF of a job for one reader. A finished job's log can no longer change, so its record
+ * is rendered once and then read from the data folder; a live job's is rendered each time, in a
+ * worker thread, from a consistent prefix of the log.
+ */
+export async function recordPdfFor(context: AppContext, reader: RecordReader): Promise<Buffer> {
+  const { manager } = context.dataSource;
+  // Read in turn with the writers: the events and the head hash belong together.
+  const { job, rows } = await context.queue.run(async () => {
+    const current = await manager.findOneByOrFail(Job, { id: reader.job.id });
+    const stored = await manager.find(JobEvent, { where: { jobId: current.id }, order: { seq: 'ASC' } });
+    return { job: current, rows: stored.filter((r) => r.seq <= current.lastSeq) };
+  });
+  const cacheFile = finished(job.state) ? cachedRecordPath(context, job.id, job.headHash, audienceOf(reader)) : null;
+  if (cacheFile) {
+    const cached = await readFile(cacheFile).catch(() => null);
+    if (cached) return cached;
+  }
+
+  const events = rows.map((r) => redactEventFor(presentJobEvent(r), reader.planner));
+  const unit = await manager.findOneByOrFail(CraneUnit, { id: job.craneUnitId });
+  const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
+  const crewIds = [...new Set(events.flatMap((e) => (e.type === 'crew.set' || e.type === 'job.created' ? e.data.crew.map((c) => c.userId) : [])))];
+  const people = crewIds.length ? await manager.findBy(User, { id: In(crewIds) }) : [];
+  const qualificationsOf = Object.fromEntries(people.map((p) => [p.id, [...p.qualifications, ...(p.canInspect ? ['Qualified to inspect'] : [])]]));
+  const record = buildRecord(events, {
+    finalHash: job.headHash,
+    crane: `${unit.fleetNumber} — ${model.arrangement.manufacturer} ${model.arrangement.model}`,
+    qualificationsOf,
+    figures: job.results?.figures ?? null,
+  });
+
+  const uploads = record.photoIds.length ? await manager.findBy(Upload, { id: In(record.photoIds) }) : [];
+  const photos: { id: string; jpeg: Uint8Array }[] = [];
+  for (const upload of uploads) {
+    if (!canSeeUpload(reader.actor, upload, reader.crewRoles)) continue;
+    const stored = await context.storage.get(upload.thumbnailName);
+    if (!stored) continue;
+    // pdfkit draws JPEG and PNG only; thumbnails are stored as WebP. sharp works off the event loop.
+    const jpeg = await sharp(await bytesOf(stored.stream)).resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 75 }).toBuffer();
+    photos.push({ id: upload.id, jpeg: new Uint8Array(jpeg) });
+  }
+
+  const pdf = await renderPdf({
+    kind: 'record',
+    record,
+    drawings: job.configuration && job.results ? { configuration: job.configuration, results: job.results, arrangement: model.arrangement } : null,
+    photos,
+    printedAt: context.now().toISOString(),
+  });
+  if (cacheFile) {
+    await mkdir(path.dirname(cacheFile), { recursive: true });
+    // Written aside and renamed, so a reader never gets half a file.
+    const partial = `${cacheFile}.${process.pid}.${Date.now()}.partial`;
+    await writeFile(partial, pdf);
+    await rename(partial, cacheFile);
+  }
+  return pdf;
+}
+
+/** GET /api/jobs/:jobId/record.pdf: the job's record, live or finished. */
+export function recordPdfRouter(context: AppContext): Router {
+  const router = Router();
+  router.get('/jobs/:jobId/record.pdf', async (req, res) => {
+    const { job, actor, crewRoles } = await loadJobFor(context, req, 'jobs.read');
+    const pdf = await recordPdfFor(context, { job, actor, crewRoles, planner: can(actor, 'jobs.plan', { crewRoles }) });
+    res.type('application/pdf').attachment(`record-${job.id.slice(0, 8)}.pdf`).send(pdf);
+  });
+  return router;
+}
