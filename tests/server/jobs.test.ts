@@ -198,7 +198,7 @@ describe('jobs, crews, configuration and the event log', () => {
     const events = jobEventListSchema.parse((await request(server.app).get(`/api/jobs/${job.id}/events?after=0`).set(as(supervisor)).expect(200)).body);
     expect(events.items.map((e) => e.seq)).toEqual(Array.from({ length: 101 }, (_, i) => i + 1));
     expect(events.lastSeq).toBe(101);
-    expect(verifySchema.parse((await request(server.app).get(`/api/jobs/${job.id}/record/verify`).set(as(supervisor)).expect(200)).body)).toEqual({ valid: true, checked: 101, firstBadSeq: null });
+    expect(verifySchema.parse((await request(server.app).get(`/api/jobs/${job.id}/record/verify`).set(as(supervisor)).expect(200)).body)).toMatchObject({ valid: true, checked: 101, firstBadSeq: null, finalHash: expect.stringMatching(/^[0-9a-f]{64}$/) });
     const tail = jobEventListSchema.parse((await request(server.app).get(`/api/jobs/${job.id}/events?after=95`).set(as(supervisor)).expect(200)).body);
     expect(tail.items.map((e) => e.seq)).toEqual([96, 97, 98, 99, 100, 101]);
   });
@@ -217,7 +217,7 @@ describe('jobs, crews, configuration and the event log', () => {
       const db = raw();
       db.prepare("UPDATE job_event SET data = ? WHERE job_id = ? AND seq = 3").run(JSON.stringify({ changes: { site: 'Elsewhere' } }), jobId);
       db.close();
-      expect(await verify(jobId)).toEqual({ valid: false, checked: 2, firstBadSeq: 3 });
+      expect(await verify(jobId)).toEqual({ valid: false, checked: 2, firstBadSeq: 3, finalHash: null });
     });
 
     it('a deleted event, in the middle and at the end', async () => {
@@ -225,7 +225,7 @@ describe('jobs, crews, configuration and the event log', () => {
       const db = raw();
       db.prepare('DELETE FROM job_event WHERE job_id = ? AND seq = 4').run(jobId);
       db.close();
-      expect(await verify(jobId)).toEqual({ valid: false, checked: 3, firstBadSeq: 4 });
+      expect(await verify(jobId)).toEqual({ valid: false, checked: 3, firstBadSeq: 4, finalHash: null });
 
       const tailJob = await jobWithEvents(3);
       const db2 = raw();
