@@ -15,6 +15,7 @@ import {
   type UpdateUserRequest,
   type UserDto,
 } from '../../shared/schemas/users';
+import { mailProblemListSchema, type MailProblem } from '../../shared/schemas/mail';
 import { api, ApiRequestError, describeError } from '../services/api';
 import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
 
@@ -229,4 +230,28 @@ export const useTestInboxStore = defineStore('test-inbox', () => {
   }
 
   return { messages, available, loading, problem, load };
+});
+
+/** E-mails for the record that failed or wait for another try (admins only). */
+export const useMailProblemsStore = defineStore('mail-problems', () => {
+  const items = ref<MailProblem[]>([]);
+  const loading = ref(false);
+  const loaded = ref(false);
+  const problem = ref('');
+
+  async function load() {
+    if (loading.value) return;
+    loading.value = true;
+    problem.value = '';
+    try {
+      items.value = (await api('/mail/problems', { schema: mailProblemListSchema })).items;
+      loaded.value = true;
+    } catch (error) {
+      problem.value = describeError(error);
+    } finally {
+      loading.value = false;
+    }
+  }
+
+  return { items, loading, loaded, problem, load };
 });

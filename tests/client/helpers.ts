@@ -22,6 +22,7 @@ export function buildJob(overrides: Partial<JobDto> = {}): JobDto {
     figures: [],
     crew: [],
     distribution: [],
+    holdReminderMinutes: 10,
     commsPlan: { radioChannel: '', callSigns: [], motionSignallers: [], fallbackHandSignals: '' },
     overrides: [],
     lastSeq: 1,
