@@ -68,6 +68,33 @@ export const HOLD_WORDS = {
   resume: 'Hold to resume the job',
 } as const;
 
+/** The job's final sign-off on the board: the inspector's slot, its control and the closed board. */
+export const SIGN_OFF_WORDS = {
+  slot: 'Qualified inspector',
+  waiting: 'waiting',
+  acknowledge: 'Hold to acknowledge as inspector',
+  acknowledgeTitle: 'Acknowledge as inspector',
+  /** Said beside the press-and-hold: what the acknowledgment stands for. */
+  meaning: 'You confirm that you inspected the assembled crane against this configuration and recorded the inspection.',
+  notQualified: 'Only a crew member the administrator marks as qualified to inspect cranes acknowledges as the inspector.',
+  alreadyAcknowledged: 'You acknowledged this hold under another role: another qualified person acknowledges as the inspector.',
+  releaseWaits: 'Release is possible once every role and the qualified inspector have acknowledged.',
+  inspectorNotReleaser: 'You acknowledged as the inspector: another supervisor releases this hold.',
+  releaseAfter: 'Releasing it completes the job: the board becomes read-only and the crane unit’s as-built configuration is recorded.',
+  readOnly: 'This board is read-only: nothing more is recorded on it.',
+  radio: 'Stop any movement by radio and signal.',
+  record: 'Open the job’s record',
+} as const;
+
+/** The closed board's headline, large and plain; `when` formats the release time (services/time.ts). */
+export function closedHeadline(board: BoardState, when: (iso: string) => string): string {
+  if (board.job.state === 'cancelled') return board.job.cancelReason ? `Job cancelled: ${board.job.cancelReason}` : 'Job cancelled';
+  const signOff = board.stages.find((s) => s.hold?.signOff && s.hold.state === 'released')?.hold;
+  const inspector = signOff?.acknowledgments.find((a) => a.inspector);
+  if (!signOff?.releasedBy || !inspector) return 'Job complete';
+  return `Job complete: signed off by ${inspector.name} and released by ${signOff.releasedBy.name} at ${when(signOff.releasedBy.at)}`;
+}
+
 /** Why a control cannot act now, said beside it (never a blue button that fails on tap). */
 export const BLOCKED_WORDS = {
   notLive: 'The board is not live: wait for it to reconnect.',

@@ -44,3 +44,26 @@ export function tonnes(weightKg: number): string {
 export function metres(lengthM: number): string {
   return `${plain(lengthM, 2)} m`;
 }
+
+/** The unit's as-built panel: the configuration the last signed-off job left the crane in. */
+export const AS_BUILT_WORDS = {
+  title: 'As built',
+  empty: 'No job has been signed off on this unit yet. The configuration is recorded here when a job’s final sign-off is released.',
+  caution: 'As the job’s sign-off recorded it. Parts may have been changed since: check the crane itself before relying on it.',
+  job: 'Job',
+  kind: 'Signed off',
+  kinds: { erection: 'Erection: post-assembly inspection and hand-over', dismantling: 'Dismantling: crane made safe and off hire' },
+  site: 'Site',
+  date: 'Date',
+  planVersion: 'Plan version',
+  boom: 'Boom length',
+  hook: 'Hook block',
+  parts: 'Parts of line',
+  notRecorded: 'Not recorded',
+  controller: 'Controller values that passed the blind check',
+  noController: 'No controller values were checked on this job.',
+  serials: 'Serials by position',
+  noSerials: 'No serials were recorded on this job.',
+  position: 'Position',
+  serial: 'Serial',
+} as const;

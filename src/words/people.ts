@@ -27,6 +27,15 @@ export const auditKindTone: Record<SignInAuditKind, 'normal' | 'warning'> = {
   reactivated: 'normal',
 };
 
+/** The inspection flag on the people screen: Holdline records the admin's word, it does not judge anyone's qualification. */
+export const INSPECT_WORDS = {
+  toggle: 'Qualified to inspect cranes',
+  help: 'May acknowledge a job’s final sign-off (post-assembly inspection; crane made safe and off hire) as its inspector.',
+  caution:
+    'You confirm this qualification yourself. Licensed practice and the local codes decide who may inspect an assembled crane; Holdline only records what you set here.',
+  chip: 'Inspector',
+} as const;
+
 /** A status in words and the icon that goes with its colour. */
 export const statusWords: Record<PersonStatus, { label: string; icon: string }> = {
   active: { label: 'Active', icon: 'check_circle' },
