@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { PresenceEntry } from '../shared/board/types.js';
 import type { JobEventDto } from '../shared/events/log.js';
 import type { Config } from './config.js';
+import type { Job } from './entities/Job.js';
 import type { WriteQueue } from './db/write-queue.js';
 import type { Logger } from './logger.js';
 import type { Mailer } from './mail/mailer.js';
@@ -15,8 +16,8 @@ import type { Storage } from './storage/index.js';
 export interface Publisher {
   /** Tells every socket of a person why their session ended, then disconnects them. */
   endSessions(userId: string, reason: string): void;
-  /** Broadcasts a committed job event to everyone on that job's board. */
-  publishJobEvent(event: JobEventDto): void;
+  /** Broadcasts a committed job event to everyone on that job's board, and its list line to whoever follows the job. */
+  publishJobEvent(event: JobEventDto, job: Pick<Job, 'id' | 'name' | 'site' | 'state' | 'planVersion' | 'lastSeq' | 'updatedAt'>): void;
   /** Who is connected to a job's board now. */
   presenceOf(jobId: string): PresenceEntry[];
 }

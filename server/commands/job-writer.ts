@@ -49,7 +49,7 @@ export async function runJobCommand(
     return { event: presentJobEvent(event), job, replayed: false };
   });
   if (!outcome.replayed) {
-    context.publisher.publishJobEvent(outcome.event);
+    context.publisher.publishJobEvent(outcome.event, outcome.job);
     // E-mail for the record goes out after the commit and can never hold up or fail the command.
     context.outbox.jobEventCommitted(outcome.event);
   }

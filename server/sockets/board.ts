@@ -1,10 +1,12 @@
 import { z } from 'zod';
 import type { BoardSnapshot } from '../../shared/board/types.js';
-import type { JoinAnswer, CommandAnswer } from '../../shared/events/socket.js';
+import { FOLLOW_LIMIT, type CommandAnswer, type JoinAnswer } from '../../shared/events/socket.js';
 import { boardCommandSchema } from '../../shared/schemas/commands.js';
 import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
+import { In } from 'typeorm';
 import { Job } from '../entities/Job.js';
+import { JobCrew } from '../entities/JobCrew.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { User } from '../entities/User.js';
 import { badRequest, fieldsFromZod, HttpError, notFound, refusalOf } from '../errors.js';
@@ -13,7 +15,7 @@ import { redactBoardFor, redactEventFor } from '../presenters/board.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { socketTokenValid, type HoldlineSocket } from './auth.js';
-import { jobRoom, plannerRoom, type BoardPublisher } from './publisher.js';
+import { jobRoom, plannerRoom, summaryRoom, type BoardPublisher } from './publisher.js';
 
 /** A rejoining client gets at most this many missed events; beyond it, a fresh snapshot. */
 export const JOIN_REPLAY_LIMIT = 500;
@@ -22,6 +24,7 @@ export const TICK_MS = 1000;
 
 const joinSchema = z.object({ jobId: z.uuid(), afterSeq: z.number().int().min(0).optional() });
 const commandPayloadSchema = z.object({ jobId: z.uuid(), command: boardCommandSchema });
+const followSchema = z.object({ jobIds: z.array(z.uuid()).max(FOLLOW_LIMIT) });
 
 /**
  * The board's per-socket handlers (join with resync, leave, commands with acknowledgments) and
@@ -102,6 +105,29 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
         }
       })();
       ack(answer);
+    });
+
+    // List lines follow the jobs a person may read, without putting them on any board's presence.
+    const followed = new Set<string>();
+    socket.on('jobs:follow', async (payload, ack) => {
+      if (typeof ack !== 'function') return;
+      try {
+        const parsed = followSchema.safeParse(payload);
+        if (!parsed.success) throw badRequest(`Follow at most ${FOLLOW_LIMIT} jobs by their ids.`, fieldsFromZod(parsed.error));
+        const user = await manager.findOneBy(User, { id: socket.data.userId });
+        if (!user?.active) throw new HttpError(403, 'account_inactive', 'This account is deactivated.');
+        const ids = [...new Set(parsed.data.jobIds)];
+        const jobs = ids.length ? await manager.findBy(Job, { id: In(ids) }) : [];
+        const crew = ids.length ? await manager.findBy(JobCrew, { userId: user.id, jobId: In(ids) }) : [];
+        const readable = jobs.map((j) => j.id).filter((jobId) => can(user, 'jobs.read', { crewRoles: crew.filter((c) => c.jobId === jobId).map((c) => c.role) }));
+        for (const jobId of followed) if (!readable.includes(jobId)) void socket.leave(summaryRoom(jobId));
+        followed.clear();
+        for (const jobId of readable) followed.add(jobId);
+        await socket.join(readable.map(summaryRoom));
+        ack({ ok: true, following: readable });
+      } catch (error) {
+        ack(refusalOf(error, context.logger, { event: 'jobs:follow', userId: socket.data.userId }));
+      }
     });
 
     socket.on('disconnect', () => {

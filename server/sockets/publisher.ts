@@ -7,6 +7,8 @@ import { userRoom, type HoldlineServer } from './auth.js';
 export const jobRoom = (jobId: string) => `job:${jobId}`;
 /** The job's planners (its supervisors, admins): they get events unredacted (server/presenters/board.ts). */
 export const plannerRoom = (jobId: string) => `job:${jobId}:planners`;
+/** Whoever follows a job's list line (the jobs list, a job's page) without being on its board. */
+export const summaryRoom = (jobId: string) => `summary:${jobId}`;
 
 type PresenceDelta = { joined: PresenceEntry[]; left: string[] };
 
@@ -79,8 +81,10 @@ export class BoardPublisher implements Publisher {
 
   constructor(private readonly io: HoldlineServer) {}
 
-  publishJobEvent(event: JobEventDto): void {
+  publishJobEvent(event: JobEventDto, job: Parameters<Publisher['publishJobEvent']>[1]): void {
     this.noteSeq(event.jobId, event.seq);
+    const { id: jobId, name, site, state, planVersion, lastSeq, updatedAt } = job;
+    this.io.to(summaryRoom(jobId)).emit('jobs:summary', { jobId, name, site, state, planVersion, lastSeq, updatedAt });
     if (eventNeedsRedaction(event)) {
       this.io.to(jobRoom(event.jobId)).except(plannerRoom(event.jobId)).emit('board:event', redactEventFor(event, false));
       this.io.to(plannerRoom(event.jobId)).emit('board:event', event);

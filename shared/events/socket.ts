@@ -1,5 +1,6 @@
 import type { BoardSnapshot, PresenceEntry } from '../board/types.js';
 import type { BoardCommand } from '../schemas/commands.js';
+import type { JobState } from '../schemas/jobs.js';
 import type { JobEventDto } from './log.js';
 
 /** Acknowledgment of every client-to-server event: success with data, or a readable refusal. */
@@ -25,6 +26,20 @@ export const handshakeErrors = {
   inactive: 'account_inactive',
 } as const;
 
+/** A job's list line after each committed event, for screens that show jobs without opening their boards. */
+export interface JobSummaryUpdate {
+  jobId: string;
+  name: string;
+  site: string;
+  state: JobState;
+  planVersion: number;
+  lastSeq: number;
+  updatedAt: string;
+}
+
+/** At most this many jobs are followed by one connection (a list page's worth). */
+export const FOLLOW_LIMIT = 200;
+
 /** Answer to a board command. */
 export type CommandAnswer = Ack<{ seq: number; event: JobEventDto }>;
 
@@ -36,6 +51,8 @@ export interface BoardServerEvents {
   'board:event': (event: JobEventDto) => void;
   'board:tick': (payload: { jobId: string; seq: number; at: string }) => void;
   'board:presence': (payload: { jobId: string; joined: PresenceEntry[]; left: string[] }) => void;
+  /** A followed job changed (see `jobs:follow`). */
+  'jobs:summary': (payload: JobSummaryUpdate) => void;
 }
 
 /** Board events from clients. */
@@ -43,4 +60,6 @@ export interface BoardClientEvents {
   'board:join': (payload: { jobId: string; afterSeq?: number }, ack: (answer: JoinAnswer) => void) => void;
   'board:leave': (payload: { jobId: string }) => void;
   'board:command': (payload: { jobId: string; command: BoardCommand }, ack: (answer: CommandAnswer) => void) => void;
+  /** Follows the list lines of these jobs (replacing the last list): those the person may read are followed. */
+  'jobs:follow': (payload: { jobIds: string[] }, ack: (answer: Ack<{ following: string[] }>) => void) => void;
 }

@@ -9,7 +9,10 @@ import { jobEventListSchema, type JobEventDto, type JobEventType } from '../../s
 import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
 import { api, ApiRequestError, describeError, download, fileNamePart } from '../services/api';
+import { FOLLOW_LIMIT, type JobSummaryUpdate } from '../../shared/events/socket';
+import { connectSocket } from '../services/socket';
 import { useBoardStore } from './board';
+import { useSessionStore } from './session';
 import { createBurstRunner } from './bursts';
 import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
 
@@ -169,6 +172,42 @@ export const useJobsStore = defineStore('jobs', () => {
   }
   useBoardStore().onBoardEvent(followEvent);
 
+  /**
+   * A followed job changed elsewhere (another person started, stopped or revised it): its list
+   * line takes the new state at once; the open job is read back once per burst when the change
+   * reached it, so a page left open never shows an old state.
+   */
+  function applySummary(u: JobSummaryUpdate) {
+    const line = { name: u.name, site: u.site, state: u.state, planVersion: u.planVersion, updatedAt: u.updatedAt };
+    if (items.value.some((s) => s.id === u.jobId)) items.value = items.value.map((s) => (s.id === u.jobId ? { ...s, ...line } : s));
+    const held = details[u.jobId];
+    if (held && u.lastSeq > held.lastSeq) {
+      details[u.jobId] = { ...held, ...line, lastSeq: u.lastSeq };
+      bursts.run(`job:${u.jobId}`, () => loadJob(u.jobId));
+    }
+  }
+
+  let following = false;
+  /**
+   * Follows the listed jobs and the open ones live through the tab's one socket (the server
+   * checks each against who may read it). Pages call it once they show jobs; it follows again
+   * after every reconnect.
+   */
+  function followLive() {
+    const session = useSessionStore();
+    const socket = connectSocket(() => session.token);
+    const send = () => {
+      const jobIds = [...new Set([...items.value.map((s) => s.id), ...Object.keys(details)])].slice(0, FOLLOW_LIMIT);
+      socket.emit('jobs:follow', { jobIds }, () => undefined);
+    };
+    if (!following) {
+      following = true;
+      socket.on('jobs:summary', applySummary);
+      socket.on('connect', send);
+    }
+    if (socket.connected) send();
+  }
+
   /** After a change: readiness and, when it is being shown, the event log follow. */
   function followUp(jobId: string) {
     void loadReadiness(jobId);
@@ -211,9 +250,11 @@ export const useJobsStore = defineStore('jobs', () => {
     });
   }
 
-  function verifyRecord(jobId: string) {
+  /** Checks the stored chain; with `expect`, a hash from paper or an e-mail, also whether the log still leads to it. */
+  function verifyRecord(jobId: string, expect?: string) {
     return track(`verify:${jobId}`, async () => {
-      verification[jobId] = await api(`/jobs/${id(jobId)}/record/verify`, { schema: verifySchema });
+      const query = expect ? `?expect=${encodeURIComponent(expect)}` : '';
+      verification[jobId] = await api(`/jobs/${id(jobId)}/record/verify${query}`, { schema: verifySchema });
       return verification[jobId];
     });
   }
@@ -330,6 +371,8 @@ export const useJobsStore = defineStore('jobs', () => {
   return {
     items,
     listLoaded,
+    followLive,
+    applySummary,
     details,
     readiness,
     events,

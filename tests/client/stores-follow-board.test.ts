@@ -1,5 +1,5 @@
 import { createPinia, setActivePinia } from 'pinia';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, onTestFinished, vi } from 'vitest';
 import type { JobEventDto } from '../../shared/events/log';
 import type { BoardSnapshot } from '../../shared/board/types';
 import type { JobSummary } from '../../shared/schemas/jobs';
@@ -212,5 +212,47 @@ describe('stores that follow the open board', () => {
     fake.deliver('board:event', edited(7));
     await wait(BURST_MS + 100);
     expect(fetchMock.mock.calls.slice(requestsBefore).map(([url]) => url)).toEqual([`/api/jobs/${JOB_ID}/plan`]);
+  });
+});
+
+describe('job lines followed without their board', () => {
+  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
+
+  beforeEach(() => {
+    setActivePinia(createPinia());
+    fake.reset();
+    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
+    vi.stubGlobal('fetch', fetchMock);
+  });
+  afterEach(() => vi.unstubAllGlobals());
+
+  it('the list line takes a job stopped by someone else, and the open job is read back once', async () => {
+    const jobs = useJobsStore();
+    fetchMock.mockResolvedValueOnce(json(200, { items: [summary({ state: 'live' })] }));
+    await jobs.loadList();
+    fetchMock.mockResolvedValueOnce(json(200, { job: buildJob({ state: 'live', lastSeq: 7 }) }));
+    await jobs.loadJob(JOB_ID);
+    const emitted: unknown[] = [];
+    const plainEmit = fake.socket.emit;
+    onTestFinished(() => {
+      fake.socket.emit = plainEmit;
+    });
+    fake.socket.emit = ((event: string, payload: unknown) => {
+      emitted.push([event, payload]);
+      return fake.socket;
+    }) as typeof fake.socket.emit;
+    jobs.followLive();
+    expect(emitted).toEqual([['jobs:follow', { jobIds: [JOB_ID] }]]);
+
+    fetchMock.mockResolvedValueOnce(json(200, { job: buildJob({ state: 'stopped', lastSeq: 8 }) }));
+    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'Boom erection for the pump house', site: 'Riverside works', state: 'stopped', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
+    expect(jobs.items[0].state).toBe('stopped');
+    expect(jobs.details[JOB_ID].state).toBe('stopped');
+    await wait(BURST_MS + 50);
+    expect(fetchMock).toHaveBeenCalledTimes(3);
+    // An update the page already holds (an older seq) reads nothing back.
+    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'x', site: 'y', state: 'stopped', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
+    await wait(BURST_MS + 50);
+    expect(fetchMock).toHaveBeenCalledTimes(3);
   });
 });
