@@ -17,6 +17,7 @@ import { resolveSecret } from './auth/secret.js';
 import { HoldReminders } from './mail/hold-reminders.js';
 import { createMailer, type Mailer } from './mail/mailer.js';
 import { MailOutboxService, type OutboxOptions } from './mail/outbox.js';
+import { recordPdfFromRenderer } from './mail/record-pdf.js';
 import { authenticate } from './middlewares/authenticate.js';
 import { assistCranesRouter } from './routes/assist-cranes.js';
 import { auditRouter } from './routes/audit.js';
@@ -77,7 +78,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
   const publisher = new BoardPublisher(io);
   const mailer = deps.mailer ?? createMailer(config.smtpUrl, logger, path.join(config.dataDir, 'mail'));
   const now = deps.now ?? (() => new Date());
-  const outbox = new MailOutboxService({ config, dataSource, queue, logger, mailer, now }, deps.outbox);
+  // The record PDF is rendered through the context made just below; it is only asked for when an e-mail goes out.
+  const outbox = new MailOutboxService({ config, dataSource, queue, logger, mailer, now }, { recordPdf: (jobId) => recordPdfFromRenderer(context)(jobId), ...deps.outbox });
   const context: AppContext = {
     config,
     dataSource,

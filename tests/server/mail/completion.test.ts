@@ -1,5 +1,8 @@
 import { createServer } from 'node:net';
-import PDFDocument from 'pdfkit';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { jobEnvelopeSchema } from '../../../shared/schemas/jobs.js';
@@ -7,7 +10,7 @@ import { mailProblemListSchema } from '../../../shared/schemas/mail.js';
 import { MailOutbox } from '../../../server/entities/MailOutbox.js';
 import { User } from '../../../server/entities/User.js';
 import { FakeSmtpServer } from '../../../server/mail/fake-smtp.js';
-import type { RecordPdfSource } from '../../../server/mail/record-pdf.js';
+import { noRecordPdf } from '../../../server/mail/record-pdf.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, boardOf, briefEveryone, completeSteps, httpCommand, weatherIfNeeded, type CrewByRole } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
@@ -85,16 +88,17 @@ async function complete(server: TestServer, { crew }: Setup, jobId: string) {
   return job;
 }
 
-/** A small real PDF, standing in for the record renderer so the attachment path is exercised end to end. */
-const pdfOf = (text: string) =>
-  new Promise<Buffer>((resolve) => {
-    const doc = new PDFDocument();
-    const chunks: Buffer[] = [];
-    doc.on('data', (c: Buffer) => chunks.push(c));
-    doc.on('end', () => resolve(Buffer.concat(chunks)));
-    doc.text(text);
-    doc.end();
-  });
+/** The text of every page of a PDF (poppler's pdftotext), whitespace collapsed. */
+function pdfText(pdf: Buffer): string {
+  const folder = mkdtempSync(path.join(os.tmpdir(), 'holdline-mail-pdf-'));
+  try {
+    const file = path.join(folder, 'attached.pdf');
+    writeFileSync(file, pdf);
+    return execFileSync('pdftotext', ['-raw', '-enc', 'UTF-8', file, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+  } finally {
+    rmSync(folder, { recursive: true, force: true });
+  }
+}
 
 async function waitUntil(what: string, test: () => Promise<boolean>, timeoutMs = 8_000): Promise<void> {
   const until = Date.now() + timeoutMs;
@@ -107,14 +111,10 @@ async function waitUntil(what: string, test: () => Promise<boolean>, timeoutMs =
 describe('the completion e-mail', () => {
   let server: TestServer;
   let setup: Setup;
-  const rendered: string[] = [];
-  const recordPdf: RecordPdfSource = async (jobId) => {
-    rendered.push(jobId);
-    return { filename: 'record.pdf', contentType: 'application/pdf', content: await pdfOf(`Record of ${jobId}`) };
-  };
 
   beforeAll(async () => {
-    server = await startTestServer({ outbox: { retryDelaysMs: [0, 50, 100], recordPdf } });
+    // The app's own record renderer (server/pdf/record.ts through the record.pdf route's function).
+    server = await startTestServer({ outbox: { retryDelaysMs: [0, 50, 100] } });
     setup = await setUp(server);
   });
   afterAll(() => server.stop());
@@ -131,11 +131,13 @@ describe('the completion e-mail', () => {
       // The final sign-off is read from the log: its release and the inspector's acknowledgment.
       expect(mail.text).toContain('Final sign-off:');
       expect(mail.text).toContain(`Acknowledged by ${setup.inspector.user.displayName} (qualified inspector)`);
-      expect(mail.attachments).toEqual([expect.objectContaining({ filename: 'record.pdf', contentType: 'application/pdf' })]);
-      const bytes = fake.attachmentContent(mail.id, 0);
-      expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+      expect(mail.attachments).toEqual([expect.objectContaining({ filename: `record-${jobId.slice(0, 8)}.pdf`, contentType: 'application/pdf' })]);
+      // The attached record is the job's, and carries the same final hash as the e-mail's body.
+      const text = pdfText(fake.attachmentContent(mail.id, 0));
+      expect(text).toContain(`Final hash: ${job.headHash}`);
+      expect(text).toContain('Completion job');
+      expect(text).toContain(setup.inspector.user.displayName);
     }
-    expect(rendered).toEqual([jobId, jobId]);
     // One row per address, each recorded as sent after the mail server took it.
     await server.context.outbox.idle();
     const rows = await server.context.dataSource.manager.findBy(MailOutbox, { jobId, kind: 'completion' });
@@ -192,7 +194,8 @@ describe('a mail server that answers 550 and then recovers', () => {
     refusing.refuseEverything = true;
     const port = await refusing.start();
     // The second try waits long enough for the test to see the refusal listed before it recovers.
-    server = await startTestServer({ env: { SMTP_URL: `smtp://127.0.0.1:${port}` }, outbox: { retryDelaysMs: [0, 1_500, 100] } });
+    // Without a record source, to check the words of an e-mail whose record could not be attached.
+    server = await startTestServer({ env: { SMTP_URL: `smtp://127.0.0.1:${port}` }, outbox: { retryDelaysMs: [0, 1_500, 100], recordPdf: noRecordPdf } });
     setup = await setUp(server);
   });
   afterAll(async () => {
@@ -214,7 +217,7 @@ describe('a mail server that answers 550 and then recovers', () => {
     for (const address of DISTRIBUTION) {
       const mail = await refusing.waitFor(address, 8_000);
       expect(mail.text).toContain('Final hash');
-      // This server has no record PDF source: nothing is attached, and the e-mail says where the record is.
+      // No record PDF source here: nothing is attached, and the e-mail says where the record is.
       expect(mail.attachments).toEqual([]);
       expect(mail.text).toContain(`The record PDF is not attached to this e-mail: download it from the job in Holdline, ${server.url}/jobs/${jobId}`);
     }
