@@ -18,3 +18,21 @@ export const jobKindLabels: Record<JobKind, string> = { erection: 'Erection', di
 
 /** What a job's closed record is called: a dismantling job never talks of an erection record. */
 export const jobRecordNames: Record<JobKind, string> = { erection: 'erection record', dismantling: 'dismantling record' };
+
+/** The event log's verification, on the job's log tab. */
+export const logCheckWords = {
+  finalHash: 'Final hash',
+  expectLabel: 'Hash from a printed record or an e-mail',
+  expectHint: '64 characters, 0-9 and a-f. Checks whether this log still leads to it.',
+  expectInvalid: 'A hash is 64 characters, 0-9 and a-f.',
+  expectButton: 'Check this hash',
+  /** The log leads to a hash kept outside: nothing before it was changed. */
+  found: (seq: number | null) => `This log leads to that hash: it is the hash of event ${seq ?? '?'}. Nothing up to that event was changed since the hash was taken.`,
+  notFound: 'This log does NOT lead to that hash. If the hash came from this job’s printed record or e-mail, the log was changed after it was taken: do not rely on this record and tell your administrator.',
+};
+
+/** The head of the log shown small on the board's history. */
+export const headHashWords = {
+  label: (seq: number) => `Log hash at event ${seq}`,
+  hint: 'Compare it with the final hash on the printed record or in the e-mail.',
+};
