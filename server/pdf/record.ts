@@ -1,6 +1,6 @@
 import { boomMakeupSvg } from '../../shared/drawings/boom-makeup.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
-import type { JobRecord, RecordEntry, RecordHold, RecordStage } from '../../shared/record/record.js';
+import type { JobRecord, RecordEntry, RecordHold, RecordHoldEntry, RecordStage } from '../../shared/record/record.js';
 import type { ArrangementData } from '../../shared/schemas/arrangement.js';
 import type { Configuration } from '../../shared/schemas/configuration.js';
 import { roleLabel } from '../../shared/schemas/users.js';
@@ -36,8 +36,9 @@ export async function recordPdf(input: RecordPdfInput): Promise<Buffer> {
   const live = record.status === 'in_progress';
   const kindWord = record.job.kind === 'erection' ? 'Erection' : 'Dismantling';
   const hashLine = `Final hash: ${record.finalHash}`;
-  const title = `${kindWord} record · ${record.job.name} · crane ${record.job.craneFleetNumber}${live ? ' · IN PROGRESS' : ''}`;
-  const pdf = new PdfWriter(`${kindWord} record — ${record.job.name}`, [hashLine, `${title} · printed ${recordTime(input.printedAt)}`], {
+  const name = record.job.name.length > 48 ? `${record.job.name.slice(0, 47)}…` : record.job.name;
+  const footer = `${kindWord} record · ${name} · crane ${record.job.craneFleetNumber}${live ? ' · IN PROGRESS' : ''}`;
+  const pdf = new PdfWriter(`${kindWord} record — ${record.job.name}`, [hashLine, footer], {
     stamp: live ? 'IN PROGRESS — live job, not a final record' : undefined,
   });
 
@@ -63,6 +64,7 @@ function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string) {
     ['Started on the board', record.dates.started ? recordTime(record.dates.started) : 'not started'],
     [record.status === 'cancelled' ? 'Cancelled' : 'Completed', record.dates.finished ? recordTime(record.dates.finished) : 'not yet'],
     ['Log', `${record.lastSeq} events, the last at ${recordTime(record.dates.lastEvent)}`],
+    ['Printed', recordTime(input.printedAt)],
   ]);
   pdf.paragraph(`Final hash (SHA-256, event ${record.lastSeq}):`, { size: 10 });
   pdf.paragraph(record.finalHash, { size: 9 });
@@ -79,7 +81,10 @@ function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string) {
     pdf.table(
       ['Name', 'Roles on this job', 'Qualifications held when printed'],
       [0.34, 0.33, 0.33],
-      record.crew.map((c) => [c.name, c.roles.map(roleLabel).join(', '), c.qualifications === null ? 'not given' : c.qualifications.length ? c.qualifications.map(roleLabel).join(', ') : 'none']),
+      record.crew.map((c) => {
+        const held = c.qualifications === null ? [] : [...c.qualifications.map(roleLabel), ...(c.mayInspect ? ['qualified to inspect'] : [])];
+        return [c.name, c.roles.map(roleLabel).join(', '), c.qualifications === null ? 'not given' : held.length ? held.join(', ') : 'none'];
+      }),
     );
 }
 
@@ -227,21 +232,32 @@ function signOff(pdf: PdfWriter, record: JobRecord) {
   }
   pdf.paragraph(`Stage: ${record.signOff.stageTitle}.`, { size: 9 });
   holdTable(pdf, record.signOff.hold);
+  const hold = record.signOff.hold;
+  const withdrawn = (e: RecordHoldEntry) => hold.entries.some((w) => w.kind === 'withdrawn' && w.userId === e.userId && w.role === e.role && w.seq > e.seq);
+  const inspectors = hold.entries.filter((e) => e.kind === 'acknowledged' && !withdrawn(e) && record.crew.find((c) => c.userId === e.userId)?.mayInspect === true);
+  const known = record.crew.some((c) => c.mayInspect !== null);
+  if (known)
+    pdf.paragraph(
+      inspectors.length
+        ? `Acknowledged by a person qualified to inspect (as the people list stood when this was printed): ${[...new Set(inspectors.map((e) => e.name))].join(', ')}.`
+        : 'NO acknowledgment of this hold is by a person the people list marks as qualified to inspect (as it stood when this was printed).',
+      { size: 9.5 },
+    );
   if (!record.signOff.hold.released) pdf.paragraph('Not signed off yet: the job is not complete.', { size: 10 });
 }
 
-/** Where a photo is named in the record, for its caption. */
+/** Where a photo is named in the record, for its caption: who and when first, so a cut caption keeps them. */
 function photoCaption(record: JobRecord, id: string): string {
   for (const s of record.stages) {
     for (const step of s.steps) {
       const h = step.history.find((x) => x.photoId === id);
-      if (h) return `${s.title}: ${step.text} — ${by(h)}`;
+      if (h) return `${by(h)} · ${s.title}: ${step.text}`;
     }
     const e = s.hold?.entries.find((x) => x.photoId === id);
-    if (e) return `${s.hold!.title}: ${holdEntryWords[e.kind].toLowerCase()} — ${by(e)}`;
+    if (e) return `${by(e)} · ${s.hold!.title}: ${holdEntryWords[e.kind].toLowerCase()}`;
   }
   const d = record.defects.find((x) => x.photoId === id);
-  return d ? `Defect: ${d.description} — ${by(d)}` : 'Named in the log';
+  return d ? `${by(d)} · Defect: ${d.description}` : 'Named in the log';
 }
 
 function photos(pdf: PdfWriter, input: RecordPdfInput) {

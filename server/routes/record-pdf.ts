@@ -75,11 +75,12 @@ export async function recordPdfFor(context: AppContext, reader: RecordReader): P
   const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
   const crewIds = [...new Set(events.flatMap((e) => (e.type === 'crew.set' || e.type === 'job.created' ? e.data.crew.map((c) => c.userId) : [])))];
   const people = crewIds.length ? await manager.findBy(User, { id: In(crewIds) }) : [];
-  const qualificationsOf = Object.fromEntries(people.map((p) => [p.id, [...p.qualifications, ...(p.canInspect ? ['Qualified to inspect'] : [])]]));
+  const qualificationsOf = Object.fromEntries(people.map((p) => [p.id, p.qualifications]));
   const record = buildRecord(events, {
     finalHash: job.headHash,
     crane: `${unit.fleetNumber} — ${model.arrangement.manufacturer} ${model.arrangement.model}`,
     qualificationsOf,
+    inspectors: people.filter((p) => p.canInspect).map((p) => p.id),
     figures: job.results?.figures ?? null,
   });
 

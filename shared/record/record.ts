@@ -29,6 +29,8 @@ export interface RecordCrewMember {
   roles: string[];
   /** What the person holds, when the caller passed it; null when not known to the record. */
   qualifications: string[] | null;
+  /** Marked by the admin as qualified to inspect the crane; null when the caller did not say. */
+  mayInspect: boolean | null;
 }
 
 export interface RecordFigure {
@@ -176,6 +178,8 @@ export interface RecordContext {
   crane?: string | null;
   /** The people's qualifications by user id, when the caller has them. */
   qualificationsOf?: Readonly<Record<string, readonly string[]>>;
+  /** The user ids of people qualified to inspect the crane, when the caller has them. */
+  inspectors?: readonly string[];
   /** The server's figures for the configuration in force, with their rules. */
   figures?: readonly Figure[] | null;
 }
@@ -416,7 +420,7 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
       continue;
     }
     const quals = context.qualificationsOf?.[m.userId];
-    crewList.push({ userId: m.userId, name: m.name, roles: [m.role], qualifications: quals ? [...quals] : null });
+    crewList.push({ userId: m.userId, name: m.name, roles: [m.role], qualifications: quals ? [...quals] : null, mayInspect: context.inspectors ? context.inspectors.includes(m.userId) : null });
   }
 
   const stageList = [...stages.values()];

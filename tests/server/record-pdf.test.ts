@@ -2,8 +2,7 @@
 // erection), read back as text with poppler's pdftotext, and the PDF workers: the rendering leaves
 // the main thread, and a board command's answer time is measured with three records rendering.
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
+import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks';
 import { threadId } from 'node:worker_threads';
@@ -24,7 +23,9 @@ let supervisor: string;
 let signaller: string;
 let complete: JobDto;
 let live: JobDto;
-const scratch = mkdtempSync(path.join(os.tmpdir(), 'holdline-record-'));
+// Kept after the run so the pages can be looked at (pdftoppm -png -r 60 -f 1 -l 2).
+const scratch = path.resolve('test-results', 'record-pdf');
+mkdirSync(scratch, { recursive: true });
 
 const signIn = async (email: string) => (await request(server.app).post('/api/auth/login').send({ email, password: DEMO_PASSWORD }).expect(200)).body.token as string;
 const jobOf = async (id: string) => (await request(server.app).get(`/api/jobs/${id}`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body.job as JobDto;
@@ -90,8 +91,19 @@ describe('the record PDF', { timeout: 120_000 }, () => {
       expect(text).toContain(`Acknowledged ${ack.by.name} ${ack.data.role === 'operator' ? 'Operator' : ack.data.role[0].toUpperCase() + ack.data.role.slice(1)} ${recordTime(ack.at)}`);
     }
     for (const release of releases) expect(text).toContain(`RELEASED ${release.by.name} Supervisor ${recordTime(release.at)}`);
-    const plan = (await request(server.app).get(`/api/jobs/${complete.id}/plan`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body.plan as { stages: { hold: { title: string } | null }[] };
-    for (const stage of plan.stages) if (stage.hold) expect(text).toContain(`HOLD POINT`), expect(text).toContain(stage.hold.title);
+    const plan = (await request(server.app).get(`/api/jobs/${complete.id}/plan`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body.plan as { stages: { hold: { title: string; signOff?: boolean } | null }[] };
+    const holds = plan.stages.flatMap((s) => (s.hold ? [s.hold] : []));
+    // pdfkit wraps after a hyphen ("Post- assembly" once the line ends are collapsed).
+    const joined = text.replace(/- /g, '-');
+    for (const hold of holds) expect(joined).toMatch(new RegExp(`HOLD POINT( \\(mandatory\\))?: ${hold.title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}`));
+
+    // The demo's finished job ends with the sign-off, acknowledged by the rigger the admin marks as qualified to inspect.
+    const signOff = holds.find((h) => h.signOff);
+    expect(signOff).toBeDefined();
+    const section = joined.slice(joined.lastIndexOf('Final sign-off'));
+    expect(section).toContain(signOff!.title);
+    expect(section).toContain('Acknowledged by a person qualified to inspect (as the people list stood when this was printed): Priya Raman.');
+    expect(section).toMatch(/RELEASED Rhys Calloway Supervisor/);
 
     // The hash on the cover and at the foot of every page is the job row's head, checked by verify.
     const verify = (await request(server.app).get(`/api/jobs/${complete.id}/record/verify`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body as { valid: boolean };

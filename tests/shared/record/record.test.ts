@@ -73,7 +73,7 @@ function liveLog(plan: Plan = planWithSignOff()) {
 
 describe('buildRecord', () => {
   it('lists the crew once each, with every role and the qualifications the caller passed', () => {
-    const record = buildRecord(liveLog().events, { finalHash: HASH, qualificationsOf: { [people.sue.userId]: ['supervisor', 'signaller'] } });
+    const record = buildRecord(liveLog().events, { finalHash: HASH, qualificationsOf: { [people.sue.userId]: ['supervisor', 'signaller'] }, inspectors: [people.rita.userId] });
     expect(record.crew.map((c) => [c.name, c.roles.join('+')])).toEqual([
       ['Sue Marsh', 'supervisor+signaller'],
       ['Otto Brand', 'operator'],
@@ -83,6 +83,9 @@ describe('buildRecord', () => {
     expect(record.crew[0].qualifications).toEqual(['supervisor', 'signaller']);
     // Not passed: unknown, never an empty list that would read as "holds nothing".
     expect(record.crew[1].qualifications).toBeNull();
+    expect(record.crew.map((c) => c.mayInspect)).toEqual([false, false, true, false]);
+    // Not told who may inspect: unknown for everyone, never "nobody".
+    expect(buildRecord(liveLog().events, { finalHash: HASH }).crew.map((c) => c.mayInspect)).toEqual([null, null, null, null]);
     expect(record.job).toMatchObject({ name: 'Yard trial', site: 'Pad 3', kind: 'erection', craneFleetNumber: 'TC-1' });
     expect(record.finalHash).toBe(HASH);
     expect(record.lastSeq).toBe(liveLog().events.length);
