@@ -28,7 +28,7 @@ export function chainedEventOf(row: JobEvent): ChainedEvent {
  * shows), read a page at a time so no log is ever held whole. `untilSeq` stops at a head read
  * beforehand, so an export is one consistent prefix even while commands keep appending.
  */
-export async function* storedEvents(manager: EntityManager, jobId: string, untilSeq = Number.MAX_SAFE_INTEGER): AsyncGenerator<JobEvent> {
+export async function* storedEvents(manager: EntityManager, jobId: string, untilSeq = Number.MAX_SAFE_INTEGER, pageSize = EVENT_PAGE_SIZE): AsyncGenerator<JobEvent> {
   let after = { seq: -1, id: -1 };
   for (;;) {
     const page = await manager
@@ -36,10 +36,10 @@ export async function* storedEvents(manager: EntityManager, jobId: string, until
       .where('e.job_id = :jobId AND e.seq <= :untilSeq AND (e.seq > :seq OR (e.seq = :seq AND e.id > :id))', { jobId, untilSeq, ...after })
       .orderBy('e.seq', 'ASC')
       .addOrderBy('e.id', 'ASC')
-      .limit(EVENT_PAGE_SIZE)
+      .limit(pageSize)
       .getMany();
     for (const row of page) yield row;
-    if (page.length < EVENT_PAGE_SIZE) return;
+    if (page.length < pageSize) return;
     const last = page[page.length - 1];
     after = { seq: last.seq, id: last.id };
   }

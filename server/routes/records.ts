@@ -62,9 +62,9 @@ async function headOf(context: AppContext, jobId: string): Promise<number> {
   return context.queue.run(async () => (await context.dataSource.manager.findOneByOrFail(Job, { id: jobId })).lastSeq);
 }
 
-/** events.jsonl: one stored event per line with its chain, a redacted line marked so. */
-async function* jsonLines(context: AppContext, reader: Reader): AsyncGenerator<string> {
-  const until = await headOf(context, reader.job.id);
+/** events.jsonl: one stored event per line with its chain, a redacted line marked so; up to `until`, or the head when it starts. */
+async function* jsonLines(context: AppContext, reader: Reader, until?: number): AsyncGenerator<string> {
+  until ??= await headOf(context, reader.job.id);
   for await (const row of storedEvents(context.dataSource.manager, reader.job.id, until)) {
     const { event, redacted } = readRow(row, reader.planner);
     const line = redacted ? { ...chainedEventOf(row), data: event.data, redacted: true } : chainedEventOf(row);
@@ -87,19 +87,19 @@ export function detailsCell(data: Record<string, unknown>): string {
 }
 
 /** events.csv rows, one per event. */
-async function* csvRows(context: AppContext, reader: Reader): AsyncGenerator<Record<(typeof csvColumns)[number]['key'], string | number>> {
+async function* csvRows(context: AppContext, reader: Reader, until?: number): AsyncGenerator<Record<(typeof csvColumns)[number]['key'], string | number>> {
   const { manager } = context.dataSource;
   const words = await wordsContext(manager, reader);
-  const until = await headOf(context, reader.job.id);
+  until ??= await headOf(context, reader.job.id);
   for await (const row of storedEvents(manager, reader.job.id, until)) {
     const { event } = readRow(row, reader.planner);
     yield { seq: row.seq, time: row.at, who: row.byName, role: roleLabel(row.role), what: describeEvent(event, words), details: detailsCell(event.data), hash: row.hash };
   }
 }
 
-function csvStream(context: AppContext, reader: Reader): Readable {
+function csvStream(context: AppContext, reader: Reader, until?: number): Readable {
   // Cells a spreadsheet would run as a formula (=, +, -, @ first) are escaped: reasons are typed by people.
-  return Readable.from(csvRows(context, reader)).pipe(stringify({ header: true, columns: [...csvColumns], escape_formulas: true, bom: true }));
+  return Readable.from(csvRows(context, reader, until)).pipe(stringify({ header: true, columns: [...csvColumns], escape_formulas: true, bom: true }));
 }
 
 /** The configuration sheet, when the job has a configuration. */
@@ -168,6 +168,8 @@ export function recordsRouter(context: AppContext): Router {
     const now = context.now();
     // Everything that can fail before the first byte is made first, so a failure is still a clean error answer.
     const [record, configuration, plan, photos] = await Promise.all([recordPdfFor(context, reader), configurationPdf(manager, reader, now), planPdf(manager, reader, now), jobPhotos(manager, reader)]);
+    // Both logs in the zip end at the same event, even while the crew keep working.
+    const until = await headOf(context, reader.job.id);
     const zip = new ZipArchive({ zlib: { level: 6 } });
     let appended = 0;
     let written = 0;
@@ -180,8 +182,8 @@ export function recordsRouter(context: AppContext): Router {
     };
     const notes: string[] = [];
     add(record, 'record.pdf');
-    add(Readable.from(jsonLines(context, reader)), 'events.jsonl');
-    add(csvStream(context, reader), 'events.csv');
+    add(Readable.from(jsonLines(context, reader, until)), 'events.jsonl');
+    add(csvStream(context, reader, until), 'events.csv');
     if (configuration) add(configuration, 'configuration.pdf');
     else notes.push('configuration.pdf is not in this file: the job has no configuration yet.');
     if (plan) add(plan.pdf, plan.name);

@@ -10,6 +10,7 @@ import { eventHash, GENESIS_HASH } from '../../../shared/events/chain.js';
 import { verifySchema } from '../../../shared/schemas/jobs.js';
 import { DEMO_PASSWORD } from '../../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../../server/demo/seed.js';
+import { storedEvents } from '../../../server/events/chain.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 const run = promisify(execFile);
@@ -87,8 +88,10 @@ describe('the job log chain on a driven job', () => {
     await seedDemoIfEmpty(server.context);
     const login = await request(server.app).post('/api/auth/login').send({ email: 'supervisor@holdline.test', password: DEMO_PASSWORD }).expect(200);
     token = login.body.token as string;
-    const jobs = (await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${token}` }).expect(200)).body.items as { id: string; name: string; lastSeq: number }[];
+    const jobs = (await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${token}` }).expect(200)).body.items as { id: string; name: string; state: string }[];
     const trial = jobs.find((j) => j.name === 'Depot trial erection, 21 m')!;
+    // Driven to its post-assembly sign-off, whose release completed it.
+    expect(trial.state).toBe('complete');
     jobId = trial.id;
     const d = db();
     original = d.prepare('SELECT * FROM job_event WHERE job_id = ? ORDER BY seq').all(jobId) as Row[];
@@ -216,6 +219,20 @@ describe('the job log chain on a driven job', () => {
     }
     expect((await verify(emailed)).expected?.found).toBe(true);
   }, 60_000);
+
+  it('the database walk reads every event once, in order, across pages', async () => {
+    const manager = server.context.dataSource.manager;
+    const seqsOf = async (pageSize: number, until?: number) => {
+      const seen: number[] = [];
+      for await (const row of storedEvents(manager, jobId, until, pageSize)) seen.push(row.seq);
+      return seen;
+    };
+    const all = original.map((r) => r.seq);
+    expect(await seqsOf(7)).toEqual(all);
+    expect(await seqsOf(1)).toEqual(all);
+    expect(await seqsOf(lastSeq)).toEqual(all);
+    expect(await seqsOf(7, 50)).toEqual(all.slice(0, 50));
+  });
 
   it('the checker refuses a wrong call with exit code 2', async () => {
     expect((await verifyRecordCli(path.join(work, 'missing.jsonl'))).code).toBe(2);
