@@ -65,6 +65,7 @@ function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string) {
     [record.status === 'cancelled' ? 'Cancelled' : 'Completed', record.dates.finished ? recordTime(record.dates.finished) : 'not yet'],
     ['Log', `${record.lastSeq} events, the last at ${recordTime(record.dates.lastEvent)}`],
     ['Printed', recordTime(input.printedAt)],
+    ['In this record', summary(record)],
   ]);
   pdf.paragraph(`Final hash (SHA-256, event ${record.lastSeq}):`, { size: 10 });
   pdf.paragraph(record.finalHash, { size: 9 });
@@ -86,6 +87,23 @@ function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string) {
         return [c.name, c.roles.map(roleLabel).join(', '), c.qualifications === null ? 'not given' : held.length ? held.join(', ') : 'none'];
       }),
     );
+}
+
+/** The record in one line, so a reader sees at once what to look for: failing figures, open holds, stops. */
+function summary(record: JobRecord): string {
+  const figures = record.configuration?.figures ?? [];
+  const count = (status: string) => figures.filter((f) => f.status === status).length;
+  const holds = record.stages.flatMap((s) => (s.hold ? [s.hold] : []));
+  const outOfLimit = record.stages.flatMap((s) => s.steps.flatMap((st) => st.history)).filter((h) => h.outOfLimit).length;
+  return [
+    figures.length ? `figures: ${count('fail')} failing, ${count('caution')} needing care, ${count('unverified')} unverified` : 'no figures',
+    `${record.overrides.length} override${record.overrides.length === 1 ? '' : 's'}`,
+    `holds: ${holds.filter((h) => h.released).length} of ${holds.length} released`,
+    `${outOfLimit} reading${outOfLimit === 1 ? '' : 's'} out of limit`,
+    `${record.stops.length} stop${record.stops.length === 1 ? '' : 's'}`,
+    `${record.defects.length} defect${record.defects.length === 1 ? '' : 's'}`,
+    `plan version ${record.revisions.at(-1)?.version ?? 'none'}`,
+  ].join('; ');
 }
 
 function configuration(pdf: PdfWriter, input: RecordPdfInput) {

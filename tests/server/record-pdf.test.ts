@@ -137,6 +137,12 @@ describe('the record PDF', { timeout: 120_000 }, () => {
     expect(pages[0]).toContain('this record is not final');
     // The demo's live job waits at the guy-line hold: acknowledged by the operator, not released.
     expect(pages.join(' ')).toContain('NOT RELEASED');
+    // The cover counts the holds: released ones from the log, all of them from the plan in force.
+    const plan = (await request(server.app).get(`/api/jobs/${live.id}/plan`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body.plan as { stages: { hold: { id: string } | null }[] };
+    const holdIds = plan.stages.flatMap((s) => (s.hold ? [s.hold.id] : []));
+    const released = new Set((await eventsOf(live.id)).flatMap((e) => (e.type === 'hold.released' ? [e.data.holdId] : [])));
+    expect(released.size).toBeGreaterThan(0);
+    expect(pages[0]).toContain(`holds: ${holdIds.filter((id) => released.has(id)).length} of ${holdIds.length} released`);
   });
 
   it('is refused to someone outside the job and to nobody signed in', async () => {
