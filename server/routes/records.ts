@@ -153,13 +153,14 @@ export function recordsRouter(context: AppContext): Router {
 
   router.get('/jobs/:jobId/events.jsonl', async (req, res) => {
     const reader = await readerOf(req);
-    res.type('application/x-ndjson').attachment(`${fileStem(reader.job)}-events.jsonl`);
+    // attachment() sets a type from the extension, so the type is set after it.
+    res.attachment(`${fileStem(reader.job)}-events.jsonl`).type('application/x-ndjson');
     await streamTo(res, Readable.from(jsonLines(context, reader)));
   });
 
   router.get('/jobs/:jobId/events.csv', async (req, res) => {
     const reader = await readerOf(req);
-    res.type('text/csv; charset=utf-8').attachment(`${fileStem(reader.job)}-events.csv`);
+    res.attachment(`${fileStem(reader.job)}-events.csv`).type('text/csv; charset=utf-8');
     await streamTo(res, csvStream(context, reader));
   });
 
@@ -203,7 +204,7 @@ export function recordsRouter(context: AppContext): Router {
       if (notes.length) add(`${notes.join('\n')}\n`, 'README.txt');
       await zip.finalize();
     };
-    res.type('application/zip').attachment(`${fileStem(reader.job)}-site-file.zip`);
+    res.attachment(`${fileStem(reader.job)}-site-file.zip`).type('application/zip');
     const filling = photosAndEnd().catch((error: unknown) => zip.destroy(error instanceof Error ? error : undefined));
     await streamTo(res, zip);
     await filling;

@@ -159,6 +159,16 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
     expect(files.get('README.txt')!.toString('utf8')).toContain('Blind-check values are taken out');
   }, 180_000);
 
+  it('the three downloads are streamed (chunked, no length known up front) with a file name', async () => {
+    for (const [file, type] of [['events.jsonl', 'application/x-ndjson'], ['events.csv', 'text/csv'], ['site-file.zip', 'application/zip']] as const) {
+      const res = await request(server.app).get(`/api/jobs/${jobId}/${file}`).set(as('supervisor')).buffer(true).parse(bytes).expect(200);
+      expect(res.headers['transfer-encoding']).toBe('chunked');
+      expect(res.headers['content-length']).toBeUndefined();
+      expect(res.headers['content-type']).toContain(type);
+      expect(res.headers['content-disposition']).toMatch(new RegExp(`^attachment; filename="?job-[0-9a-f]{8}-${file.replace('.', '\\.')}"?$`));
+    }
+  }, 180_000);
+
   it('only people who may read the job download its log; a malformed expected hash is refused', async () => {
     const outsider = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
     // A supervisor outside the crew may read jobs (jobs.read) but sees no board photos; nobody signed out gets anything.
