@@ -8,7 +8,7 @@ const roleWords: Record<string, string> = { supervisor: 'Supervisor', operator: 
  * The plan as a printable checklist: every stage, step and hold in order, with boxes to tick and
  * lines to sign. It is also the paper fallback when the site network fails.
  */
-export async function planChecklistPdf(job: JobDto, plan: Plan, version: number, printedAt: Date): Promise<Buffer> {
+export async function planChecklistPdf(job: Pick<JobDto, 'name' | 'site' | 'craneFleetNumber'>, plan: Plan, version: number, printedAt: Date): Promise<Buffer> {
   const pdf = new PdfWriter(`Plan — ${job.name}`, `Holdline plan v${version} · ${job.name} · crane ${job.craneFleetNumber} · printed ${printedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC`);
   pdf.title(`${plan.kind === 'erection' ? 'Erection' : 'Dismantling'} plan, version ${version}`, `${job.name} — ${job.site} — crane ${job.craneFleetNumber}`);
   pdf.notice(SAFETY_TEXT);
