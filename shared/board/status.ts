@@ -67,7 +67,8 @@ export function pendingAcknowledgments(board: Pick<BoardState, 'stages'>, userId
     const hold = stage.hold;
     if (!hold || hold.state !== 'open' || stage.blockedBy) continue;
     if (hold.acknowledgments.some((a) => a.userId === userId)) continue;
-    const role = hold.requiredRoles.find((r) => roles.includes(r) && !hold.acknowledgments.some((a) => a.role === r));
+    // The inspector's acknowledgment of a sign-off fills the inspector's slot, not the role they hold on the crew.
+    const role = hold.requiredRoles.find((r) => roles.includes(r) && !hold.acknowledgments.some((a) => a.role === r && !a.inspector));
     if (role) out.push({ stage, hold, role });
   }
   return out;
