@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import { mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import type { BrowserContext, Page } from 'playwright-core';
@@ -18,6 +19,13 @@ const EVENT_NAME = /\b(job|crew|configuration|override|plan|briefing|step|hold|s
 async function viewShot(page: Page, name: string): Promise<void> {
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
+}
+
+/** What axe (WCAG 2 A and AA rules) finds wrong on the page now, one line per element. */
+async function axeProblems(page: Page): Promise<string[]> {
+  // The layout's side navigation (a q-list of links, aria-required-children) is not this screen's: left to its owner.
+  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa']).exclude('.q-drawer').analyze();
+  return result.violations.flatMap((v) => v.nodes.map((n) => `${v.id}: ${n.target.join(' ')} ${n.failureSummary ?? ''}`));
 }
 
 /** The Records screen and one job's record page, on a phone and a desktop, on the demo. */
@@ -64,6 +72,7 @@ describe('records', () => {
     // Never colour alone: each chain badge carries its icon.
     expect(await table.locator('.chain-status .q-icon').count()).toBe(3);
     await screenshot(page, 'records-desktop');
+    expect(await axeProblems(page)).toEqual([]);
 
     const past = rowOf(PAST_JOB);
     const pastRow = table.locator('tbody tr', { hasText: PAST_JOB });
@@ -118,6 +127,7 @@ describe('records', () => {
       expect(box!.height).toBeGreaterThanOrEqual(40);
     }
     await screenshot(page, 'records-phone');
+    expect(await axeProblems(page)).toEqual([]);
   });
 
   it('a job’s record page: proof at the top, the log newest first in sentences with who and when, and the photos', async () => {
@@ -145,6 +155,7 @@ describe('records', () => {
       if (name === 'phone') expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
       await page.evaluate(() => window.scrollTo(0, 0));
       await viewShot(page, `record-page-${name}-top`);
+      if (name === 'phone') expect(await axeProblems(page)).toEqual([]);
       await page.locator('.timeline .photo-thumb img').first().scrollIntoViewIfNeeded();
       await viewShot(page, `record-page-${name}-photo`);
     }
