@@ -1,4 +1,4 @@
-import { execFile } from 'node:child_process';
+import { execFile, execFileSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -141,6 +141,16 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
     expect(names.some((n) => /^plan-v\d+\.pdf$/.test(n))).toBe(true);
     for (const pdf of names.filter((n) => n.endsWith('.pdf'))) expect(files.get(pdf)!.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(files.get('events.jsonl')!.toString('utf8')).toBe((await download('supervisor', 'events.jsonl')).toString('utf8'));
+
+    // One final hash three ways: the route, the printed record's text, and the checker on the zip's own log.
+    const verify = verifySchema.parse((await request(server.app).get(`/api/jobs/${jobId}/record/verify`).set(as('supervisor')).expect(200)).body);
+    const printed = execFileSync('pdftotext', ['-raw', '-enc', 'UTF-8', '-', '-'], { input: files.get('record.pdf')! }).toString('utf8').replace(/\s+/g, '');
+    expect(printed).toContain(verify.finalHash!);
+    const zipped = path.join(work, 'zipped-events.jsonl');
+    writeFileSync(zipped, files.get('events.jsonl')!);
+    const { stdout } = await run('npm', ['run', '-s', 'verify-record', '--', zipped, '--expect', verify.finalHash!], { cwd: root });
+    expect(stdout).toContain(`Final hash: ${verify.finalHash}`);
+    expect(stdout).toContain(`it is the hash of event ${lastSeq}`);
 
     const photos = await server.context.dataSource.manager.findBy(Upload, { ownerId: jobId });
     const boardPhotos = photos.filter((p) => p.ownerKind !== null && p.ownerKind !== 'inspection');
