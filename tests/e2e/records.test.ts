@@ -63,7 +63,7 @@ describe('records', () => {
     await server?.stop();
   });
 
-  it('on a desktop: every job with its chain in words, the final hash in full on tap, a site filter, a download and a failed one', async () => {
+  it('on a desktop: every job with its chain in words, the final hash in full on tap, site and date filters, a download and a failed one', async () => {
     expect(rows).toHaveLength(3);
     const page = await open('/records', viewports.desktop);
     const table = page.locator('.records-table');
@@ -104,6 +104,24 @@ describe('records', () => {
     expect(await table.locator('tbody tr').innerText()).toContain(PAST_JOB);
     await page.getByLabel('Site contains').fill('nowhere at all');
     await page.getByText('No job matches these filters').waitFor();
+    await page.getByRole('button', { name: 'Clear filters' }).click();
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(3);
+
+    // Dates by when a job ended: only the finished trial has ended.
+    await page.getByLabel('Dates by').click();
+    await page.getByRole('option', { name: 'Completed or cancelled' }).click();
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(1);
+    expect(await table.locator('tbody tr').innerText()).toContain(PAST_JOB);
+    // From today on this device's calendar, by last change: the two jobs the demo drives today, not the trial that ended days before.
+    await page.getByLabel('Dates by').click();
+    await page.getByRole('option', { name: 'Last change' }).click();
+    const today = await page.evaluate(() => {
+      const d = new Date();
+      return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+    });
+    await page.getByLabel('From').fill(today);
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(rows.filter((r) => r.name !== PAST_JOB).length);
+    expect(await table.innerText()).not.toContain(PAST_JOB);
     await page.getByRole('button', { name: 'Clear filters' }).click();
     await expect.poll(() => table.locator('tbody tr').count()).toBe(3);
   });
