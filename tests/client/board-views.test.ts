@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { board, hold, stage, step } from '../shared/board/states';
+import type { BoardState } from '../../shared/board/types';
 import { openJobTarget, viewForRoles, viewsForRoles } from '../../src/components/board/views';
 import { describeChange } from '../../src/words/board';
 
