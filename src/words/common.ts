@@ -6,8 +6,3 @@
 
 /** Colour family of a badge; each maps to one of our CSS variables and never stands alone. */
 export type Tone = 'stop' | 'hold' | 'done' | 'info' | 'plain';
-
-/** "1 step", "3 steps". */
-export function counted(n: number, one: string, many: string): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
