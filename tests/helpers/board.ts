@@ -140,31 +140,46 @@ export async function completeSteps(server: TestServer, crew: CrewByRole, jobId:
 /** The values the configuration-entry hold expects for the 18 m test configuration. */
 export const controllerValues18m = { boomLengthM: '18', hookBlockId: 'HB120', parts: '6', counterweightT: '65', operatingMode: 'lifting' };
 
-/** Acknowledges a stage's open hold with each required role, by different people, then releases it. */
-export async function acknowledgeAndRelease(server: TestServer, crew: CrewByRole, jobId: string, stageId: string): Promise<void> {
+/** Who acknowledges a job's final sign-off as its qualified inspector (marked `canInspect`), in which of their crew roles. */
+export interface SignOffInspector {
+  who: SignedInUser;
+  role: CrewRole;
+}
+
+/**
+ * Acknowledges a stage's open hold with each required role, by different people, then releases it.
+ * A sign-off hold also needs `inspector`; without one the helper throws before sending anything.
+ */
+export async function acknowledgeAndRelease(server: TestServer, crew: CrewByRole, jobId: string, stageId: string, inspector?: SignOffInspector): Promise<void> {
   const board = await boardOf(server, crew.supervisor, jobId);
   const hold = board.stages.find((s) => s.id === stageId)!.hold;
   if (!hold) return;
+  // Before anything is sent, so the board is left as it was.
+  if (hold.signOff && !inspector) throw new Error(`${hold.id} is the job's final sign-off: pass a qualified inspector`);
   for (const role of hold.requiredRoles) {
     const who = crew[role as keyof CrewByRole];
     const extra = hold.valueCheck ? { values: controllerValues18m, photoId: await uploadPhoto(server, who) } : {};
     const answer = await httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role, ...extra });
     if (answer.status !== 200) throw new Error(`ack ${hold.id} as ${role}: ${JSON.stringify(answer.body)}`);
   }
+  if (hold.signOff && inspector) {
+    const answer = await httpCommand(server, inspector.who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: inspector.role, asInspector: true });
+    if (answer.status !== 200) throw new Error(`ack ${hold.id} as inspector: ${JSON.stringify(answer.body)}`);
+  }
   await weatherIfNeeded(server, crew, jobId, stageId, true);
   const released = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
   if (released.status !== 200) throw new Error(`release ${hold.id}: ${JSON.stringify(released.body)}`);
 }
 
-/** Works the board forward, stage by stage in plan order, until `target` is active (or everything is done). */
-export async function advanceUntilActive(server: TestServer, crew: CrewByRole, jobId: string, target?: string): Promise<void> {
+/** Works the board forward, stage by stage in plan order, until `target` is active (or everything is done, the sign-off by `inspector`). */
+export async function advanceUntilActive(server: TestServer, crew: CrewByRole, jobId: string, target?: string, inspector?: SignOffInspector): Promise<void> {
   for (let guard = 0; guard < 100; guard++) {
     const board = await boardOf(server, crew.supervisor, jobId);
     if (target && board.stages.find((s) => s.id === target)?.state === 'active') return;
     const next = board.stages.find((s) => s.state === 'active' || s.state === 'holding');
     if (!next) return;
     if (next.state === 'active') await completeSteps(server, crew, jobId, next.id);
-    else await acknowledgeAndRelease(server, crew, jobId, next.id);
+    else await acknowledgeAndRelease(server, crew, jobId, next.id, inspector);
   }
   throw new Error('board did not settle');
 }

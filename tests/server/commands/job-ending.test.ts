@@ -264,6 +264,33 @@ describe('the job ending with its sign-off', () => {
   }, 180_000);
 });
 
+describe('the board helper works a job to its end', () => {
+  let server: TestServer;
+  afterAll(() => server.stop());
+
+  it('advanceUntilActive completes a job when given the qualified inspector, and stops at the sign-off without one', async () => {
+    server = await startTestServer();
+    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    const crew: CrewByRole = {
+      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
+      operator: await signedInUser(server, { qualifications: ['operator'] }),
+      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
+      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
+    };
+    const { model, unit } = await seedModelAndUnit(server, admin.token);
+    await addParts18m(server, admin.token, model.id, unit.id, 'H');
+    await request(server.app).patch(`/api/users/${crew.rigger.user.id}`).set({ Authorization: `Bearer ${admin.token}` }).send({ canInspect: true }).expect(200);
+    const job = await plannedJob(server, crew, unit.id, 'Helper job');
+    await request(server.app).post(`/api/jobs/${job.id}/ready`).set({ Authorization: `Bearer ${crew.supervisor.token}` }).expect(200);
+    expect((await httpCommand(server, crew.supervisor, job.id, { type: 'job.start' })).status).toBe(200);
+    await briefEveryone(server, crew, job.id);
+    await expect(advanceUntilActive(server, crew, job.id)).rejects.toThrow('pass a qualified inspector');
+    // The rigger holds no role the sign-off asks for, so the rigger is free to be its inspector.
+    await advanceUntilActive(server, crew, job.id, undefined, { who: crew.rigger, role: 'rigger' });
+    expect((await boardOf(server, crew.supervisor, job.id)).job.state).toBe('complete');
+  }, 180_000);
+});
+
 describe('the demo on first start', () => {
   let server: TestServer;
   beforeAll(async () => {

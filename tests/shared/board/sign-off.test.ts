@@ -1,12 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { holdFullyAcknowledged } from '../../../shared/board/apply';
 import { pendingAcknowledgments } from '../../../shared/board/status';
+import type { BoardHold } from '../../../shared/board/types';
 import { board, hold, stage, step } from './states';
 
 /** The job's final sign-off: the inspector acknowledges in their own crew role, in a slot of its own. */
 describe('a sign-off hold', () => {
   const inspectorAsSupervisor = { role: 'supervisor' as const, userId: 'u-insp', name: 'Marta Lindqvist', at: '2026-12-03T10:00:00.000Z', inspector: true };
-  const signOff = (acknowledgments: Parameters<typeof hold>[1]['acknowledgments']) =>
+  const signOff = (acknowledgments: BoardHold['acknowledgments']) =>
     board([
       stage('handover', 16, {
         state: 'holding',
