@@ -7,6 +7,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { recordListSchema, type RecordRow } from '../../shared/schemas/records.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
+import { insertUser, TEST_PASSWORD } from '../factories.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
 
@@ -37,12 +38,12 @@ describe('records', () => {
   let rows: RecordRow[] = [];
   const rowOf = (name: string) => rows.find((r) => r.name === name)!;
 
-  async function open(path: string, viewport: { width: number; height: number }, email = 'supervisor@holdline.test'): Promise<Page> {
+  async function open(path: string, viewport: { width: number; height: number }, email = 'supervisor@holdline.test', password = DEMO_PASSWORD): Promise<Page> {
     const context = await chromium.browser.newContext({ viewport, acceptDownloads: true });
     contexts.push(context);
     const page = await context.newPage();
     page.on('pageerror', (error) => pageErrors.push(`${path}: ${error.message}`));
-    await signInThroughForm(page, `${server.url}${path}`, email, DEMO_PASSWORD);
+    await signInThroughForm(page, `${server.url}${path}`, email, password);
     await page.waitForURL((url) => url.pathname === path);
     return page;
   }
@@ -146,6 +147,31 @@ describe('records', () => {
     }
     await screenshot(page, 'records-phone');
     expect(await axeProblems(page)).toEqual([]);
+  });
+
+  it('a person in no crew sees the empty state in words; a list that cannot load says so and offers another try', async () => {
+    const outsider = await server.context.queue.transaction((m) => insertUser(m, { qualifications: ['rigger'] }));
+    const page = await open('/records', viewports.phone, outsider.email, TEST_PASSWORD);
+    await page.getByText('No records to show you yet.', { exact: false }).waitFor({ timeout: 15_000 });
+    expect(await page.locator('.record-card').count()).toBe(0);
+    await screenshot(page, 'records-phone-empty');
+
+    let refuse = true;
+    await page.route('**/api/records?*', (route) =>
+      refuse ? route.fulfill({ status: 500, contentType: 'application/json', body: JSON.stringify({ error: { code: 'internal', message: 'The server could not answer.' } }) }) : route.continue(),
+    );
+    await page.reload();
+    const alert = page.getByRole('alert').filter({ hasText: 'Records could not be loaded' });
+    await alert.waitFor({ timeout: 15_000 });
+    expect(await alert.innerText()).toContain('The server could not answer.');
+    // Not a spinner that never ends beside the error.
+    await page.getByText('Nothing to show until the records load.').waitFor();
+    expect(await page.getByText('Loading records and checking each chain').count()).toBe(0);
+    await screenshot(page, 'records-phone-error');
+    refuse = false;
+    await alert.getByRole('button', { name: 'Try again' }).click();
+    await alert.waitFor({ state: 'detached' });
+    await page.getByText('No records to show you yet.', { exact: false }).waitFor();
   });
 
   it('a job’s record page: proof at the top, the log newest first in sentences with who and when, and the photos', async () => {
