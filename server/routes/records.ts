@@ -31,10 +31,10 @@ import { recordPdfFor, type RecordReader } from './record-pdf.js';
 const verifyQuerySchema = z.object({ expect: z.string().trim().toLowerCase().pipe(hashSchema).optional() });
 
 /** Longest "details" cell of the CSV; the whole data is in events.jsonl. */
-export const CSV_DETAILS_MAX = 600;
+const CSV_DETAILS_MAX = 600;
 
 /** The CSV's columns, in order; their headings are what a spreadsheet shows. */
-export const csvColumns = [
+const csvColumns = [
   { key: 'seq', header: 'seq' },
   { key: 'time', header: 'time (UTC)' },
   { key: 'who', header: 'who' },
@@ -51,7 +51,7 @@ type Reader = RecordReader;
 function readRow(row: JobEvent, planner: boolean) {
   const event = presentJobEvent(row);
   const shown = redactEventFor(event, planner);
-  return { row, event: shown, redacted: shown !== event };
+  return { event: shown, redacted: shown !== event };
 }
 
 /**
@@ -80,7 +80,7 @@ async function wordsContext(manager: EntityManager, reader: Reader): Promise<Eve
 }
 
 /** A short JSON of an event's data for a spreadsheet cell; the effects (states the event set) are left out as the "what" says them. */
-export function detailsCell(data: Record<string, unknown>): string {
+function detailsCell(data: Record<string, unknown>): string {
   const { effects: _effects, ...rest } = data;
   const text = JSON.stringify(rest);
   return text.length <= CSV_DETAILS_MAX ? text : `${text.slice(0, CSV_DETAILS_MAX)}… (cut; the whole data is in events.jsonl)`;
@@ -99,7 +99,11 @@ async function* csvRows(context: AppContext, reader: Reader, until?: number): As
 
 function csvStream(context: AppContext, reader: Reader, until?: number): Readable {
   // Cells a spreadsheet would run as a formula (=, +, -, @ first) are escaped: reasons are typed by people.
-  return Readable.from(csvRows(context, reader, until)).pipe(stringify({ header: true, columns: [...csvColumns], escape_formulas: true, bom: true }));
+  const csv = stringify({ header: true, columns: [...csvColumns], escape_formulas: true, bom: true });
+  const rows = Readable.from(csvRows(context, reader, until));
+  // pipe() does not pass a failed read on; without this the download would hang instead of failing.
+  rows.on('error', (error) => csv.destroy(error));
+  return rows.pipe(csv);
 }
 
 /** The configuration sheet, when the job has a configuration. */
