@@ -14,6 +14,7 @@ import { JobEvent } from '../entities/JobEvent.js';
 import { Upload } from '../entities/Upload.js';
 import { User } from '../entities/User.js';
 import { renderPdf } from '../pdf/pool.js';
+import type { RecordPdfInput } from '../pdf/record.js';
 import { can, canSeeUpload } from '../policies/index.js';
 import { redactEventFor } from '../presenters/board.js';
 import { presentJobEvent } from '../presenters/job-event.js';
@@ -51,25 +52,20 @@ export function cachedRecordPath(context: AppContext, jobId: string, finalHash: 
   return path.join(context.config.dataDir, 'records', `${jobId}-${finalHash}-${audience}.pdf`);
 }
 
-/**
- * The record PDF of a job for one reader. A finished job's log can no longer change, so its record
- * is rendered once and then read from the data folder; a live job's is rendered each time, in a
- * worker thread, from a consistent prefix of the log.
- */
-export async function recordPdfFor(context: AppContext, reader: RecordReader): Promise<Buffer> {
+/** The job row and its events up to its head, read in turn with the writers: the events and the head hash belong together. */
+async function readLog(context: AppContext, jobId: string): Promise<{ job: Job; rows: JobEvent[] }> {
   const { manager } = context.dataSource;
-  // Read in turn with the writers: the events and the head hash belong together.
-  const { job, rows } = await context.queue.run(async () => {
-    const current = await manager.findOneByOrFail(Job, { id: reader.job.id });
-    const stored = await manager.find(JobEvent, { where: { jobId: current.id }, order: { seq: 'ASC' } });
-    return { job: current, rows: stored.filter((r) => r.seq <= current.lastSeq) };
+  return context.queue.run(async () => {
+    const job = await manager.findOneByOrFail(Job, { id: jobId });
+    const stored = await manager.find(JobEvent, { where: { jobId }, order: { seq: 'ASC' } });
+    return { job, rows: stored.filter((r) => r.seq <= job.lastSeq) };
   });
-  const cacheFile = finished(job.state) ? cachedRecordPath(context, job.id, job.headHash, audienceOf(reader)) : null;
-  if (cacheFile) {
-    const cached = await readFile(cacheFile).catch(() => null);
-    if (cached) return cached;
-  }
+}
 
+/** What the record PDF of a job is drawn from, for one reader (exported for the benchmark that renders it in the main thread for contrast). */
+export async function recordPdfInputFor(context: AppContext, reader: RecordReader, log?: { job: Job; rows: JobEvent[] }): Promise<RecordPdfInput> {
+  const { manager } = context.dataSource;
+  const { job, rows } = log ?? (await readLog(context, reader.job.id));
   const events = rows.map((r) => redactEventFor(presentJobEvent(r), reader.planner));
   const unit = await manager.findOneByOrFail(CraneUnit, { id: job.craneUnitId });
   const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
@@ -94,14 +90,28 @@ export async function recordPdfFor(context: AppContext, reader: RecordReader): P
     const jpeg = await sharp(await bytesOf(stored.stream)).resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 75 }).toBuffer();
     photos.push({ id: upload.id, jpeg: new Uint8Array(jpeg) });
   }
-
-  const pdf = await renderPdf({
-    kind: 'record',
+  return {
     record,
     drawings: job.configuration && job.results ? { configuration: job.configuration, results: job.results, arrangement: model.arrangement } : null,
     photos,
     printedAt: context.now().toISOString(),
-  });
+  };
+}
+
+/**
+ * The record PDF of a job for one reader. A finished job's log can no longer change, so its record
+ * is rendered once and then read from the data folder; a live job's is rendered each time, in a
+ * worker thread, from a consistent prefix of the log.
+ */
+export async function recordPdfFor(context: AppContext, reader: RecordReader): Promise<Buffer> {
+  const log = await readLog(context, reader.job.id);
+  const { job } = log;
+  const cacheFile = finished(job.state) ? cachedRecordPath(context, job.id, job.headHash, audienceOf(reader)) : null;
+  if (cacheFile) {
+    const cached = await readFile(cacheFile).catch(() => null);
+    if (cached) return cached;
+  }
+  const pdf = await renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
   if (cacheFile) {
     await mkdir(path.dirname(cacheFile), { recursive: true });
     // Written aside and renamed, so a reader never gets half a file.
