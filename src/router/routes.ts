@@ -36,7 +36,7 @@ export const routes: RouteRecordRaw[] = [
         children: [
           { path: '', name: 'jobs', component: () => import('../pages/jobs/JobListPage.vue'), meta: { title: 'Jobs' } },
           { path: ':id', name: 'job', component: () => import('../pages/jobs/JobPage.vue'), meta: { title: 'Job' } },
-          // Under Jobs for the URL; the navigation marks Records through the page's own link back.
+          // A job's record lives under its job (the navigation marks Jobs); the page links back to Records.
           { path: ':id/record', name: 'job-record', component: () => import('../pages/records/JobRecordPage.vue'), meta: { title: 'Record' } },
         ],
       },
