@@ -204,6 +204,9 @@ export function recordsRouter(context: AppContext): Router {
         if (stored) add(stored.stream, `photos/${photo.createdAt.replace(/[:.]/g, '-')}-${photo.ownerKind}-${photo.storedName}`);
         else notes.push(`Photo ${photo.id} is missing from storage.`);
       }
+      if (reader.job.state !== 'complete' && reader.job.state !== 'cancelled') {
+        notes.push(`The job was still open when this file was made: events.jsonl and events.csv end at event ${until}; the record PDF names the event its final hash is for, and may end a few events earlier.`);
+      }
       if (!reader.planner) notes.push('Blind-check values are taken out of this copy of the log (lines marked "redacted"); the job’s supervisors can download the whole log.');
       if (notes.length) add(`${notes.join('\n')}\n`, 'README.txt');
       await zip.finalize();

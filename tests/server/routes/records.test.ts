@@ -169,6 +169,16 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
     expect(files.get('README.txt')!.toString('utf8')).toContain('Blind-check values are taken out');
   }, 180_000);
 
+  it('a live job’s site file says where its logs end', async () => {
+    const jobs = (await request(server.app).get('/api/jobs').set(as('supervisor')).expect(200)).body.items as { id: string; name: string }[];
+    const liveId = jobs.find((j) => j.name === 'Transformer T2 lift: boom erection')!.id;
+    const live = jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${liveId}`).set(as('supervisor')).expect(200)).body).job;
+    const res = await request(server.app).get(`/api/jobs/${liveId}/site-file.zip`).set(as('supervisor')).buffer(true).parse(bytes).expect(200);
+    const files = await unzip(res.body as Buffer);
+    expect(files.get('README.txt')!.toString('utf8')).toContain(`events.jsonl and events.csv end at event ${live.lastSeq}`);
+    expect(lines(files.get('events.jsonl')!.toString('utf8'))).toHaveLength(live.lastSeq);
+  }, 180_000);
+
   it('the three downloads are streamed (chunked, no length known up front) with a file name', async () => {
     for (const [file, type] of [['events.jsonl', 'application/x-ndjson'], ['events.csv', 'text/csv'], ['site-file.zip', 'application/zip']] as const) {
       const res = await request(server.app).get(`/api/jobs/${jobId}/${file}`).set(as('supervisor')).buffer(true).parse(bytes).expect(200);
