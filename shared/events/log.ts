@@ -1,3 +1,4 @@
+import canonicalize from 'canonicalize';
 import { z } from 'zod';
 import type { Configuration } from '../schemas/configuration.js';
 import { figureStatuses } from '../schemas/configuration.js';
@@ -234,9 +235,15 @@ export function parseJobEvent(event: unknown): JobEventDto {
 }
 
 /**
- * Checks a new event's data before it is hashed: undeclared fields are refused here (reading
- * strips them), so nothing reaches the log that the reducer and the record would not see.
+ * Checks a new event's data before it is hashed: the data as it will be stored must read back
+ * through its schema unchanged, at every depth. An undeclared field (reading strips it) or a
+ * value the schema would change is a bug in the handler, refused here, so nothing reaches the
+ * log that the reducer and the record would not see.
  */
 export function checkNewEventData(draft: EventDraft): void {
-  eventDataSchemas[draft.type].strict().parse(draft.data);
+  const stored: unknown = JSON.parse(JSON.stringify(draft.data));
+  const read: unknown = eventDataSchemas[draft.type].parse(stored);
+  if (canonicalize(read) !== canonicalize(stored)) {
+    throw new Error(`A ${draft.type} event carries data its schema does not declare: ${canonicalize(stored)} reads back as ${canonicalize(read)}`);
+  }
 }

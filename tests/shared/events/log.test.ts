@@ -36,5 +36,9 @@ describe('the typed event log', () => {
     // A handler that writes a field the reducer and the record would never read is a bug, found here before the hash.
     const stray = JSON.parse('{"reason":"Wind dropped","resumedBy":"x"}') as { reason: string };
     expect(() => checkNewEventData({ type: 'job.resumed', role: 'supervisor', data: stray })).toThrow();
+    // Also deeper down: a field inside a declared object would be hashed but never read back.
+    const nested = JSON.parse('{"changes":{"name":"Renamed","colour":"red"},"planRegenerated":false}') as { changes: { name: string }; planRegenerated: boolean };
+    expect(() => checkNewEventData({ type: 'job.updated', role: 'supervisor', data: { changes: { name: 'Renamed' }, planRegenerated: false } })).not.toThrow();
+    expect(() => checkNewEventData({ type: 'job.updated', role: 'supervisor', data: nested })).toThrow(/does not declare/);
   });
 });
