@@ -107,20 +107,28 @@ export async function recordPdfFor(context: AppContext, reader: RecordReader): P
   const log = await readLog(context, reader.job.id);
   const { job } = log;
   const cacheFile = finished(job.state) ? cachedRecordPath(context, job.id, job.headHash, audienceOf(reader)) : null;
-  if (cacheFile) {
-    const cached = await readFile(cacheFile).catch(() => null);
-    if (cached) return cached;
+  if (!cacheFile) return renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
+  const cached = await readFile(cacheFile).catch(() => null);
+  if (cached) return cached;
+  // Asked for twice before the first is written (a download and the completion e-mail): rendered once.
+  let rendering = renderingNow.get(cacheFile);
+  if (!rendering) {
+    rendering = (async () => {
+      const pdf = await renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
+      await mkdir(path.dirname(cacheFile), { recursive: true });
+      // Written aside and renamed, so a reader never gets half a file.
+      const partial = `${cacheFile}.${process.pid}.${Date.now()}.partial`;
+      await writeFile(partial, pdf);
+      await rename(partial, cacheFile);
+      return pdf;
+    })().finally(() => renderingNow.delete(cacheFile));
+    renderingNow.set(cacheFile, rendering);
   }
-  const pdf = await renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
-  if (cacheFile) {
-    await mkdir(path.dirname(cacheFile), { recursive: true });
-    // Written aside and renamed, so a reader never gets half a file.
-    const partial = `${cacheFile}.${process.pid}.${Date.now()}.partial`;
-    await writeFile(partial, pdf);
-    await rename(partial, cacheFile);
-  }
-  return pdf;
+  return rendering;
 }
+
+/** Finished records being rendered now, by their cache file. */
+const renderingNow = new Map<string, Promise<Buffer>>();
 
 /** GET /api/jobs/:jobId/record.pdf: the job's record, live or finished. */
 export function recordPdfRouter(context: AppContext): Router {

@@ -2,12 +2,12 @@
 // erection), read back as text with poppler's pdftotext, and the PDF workers: the rendering leaves
 // the main thread, and a board command's answer time is measured with three records rendering.
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks';
 import { threadId } from 'node:worker_threads';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { parseJobEvent, type JobEventDto } from '../../shared/events/log.js';
 import type { JobDto, JobSummary } from '../../shared/schemas/jobs.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
@@ -128,6 +128,18 @@ describe('the record PDF', { timeout: 120_000 }, () => {
     const again = await recordPdf(complete.id);
     // A new rendering would carry a new print time and creation date; the cached file is the same bytes.
     expect(again.equals(first)).toBe(true);
+
+    // Asked for twice at once before it is cached: drawn once, both get the same file.
+    rmSync(cachedRecordPath(server.context, complete.id, complete.headHash, 'planners'));
+    const render = vi.spyOn(pdfPool, 'render');
+    try {
+      const [a, b] = await Promise.all([recordPdf(complete.id), recordPdf(complete.id)]);
+      expect(render).toHaveBeenCalledTimes(1);
+      expect(a.equals(b)).toBe(true);
+      expect(a.equals(first)).toBe(false);
+    } finally {
+      render.mockRestore();
+    }
   });
 
   it('of a live job says "in progress" on every page, with the head hash at that moment', async () => {
