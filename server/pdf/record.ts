@@ -166,7 +166,8 @@ function planVersions(pdf: PdfWriter, record: JobRecord) {
 }
 
 function holdTable(pdf: PdfWriter, hold: RecordHold) {
-  pdf.ensure(50);
+  // A hold's rows read only under its title: keep a short hold on one page (about 30 pt a row).
+  pdf.ensure(Math.min(60 + (hold.entries.length + 2) * 30, 320));
   pdf.paragraph(`HOLD POINT${hold.mandatory ? ' (mandatory)' : ''}: ${hold.title}${hold.requiredRoles.length ? ` — acknowledged by: ${hold.requiredRoles.map(roleLabel).join(', ')}; released by the supervisor` : ''}`, { size: 10 });
   const rows = hold.entries.map((e) => [holdEntryWords[e.kind], e.name, roleLabel(e.role), recordTime(e.at), e.sentence]);
   rows.push(hold.released ? ['RELEASED', hold.released.name, roleLabel(hold.released.role), recordTime(hold.released.at), hold.released.sentence] : ['NOT RELEASED', '', '', '', '']);
