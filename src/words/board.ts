@@ -74,13 +74,16 @@ export const SIGN_OFF_WORDS = {
   waiting: 'waiting',
   acknowledge: 'Hold to acknowledge as inspector',
   acknowledgeTitle: 'Acknowledge as inspector',
-  /** Said beside the press-and-hold: what the acknowledgment stands for. */
-  meaning: 'You confirm that you inspected the assembled crane against this configuration and recorded the inspection.',
+  /** Said beside the press-and-hold: what the acknowledgment stands for, by the job's kind. */
+  meaning: {
+    erection: 'You confirm that you inspected the assembled crane against this configuration and recorded the inspection.',
+    dismantling: 'You confirm that you checked every part is set down, counted and stowed, and the crane is safe for transport.',
+  },
   notQualified: 'Only a crew member the administrator marks as qualified to inspect cranes acknowledges as the inspector.',
   alreadyAcknowledged: 'You acknowledged this hold under another role: another qualified person acknowledges as the inspector.',
   releaseWaits: 'Release is possible once every role and the qualified inspector have acknowledged.',
   inspectorNotReleaser: 'You acknowledged as the inspector: another supervisor releases this hold.',
-  releaseAfter: 'Releasing it completes the job: the board becomes read-only and the crane unit’s as-built configuration is recorded.',
+  releaseAfter: 'Releasing it completes the job: the board becomes read-only and the crane unit’s configuration is recorded as this job left it.',
   readOnly: 'This board is read-only: nothing more is recorded on it.',
   radio: 'Stop any movement by radio and signal.',
   record: 'Open the job’s record',
