@@ -21,7 +21,7 @@ import { refreshGeneratedDraft } from './plan-drafts.js';
 import { createJobWithEvent, runJobCommand, type CommandOutcome } from './job-writer.js';
 
 /** The role a planning change is recorded under: the job's supervisor, or an admin acting as such. */
-export async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<string> {
+export async function planningRole(manager: EntityManager, job: Job, actor: User): Promise<'supervisor' | 'admin'> {
   const roles = await crewRolesOf(manager, job.id, actor.id);
   if (can(actor, 'jobs.plan', { crewRoles: roles })) return roles.includes('supervisor') ? 'supervisor' : 'admin';
   throw forbidden('Only this job’s supervisors or an administrator can change it.');

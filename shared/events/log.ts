@@ -25,9 +25,9 @@ const userRole = z.object({ userId: z.string(), role: crewRoleSchema });
 
 /** The stage, hold and job states an event set in motion, written by the writer for people reading the log. */
 const effectsSchema = z.object({
-  job: z.object({ state: z.string() }).optional(),
-  stages: z.array(z.object({ id: z.string(), state: z.string() })).optional(),
-  holds: z.array(z.object({ id: z.string(), state: z.string() })).optional(),
+  job: z.object({ state: jobStateSchema }).optional(),
+  stages: z.array(z.object({ id: z.string(), state: z.enum(['locked', 'active', 'holding', 'done', 'skipped']) })).optional(),
+  holds: z.array(z.object({ id: z.string(), state: z.enum(['waiting', 'open', 'acknowledged', 'released', 'waived']) })).optional(),
 });
 
 /** What a recorded reading was compared with (shared/board/readings.ts). */
@@ -172,11 +172,15 @@ export const planningEventTypes: ReadonlySet<JobEventType> = new Set([
   'job.ready',
 ]);
 
+/** The role an event was done in: a crew role, or an administrator acting on a job. */
+export const actedAsSchema = z.union([crewRoleSchema, z.literal('admin')]);
+export type ActedAs = z.infer<typeof actedAsSchema>;
+
 const envelope = {
   jobId: z.string(),
   seq: z.number().int(),
   at: z.string(),
-  by: z.object({ userId: z.string(), name: z.string(), role: z.string() }),
+  by: z.object({ userId: z.string(), name: z.string(), role: actedAsSchema }),
 };
 
 function eventOf<T extends JobEventType, D extends z.ZodType>(type: T, data: D) {
@@ -219,7 +223,7 @@ export type EventData<T extends JobEventType> = JobEventOf<T>['data'];
 
 /** What a command handler writes for an event: its type, the role it was done in, and its data. */
 export type EventDraft = {
-  [T in JobEventType]: { type: T; role: string; data: z.input<(typeof eventDataSchemas)[T]> };
+  [T in JobEventType]: { type: T; role: ActedAs; data: z.input<(typeof eventDataSchemas)[T]> };
 }[JobEventType];
 
 export const jobEventListSchema = z.object({ items: z.array(jobEventSchema), lastSeq: z.number().int() });

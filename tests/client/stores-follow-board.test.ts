@@ -52,7 +52,7 @@ const fake = vi.hoisted(() => {
 
 vi.mock('../../src/services/socket', () => ({ connectSocket: () => fake.socket }));
 
-const by = { userId: 'u-sup', name: 'Maren Holt', role: 'supervisor' };
+const by: JobEventDto['by'] = { userId: 'u-sup', name: 'Maren Holt', role: 'supervisor' };
 
 /** The board of a ready job with plan version 1, as the server's snapshot gives it. */
 function readyBoard(seq: number): BoardSnapshot {
