@@ -66,33 +66,42 @@ export function readingOutOfLimit(
 export interface OutOfLimitEntry {
   stageId: string;
   stageTitle: string;
+  stageOrder: number;
   stepId: string;
   text: string;
+  /** What the step records ("Parts of line"), for wording the entry; null when it names none. */
+  label: string | null;
   by: { userId: string; name: string; role: string; at: string } | null;
   outOfLimit: OutOfLimit;
 }
 
 function entries(stages: readonly BoardStage[]): OutOfLimitEntry[] {
-  return stages.flatMap((stage) =>
+  return [...stages].sort((a, b) => a.order - b.order).flatMap((stage) =>
     stage.steps
       .filter((s) => s.state === 'done' && s.outOfLimit)
       .map((s) => ({
         stageId: stage.id,
         stageTitle: stage.title,
+        stageOrder: stage.order,
         stepId: s.id,
         text: s.text,
+        label: s.records?.label ?? null,
         by: s.doneBy ? { userId: s.doneBy.userId, name: s.doneBy.name, role: s.doneBy.role, at: s.doneBy.at } : null,
         outOfLimit: s.outOfLimit!,
       })),
   );
 }
 
-/** Every done step whose reading is out of limit, in plan order: the supervisor console's list. */
+/** Every done step whose reading is out of limit, in plan order: the supervisor's list on the console and in the alerts. */
 export function outOfLimitSteps(state: BoardState): OutOfLimitEntry[] {
   return entries(state.stages);
 }
 
-/** The stage and every stage it waits for, directly or not (plan order). */
+/**
+ * The stage and every stage it waits for, directly or not (plan order). The walk does not stop at
+ * an upstream hold already released: a non-mandatory hold lets a reading out of limit pass, and a
+ * later mandatory hold must still see it (the screens and the server's refusal use this one walk).
+ */
 export function stageAndUpstream(state: BoardState, stageId: string): BoardStage[] {
   const byId = new Map(state.stages.map((s) => [s.id, s]));
   const seen = new Set<string>();
@@ -108,8 +117,9 @@ export function stageAndUpstream(state: BoardState, stageId: string): BoardStage
 
 /**
  * The out-of-limit readings that stand before a stage's hold: its own steps and those of every
- * stage it waits for. For a mandatory hold, any of them blocks the release until the step is
- * redone within limit or the plan is revised.
+ * stage it waits for, released holds or not. For a mandatory hold, any of them blocks the release
+ * until the step is redone within limit or the plan is revised; the hold card and the cab list
+ * the same entries.
  */
 export function outOfLimitBeforeHold(state: BoardState, stageId: string): OutOfLimitEntry[] {
   return entries(stageAndUpstream(state, stageId));

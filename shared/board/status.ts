@@ -1,5 +1,6 @@
 import type { CrewRole } from '../schemas/jobs.js';
-import type { BoardHold, BoardStage, BoardState, BoardStep } from './types.js';
+import type { OutOfLimitEntry } from './readings.js';
+import type { BoardHold, BoardStage, BoardState, BoardStep, OutOfLimit } from './types.js';
 
 /**
  * What the board says now, derived from its state alone: which stages are current, what comes
@@ -59,7 +60,8 @@ export interface PendingAcknowledgment {
 /**
  * The holds open now that still need one of this person's roles: the role is required, nobody has
  * acknowledged under it, and this person has not acknowledged the hold under another role (one
- * person never answers one hold twice).
+ * person never answers one hold twice). The hold card offers exactly these, so what a person is
+ * asked to acknowledge is decided here only.
  */
 export function pendingAcknowledgments(board: Pick<BoardState, 'stages'>, userId: string, roles: readonly CrewRole[]): PendingAcknowledgment[] {
   const out: PendingAcknowledgment[] = [];
@@ -72,6 +74,18 @@ export function pendingAcknowledgments(board: Pick<BoardState, 'stages'>, userId
     if (role) out.push({ stage, hold, role });
   }
   return out;
+}
+
+/**
+ * The stages whose hold this person has something to do at now: an acknowledgment still theirs to
+ * give (`pendingAcknowledgments`), or one they gave under a crew role and may withdraw until the
+ * release. Plan order.
+ */
+export function holdsForMe(board: Pick<BoardState, 'stages'>, userId: string, roles: readonly CrewRole[]): BoardStage[] {
+  const pending = new Set(pendingAcknowledgments(board, userId, roles).map((p) => p.stage.id));
+  return currentStages(board).filter(
+    (s) => pending.has(s.id) || ((s.hold?.state === 'open' || s.hold?.state === 'acknowledged') && s.hold.acknowledgments.some((a) => a.userId === userId && !a.inspector)),
+  );
 }
 
 /** Open steps of the current stages this person's roles may complete, in plan order. */
@@ -117,9 +131,11 @@ const withUnit = (n: number | null, unit: string | null) => `${n}${unit ? (unit 
 
 /** The reading beside what it is held to, in words: "Parts of line: 5 recorded, the plan says 6." */
 export function outOfLimitWords(step: Pick<BoardStep, 'records' | 'outOfLimit'>): string {
-  const o = step.outOfLimit;
-  if (!o) return '';
-  const label = step.records?.label ?? 'Reading';
+  return step.outOfLimit ? readingWords(step.records?.label ?? null, step.outOfLimit) : '';
+}
+
+function readingWords(stepLabel: string | null, o: OutOfLimit): string {
+  const label = stepLabel ?? 'Reading';
   const value = o.valueNumber === null ? `“${o.value}” (not a number)` : withUnit(o.valueNumber, o.unit);
   if (o.kind === 'plan' && o.planned !== null) return `${label}: ${value} recorded, the plan says ${withUnit(o.planned, o.unit)}${o.tolerance ? ` ± ${withUnit(o.tolerance, o.unit)}` : ''}.`;
   if (o.kind === 'max' && o.limit !== null) return `${label}: ${value} recorded, over the limit of ${withUnit(o.limit, o.unit)}.`;
@@ -128,36 +144,10 @@ export function outOfLimitWords(step: Pick<BoardStep, 'records' | 'outOfLimit'>)
   return `${label}: ${o.reason.replace(/\.+$/, '')}.`;
 }
 
-function limitLine(stage: BoardStage, step: BoardStep): OutOfLimitLine | null {
-  if (!step.outOfLimit) return null;
-  return { stageId: stage.id, stageOrder: stage.order, stepId: step.id, words: `Stage ${stage.order}, ${outOfLimitWords(step)}` };
-}
-
-/** Every step recorded out of limit on the board, in plan order (the supervisor's list). */
-export function outOfLimitAll(board: Pick<BoardState, 'stages'>): OutOfLimitLine[] {
-  return [...board.stages]
-    .sort((a, b) => a.order - b.order)
-    .flatMap((stage) => stage.steps.map((step) => limitLine(stage, step)).filter((l): l is OutOfLimitLine => l !== null));
-}
-
 /**
- * The readings out of limit that a stage's hold would let pass: its own steps and those of every
- * stage it waits for, back to (not past) a hold already released, which covered them.
+ * The entries of `outOfLimitSteps` or `outOfLimitBeforeHold` (shared/board/readings.ts) in words.
+ * Which readings count is decided there, once, for the screens and the server's refusal alike.
  */
-export function outOfLimitBefore(board: Pick<BoardState, 'stages'>, stage: BoardStage): OutOfLimitLine[] {
-  const byId = new Map(board.stages.map((s) => [s.id, s]));
-  const seen = new Set<string>();
-  const queue = [stage.id];
-  while (queue.length) {
-    const id = queue.shift()!;
-    if (seen.has(id)) continue;
-    seen.add(id);
-    const s = byId.get(id);
-    if (!s) continue;
-    for (const dep of s.dependsOn) {
-      const d = byId.get(dep);
-      if (d && d.hold?.state !== 'released') queue.push(dep);
-    }
-  }
-  return outOfLimitAll(board).filter((l) => seen.has(l.stageId));
+export function outOfLimitLines(entries: readonly OutOfLimitEntry[]): OutOfLimitLine[] {
+  return entries.map((e) => ({ stageId: e.stageId, stageOrder: e.stageOrder, stepId: e.stepId, words: `Stage ${e.stageOrder}, ${readingWords(e.label, e.outOfLimit)}` }));
 }

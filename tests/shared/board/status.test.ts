@@ -6,13 +6,14 @@ import {
   focusStage,
   myOpenSteps,
   nextStep,
-  outOfLimitAll,
-  outOfLimitBefore,
+  holdsForMe,
+  outOfLimitLines,
   outOfLimitWords,
   pendingAcknowledgments,
   radioCheckOf,
   stageTitles,
 } from '../../../shared/board/status.js';
+import { outOfLimitBeforeHold, outOfLimitSteps, readingsBlockingRelease } from '../../../shared/board/readings.js';
 import { board, hold, stage, step } from './states.js';
 
 describe('the cab’s stage and next step', () => {
@@ -88,6 +89,18 @@ describe('what a person still has to answer', () => {
     expect(pendingAcknowledgments(b, 'u-op', ['operator']).map((p) => p.role)).toEqual(['operator']);
   });
 
+  it('gives the cab the holds the person may still acknowledge or withdraw, not those another person answered for their role', () => {
+    const ack = (role: 'operator' | 'signaller', userId: string) => ({ role, userId, name: userId, at: '2025-01-01T10:00:00Z' });
+    const b = board([
+      stage('a', 1, { state: 'holding', hold: hold('a.hold', { state: 'open' }) }),
+      stage('b', 2, { state: 'holding', hold: hold('b.hold', { state: 'acknowledged', acknowledgments: [ack('operator', 'u-op'), ack('signaller', 'u-sig')] }) }),
+      stage('c', 3, { state: 'holding', hold: hold('c.hold', { state: 'open', acknowledgments: [ack('operator', 'u-op2')] }) }),
+      stage('d', 4, { state: 'done', hold: hold('d.hold', { state: 'released', acknowledgments: [ack('operator', 'u-op')] }) }),
+    ]);
+    expect(holdsForMe(b, 'u-op', ['operator']).map((s) => s.id)).toEqual(['a', 'b']);
+    expect(holdsForMe(b, 'u-rig', ['rigger'])).toEqual([]);
+  });
+
   it('ignores holds that are not open yet and stages blocked by a defect', () => {
     const waiting = board([stage('s', 1, { state: 'active', hold: hold('h'), steps: [step('s.1')] })]);
     expect(pendingAcknowledgments(waiting, 'u', ['operator'])).toEqual([]);
@@ -132,7 +145,7 @@ describe('readings out of limit', () => {
     expect(outOfLimitWords({ records: parts, outOfLimit: null })).toBe('');
   });
 
-  it('shows at a hold what its own stage and the stages it waits for recorded out of limit, back to a hold already released', () => {
+  it('shows at a hold what its own stage and every stage it waits for recorded out of limit, past holds already released', () => {
     const bad = (id: string) => step(id, { state: 'done', records: parts, outOfLimit: out(5, 6) });
     const b = board([
       stage('a', 1, { state: 'done', steps: [bad('a.1')], hold: hold('a.hold', { state: 'released' }) }),
@@ -140,12 +153,22 @@ describe('readings out of limit', () => {
       stage('c', 3, { state: 'holding', dependsOn: ['b'], steps: [bad('c.1'), step('c.2', { state: 'done' })], hold: hold('c.hold', { state: 'open' }) }),
       stage('d', 4, { state: 'active', steps: [bad('d.1')] }),
     ]);
-    expect(outOfLimitBefore(b, b.stages[2]).map((l) => l.stepId)).toEqual(['b.1', 'c.1']);
-    expect(outOfLimitAll(b).map((l) => l.words)).toEqual([
+    expect(outOfLimitLines(outOfLimitBeforeHold(b, 'c')).map((l) => l.stepId)).toEqual(['a.1', 'b.1', 'c.1']);
+    expect(outOfLimitLines(outOfLimitSteps(b)).map((l) => l.words)).toEqual([
       'Stage 1, Parts of line: 5 recorded, the plan says 6.',
       'Stage 2, Parts of line: 5 recorded, the plan says 6.',
       'Stage 3, Parts of line: 5 recorded, the plan says 6.',
       'Stage 4, Parts of line: 5 recorded, the plan says 6.',
     ]);
+  });
+  it('lists at a mandatory hold the reading an upstream optional hold let pass, the same step the server refuses the release for', () => {
+    // Before issue 15 the hold card stopped its walk at a released hold and offered a release the server refused with out_of_limit.
+    const b = board([
+      stage('a', 1, { state: 'done', steps: [step('a.1', { state: 'done', records: parts, outOfLimit: out(5, 6) })], hold: hold('a.hold', { state: 'released', mandatory: false }) }),
+      stage('b', 2, { state: 'holding', dependsOn: ['a'], steps: [step('b.1', { state: 'done' })], hold: hold('b.hold', { state: 'acknowledged', mandatory: true }) }),
+    ]);
+    const shown = outOfLimitLines(outOfLimitBeforeHold(b, 'b'));
+    expect(shown.map((l) => [l.stepId, l.words])).toEqual([['a.1', 'Stage 1, Parts of line: 5 recorded, the plan says 6.']]);
+    expect(readingsBlockingRelease(b, 'b').map((e) => e.stepId)).toEqual(shown.map((l) => l.stepId));
   });
 });
