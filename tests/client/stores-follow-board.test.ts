@@ -1,6 +1,6 @@
 import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, onTestFinished, vi } from 'vitest';
-import type { JobEventDto } from '../../shared/events/log';
+import { parseJobEvent, type JobEventDto } from '../../shared/events/log';
 import type { BoardSnapshot } from '../../shared/board/types';
 import type { JobSummary } from '../../shared/schemas/jobs';
 import { useBoardStore } from '../../src/stores/board';
@@ -87,9 +87,9 @@ function summary(overrides: Partial<JobSummary> = {}): JobSummary {
 }
 
 const at = (seq: number) => new Date(Date.parse('2026-10-02T07:00:00.000Z') + seq * 60_000).toISOString();
-const started = (seq: number): JobEventDto => ({ jobId: JOB_ID, seq, type: 'job.started', at: at(seq), by, data: {} });
-const stopped = (seq: number): JobEventDto => ({ jobId: JOB_ID, seq, type: 'job.stopped', at: at(seq), by, data: { reason: null, pressedAt: at(seq), alreadyStopped: false } });
-const renamed = (seq: number, name: string): JobEventDto => ({ jobId: JOB_ID, seq, type: 'job.updated', at: at(seq), by, data: { changes: { name }, planRegenerated: false } });
+const started = (seq: number): JobEventDto => parseJobEvent({ jobId: JOB_ID, seq, type: 'job.started', at: at(seq), by, data: {} });
+const stopped = (seq: number): JobEventDto => parseJobEvent({ jobId: JOB_ID, seq, type: 'job.stopped', at: at(seq), by, data: { reason: null, pressedAt: at(seq), alreadyStopped: false } });
+const renamed = (seq: number, name: string): JobEventDto => parseJobEvent({ jobId: JOB_ID, seq, type: 'job.updated', at: at(seq), by, data: { changes: { name }, planRegenerated: false } });
 
 type FetchArgs = [input: string, init?: RequestInit];
 const wait = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -159,7 +159,7 @@ describe('stores that follow the open board', () => {
 
   it('adds a live event to the shown event log, and keeps it when a page that was already on its way arrives', async () => {
     const jobs = useJobsStore();
-    const briefed: JobEventDto = { jobId: JOB_ID, seq: 5, type: 'briefing.acknowledged', at: at(5), by, data: { planVersion: 1 } };
+    const briefed = parseJobEvent({ jobId: JOB_ID, seq: 5, type: 'briefing.acknowledged', at: at(5), by, data: { planVersion: 1 } });
     fetchMock.mockResolvedValueOnce(json(200, { items: [briefed], lastSeq: 5 }));
     await jobs.loadEvents(JOB_ID);
     await useBoardStore().open(JOB_ID);
@@ -185,7 +185,7 @@ describe('stores that follow the open board', () => {
     const requestsBefore = fetchMock.mock.calls.length;
 
     fetchMock.mockResolvedValue(json(200, envelope(2)));
-    const revised: JobEventDto = { jobId: JOB_ID, seq: 7, type: 'plan.revised', at: at(7), by, data: { planVersion: 2, plan: plan(), reason: 'Defect: bent lacing' } };
+    const revised = parseJobEvent({ jobId: JOB_ID, seq: 7, type: 'plan.revised', at: at(7), by, data: { planVersion: 2, plan: plan(), reason: 'Defect: bent lacing' } });
     fake.deliver('board:event', revised);
     await wait(BURST_MS + 100);
     expect(fetchMock.mock.calls.slice(requestsBefore).map(([url]) => url)).toEqual([`/api/jobs/${JOB_ID}/plan`]);
@@ -199,7 +199,7 @@ describe('stores that follow the open board', () => {
     await planStore.loadPlan(JOB_ID);
     await useBoardStore().open(JOB_ID);
     const requestsBefore = fetchMock.mock.calls.length;
-    const edited = (seq: number): JobEventDto => ({ jobId: JOB_ID, seq, type: 'plan.edited', at: at(seq), by, data: { plan: plan(), problems: [] } });
+    const edited = (seq: number): JobEventDto => parseJobEvent({ jobId: JOB_ID, seq, type: 'plan.edited', at: at(seq), by, data: { plan: plan(), problems: [] } });
 
     planStore.drafts[JOB_ID].stages[0].title = 'Ground and exclusion zone, checked twice';
     fake.deliver('board:event', edited(6));
