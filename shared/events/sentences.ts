@@ -120,8 +120,9 @@ export function describeEvent(event: JobEventDto, context: EventWordsContext = {
       return sentences(`Reopened: ${stepText(names, event.data.stepId)}`, later > 0 && `${plural(later, 'later step')} reopened with it`);
     }
     case 'hold.acknowledged': {
-      const { holdId, role, values, photoId } = event.data;
-      return sentences(`Acknowledged the hold point “${holdTitle(names, holdId)}” as ${roleWords(role)}`, !!values && 'The controller readings typed matched the plan', !!photoId && 'Photo of the controller kept');
+      const { holdId, role, values, photoId, inspector } = event.data;
+      const as = inspector ? `the qualified inspector (${roleWords(role)})` : roleWords(role);
+      return sentences(`Acknowledged the hold point “${holdTitle(names, holdId)}” as ${as}`, !!values && 'The controller readings typed matched the plan', !!photoId && 'Photo of the controller kept');
     }
     case 'hold.withdrawn':
       return `Withdrew the ${roleWords(event.data.role)}’s acknowledgment of the hold point “${holdTitle(names, event.data.holdId)}”.`;

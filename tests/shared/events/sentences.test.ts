@@ -23,6 +23,9 @@ describe('event sentences', () => {
     expect(describeEvent(event('hold.acknowledged', { stageId: 't', holdId: 't.hold', role: 'signaller', photoId: null, values: null }), { names })).toBe(
       'Acknowledged the hold point “Pins counted” as signaller.',
     );
+    expect(describeEvent(event('hold.acknowledged', { stageId: 't', holdId: 't.hold', role: 'rigger', photoId: null, values: null, inspector: true }), { names })).toBe(
+      'Acknowledged the hold point “Pins counted” as the qualified inspector (rigger).',
+    );
     expect(describeEvent(event('job.stopped', { reason: null, pressedAt: '2026-10-01T07:00:00.000Z', alreadyStopped: false }))).toBe('Raised an ALL STOP.');
     const reading = { meanMs: 6.5, gustMs: 9.1, heightM: 12, lightning: false, poorVisibility: false, ice: false };
     expect(describeEvent(event('weather.recorded', { reading, phase: 'assembly', limit: null, stop: null, overLimit: null }))).toBe(
