@@ -78,13 +78,13 @@ export function pendingAcknowledgments(board: Pick<BoardState, 'stages'>, userId
 
 /**
  * The stages whose hold this person has something to do at now: an acknowledgment still theirs to
- * give (`pendingAcknowledgments`), or one they gave under a crew role and may withdraw until the
- * release. Plan order.
+ * give (`pendingAcknowledgments`), or one they gave under one of these roles and may withdraw until
+ * the release. Plan order.
  */
 export function holdsForMe(board: Pick<BoardState, 'stages'>, userId: string, roles: readonly CrewRole[]): BoardStage[] {
   const pending = new Set(pendingAcknowledgments(board, userId, roles).map((p) => p.stage.id));
   return currentStages(board).filter(
-    (s) => pending.has(s.id) || ((s.hold?.state === 'open' || s.hold?.state === 'acknowledged') && s.hold.acknowledgments.some((a) => a.userId === userId && !a.inspector)),
+    (s) => pending.has(s.id) || ((s.hold?.state === 'open' || s.hold?.state === 'acknowledged') && s.hold.acknowledgments.some((a) => a.userId === userId && !a.inspector && roles.includes(a.role))),
   );
 }
 

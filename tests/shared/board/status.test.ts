@@ -99,6 +99,8 @@ describe('what a person still has to answer', () => {
     ]);
     expect(holdsForMe(b, 'u-op', ['operator']).map((s) => s.id)).toEqual(['a', 'b']);
     expect(holdsForMe(b, 'u-rig', ['rigger'])).toEqual([]);
+    // The signaller's view asks under that role alone: a hold this person answered as operator is not listed there.
+    expect(holdsForMe(b, 'u-op', ['signaller']).map((s) => s.id)).toEqual(['a', 'c']);
   });
 
   it('ignores holds that are not open yet and stages blocked by a defect', () => {
