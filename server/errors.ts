@@ -1,6 +1,6 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { z } from 'zod';
-import type { ApiError, FieldError } from '../shared/schemas/errors.js';
+import type { z } from 'zod';
+import { fieldsFromZod, type ApiError, type FieldError } from '../shared/schemas/errors.js';
 import type { Logger } from './logger.js';
 
 /** An error meant for the client: HTTP status, stable code, readable message. */
@@ -24,11 +24,12 @@ export const unauthorized = (message = 'Sign in to continue.') => new HttpError(
 export const forbidden = (message = 'You do not have permission to do that.') => new HttpError(403, 'forbidden', message);
 export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${what} was not found.`);
 export const conflict = (code: string, message: string) => new HttpError(409, code, message);
-
-/** Turns zod issues into `fields`, one per failing path. */
-export function fieldsFromZod(error: z.ZodError): FieldError[] {
-  return error.issues.map((issue) => ({ path: issue.path.map(String).join('.') || '(body)', message: issue.message }));
-}
+/**
+ * The one answer to a deactivated account, whichever door it knocks on (a password, a link, a
+ * token over HTTP, a socket). 401 because the session it holds is no longer valid: the web
+ * client answers a 401 by trying its refresh cookie, which is refused too, and signs out.
+ */
+export const accountInactive = () => new HttpError(401, 'account_inactive', 'This account is deactivated. Ask your administrator.');
 
 /** Parses with a shared schema or throws a 400 naming every failing field. */
 export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown, what = 'request'): z.infer<S> {

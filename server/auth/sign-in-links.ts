@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { SignInLink, type SignInLinkKind } from '../entities/SignInLink.js';
 import { User } from '../entities/User.js';
-import { HttpError } from '../errors.js';
+import { accountInactive, HttpError } from '../errors.js';
 import { randomToken, sha256Hex } from './hash.js';
 
 /** How long each kind of e-mailed link works. */
@@ -33,6 +33,6 @@ export async function findUsableLink(manager: EntityManager, token: string, now:
   if (link.usedAt) throw new HttpError(409, 'link_used', `This link has already been used. ${again}`);
   if (now.getTime() >= Date.parse(link.expiresAt)) throw new HttpError(410, 'link_expired', `This link has expired. ${again}`);
   const user = await manager.findOneBy(User, { id: link.userId });
-  if (!user || !user.active) throw new HttpError(403, 'account_inactive', 'This account is deactivated. Ask your administrator.');
+  if (!user || !user.active) throw accountInactive();
   return { link, user };
 }

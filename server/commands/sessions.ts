@@ -6,7 +6,7 @@ import { issueRefreshToken, revokeByToken, rotateRefreshToken, type IssuedRefres
 import { findUsableLink } from '../auth/sign-in-links.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { HttpError } from '../errors.js';
+import { accountInactive, HttpError } from '../errors.js';
 import { presentUser } from '../presenters/user.js';
 import { recordSignInAudit } from './audit.js';
 
@@ -37,7 +37,7 @@ export async function signIn(context: AppContext, email: string, password: strin
     }
     if (!user.active) {
       await recordSignInAudit(manager, { kind: 'sign_in_inactive', email: normalized, userId: user.id, ip }, now);
-      return { error: new HttpError(403, 'account_inactive', 'This account is deactivated. Ask your administrator.') };
+      return { error: accountInactive() };
     }
     await recordSignInAudit(manager, { kind: 'sign_in', email: normalized, userId: user.id, ip }, now);
     return { signedIn: { session: sessionFor(context, user, now), refresh: await issueRefreshToken(manager, user.id, now) } };

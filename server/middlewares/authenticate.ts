@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express';
 import { verifyAccessToken } from '../auth/access-token.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { HttpError } from '../errors.js';
+import { accountInactive, HttpError } from '../errors.js';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -30,7 +30,7 @@ export function authenticate(context: AppContext): RequestHandler {
     }
     const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
     if (!user || !user.active) {
-      req.authProblem = new HttpError(401, 'account_inactive', 'This account is deactivated. Ask your administrator.');
+      req.authProblem = accountInactive();
       return next();
     }
     req.actor = user;

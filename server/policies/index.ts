@@ -153,6 +153,7 @@ export const policyTable = [
     allow: ['admin', 'crew:any'],
     routes: ['GET /api/jobs/:jobId/board'],
     events: ['board:join'],
+    refusal: 'Only the job’s crew can open its board.',
   },
   {
     // Acting on the board at all; `boardCommandRoles` below then says which crew roles send each

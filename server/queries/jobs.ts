@@ -1,6 +1,6 @@
 import { In, type EntityManager } from 'typeorm';
 import { commsProblems } from '../../shared/plan/comms.js';
-import type { CrewRole, JobDto, JobSummary, Readiness } from '../../shared/schemas/jobs.js';
+import { missingCrewRoles, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs.js';
 import { Job } from '../entities/Job.js';
 import { JobCrew } from '../entities/JobCrew.js';
 import { JobOverride } from '../entities/JobOverride.js';
@@ -8,6 +8,7 @@ import { CraneUnit } from '../entities/CraneUnit.js';
 import { User } from '../entities/User.js';
 import { can } from '../policies/index.js';
 import { presentJob } from '../presenters/job.js';
+import { crewRolesByJob } from './crew.js';
 import { planReadinessReasons } from './plans.js';
 
 /** A job with its crew, overrides and the names they need, presented for one person. */
@@ -38,15 +39,13 @@ export function seesAllJobs(viewer: User): boolean {
 /** The jobs a person may see: all for admins and supervisors, otherwise those they are crew on. */
 export async function jobsVisibleTo(manager: EntityManager, viewer: User): Promise<JobSummary[]> {
   const seesAll = seesAllJobs(viewer);
-  const mine = await manager.findBy(JobCrew, { userId: viewer.id });
+  const rolesByJob = await crewRolesByJob(manager, viewer.id);
   const jobs = seesAll
     ? await manager.find(Job, { order: { updatedAt: 'DESC' } })
-    : mine.length
-      ? await manager.find(Job, { where: { id: In([...new Set(mine.map((c) => c.jobId))]) }, order: { updatedAt: 'DESC' } })
+    : rolesByJob.size
+      ? await manager.find(Job, { where: { id: In([...rolesByJob.keys()]) }, order: { updatedAt: 'DESC' } })
       : [];
   const units = new Map((await manager.findBy(CraneUnit, { id: In([...new Set(jobs.map((j) => j.craneUnitId))]) })).map((u) => [u.id, u.fleetNumber]));
-  const rolesByJob = new Map<string, CrewRole[]>();
-  for (const c of mine) rolesByJob.set(c.jobId, [...(rolesByJob.get(c.jobId) ?? []), c.role]);
   return jobs.map((j) => ({
     id: j.id,
     name: j.name,
@@ -70,9 +69,7 @@ export async function readinessOf(manager: EntityManager, job: Job): Promise<Rea
   const reasons: Readiness['reasons'] = [];
   if (job.state !== 'planning') reasons.push({ code: 'invalid_state', message: `The job is ${job.state}, not planning.` });
   const crew = await manager.findBy(JobCrew, { jobId: job.id });
-  for (const role of ['supervisor', 'operator', 'signaller'] as const) {
-    if (!crew.some((c) => c.role === role)) reasons.push({ code: `crew_${role}`, message: `The crew has no ${role}. Add at least one.` });
-  }
+  for (const role of missingCrewRoles(crew)) reasons.push({ code: `crew_${role}`, message: `The crew has no ${role}. Add at least one.` });
   if (!job.configuration || !job.results) {
     reasons.push({ code: 'no_configuration', message: 'The configuration has not been planned yet.' });
   } else {

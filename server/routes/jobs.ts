@@ -7,13 +7,11 @@ import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
 import { Job } from '../entities/Job.js';
-import { JobEvent } from '../entities/JobEvent.js';
 import type { User } from '../entities/User.js';
 import { parseOrThrow } from '../errors.js';
 import { renderPdf } from '../pdf/pool.js';
 import { authorize, can } from '../policies/index.js';
-import { redactEventFor } from '../presenters/board.js';
-import { presentJobEvent } from '../presenters/job-event.js';
+import { eventsAfter } from '../queries/events.js';
 import { jobFor, jobsVisibleTo, readinessOf } from '../queries/jobs.js';
 import { commandIdOf, loadJobFor } from './job-access.js';
 
@@ -78,15 +76,8 @@ export function jobsRouter(context: AppContext): Router {
   router.get('/jobs/:jobId/events', async (req, res) => {
     const { job, actor, crewRoles } = await loadJobFor(context, req, 'jobs.read');
     const { after } = parseOrThrow(eventsQuerySchema, req.query, 'query');
-    // The blind check stays blind: values and failed fields only for the job's planners.
     const planner = can(actor, 'jobs.plan', { crewRoles });
-    const events = await manager
-      .createQueryBuilder(JobEvent, 'e')
-      .where('e.job_id = :jobId AND e.seq > :after', { jobId: job.id, after })
-      .orderBy('e.seq', 'ASC')
-      .limit(EVENTS_PAGE_LIMIT)
-      .getMany();
-    res.json({ items: events.map((e) => redactEventFor(presentJobEvent(e), planner)), lastSeq: job.lastSeq });
+    res.json({ items: await eventsAfter(manager, job.id, after, { planner, limit: EVENTS_PAGE_LIMIT }), lastSeq: job.lastSeq });
   });
 
   router.get('/jobs/:jobId/readiness', async (req, res) => {

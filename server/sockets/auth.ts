@@ -3,7 +3,7 @@ import { handshakeErrors, type ClientToServerEvents, type ServerToClientEvents }
 import { verifyAccessToken } from '../auth/access-token.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { HttpError, refusalOf } from '../errors.js';
+import { accountInactive, HttpError, refusalOf } from '../errors.js';
 import { can } from '../policies/index.js';
 
 export interface SocketData {
@@ -33,7 +33,7 @@ export function handshakeAuth(context: AppContext) {
     const claims = typeof token === 'string' ? verifyAccessToken(token, context.secret, context.now()) : null;
     if (!claims) return next(new HandshakeError(handshakeErrors.unauthenticated, 'Sign in to connect to the live board.'));
     const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
-    if (!user || !can(user, 'socket.connect')) return next(new HandshakeError(handshakeErrors.inactive, 'This account is deactivated.'));
+    if (!user || !can(user, 'socket.connect')) return next(new HandshakeError(handshakeErrors.inactive, accountInactive().message));
     socket.data.userId = user.id;
     socket.data.tokenExp = claims.exp;
     await socket.join(userRoom(user.id));
@@ -57,7 +57,7 @@ export function registerSessionHandlers(context: AppContext, socket: HoldlineSoc
       const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
       // The same row as the handshake: a person deactivated since connecting is let go.
       if (!user || !can(user, 'socket.connect')) {
-        ack(refusalOf(new HttpError(403, 'account_inactive', 'This account is deactivated.'), context.logger, { event: 'session:renew' }));
+        ack(refusalOf(accountInactive(), context.logger, { event: 'session:renew' }));
         socket.disconnect(true);
         return;
       }

@@ -5,15 +5,14 @@ import { boardCommandSchema } from '../../shared/schemas/commands.js';
 import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
 import { In } from 'typeorm';
+import { fieldsFromZod } from '../../shared/schemas/errors.js';
 import { Job } from '../entities/Job.js';
-import { JobCrew } from '../entities/JobCrew.js';
-import { JobEvent } from '../entities/JobEvent.js';
 import { User } from '../entities/User.js';
-import { badRequest, fieldsFromZod, HttpError, notFound, refusalOf } from '../errors.js';
-import { can } from '../policies/index.js';
-import { redactBoardFor, redactEventFor } from '../presenters/board.js';
-import { presentJobEvent } from '../presenters/job-event.js';
-import { crewRolesOf } from '../queries/crew.js';
+import { accountInactive, badRequest, HttpError, notFound, refusalOf } from '../errors.js';
+import { authorize, can } from '../policies/index.js';
+import { redactBoardFor } from '../presenters/board.js';
+import { crewRolesByJob, crewRolesOf } from '../queries/crew.js';
+import { eventsAfter } from '../queries/events.js';
 import { socketTokenValid, type HoldlineSocket } from './auth.js';
 import { jobRoom, plannerRoom, summaryRoom, type BoardPublisher } from './publisher.js';
 
@@ -42,6 +41,13 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
     return { ...redactBoardFor(job.board, planner), presence: presence.list(jobId) };
   }
 
+  /** The person behind a socket, read fresh each time: a deactivated account gets the same answer as over HTTP. */
+  async function actorOf(socket: HoldlineSocket): Promise<User> {
+    const user = await manager.findOneBy(User, { id: socket.data.userId });
+    if (!user?.active) throw accountInactive();
+    return user;
+  }
+
   function register(socket: HoldlineSocket): void {
     const joined = new Set<string>();
 
@@ -52,11 +58,11 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           const parsed = joinSchema.safeParse(payload);
           if (!parsed.success) throw badRequest('Say which job to join.', fieldsFromZod(parsed.error));
           const { jobId, afterSeq } = parsed.data;
-          const user = await manager.findOneBy(User, { id: socket.data.userId });
+          const user = await actorOf(socket);
           const job = await manager.findOneBy(Job, { id: jobId });
-          if (!user || !job) throw notFound('That job');
+          if (!job) throw notFound('That job');
           const roles = await crewRolesOf(manager, jobId, user.id);
-          if (!can(user, 'board.watch', { crewRoles: roles })) throw new HttpError(403, 'not_crew', 'Only the job’s crew can open its board.');
+          authorize(user, 'board.watch', { crewRoles: roles });
           // Join the room before reading, so nothing committed in between is missed: the client drops duplicates by seq.
           const planner = can(user, 'jobs.plan', { crewRoles: roles });
           await socket.join(planner ? [jobRoom(jobId), plannerRoom(jobId)] : jobRoom(jobId));
@@ -66,8 +72,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
             const current = await manager.findOneByOrFail(Job, { id: jobId });
             publisher.noteSeq(jobId, current.lastSeq);
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
-              const events = await manager.createQueryBuilder(JobEvent, 'e').where('e.job_id = :jobId AND e.seq > :afterSeq', { jobId, afterSeq }).orderBy('e.seq', 'ASC').getMany();
-              return { ok: true, mode: 'events', events: events.map((e) => redactEventFor(presentJobEvent(e), planner)), seq: current.lastSeq };
+              return { ok: true, mode: 'events', events: await eventsAfter(manager, jobId, afterSeq, { planner }), seq: current.lastSeq };
             }
             const snapshot = await snapshotOf(jobId, planner);
             if (!snapshot) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
@@ -96,8 +101,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           if (!socketTokenValid(socket, context.now())) throw new HttpError(401, 'token_expired', 'Your session needs renewing before you can act. Reconnecting…');
           const parsed = commandPayloadSchema.safeParse(payload);
           if (!parsed.success) throw badRequest('The command is not valid.', fieldsFromZod(parsed.error));
-          const user = await manager.findOneBy(User, { id: socket.data.userId });
-          if (!user?.active) throw new HttpError(403, 'account_inactive', 'This account is deactivated.');
+          const user = await actorOf(socket);
           const outcome = await runBoardCommand(context, user, parsed.data.jobId, parsed.data.command);
           return { ok: true, seq: outcome.event.seq, event: outcome.event };
         } catch (error) {
@@ -114,12 +118,11 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
       try {
         const parsed = followSchema.safeParse(payload);
         if (!parsed.success) throw badRequest(`Follow at most ${FOLLOW_LIMIT} jobs by their ids.`, fieldsFromZod(parsed.error));
-        const user = await manager.findOneBy(User, { id: socket.data.userId });
-        if (!user?.active) throw new HttpError(403, 'account_inactive', 'This account is deactivated.');
+        const user = await actorOf(socket);
         const ids = [...new Set(parsed.data.jobIds)];
         const jobs = ids.length ? await manager.findBy(Job, { id: In(ids) }) : [];
-        const crew = ids.length ? await manager.findBy(JobCrew, { userId: user.id, jobId: In(ids) }) : [];
-        const readable = jobs.map((j) => j.id).filter((jobId) => can(user, 'jobs.read', { crewRoles: crew.filter((c) => c.jobId === jobId).map((c) => c.role) }));
+        const rolesByJob = await crewRolesByJob(manager, user.id, ids);
+        const readable = jobs.map((j) => j.id).filter((jobId) => can(user, 'jobs.read', { crewRoles: rolesByJob.get(jobId) ?? [] }));
         for (const jobId of followed) if (!readable.includes(jobId)) void socket.leave(summaryRoom(jobId));
         followed.clear();
         for (const jobId of readable) followed.add(jobId);

@@ -120,6 +120,4 @@ export const refusalCodes = [
   'stop_cause_required',
   // A defect report quarantines its component through the fleet's inspection path
   'component_retired',
-  // Joining a board (not a command, but the same socket's answers)
-  'not_crew',
 ] as const;

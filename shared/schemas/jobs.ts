@@ -42,6 +42,14 @@ export const emptyCommsPlan: CommsPlan = { radioChannel: '', callSigns: [], moti
 export const crewMemberSchema = z.object({ userId: z.string(), name: z.string(), role: crewRoleSchema });
 export type CrewMember = z.infer<typeof crewMemberSchema>;
 
+/** The roles without which a job can never leave planning; the server's readiness and the crew editor read this one list. */
+export const requiredCrewRoles = ['supervisor', 'operator', 'signaller'] as const satisfies readonly CrewRole[];
+
+/** The required roles nobody in the crew holds yet, in the order of `requiredCrewRoles`. */
+export function missingCrewRoles(crew: readonly Pick<CrewMember, 'role'>[]): CrewRole[] {
+  return requiredCrewRoles.filter((role) => !crew.some((m) => m.role === role));
+}
+
 export const overrideSchema = z.object({
   id: z.string(),
   figureKey: z.string(),

@@ -3,7 +3,7 @@ import { useLoadTracker } from '../composables/useLoadTracker';
 import { computed, reactive, ref } from 'vue';
 import type { z } from 'zod';
 import { arrangementDataSchema, type ArrangementData } from '../../shared/schemas/arrangement';
-import type { FieldError } from '../../shared/schemas/errors';
+import { fieldsFromZod, type FieldError } from '../../shared/schemas/errors';
 import {
   assistCraneEnvelopeSchema,
   assistCraneListSchema,
@@ -32,7 +32,7 @@ import {
   type InspectionDto,
 } from '../../shared/schemas/fleet';
 import { api, ApiRequestError, describeError } from '../services/api';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, withoutFieldError, type FieldErrors } from './form-errors';
+import { fieldErrorOf, fieldErrorsFrom, withoutFieldError, type FieldErrors } from './form-errors';
 import { useSessionStore } from './session';
 
 /** A component detail as the screen holds it. */
@@ -169,7 +169,7 @@ export const useFleetStore = defineStore('fleet', () => {
   function loadComponents(filter: ComponentFilter = componentFilter.value) {
     const parsed = componentFilterSchema.safeParse(filter);
     if (!parsed.success) {
-      problems.components = 'The filter is not valid: ' + parsed.error.issues.map((i) => i.message).join('; ');
+      problems.components = 'The filter is not valid: ' + fieldsFromZod(parsed.error).map((f) => f.message).join('; ');
       return Promise.resolve(null);
     }
     componentFilter.value = { ...filter };

@@ -1,4 +1,3 @@
-import type { z } from 'zod';
 import type { FieldError } from '../../shared/schemas/errors';
 
 /**
@@ -9,27 +8,6 @@ import type { FieldError } from '../../shared/schemas/errors';
 
 /** Field errors keyed by the full path; the first message per path is kept. */
 export type FieldErrors = Partial<Record<string, string>>;
-
-/** Zod's own wording for its generic checks; a message a schema wrote itself never starts like these. */
-const GENERIC_MESSAGE = /^(Invalid|Too small|Too big)/;
-
-/** A message for people from a zod issue: the schema's own words, or plain ones for zod's generic checks. */
-export function readableIssue(issue: z.core.$ZodIssue): string {
-  if (!GENERIC_MESSAGE.test(issue.message)) return issue.message;
-  if (issue.code === 'invalid_type' && issue.expected === 'number') return 'Enter a number';
-  if (issue.code === 'too_small' && issue.origin === 'number') return issue.inclusive ? `Enter ${String(issue.minimum)} or more` : `Enter a number above ${String(issue.minimum)}`;
-  if (issue.code === 'too_big' && issue.origin === 'number') return `Enter ${String(issue.maximum)} or less`;
-  if (issue.code === 'too_small' && issue.origin === 'string') return 'Fill this in';
-  if (issue.code === 'too_big' && issue.origin === 'string') return `Use at most ${String(issue.maximum)} characters`;
-  if (issue.code === 'invalid_format' && issue.format === 'email') return 'Enter a valid e-mail';
-  if (issue.code === 'invalid_format' && issue.format === 'uuid') return 'Choose one';
-  return issue.message;
-}
-
-/** Zod issues as the server would name them. */
-export function fieldsFromZod(error: z.ZodError): FieldError[] {
-  return error.issues.map((i) => ({ path: i.path.map(String).join('.'), message: readableIssue(i) }));
-}
 
 /** Field errors by full path, first message per path; a refusal of the whole body sits under "(body)". */
 export function fieldErrorsFrom(fields: readonly FieldError[]): FieldErrors {

@@ -3,8 +3,8 @@ import { useLoadTracker } from '../composables/useLoadTracker';
 import { reactive, ref } from 'vue';
 import type { z } from 'zod';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
-import type { FieldError } from '../../shared/schemas/errors';
-import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema, readinessSchema, setCrewSchema, updateJobSchema, verifySchema, type CrewMember, type CrewRole, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs';
+import { fieldsFromZod, type FieldError } from '../../shared/schemas/errors';
+import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema, readinessSchema, setCrewSchema, updateJobSchema, verifySchema, type CrewRole, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs';
 import { jobEventListSchema, type JobEventDto, type JobEventType } from '../../shared/events/log';
 import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
@@ -14,15 +14,7 @@ import { connectSocket } from '../services/socket';
 import { useBoardStore } from './board';
 import { useSessionStore } from './session';
 import { createBurstRunner } from './bursts';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
-
-/** The roles without which a job can never leave planning. */
-export const requiredCrewRoles = ['supervisor', 'operator', 'signaller'] as const satisfies readonly CrewRole[];
-
-/** The required roles nobody in the crew holds yet. */
-export function missingCrewRoles(crew: readonly Pick<CrewMember, 'role'>[]): CrewRole[] {
-  return requiredCrewRoles.filter((role) => !crew.some((m) => m.role === role));
-}
+import { fieldErrorOf, fieldErrorsFrom, type FieldErrors } from './form-errors';
 
 /** One figure that reads differently on this device and on the server. */
 export interface FigureDifference {

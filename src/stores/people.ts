@@ -17,7 +17,8 @@ import {
 } from '../../shared/schemas/users';
 import { mailProblemListSchema, type MailProblem } from '../../shared/schemas/mail';
 import { api, ApiRequestError, describeError } from '../services/api';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
+import { fieldErrorOf, fieldErrorsFrom, type FieldErrors } from './form-errors';
+import { fieldsFromZod } from '../../shared/schemas/errors';
 
 /** How a person's account stands, in the order the list sorts them. */
 export type PersonStatus = 'active' | 'pending' | 'deactivated';

@@ -2,7 +2,7 @@ import { defineStore } from 'pinia';
 import { useLoadTracker } from '../composables/useLoadTracker';
 import { reactive, toRaw } from 'vue';
 import type { z } from 'zod';
-import type { FieldError } from '../../shared/schemas/errors';
+import { fieldsFromZod, type FieldError } from '../../shared/schemas/errors';
 import { jobEnvelopeSchema, type CrewRole, type JobDto } from '../../shared/schemas/jobs';
 import { planEnvelopeSchema, planSchema, planVersionListSchema, type Plan, type PlanVersionDto } from '../../shared/schemas/plan';
 import {
@@ -25,7 +25,7 @@ import { api, ApiRequestError, describeError, download, fileNamePart } from '../
 import type { JobEventDto, JobEventType } from '../../shared/events/log';
 import { useBoardStore } from './board';
 import { createBurstRunner } from './bursts';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, type FieldErrors } from './form-errors';
+import { fieldErrorOf, fieldErrorsFrom, type FieldErrors } from './form-errors';
 import { useJobsStore } from './jobs';
 
 export type PlanEnvelope = z.infer<typeof planEnvelopeSchema>;

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { fieldErrorOf, fieldErrorsFrom, fieldsFromZod, withoutFieldError } from '../../src/stores/form-errors';
+import { fieldsFromZod } from '../../shared/schemas/errors';
+import { fieldErrorOf, fieldErrorsFrom, withoutFieldError } from '../../src/stores/form-errors';
 
 describe('the one set of form-error helpers', () => {
   it('keeps the first message per full path, and a refusal of the whole body under “(body)”', () => {

@@ -4,7 +4,7 @@ import type { Configuration, Figure } from '../../shared/schemas/configuration';
 import type { JobDto } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
 import { fieldErrorOf } from '../../src/stores/form-errors';
-import { figureDifferences, missingCrewRoles, useJobsStore } from '../../src/stores/jobs';
+import { figureDifferences, useJobsStore } from '../../src/stores/jobs';
 import { buildJob, JOB_ID, json, UNIT_ID } from './helpers';
 
 const SUPERVISOR_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
@@ -142,12 +142,6 @@ describe('jobs store', () => {
     expect(jobs.problemOf(`readiness:${JOB_ID}`)).toBe('Something went wrong on the server.');
     // The last known reasons stay on screen beside the problem.
     expect(jobs.readiness[JOB_ID].reasons).toHaveLength(2);
-  });
-
-  it('names the required roles nobody holds', () => {
-    expect(missingCrewRoles([])).toEqual(['supervisor', 'operator', 'signaller']);
-    expect(missingCrewRoles([{ role: 'supervisor' }, { role: 'rigger' }, { role: 'signaller' }])).toEqual(['operator']);
-    expect(missingCrewRoles([{ role: 'supervisor' }, { role: 'operator' }, { role: 'signaller' }])).toEqual([]);
   });
 
   it('keeps crew errors on the row the server named', async () => {

@@ -1,7 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import SocketMock from 'socket.io-mock';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CommandAnswer, JoinAnswer } from '../../shared/events/socket.js';
+import { User } from '../../server/entities/User.js';
 import type { HoldlineServer, HoldlineSocket } from '../../server/sockets/auth.js';
 import { createBoardHub } from '../../server/sockets/board.js';
 import { BoardPublisher } from '../../server/sockets/publisher.js';
@@ -70,5 +72,24 @@ describe('board socket handlers (socket.io-mock)', () => {
     const badJoin = await send<JoinAnswer>(socket, 'board:join', { jobId: 42 });
     expect(badJoin).toMatchObject({ ok: false, error: { code: 'validation' } });
     expect(broadcasts).toEqual([]);
+  });
+
+  it('words a schema failure as the client does, not in zod’s own words', async () => {
+    const socket = mockSocketFor(rigger);
+    const answer = await send<JoinAnswer>(socket, 'board:join', { jobId: 'nope' });
+    // The form's wording for an id that is not one (shared/schemas/errors.ts), where zod itself says "Invalid UUID".
+    expect(answer).toMatchObject({ ok: false, error: { code: 'validation', fields: [{ path: 'jobId', message: 'Choose one' }] } });
+  });
+
+  it('answers a person deactivated while connected as HTTP does, on every handler', async () => {
+    const person = await signedInUser(server, { qualifications: ['rigger'] });
+    const socket = mockSocketFor(person);
+    await server.context.queue.transaction((m) => m.update(User, { id: person.user.id }, { active: false }));
+    const http = await request(server.app).get('/api/auth/me').set('Authorization', `Bearer ${person.token}`).expect(401);
+    expect(http.body.error.code).toBe('account_inactive');
+    const command = await send<CommandAnswer>(socket, 'board:command', { jobId: randomUUID(), command: { type: 'job.stop', commandId: randomUUID(), pressedAt: new Date().toISOString() } });
+    const join = await send<JoinAnswer>(socket, 'board:join', { jobId: randomUUID() });
+    const follow = await send<unknown>(socket, 'jobs:follow', { jobIds: [randomUUID()] });
+    for (const answer of [command, join, follow]) expect(answer).toEqual({ ok: false, error: http.body.error });
   });
 });

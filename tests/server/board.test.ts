@@ -236,7 +236,10 @@ describe('the live board engine', () => {
     const jobId = await liveJob();
     const outside = client(outsider);
     const refused = await outside.join(jobId);
-    expect(refused).toMatchObject({ ok: false, error: { code: 'not_crew' } });
+    expect(refused).toMatchObject({ ok: false, error: { code: 'forbidden', message: 'Only the job’s crew can open its board.' } });
+    // Joining asks the same policy row as reading the board over HTTP, so both refuse in the same words.
+    const boardHttp = await request(server.app).get(`/api/jobs/${jobId}/board`).set({ Authorization: `Bearer ${outsider.token}` }).expect(403);
+    expect(refused.ok ? null : refused.error).toEqual(boardHttp.body.error);
     // A command from outside the crew is refused by the same policy over both transports, in the same words.
     const outsideStop = await outside.command(jobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
     expect(outsideStop).toMatchObject({ ok: false, error: { code: 'forbidden' } });
