@@ -2,7 +2,7 @@ import { boomMakeupSvg } from '../../shared/drawings/boom-makeup.js';
 import { groundPressureSvg } from '../../shared/drawings/ground-pressure.js';
 import { reevingSvg } from '../../shared/drawings/reeving.js';
 import { sitePlanSvg } from '../../shared/drawings/site-plan.js';
-import { fmtUp } from '../../shared/format.js';
+import { tonnesUp } from '../../shared/format.js';
 import type { ArrangementData } from '../../shared/schemas/arrangement.js';
 import { groundSourceLabels, type Configuration } from '../../shared/schemas/configuration.js';
 import type { JobDto } from '../../shared/schemas/jobs.js';
@@ -39,7 +39,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
     [0.12, 0.3, 0.16, 0.2, 0.22],
     m.sections.map((s) => [String(s.position), s.typeId, `${s.lengthM} m`, `${s.startM}–${s.endM} m`, s.serial ?? 'none at hand']),
   );
-  pdf.paragraph(`Total section weight ${fmtUp(m.totalSectionWeightKg / 1000, 2)} t; ${m.pinCount.total} pins (${m.pinCount.jointPins} in joints, ${m.pinCount.guyLinePins} in guy lines). ${m.buildable ? 'Buildable from serviceable parts.' : `Not buildable: ${m.reasons.join('; ')}`}`);
+  pdf.paragraph(`Total section weight ${tonnesUp(m.totalSectionWeightKg)} t; ${m.pinCount.total} pins (${m.pinCount.jointPins} in joints, ${m.pinCount.guyLinePins} in guy lines). ${m.buildable ? 'Buildable from serviceable parts.' : `Not buildable: ${m.reasons.join('; ')}`}`);
   const boomSvg = boomMakeupSvg(m, { sectionTypes: arrangement.sectionTypes, widthPx: 960 });
   pdf.drawing(boomSvg, svgAspect(boomSvg));
 

@@ -2,6 +2,7 @@
  * Reeving: the pull in the lead line for a given number of parts of line, allowing for the
  * friction lost at every sheave the rope turns over.
  */
+import { fmtUp } from '../format';
 import { CalcInputError, finiteResult, requireInRange, requireInteger, requireNonNegative } from './errors';
 
 /** A sheave efficiency preset with the publication it comes from. */
@@ -146,7 +147,7 @@ export function requiredPartsBySheave(
     achievable: false,
     parts: null,
     leadLinePullKn: null,
-    reason: `even ${maxParts} parts of line leave a lead-line pull of ${last.toFixed(1)} kN, above the permissible ${permissible} kN`,
+    reason: `even ${maxParts} parts of line leave a lead-line pull of ${fmtUp(last, 1)} kN, above the permissible ${permissible} kN`,
     rule,
   };
 }
@@ -182,7 +183,7 @@ export function requiredParts(
     achievable: false,
     parts: null,
     leadLinePullKn: null,
-    reason: `even ${maxParts} parts of line leave a lead-line pull of ${best.toFixed(1)} kN, above the permissible ${permissible} kN`,
+    reason: `even ${maxParts} parts of line leave a lead-line pull of ${fmtUp(best, 1)} kN, above the permissible ${permissible} kN`,
     rule,
   };
 }

@@ -7,6 +7,7 @@
  * clip paths), and every piece of text passes through `escapeXml`.
  */
 import { CalcInputError } from '../calc/errors';
+import { plain, tonnesUp } from '../format';
 
 /** A section type as the arrangement data lists it; enough to draw a type-only boom. */
 export interface DrawableSectionType {
@@ -106,11 +107,6 @@ const LANE_GAP = 8;
 /** Escapes text for XML content and attribute values. */
 export function escapeXml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&apos;' })[c] ?? c);
-}
-
-/** A number for people: no trailing zeros, at most 2 decimals. */
-function num(value: number): string {
-  return String(Math.round(value * 100) / 100);
 }
 
 /** A coordinate for the SVG: rounded so the text stays short and stable for tests. */
@@ -280,7 +276,7 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
   const isTypeList = Array.isArray(input);
   const sections = isTypeList ? fromTypes(input as readonly DrawableSectionType[]) : fromMakeup(input as DrawableMakeup, options);
   const totalM = sections.reduce((sum, s) => Math.max(sum, s.startM + s.lengthM), 0);
-  const title = options.title ?? (totalM > 0 ? `Boom make-up, ${num(totalM)} m, ${sections.length} sections from foot to tip` : 'Boom make-up: no sections');
+  const title = options.title ?? (totalM > 0 ? `Boom make-up, ${plain(totalM, 2)} m, ${sections.length} sections from foot to tip` : 'Boom make-up: no sections');
 
   const parts: string[] = [];
   const open = (height: number) =>
@@ -298,10 +294,10 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
 
   // Header line: total length and, for a make-up, weight, pins and whether it can be built.
   let y = 24;
-  const header = [`Total length ${num(totalM)} m`, `${sections.length} sections`];
+  const header = [`Total length ${plain(totalM, 2)} m`, `${sections.length} sections`];
   if (!isTypeList) {
     const m = input as DrawableMakeup;
-    if (m.totalSectionWeightKg !== undefined && Number.isFinite(m.totalSectionWeightKg)) header.push(`sections ${num(Math.round(m.totalSectionWeightKg / 100) / 10)} t`);
+    if (m.totalSectionWeightKg !== undefined && Number.isFinite(m.totalSectionWeightKg)) header.push(`sections ${tonnesUp(m.totalSectionWeightKg)} t`);
     if (m.pinCount && Number.isFinite(m.pinCount.total)) header.push(`${m.pinCount.total} pins (${m.pinCount.jointPins} in joints, ${m.pinCount.guyLinePins} in guy lines)`);
   }
   parts.push(text(MARGIN_X, y, header.join(' · '), `font-size="15" font-weight="700" fill="${p.ink}"`));
@@ -336,7 +332,7 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
     const stroke = flagged ? p.stop : p.chord;
     const dash = s.state === 'missing' ? ' stroke-dasharray="6 4"' : '';
     parts.push(
-      `<rect x="${px(x)}" y="${px(boomTop)}" width="${px(w)}" height="${BOOM_HEIGHT}" fill="${flagged ? p.stopFill : p.sectionFill}" stroke="${stroke}" stroke-width="${flagged ? 2.5 : 1.5}"${dash} data-position="${s.position}" data-length-m="${num(s.lengthM)}"/>`,
+      `<rect x="${px(x)}" y="${px(boomTop)}" width="${px(w)}" height="${BOOM_HEIGHT}" fill="${flagged ? p.stopFill : p.sectionFill}" stroke="${stroke}" stroke-width="${flagged ? 2.5 : 1.5}"${dash} data-position="${s.position}" data-length-m="${plain(s.lengthM, 2)}"/>`,
     );
     if (s.state === 'ok' || s.state === 'no-serial') parts.push(lattice(x, boomTop, w, BOOM_HEIGHT, p));
     if (s.state === 'quarantined' || s.state === 'retired') {
@@ -364,7 +360,7 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
 
   // Labels below the boom: type, serial (or what is wrong), each in the first free lane.
   const labelBlocks = sections.map((s) => {
-    const lines: { content: string; kind: 'type' | 'serial' | 'warning' | 'stop' }[] = [{ content: `${roleWords[s.role]} ${num(s.lengthM)} m`, kind: 'type' }];
+    const lines: { content: string; kind: 'type' | 'serial' | 'warning' | 'stop' }[] = [{ content: `${roleWords[s.role]} ${plain(s.lengthM, 2)} m`, kind: 'type' }];
     if (s.state === 'quarantined' || s.state === 'retired') {
       lines.push({ content: stateWords[s.state], kind: 'stop' });
       if (s.unusableSerial) lines.push({ content: s.unusableSerial, kind: 'serial' });
@@ -413,7 +409,7 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
   for (let m = 0; m <= totalM + 1e-9; m += step) {
     const x = xOf(m);
     parts.push(`<line x1="${px(x)}" y1="${px(scaleY - 5)}" x2="${px(x)}" y2="${px(scaleY + 5)}" stroke="${p.ink}" stroke-width="1.5"/>`);
-    const label = `${num(m)} m`;
+    const label = `${plain(m, 2)} m`;
     // The last regular tick gives way to the total when they would collide.
     if (totalM - m < step / 2 && m !== 0 && Math.abs(totalM - m) > 1e-9) continue;
     parts.push(text(x, scaleY + 20, label, `font-size="12" text-anchor="middle" fill="${p.ink}"`));
@@ -421,7 +417,7 @@ export function boomMakeupSvg(input: DrawableMakeup | readonly DrawableSectionTy
   if (Math.abs(totalM / step - Math.round(totalM / step)) > 1e-9) {
     const x = xOf(totalM);
     parts.push(`<line x1="${px(x)}" y1="${px(scaleY - 5)}" x2="${px(x)}" y2="${px(scaleY + 5)}" stroke="${p.ink}" stroke-width="1.5"/>`);
-    parts.push(text(x, scaleY + 20, `${num(totalM)} m`, `font-size="12" text-anchor="middle" fill="${p.ink}"`));
+    parts.push(text(x, scaleY + 20, `${plain(totalM, 2)} m`, `font-size="12" text-anchor="middle" fill="${p.ink}"`));
   }
   const endsY = scaleY + 38;
   parts.push(text(MARGIN_X, endsY, 'Foot (boom base pins)', `font-size="12" font-weight="700" fill="${p.muted}"`));

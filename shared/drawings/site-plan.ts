@@ -168,7 +168,7 @@ export function sitePlanSvg(input: SitePlanInput, options: SitePlanDrawingOption
   const cx = size / 2;
   const cy = header + size / 2;
   const scale = (size / 2 - 16) / extentM;
-  const title = `Site plan: boom ${boomM} m, reach ${fmtUp(reachM)} m, fall zone ${fallM} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
+  const title = `Site plan: boom ${boomM} m, reach ${fmtUp(reachM)} m, fall zone ${fmtUp(fallM)} m, ${input.powerLines.length} power line${input.powerLines.length === 1 ? '' : 's'}`;
 
   const out: string[] = [];
 

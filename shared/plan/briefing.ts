@@ -5,7 +5,8 @@
  */
 import type { Briefing, PlanStage } from '../schemas/plan.js';
 import { qualificationLabels } from '../schemas/users.js';
-import { listWords, num, tidy, tonnes } from './format.js';
+import { fmtUp, plain, plainDown, plainUp } from '../format';
+import { listWords, tidy } from '../text';
 import { commsWords } from './comms.js';
 import type { GeneratePlanInput } from './types.js';
 
@@ -39,28 +40,28 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   // The boom foot pins are the crane data's pins at the foot of the base section (as in the plan).
   const footPins = makeup.sections[0] ? (arrangement.sectionTypes.find((t) => t.id === makeup.sections[0].typeId)?.pinsPerJoint ?? 0) : 0;
   job.push(
-    `${jobWord} of a ${num(cfg.boomLengthM)} m boom${sectionList ? `: ${sectionList}, foot to tip` : ''}. ` +
+    `${jobWord} of a ${plain(cfg.boomLengthM)} m boom${sectionList ? `: ${sectionList}, foot to tip` : ''}. ` +
       `${footPins + makeup.pinCount.total} connecting pins: ${footPins} at the boom foot, ${makeup.pinCount.jointPins} in ${Math.max(makeup.sections.length - 1, 0)} joints and ${makeup.pinCount.guyLinePins} in ${makeup.totalGuyLineCount} guy lines.`,
   );
   if (!makeup.buildable && makeup.reasons.length > 0) job.push(`This boom cannot be built as planned: ${makeup.reasons.join('; ')}.`);
   job.push(`Main hook: ${cfg.mainHook.hookBlockId} on ${cfg.mainHook.parts} parts of line.`);
   job.push(cfg.auxiliary.enabled ? `Auxiliary hoist: ${cfg.auxiliary.hookBlockId ?? 'hook not chosen'} on a single line through the auxiliary sheave.` : 'No auxiliary hoist on this job.');
   const h = cfg.heaviestLoad;
-  job.push(`Heaviest load: ${h.description}, ${num(h.loadT)} t plus ${num(h.riggingT)} t of rigging at ${num(h.radiusM)} m radius.`);
+  job.push(`Heaviest load: ${h.description}, ${plain(h.loadT)} t plus ${plain(h.riggingT)} t of rigging at ${plain(h.radiusM)} m radius.`);
   job.push(
     listed
-      ? `For raising: counterweight ${tonnes(listed.raising.counterweightKg)} t, crawler gauge ${num(listed.raising.trackGaugeM)} m.`
+      ? `For raising: counterweight ${plain(listed.raising.counterweightKg / 1000)} t, crawler gauge ${plain(listed.raising.trackGaugeM)} m.`
       : 'The crane data lists no raising set-up for this boom length.',
   );
   job.push(
     results.platesRequired
-      ? `Steel plates under the crawler ends: required (the crane data asks for them from ${num(arrangement.platesThresholdBoomLengthM)} m of boom).`
-      : `Steel plates: not needed at this length (the crane data asks for them from ${num(arrangement.platesThresholdBoomLengthM)} m).`,
+      ? `Steel plates under the crawler ends: required (the crane data asks for them from ${plain(arrangement.platesThresholdBoomLengthM)} m of boom).`
+      : `Steel plates: not needed at this length (the crane data asks for them from ${plain(arrangement.platesThresholdBoomLengthM)} m).`,
   );
   const src = cfg.ground.source;
   job.push(
-    `Ground: ${cfg.ground.groundType.trim() || 'type not given'}, allowable ${num(cfg.ground.allowablePressureKpa)} kPa, ${src.kind === 'none' ? 'with no ground investigation or design behind it yet' : `from ${src.reference}`}.` +
-      (cfg.mats.used ? ` Mats ${num(cfg.mats.lengthM)} × ${num(cfg.mats.widthM)} × ${num(cfg.mats.thicknessM)} m.` : ''),
+    `Ground: ${cfg.ground.groundType.trim() || 'type not given'}, allowable ${plain(cfg.ground.allowablePressureKpa)} kPa, ${src.kind === 'none' ? 'with no ground investigation or design behind it yet' : `from ${src.reference}`}.` +
+      (cfg.mats.used ? ` Mats ${plain(cfg.mats.lengthM)} × ${plain(cfg.mats.widthM)} × ${plain(cfg.mats.thicknessM)} m.` : ''),
   );
   if (cfg.assist.lifts.length > 0) job.push(`Assist crane: ${cfg.assist.lifts.length} planned ${cfg.assist.lifts.length === 1 ? 'lift' : 'lifts'}: ${cfg.assist.lifts.map((l) => l.label).join('; ')}.`);
 
@@ -68,16 +69,16 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   if (cfg.siteHazards.powerLines.length === 0) hazards.push('No overhead power lines recorded. Look up before anything moves.');
   cfg.siteHazards.powerLines.forEach((line, i) => {
     const r = results.powerLines[i];
-    const required = r && r.requiredClearanceM !== null ? `${num(Math.round(r.requiredClearanceM * 100) / 100)} m${r.basisWords ? ` (${r.basisWords})` : ''}` : 'to be given by the line’s owner';
-    const left = r ? ` ${num(Math.floor(r.availableClearanceM * 10 + 1e-9) / 10)} m left between the line and the farthest reach of the boom, hook and load.` : '';
-    hazards.push(`Overhead line “${line.label}”, ${line.voltageKv === null ? 'voltage unknown' : `${num(line.voltageKv)} kV`}, ${num(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}${r?.assist && !r.assist.pass ? ` The assist crane’s clearance is ${r.assist.availableClearanceM === null ? 'not checked yet' : 'NOT met'}.` : ''}`);
+    const required = r && r.requiredClearanceM !== null ? `${fmtUp(r.requiredClearanceM, 2)} m${r.basisWords ? ` (${r.basisWords})` : ''}` : 'to be given by the line’s owner';
+    const left = r ? ` ${plainDown(r.availableClearanceM, 1)} m left between the line and the farthest reach of the boom, hook and load.` : '';
+    hazards.push(`Overhead line “${line.label}”, ${line.voltageKv === null ? 'voltage unknown' : `${plain(line.voltageKv)} kV`}, ${plain(line.distanceM)} m from the slewing centre: minimum approach distance ${required}.${left}${r && !r.pass ? ' The clearance is NOT met.' : ''}${r?.assist && !r.assist.pass ? ` The assist crane’s clearance is ${r.assist.availableClearanceM === null ? 'not checked yet' : 'NOT met'}.` : ''}`);
   });
-  hazards.push(`Exclusion zone: ${num(Math.ceil(results.fallZoneRadiusM * 10) / 10)} m around the slewing centre, the fall zone of the boom. Only the crew inside.`);
+  hazards.push(`Exclusion zone: ${plainUp(results.fallZoneRadiusM, 1)} m around the slewing centre, the fall zone of the boom. Only the crew inside.`);
   hazards.push(`Buried services: ${cfg.siteHazards.buriedServices.trim() || 'none recorded; confirm with the site'}.`);
   if (cfg.siteHazards.neighbours.trim()) hazards.push(`Neighbours: ${cfg.siteHazards.neighbours.trim()}.`);
   if (results.windLimits) {
     const { assembly, raising } = results.windLimits;
-    hazards.push(`Wind limits: assembly gust ${num(assembly.gustMs)} m/s, mean ${num(assembly.meanMs)} m/s; raising and lowering gust ${num(raising.gustMs)} m/s, mean ${num(raising.meanMs)} m/s.`);
+    hazards.push(`Wind limits: assembly gust ${plain(assembly.gustMs)} m/s, mean ${plain(assembly.meanMs)} m/s; raising and lowering gust ${plain(raising.gustMs)} m/s, mean ${plain(raising.meanMs)} m/s.`);
   } else {
     hazards.push('Wind limits: the crane data gives none for this boom length. Nothing starts until the manufacturer’s limit is known.');
   }
@@ -108,7 +109,7 @@ export function buildBriefing(input: GeneratePlanInput, stages: readonly PlanSta
   ];
 
   return {
-    title: tidy(`Toolbox talk: ${jobWord.toLowerCase()} of a ${num(cfg.boomLengthM)} m boom`),
+    title: tidy(`Toolbox talk: ${jobWord.toLowerCase()} of a ${plain(cfg.boomLengthM)} m boom`),
     // Items built from what people typed may end their own sentence: no doubled full stops.
     sections: [
       { heading: 'The job', items: job.map(tidy) },

@@ -7,7 +7,8 @@ import type { BoomPosition } from '../calc/boom.js';
 import type { Configuration } from '../schemas/configuration.js';
 import type { PlanStage } from '../schemas/plan.js';
 import { commsWords } from './comms.js';
-import { fill, num } from './format.js';
+import { fmtUp, plain, plainUp } from '../format';
+import { fill } from '../text';
 import { assistLiftFails, assistLiftsStage, assistStage, commsSteps, powerLineTooClose, radioCheckStep, siteSteps } from './templates/common.js';
 import { StageDraft, type GenerateContext, type StepExtra } from './stage-draft.js';
 
@@ -25,11 +26,11 @@ export function windSteps(draft: StageDraft, ctx: GenerateContext, which: 'assem
 
 export function siteHazardSteps(draft: StageDraft, ctx: GenerateContext): void {
   const { cfg, results } = ctx;
-  draft.add('exclusion-zone', siteSteps.exclusionZone, { radiusM: Math.ceil(results.fallZoneRadiusM * 10) / 10 });
+  draft.add('exclusion-zone', siteSteps.exclusionZone, { radiusM: plainUp(results.fallZoneRadiusM, 1) });
   cfg.siteHazards.powerLines.forEach((line, i) => {
     const r = results.powerLines[i];
     const clearance = r && r.requiredClearanceM !== null
-      ? `${num(Math.ceil(r.requiredClearanceM * 100 - 1e-9) / 100)} m${r.basisWords ? ` (${r.basisWords})` : ''}`
+      ? `${fmtUp(r.requiredClearanceM, 2)} m${r.basisWords ? ` (${r.basisWords})` : ''}`
       : 'not in the table for this voltage: get the distance from the line’s owner';
     const tooClose = r ? !r.pass || r.assist?.pass === false : true;
     draft.add(
@@ -77,11 +78,11 @@ export function assistLiftsStageFor(ctx: GenerateContext, id: string, dependsOn:
   ctx.cfg.assist.lifts.forEach((lift, i) => {
     const r = ctx.results.assistLifts[i];
     const share = r && r.sharePercent !== null && r.chartRadiusM !== null
-      ? `${num(Math.round(r.sharePercent * 10) / 10)} % of the chart capacity read at ${num(r.chartRadiusM)} m`
+      ? `${plainUp(r.sharePercent, 1)} % of the chart capacity read at ${plain(r.chartRadiusM)} m`
       : 'no chart capacity found for it';
     // Everything on the assist crane's hook, as its chart counts it: the lift, its hook block, slings, shackles, rigging and chart deductions.
     const onHookT = lift.liftT + lift.riggingT + lift.hookBlockT + lift.slingsT + lift.shacklesT + lift.deductionsT;
-    const vars = { n: i + 1, label: lift.label, totalT: num(Math.round(onHookT * 100) / 100), radiusM: lift.radiusM, share };
+    const vars = { n: i + 1, label: lift.label, totalT: plainUp(onHookT, 2), radiusM: lift.radiusM, share };
     const fails = r && !r.pass ? fill(assistLiftFails, { reason: r.reason }) : r ? null : fill(assistLiftFails, { reason: 'not computed' });
     draft.add(`check-${i + 1}`, t.check, vars, { ...(fails ? { caution: fails } : {}), after: i > 0 ? [`lift-${i}`] : [] });
     draft.add(`lift-${i + 1}`, t.lift, vars, { ...(fails ? { caution: fails } : {}), after: [`check-${i + 1}`] });

@@ -5,7 +5,7 @@
 import type { Configuration } from '../schemas/configuration.js';
 import type { CommsPlan, CrewRole } from '../schemas/jobs.js';
 import { motions as allMotions } from '../schemas/jobs.js';
-import { listWords } from './format.js';
+import { listWords } from '../text';
 
 type Motion = (typeof allMotions)[number];
 

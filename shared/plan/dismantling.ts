@@ -5,7 +5,8 @@
  */
 import type { PlanStage } from '../schemas/plan.js';
 import { assistLiftsStageFor, assistStageFor, commsStepsInto, guyLineUnits, hasAssist, joints, raisingBlocks, sectionLabel, siteHazardSteps, windSteps } from './common-steps.js';
-import { idPart, num, plural, tidy, tonnes } from './format.js';
+import { plain, plainUp } from '../format';
+import { idPart, plural, tidy } from '../text';
 import { planCheck, StageDraft, type GenerateContext } from './stage-draft.js';
 import { dismantlingStages } from './templates/dismantling.js';
 
@@ -16,7 +17,7 @@ export function dismantlingStagesFor(ctx: GenerateContext): PlanStage[] {
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
   const assistLifts = assist && cfg.assist.lifts.length > 0;
-  const boomWords = tidy(`a ${num(cfg.boomLengthM)} m boom`);
+  const boomWords = tidy(`a ${plain(cfg.boomLengthM)} m boom`);
 
   const site = new StageDraft(ctx, t.site.id, t.site, {});
   siteHazardSteps(site, ctx);
@@ -86,7 +87,7 @@ export function dismantlingStagesFor(ctx: GenerateContext): PlanStage[] {
       n: j.n,
       position: j.above.position,
       typeId: j.above.typeId,
-      weightT: tonnes(j.above.weightKg),
+      weightT: plainUp(j.above.weightKg / 1000),
       pins: plural(j.pins, 'pin'),
       below: sectionLabel(j.below),
       above: sectionLabel(j.above),
@@ -107,7 +108,7 @@ export function dismantlingStagesFor(ctx: GenerateContext): PlanStage[] {
   const blocks = raisingBlocks(ctx);
   const cw = new StageDraft(ctx, t.counterweight.id, t.counterweight, {});
   if (listed) {
-    cw.add('confirm', t.counterweight.steps.confirm, {}, { check: planCheck(Number(tonnes(listed.raising.counterweightKg)), `crane data: counterweight to raise ${boomWords}`) });
+    cw.add('confirm', t.counterweight.steps.confirm, {}, { check: planCheck(Number(plain(listed.raising.counterweightKg / 1000)), `crane data: counterweight to raise ${boomWords}`) });
   }
   // Off in the stated order: the reverse of the fitting order, last block fitted first.
   const off = [...blocks].reverse();
@@ -115,7 +116,7 @@ export function dismantlingStagesFor(ctx: GenerateContext): PlanStage[] {
     cw.add(
       `off-${idPart(b.id)}`,
       t.counterweight.steps.block,
-      { blockId: b.id, weightT: tonnes(b.weightKg), n: i + 1, count: blocks.length, remainingT: tonnes(b.cumulativeKg - b.weightKg) },
+      { blockId: b.id, weightT: plainUp(b.weightKg / 1000), n: i + 1, count: blocks.length, remainingT: plainUp((b.cumulativeKg - b.weightKg) / 1000) },
       { after: i > 0 ? [`off-${idPart(off[i - 1].id)}`] : [] },
     ),
   );

@@ -5,7 +5,8 @@
  */
 import type { PlanHold, PlanStage } from '../schemas/plan.js';
 import { allPins, assistLiftsStageFor, assistStageFor, commsStepsInto, footPins, guyLineUnits, hasAssist, joints, raisingBlocks, sectionLabel, siteHazardSteps, windSteps } from './common-steps.js';
-import { idPart, num, plural, tidy, tonnes } from './format.js';
+import { plain, plainUp } from '../format';
+import { idPart, plural, tidy } from '../text';
 import { planCheck, StageDraft, type GenerateContext } from './stage-draft.js';
 import { erectionStages } from './templates/erection.js';
 
@@ -23,9 +24,9 @@ export function erectionStagesFor(ctx: GenerateContext): PlanStage[] {
   const stages: PlanStage[] = [];
   const assist = hasAssist(cfg);
   const aux = cfg.auxiliary.enabled;
-  const boomWords = tidy(`a ${num(cfg.boomLengthM)} m boom`);
+  const boomWords = tidy(`a ${plain(cfg.boomLengthM)} m boom`);
   const blocks = raisingBlocks(ctx);
-  const raisingT = listed ? Number(tonnes(listed.raising.counterweightKg)) : null;
+  const raisingT = listed ? Number(plain(listed.raising.counterweightKg / 1000)) : null;
 
   const ground = new StageDraft(ctx, t.ground.id, t.ground, {});
   siteHazardSteps(ground, ctx);
@@ -63,12 +64,12 @@ export function erectionStagesFor(ctx: GenerateContext): PlanStage[] {
   }
   upper.add('gauge', t.upper.steps.gauge);
   const mast = ctx.input.arrangement.machine.mast;
-  upper.add('mast', t.upper.steps.mast, { mastWeight: mast ? `; the mast weighs ${tonnes(mast.weightKg)} t in the crane data` : '' });
+  upper.add('mast', t.upper.steps.mast, { mastWeight: mast ? `; the mast weighs ${plainUp(mast.weightKg / 1000)} t in the crane data` : '' });
   blocks.forEach((b, i) =>
     upper.add(
       `cw-${idPart(b.id)}`,
       t.upper.steps.block,
-      { blockId: b.id, weightT: tonnes(b.weightKg), n: i + 1, count: blocks.length, cumulativeT: tonnes(b.cumulativeKg), raisingT: raisingT ?? 0 },
+      { blockId: b.id, weightT: plainUp(b.weightKg / 1000), n: i + 1, count: blocks.length, cumulativeT: plainUp(b.cumulativeKg / 1000), raisingT: raisingT ?? 0 },
       { after: i > 0 ? [`cw-${idPart(blocks[i - 1].id)}`] : [] },
     ),
   );
@@ -100,7 +101,7 @@ export function erectionStagesFor(ctx: GenerateContext): PlanStage[] {
     check.add(
       `position-${s.position}`,
       t.check.steps.laydown,
-      { position: s.position, typeId: s.typeId, lengthM: s.lengthM, weightT: tonnes(s.weightKg), topFace: ctx.topFace.get(s.typeId) ?? 'see the manual', plannedSerial: s.serial ?? 'none at hand' },
+      { position: s.position, typeId: s.typeId, lengthM: s.lengthM, weightT: plainUp(s.weightKg / 1000), topFace: ctx.topFace.get(s.typeId) ?? 'see the manual', plannedSerial: s.serial ?? 'none at hand' },
       { record: { componentKind: 'section', typeId: s.typeId, plannedSerial: s.serial } },
     );
   }
@@ -204,7 +205,7 @@ export function erectionStagesFor(ctx: GenerateContext): PlanStage[] {
   stages.push(pre.build([config.id]));
 
   const block = ctx.input.arrangement.hookBlocks.find((b) => b.id === cfg.mainHook.hookBlockId);
-  const knownLoad = block ? `hook block ${block.id}, ${tonnes(block.weightKg)} t` : 'a weighed load';
+  const knownLoad = block ? `hook block ${block.id}, ${plainUp(block.weightKg / 1000)} t` : 'a weighed load';
   const raise = new StageDraft(ctx, t.raise.id, t.raise, { knownLoad });
   raise.add('lift-off', t.raise.steps.liftOff).add('stop-check', t.raise.steps.stopCheck).add('raise', t.raise.steps.raise).add('over-hoist', t.raise.steps.overHoist);
   if (aux) raise.add('aux-over-hoist', t.raise.steps.auxOverHoist);
@@ -213,8 +214,8 @@ export function erectionStagesFor(ctx: GenerateContext): PlanStage[] {
     const blockT = block.weightKg / 1000;
     // The upper figure in the text is rounded down, so the band it states is never wider than 110 %.
     const blockMaxT = Math.floor(blockT * 1.1 * 100) / 100;
-    raise.add('limiter', t.raise.steps.limiter, { blockT: tonnes(block.weightKg), blockMaxT }, {
-      check: { kind: 'min', limit: blockT, source: `crane data: hook block ${block.id} weighs ${tonnes(block.weightKg)} t; a load indicator never reads below the load (SAE J159, from memory)` },
+    raise.add('limiter', t.raise.steps.limiter, { blockT: plainUp(block.weightKg / 1000), blockMaxT }, {
+      check: { kind: 'min', limit: blockT, source: `crane data: hook block ${block.id} weighs ${plainUp(block.weightKg / 1000)} t; a load indicator never reads below the load (SAE J159, from memory)` },
     });
   } else {
     raise.add('limiter', t.raise.steps.limiterNoKnownLoad);
@@ -233,10 +234,10 @@ function configurationValueCheck(ctx: GenerateContext): NonNullable<PlanHold['va
   const listed = ctx.results.makeup.arrangement;
   return {
     fields: [
-      { field: 'boomLengthM', expected: num(ctx.cfg.boomLengthM) },
+      { field: 'boomLengthM', expected: plain(ctx.cfg.boomLengthM) },
       { field: 'hookBlockId', expected: ctx.cfg.mainHook.hookBlockId },
       { field: 'parts', expected: String(ctx.cfg.mainHook.parts) },
-      { field: 'counterweightT', expected: listed ? tonnes(listed.raising.counterweightKg) : 'not listed' },
+      { field: 'counterweightT', expected: listed ? plain(listed.raising.counterweightKg / 1000) : 'not listed' },
       { field: 'operatingMode', expected: OPERATING_MODE_EXPECTED },
     ],
   };

@@ -13,7 +13,8 @@ import type { ConfigurationResults } from '../planner/types.js';
 import type { Configuration } from '../schemas/configuration.js';
 import type { PlanHold, PlanStage, PlanStep, StepRecord } from '../schemas/plan.js';
 import { commsWords } from './comms.js';
-import { fill, num, tonnes, type Vars } from './format.js';
+import { plain } from '../format';
+import { fill, type Vars } from '../text';
 import { radioCheckStep } from './templates/common.js';
 import type { StageWording, StepWording } from './templates/types.js';
 import type { GeneratePlanInput } from './types.js';
@@ -169,8 +170,8 @@ export function createContext(input: GeneratePlanInput): GenerateContext {
       boomLengthM: input.configuration.boomLengthM,
       hookBlockId: input.configuration.mainHook.hookBlockId,
       parts: input.configuration.mainHook.parts,
-      counterweight: listed ? `${tonnes(listed.raising.counterweightKg)} t` : 'not listed for this boom length',
-      gauge: listed ? `${num(listed.raising.trackGaugeM)} m` : 'not listed for this boom length',
+      counterweight: listed ? `${plain(listed.raising.counterweightKg / 1000)} t` : 'not listed for this boom length',
+      gauge: listed ? `${plain(listed.raising.trackGaugeM)} m` : 'not listed for this boom length',
     },
   };
 }

@@ -18,7 +18,7 @@
 import type { CrewRole } from '../schemas/jobs.js';
 import type { Plan, PlanHold, PlanProblem, PlanStage, PlanStep, StepRecord } from '../schemas/plan.js';
 import { qualificationLabels } from '../schemas/users.js';
-import { listWords } from './format.js';
+import { listWords } from '../text';
 
 /** One crew entry: a person under one role (a person may appear under several). */
 export interface CrewSlot {

@@ -1,4 +1,4 @@
-import { grouped, plain } from '../../shared/format';
+import { plain, tonnesUp } from '../../shared/format';
 import type { Drum, SectionType, Sheave } from '../../shared/schemas/arrangement';
 import type { ComponentKind, ComponentStatus, InspectionResult } from '../../shared/schemas/fleet';
 
@@ -35,9 +35,9 @@ export const sheaveRoleWords: Record<Sheave['role'], string> = { load: 'Load', b
 /** Where an inspection photo is on its way to the server. */
 export const photoStateWords = { uploading: 'Uploading…', done: 'Uploaded', failed: 'Not uploaded' } as const;
 
-/** The weight of a part in tonnes to the nearest 0.1 t, for reading the fleet (no check uses it); the data keeps kilograms. */
+/** The weight of a part in tonnes, rounded up to 0.01 t as the drawing and the configuration sheet write it; the data keeps kilograms. */
 export function tonnes(weightKg: number): string {
-  return `${grouped(weightKg / 1000, 1)} t`;
+  return `${tonnesUp(weightKg)} t`;
 }
 
 /** A length from the data to the nearest centimetre, without trailing zeros. */

@@ -58,6 +58,13 @@ describe('boomMakeupSvg', () => {
     expect(xs).toEqual([...xs].sort((a, b) => a - b));
   });
 
+  it('writes the sections’ total weight rounded up to 0.01 t, as the configuration sheet and the fleet screen do', () => {
+    // 13,838 kg is 13.838 t: shown rounded up to 13.84 t (to the nearest 0.1 t it read 13.8 t, under the weight).
+    const makeup = { ...boomMakeup(crane, 42, kit()), totalSectionWeightKg: 13838 };
+    const texts = [...parse(boomMakeupSvg(makeup)).querySelectorAll('text')].map((t) => t.textContent ?? '');
+    expect(texts.some((t) => t.includes(' · sections 13.84 t'))).toBe(true);
+  });
+
   it('labels each section with its type and serial, escapes text, and names the quarantined position in words', () => {
     const makeup = boomMakeup(crane, 42, kit());
     const svg = boomMakeupSvg(makeup, { sectionTypes: crane.sectionTypes, unusable: [{ typeId: 'ins12', serial: 'I12-002', status: 'quarantined' }] });

@@ -427,6 +427,35 @@ describe('generatePlan: communications, ids and briefing', () => {
     }
   });
 
+  it('writes a required distance, a share of the chart and a load rounded up, and the distance left rounded down', () => {
+    // The load on the assist hook is 4.101 + 0.2 = 4.301 t; to the nearest 0.01 t it would read 4.3 t, under the load.
+    const cfg = withAssist({
+      boomLengthM: 66,
+      assist: { assistCraneId: ASSIST_ID, chartId: 'boom-20.5m-full-cw', lifts: [{ label: 'Tip onto dollies', liftT: 4.101, riggingT: 0.2, radiusM: 9 }] },
+    });
+    const base = compute(cfg);
+    // Invented figures between grid points, where a rounding to the nearest reads the unsafe way:
+    // 6.0949 m required would read 6.09, a 41.21 % share 41.2 %, a 70.01 m fall zone 70 m, 17.69 m left 17.7 m.
+    const results: ConfigurationResults = {
+      ...base,
+      fallZoneRadiusM: 70.01,
+      powerLines: base.powerLines.map((l, i) => (i === 0 ? { ...l, requiredClearanceM: 6.0949, availableClearanceM: 17.69 } : l)),
+      assistLifts: base.assistLifts.map((a, i) => (i === 0 ? { ...a, sharePercent: 41.21, chartRadiusM: 9 } : a)),
+    };
+    const p = generatePlan({ kind: 'erection', configuration: cfg, results, arrangement: crane, commsPlan: comms, crewNames });
+    const hazards = p.briefing.sections.find((s) => s.heading === 'Hazards')?.items.join('\n') ?? '';
+    // Required distance shown rounded up to 0.01 m, the distance left rounded down to 0.1 m, the fall zone rounded up to 0.1 m.
+    expect(hazards).toContain('minimum approach distance 6.10 m');
+    expect(hazards).toContain(' 17.6 m left between the line');
+    expect(hazards).toContain('Exclusion zone: 70.1 m around the slewing centre');
+    const texts = p.stages.flatMap((st) => st.steps.map((x) => x.text));
+    // The same figures in the steps: required distance and fall zone shown rounded up.
+    expect(texts.some((t) => t.includes('minimum approach distance 6.10 m'))).toBe(true);
+    expect(texts.some((t) => t.includes('at least 70.1 m from the slewing centre'))).toBe(true);
+    // The load on the hook and the share of the chart shown rounded up.
+    expect(texts.some((t) => t.includes('the load is 4.31 t with rigging at 9 m radius, 41.3 % of the chart capacity read at 9 m'))).toBe(true);
+  });
+
   it('the briefing covers the job, hazards, holds in order, communications, stop rules and the safety notice', () => {
     const cfg = withAssist({ boomLengthM: 66 });
     const p = plan('erection', cfg);

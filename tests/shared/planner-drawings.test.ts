@@ -224,6 +224,13 @@ describe('sitePlanSvg', () => {
     expect(num(track, 'width') / 9.2).toBeCloseTo(pxPerM, 2);
   });
 
+  it('writes the fall zone rounded up to 0.1 m in the title, as on its label: 40.41 m reads 40.5 m, never 40.41 or 40.4', () => {
+    const doc = wellFormed(sitePlanSvg({ ...input, fallZoneRadiusM: 40.41 }));
+    // Shown rounded up: the title and the label state the same figure.
+    expect(doc.querySelector('title')?.textContent).toBe('Site plan: boom 36 m, reach 42.4 m, fall zone 40.5 m, 2 power lines');
+    expect(texts(doc)).toContain('Fall zone 40.5 m');
+  });
+
   it('the fall-zone circle grows with the number', () => {
     // Without lines farther out, the extent follows the fall zone; compare with the reach circle at a fixed reach.
     const small = wellFormed(sitePlanSvg({ ...input, powerLines: [], fallZoneRadiusM: 40 }));

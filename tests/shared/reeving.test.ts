@@ -189,6 +189,17 @@ describe('requiredParts', () => {
     if (!r.achievable) expect(r.reason).toMatch(/above the permissible 150 kN/);
   });
 
+  it('writes the pull it could not get below rounded up, never down: 200 kN on one part at E = 0.96 is 208.33 kN, shown 208.4', () => {
+    // One part over one sheave: pull = load ÷ E (Wire Rope Users Manual 4th ed., pp. 86–88) = 200 ÷ 0.96 = 208.333… kN.
+    const r = requiredParts({ loadKn: 200, permissibleLinePullKn: 150, sheaveEfficiency: 0.96, extraLeadSheaves: 0, maxParts: 1 });
+    if (r.achievable) throw new Error('expected no reeving within one part');
+    // The pull is shown rounded up (to the nearest it would read 208.3 kN).
+    expect(r.reason).toBe('even 1 parts of line leave a lead-line pull of 208.4 kN, above the permissible 150 kN');
+    const bySheave = requiredPartsBySheave({ loadKn: 200, permissibleLinePullKn: 150, tipSheaveEfficiency: 0.96, blockSheaveEfficiency: 0.96, leadSheaveEfficiencies: [], maxParts: 1 });
+    if (bySheave.achievable) throw new Error('expected no reeving within one part');
+    expect(bySheave.reason).toBe('even 1 parts of line leave a lead-line pull of 208.4 kN, above the permissible 150 kN');
+  });
+
   it('refuses a zero permissible pull', () => {
     expectCalcError(
       () => requiredParts({ loadKn: 10, permissibleLinePullKn: 0, sheaveEfficiency: 0.96, extraLeadSheaves: 0 }),
