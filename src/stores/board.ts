@@ -5,8 +5,8 @@ import type { BoardSnapshot, BoardState } from '../../shared/board/types';
 import type { CommandAnswer } from '../../shared/events/socket';
 import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
 import type { CrewRole } from '../../shared/schemas/jobs';
-import { jobEventListSchema, type JobEventDto } from '../../shared/events/log';
-import { api } from '../services/api';
+import type { JobEventDto } from '../../shared/events/log';
+import { fetchEventsAfter } from '../services/events';
 import { connectSocket, type HoldlineSocket } from '../services/socket';
 import { BLOCKED_WORDS } from '../words/board';
 import { useSessionStore } from './session';
@@ -100,7 +100,7 @@ export const useBoardStore = defineStore('board', () => {
       id,
       {
         join: (job, afterSeq) => s.timeout(COMMAND_TIMEOUT_MS).emitWithAck('board:join', afterSeq === undefined ? { jobId: job } : { jobId: job, afterSeq }),
-        fetchEvents: async (job, afterSeq) => jobEventListSchema.parse(await api(`/jobs/${job}/events?after=${afterSeq}`)).items,
+        fetchEvents: fetchEventsAfter,
       },
       {
         onChange: refresh,

@@ -5,12 +5,13 @@ import type { z } from 'zod';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import { fieldsFromZod, type FieldError } from '../../shared/schemas/errors';
 import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema, readinessSchema, setCrewSchema, updateJobSchema, verifySchema, type CrewRole, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs';
-import { jobEventListSchema, type JobEventDto, type JobEventType } from '../../shared/events/log';
+import type { JobEventDto, JobEventType } from '../../shared/events/log';
 import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
 import { api, ApiRequestError, describeError, download, fileNamePart } from '../services/api';
 import { FOLLOW_LIMIT, type JobSummaryUpdate } from '../../shared/events/socket';
 import { connectSocket } from '../services/socket';
+import { fetchEventsAfter } from '../services/events';
 import { useBoardStore } from './board';
 import { useSessionStore } from './session';
 import { createBurstRunner } from './bursts';
@@ -227,14 +228,8 @@ export const useJobsStore = defineStore('jobs', () => {
   /** Loads the events after the last one held, so reopening the log fetches only what is new. */
   function loadEvents(jobId: string) {
     return track(`events:${jobId}`, async () => {
-      let held = events[jobId] ?? [];
-      // The server answers at most one page at a time: ask again until the last seq is reached.
-      for (;;) {
-        const after = held.length ? held[held.length - 1].seq : 0;
-        const page = await api(`/jobs/${id(jobId)}/events?after=${after}`, { schema: jobEventListSchema });
-        held = [...held, ...page.items.filter((e) => e.seq > after)];
-        if (page.items.length === 0 || held[held.length - 1].seq >= page.lastSeq) break;
-      }
+      const before = events[jobId] ?? [];
+      const held = [...before, ...(await fetchEventsAfter(jobId, before.length ? before[before.length - 1].seq : 0))];
       // A live event may have been appended while the pages were loading: it stays.
       const last = held.length ? held[held.length - 1].seq : 0;
       events[jobId] = [...held, ...(events[jobId] ?? []).filter((e) => e.seq > last)];
