@@ -44,6 +44,15 @@ describe('revising the plan from the console', () => {
     await page.getByText(/Plan version 2 is on the board/).waitFor({ timeout: 10_000 });
     await page.locator('.stage-card').getByText('Check the keeper plates on every guy line pin again').first().waitFor({ timeout: 10_000 });
     await screenshot(page, 'board-revision-sent-laptop');
+    // Version 2 has its own briefing: the panel loads it through the plan store and offers that version's, not the first.
+    const briefing = page.getByTestId('briefing');
+    await briefing.getByText('Briefing for plan version 2').waitFor({ timeout: 10_000 });
+    await briefing.locator('summary').waitFor({ timeout: 10_000 });
+    await screenshot(page, 'board-revision-briefing-laptop');
+    const acknowledge = briefing.getByRole('button', { name: 'Acknowledge the briefing' });
+    expect(await acknowledge.isEnabled()).toBe(true);
+    await acknowledge.click();
+    await expect.poll(() => page.getByTestId('briefing').count(), { timeout: 10_000 }).toBe(0);
     expect(errors).toEqual([]);
     await context.close();
   }, 120_000);
