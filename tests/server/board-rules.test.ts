@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { replay } from '../../shared/board/apply.js';
-import { outOfLimitSteps } from '../../shared/board/readings.js';
+import { outOfLimitBeforeHold, outOfLimitSteps } from '../../shared/board/readings.js';
+import { addHold } from '../../shared/plan/edit.js';
 import { weatherVerdict } from '../../shared/board/rules.js';
 import type { BoardState } from '../../shared/board/types.js';
 import { isEventOf, jobEventListSchema, type JobEventDto } from '../../shared/events/log.js';
@@ -230,6 +231,44 @@ describe('board rules', () => {
           }
           await acknowledgeAndRelease(server, crew, jobId, holding.id);
           expect((await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === holding.id)?.state).toBe('done');
+          return;
+        }
+        if (holding) await acknowledgeAndRelease(server, crew, jobId, holding.id);
+        else if (active) await completeSteps(server, crew, jobId, active.id);
+        else break;
+      }
+      throw new Error('no mandatory hold after er-upper was reached');
+    });
+  });
+
+  describe('readings before a hold, one walk for the screens and the server', () => {
+    it('an out-of-limit reading behind an optional hold already released is listed at the next mandatory hold and refused there, the same step', { timeout: 60_000 }, async () => {
+      const jobId = await liveJob((plan) => {
+        stageOf(plan, 'er-upper').steps.push(step('er-upper.test-slope', { records: reading({ kind: 'max', limit: 1, source: 'crane data: ground slope for raising' }, '%') }));
+        // An optional hold on the stage: the one it has (never a mandatory one), or one the planner adds.
+        const upper = stageOf(plan, 'er-upper');
+        if (upper.hold) expect(upper.hold.mandatory).toBe(false);
+        else expect(addHold(plan, plan.stages.indexOf(upper)).ok).toBe(true);
+      });
+      await advanceUntilActive(server, crew, jobId, 'er-upper');
+      await completeSteps(server, crew, jobId, 'er-upper');
+      await httpCommand(server, crew.rigger, jobId, { type: 'step.reopen', stepId: 'er-upper.test-slope' });
+      await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-upper.test-slope', value: '2.5' });
+      // The optional hold does not stop for readings: it is released with the slope out of limit.
+      await acknowledgeAndRelease(server, crew, jobId, 'er-upper');
+      expect((await boardOf(server, crew.supervisor, jobId)).stages.find((st) => st.id === 'er-upper')?.hold?.state).toBe('released');
+      for (let guard = 0; guard < 40; guard++) {
+        const board = await boardOf(server, crew.supervisor, jobId);
+        const holding = board.stages.find((st) => st.state === 'holding');
+        const active = board.stages.find((st) => st.state === 'active');
+        if (holding?.hold?.mandatory && upstreamOf(board, holding.id).includes('er-upper')) {
+          await acknowledgeAll(jobId, holding.id);
+          // What the hold card and the cab list (before issue 15 they stopped at the released hold and listed nothing).
+          const listed = outOfLimitBeforeHold(await boardOf(server, crew.supervisor, jobId), holding.id).map((e) => e.stepId);
+          expect(listed).toEqual(['er-upper.test-slope']);
+          const refused = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: holding.hold.id });
+          expect(refused.body.error?.code).toBe('out_of_limit');
+          expect((refused.body.error?.fields ?? []).map((f: { path: string }) => f.path)).toEqual(listed.map((id) => `steps.${id}`));
           return;
         }
         if (holding) await acknowledgeAndRelease(server, crew, jobId, holding.id);
