@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import sharp from 'sharp';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { TEST_PASSWORD } from '../factories.js';
+import { TEST_PASSWORD } from '../helpers/factories.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import path from 'node:path';

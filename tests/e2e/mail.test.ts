@@ -3,7 +3,7 @@ import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { jobEnvelopeSchema } from '../../shared/schemas/jobs.js';
-import { insertUser, TEST_PASSWORD } from '../factories.js';
+import { insertUser, TEST_PASSWORD } from '../helpers/factories.js';
 import { seedModelAndUnit } from '../helpers/fleet.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';

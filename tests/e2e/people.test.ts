@@ -1,7 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { insertUser, TEST_PASSWORD } from '../factories.js';
+import { insertUser, TEST_PASSWORD } from '../helpers/factories.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, signInThroughForm, screenshot, viewports, type LaunchedBrowser } from './browser.js';
 

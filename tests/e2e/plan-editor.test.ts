@@ -3,7 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { planEnvelopeSchema, type Plan } from '../../shared/schemas/plan.js';
-import { TEST_PASSWORD } from '../factories.js';
+import { TEST_PASSWORD } from '../helpers/factories.js';
 import { signedInUser } from '../helpers/auth.js';
 import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
 import { plannedJob, type Crew } from '../helpers/jobs.js';

@@ -2,7 +2,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { TEST_PASSWORD } from '../factories.js';
+import { TEST_PASSWORD } from '../helpers/factories.js';
 import { signedInUser, type SignedInUser } from '../helpers/auth.js';
 import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
 import { configuration18m } from '../helpers/jobs.js';

@@ -7,7 +7,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { recordListSchema, type RecordRow } from '../../shared/schemas/records.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
-import { insertUser, TEST_PASSWORD } from '../factories.js';
+import { insertUser, TEST_PASSWORD } from '../helpers/factories.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
 

@@ -1,7 +1,7 @@
 import request from 'supertest';
 import type { Qualification } from '../../shared/schemas/users.js';
 import type { User } from '../../server/entities/User.js';
-import { insertUser, TEST_PASSWORD } from '../factories.js';
+import { insertUser, TEST_PASSWORD } from './factories.js';
 import type { TestServer } from './server.js';
 
 export interface SignedInUser {

@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { JobEventDto } from '../../../shared/events/log';
 import { fetchEventsAfter } from '../../../src/services/events';
-import { JOB_ID, json } from '../helpers';
+import { JOB_ID, json } from '../api-fakes';
 
 type FetchArgs = [input: string, init?: RequestInit];
 

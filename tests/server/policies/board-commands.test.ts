@@ -9,7 +9,7 @@ import { authorizeBoardCommand } from '../../../server/policies/index.js';
 /**
  * The one check both transports reach through runBoardCommand, without a server: what each kind
  * of person is answered, and which role a command is recorded under. The end-to-end answers over
- * HTTP and the socket are in tests/server/board.test.ts and board-rules.test.ts.
+ * HTTP and the socket are in tests/server/routes/board-api.test.ts and board-rules.test.ts.
  */
 function person(overrides: Partial<Pick<User, 'isAdmin' | 'active'>> = {}): User {
   return Object.assign(new User(), { id: randomUUID(), displayName: 'Test person', qualifications: [], isAdmin: false, active: true, ...overrides });

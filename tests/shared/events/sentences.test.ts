@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseJobEvent, type EventData, type JobEventDto, type JobEventType } from '../../../shared/events/log.js';
 import { describeEvent, namesFromLog, type Named } from '../../../shared/events/sentences.js';
 import { clause, sentences } from '../../../shared/text.js';
-import { config } from '../plan-fixtures.js';
+import { config } from '../plan/plan-fixtures.js';
 
 const by = { userId: 'u', name: 'Priya', role: 'rigger' };
 const event = <T extends JobEventType>(type: T, data: EventData<T>, seq = 5): JobEventDto => parseJobEvent({ jobId: 'j', seq, type, at: '2026-10-01T07:00:00.000Z', by, data });

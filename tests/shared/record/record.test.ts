@@ -8,7 +8,7 @@ import type { Plan } from '../../../shared/schemas/plan.js';
 import type { Figure } from '../../../shared/schemas/configuration.js';
 import { eventLog, minutes, people } from '../board/events.js';
 import { planStep, smallPlan } from '../board/board-plan.js';
-import { config } from '../plan-fixtures.js';
+import { config } from '../plan/plan-fixtures.js';
 
 const HASH = 'ab'.repeat(32);
 

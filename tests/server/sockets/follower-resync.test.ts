@@ -1,0 +1,69 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BoardFollower } from '../../../shared/board/follower.js';
+import { jobEventListSchema } from '../../../shared/events/log.js';
+import { signedInUser } from '../../helpers/auth.js';
+import { BoardClient, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
+import { plannedJob } from '../../helpers/jobs.js';
+import { startTestServer, type TestServer } from '../../helpers/server.js';
+
+/** The client's follower against the real server: a dropped connection shows within 3 s and resync is exact. */
+describe('the board follower on a real connection', () => {
+  let server: TestServer;
+  let crew: CrewByRole;
+  let jobId: string;
+
+  beforeAll(async () => {
+    server = await startTestServer();
+    crew = {
+      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
+      operator: await signedInUser(server, { qualifications: ['operator'] }),
+      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
+      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
+    };
+    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    const { model, unit } = await seedModelAndUnit(server, admin.token);
+    await addParts18m(server, admin.token, model.id, unit.id, 'F');
+    jobId = (await plannedJob(server, crew, unit.id)).id;
+    await request(server.app).post(`/api/jobs/${jobId}/ready`).set('Authorization', `Bearer ${crew.supervisor.token}`).expect(200);
+    await httpCommand(server, crew.supervisor, jobId, { type: 'job.start' });
+    await briefEveryone(server, crew, jobId);
+  });
+  afterAll(() => server.stop());
+
+  function follow(client: BoardClient) {
+    const follower = new BoardFollower(jobId, {
+      join: (id, afterSeq) => client.join(id, afterSeq),
+      fetchEvents: async (id, afterSeq) =>
+        jobEventListSchema.parse((await request(server.app).get(`/api/jobs/${id}/events?after=${afterSeq}`).set('Authorization', `Bearer ${crew.operator.token}`)).body).items,
+    });
+    client.socket.on('board:event', (e) => follower.onEvent(e));
+    client.socket.on('board:tick', (t) => follower.onTick(t));
+    return follower;
+  }
+
+  it('knows within 3 seconds that ticks stopped, and after rejoining holds exactly the server’s board', async () => {
+    const client = new BoardClient(server.url, crew.operator.token);
+    const follower = follow(client);
+    await follower.join();
+    await new Promise((r) => setTimeout(r, 1200));
+    expect(follower.live).toBe(true);
+
+    const cutAt = Date.now();
+    client.socket.disconnect();
+    while (follower.live) {
+      expect(Date.now() - cutAt).toBeLessThan(3500);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    expect(Date.now() - cutAt).toBeGreaterThanOrEqual(2000);
+
+    await completeSteps(server, crew, jobId, 'er-ground');
+    client.socket.connect();
+    await follower.join();
+    const { presence: _ignored, ...server_ } = (await request(server.app).get(`/api/jobs/${jobId}/board`).set('Authorization', `Bearer ${crew.operator.token}`)).body;
+    const { presence: _mine, ...mine } = follower.board!;
+    expect(mine).toEqual(server_);
+    client.close();
+  });
+});
