@@ -1,7 +1,25 @@
+import { createPinia, setActivePinia } from 'pinia';
+import { afterEach, beforeEach, vi } from 'vitest';
 import type { JobDto } from '../../shared/schemas/jobs';
 
 export const JOB_ID = '3d6a1f0e-5b7c-4d8e-9f01-2a3b4c5d6e7f';
 export const UNIT_ID = '6f1c2d7e-3a4b-4c5d-8e9f-0a1b2c3d4e5f';
+
+export type FetchArgs = [input: string, init?: RequestInit];
+
+/** A fresh Pinia and a reset fetch mock around every test of the describe block that calls it. */
+export function mockFetchWithStores() {
+  const fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
+  beforeEach(() => {
+    setActivePinia(createPinia());
+    fetchMock.mockReset();
+    vi.stubGlobal('fetch', fetchMock);
+  });
+  afterEach(() => {
+    vi.unstubAllGlobals();
+  });
+  return fetchMock;
+}
 
 /** A JSON answer for a mocked fetch. */
 export function json(status: number, body: unknown): Response {

@@ -1,10 +1,9 @@
-import { createPinia, setActivePinia } from 'pinia';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { ComponentDto, InspectionDto } from '../../../shared/schemas/fleet';
 import type { UserDto } from '../../../shared/schemas/users';
 import { componentQuery, countByStatus, isQuarantined, useFleetStore } from '../../../src/stores/fleet';
 import { useSessionStore } from '../../../src/stores/session';
-import { json } from '../api-fakes';
+import { json, mockFetchWithStores } from '../api-fakes';
 
 const UNIT_ID = '6f1c2d7e-3a4b-4c5d-8e9f-0a1b2c3d4e5f';
 const MODEL_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
@@ -30,7 +29,6 @@ function component(overrides: Partial<ComponentDto>): ComponentDto {
   };
 }
 
-type FetchArgs = [input: string, init?: RequestInit];
 
 function signInAs(overrides: Partial<UserDto>) {
   const session = useSessionStore();
@@ -49,16 +47,7 @@ function signInAs(overrides: Partial<UserDto>) {
 }
 
 describe('fleet store', () => {
-  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
-
-  beforeEach(() => {
-    setActivePinia(createPinia());
-    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
-    vi.stubGlobal('fetch', fetchMock);
-  });
-  afterEach(() => {
-    vi.unstubAllGlobals();
-  });
+  const fetchMock = mockFetchWithStores();
 
   it('builds the component query string from the filters, leaving out empty ones', async () => {
     expect(componentQuery({})).toBe('');

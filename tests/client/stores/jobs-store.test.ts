@@ -1,11 +1,11 @@
 import { createPinia, setActivePinia } from 'pinia';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import type { Configuration, Figure } from '../../../shared/schemas/configuration';
 import type { JobDto } from '../../../shared/schemas/jobs';
 import type { JobEventDto } from '../../../shared/events/log';
 import { fieldErrorOf } from '../../../src/stores/form-errors';
 import { figureDifferences, useJobsStore } from '../../../src/stores/jobs';
-import { buildJob, JOB_ID, json, UNIT_ID } from '../api-fakes';
+import { buildJob, JOB_ID, json, mockFetchWithStores, UNIT_ID } from '../api-fakes';
 
 const SUPERVISOR_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
 
@@ -41,19 +41,9 @@ function job(overrides: Partial<JobDto> = {}): JobDto {
   return buildJob({ crew: [{ userId: SUPERVISOR_ID, name: 'Maren Holt', role: 'supervisor' }], ...overrides });
 }
 
-type FetchArgs = [input: string, init?: RequestInit];
 
 describe('jobs store', () => {
-  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
-
-  beforeEach(() => {
-    setActivePinia(createPinia());
-    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
-    vi.stubGlobal('fetch', fetchMock);
-  });
-  afterEach(() => {
-    vi.unstubAllGlobals();
-  });
+  const fetchMock = mockFetchWithStores();
 
   it('keeps every field error of a save the server refused, and keeps the saved job as it was', async () => {
     const jobs = useJobsStore();

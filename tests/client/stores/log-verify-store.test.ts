@@ -1,22 +1,11 @@
-import { createPinia, setActivePinia } from 'pinia';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { useJobsStore } from '../../../src/stores/jobs';
-import { JOB_ID, json } from '../api-fakes';
+import { JOB_ID, json, mockFetchWithStores } from '../api-fakes';
 
-type FetchArgs = [input: string, init?: RequestInit];
 const HASH = 'ab'.repeat(32);
 
 describe('verifying a job’s log from the client', () => {
-  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
-
-  beforeEach(() => {
-    setActivePinia(createPinia());
-    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
-    vi.stubGlobal('fetch', fetchMock);
-  });
-  afterEach(() => {
-    vi.unstubAllGlobals();
-  });
+  const fetchMock = mockFetchWithStores();
 
   it('asks with the expected hash and keeps whether the log leads to it', async () => {
     const jobs = useJobsStore();

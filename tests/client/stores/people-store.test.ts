@@ -2,7 +2,7 @@ import { createPinia, setActivePinia } from 'pinia';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { UserDto } from '../../../shared/schemas/users';
 import { filterPeople, personStatus, usePeopleStore, useTestInboxStore } from '../../../src/stores/people';
-import { json } from '../api-fakes';
+import { json, mockFetchWithStores } from '../api-fakes';
 
 function person(overrides: Partial<UserDto>): UserDto {
   return {
@@ -25,19 +25,9 @@ const crew = [
   person({ id: 'c', displayName: 'Lise Arnaud', email: 'l.arnaud@hire.test', hasPassword: false }),
 ];
 
-type FetchArgs = [input: string, init?: RequestInit];
 
 describe('people store', () => {
-  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
-
-  beforeEach(() => {
-    setActivePinia(createPinia());
-    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
-    vi.stubGlobal('fetch', fetchMock);
-  });
-  afterEach(() => {
-    vi.unstubAllGlobals();
-  });
+  const fetchMock = mockFetchWithStores();
 
   it('loads the list from GET /api/users and tracks loading', async () => {
     fetchMock.mockResolvedValueOnce(json(200, { items: crew }));

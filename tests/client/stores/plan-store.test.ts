@@ -1,9 +1,8 @@
-import { createPinia, setActivePinia } from 'pinia';
-import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Plan } from '../../../shared/schemas/plan';
 import { usePlanStore } from '../../../src/stores/plan';
 import { allIds, plan } from '../../shared/plan/small-plan';
-import { buildJob, JOB_ID, json } from '../api-fakes';
+import { buildJob, JOB_ID, json, mockFetchWithStores } from '../api-fakes';
 
 function envelope(p: Plan = plan(), overrides: Record<string, unknown> = {}) {
   return { version: 0, locked: false, stale: false, plan: p, problems: [], ...overrides };
@@ -11,19 +10,9 @@ function envelope(p: Plan = plan(), overrides: Record<string, unknown> = {}) {
 
 const job = buildJob;
 
-type FetchArgs = [input: string, init?: RequestInit];
 
 describe('plan store', () => {
-  let fetchMock: ReturnType<typeof vi.fn<(...args: FetchArgs) => Promise<Response>>>;
-
-  beforeEach(() => {
-    setActivePinia(createPinia());
-    fetchMock = vi.fn<(...args: FetchArgs) => Promise<Response>>();
-    vi.stubGlobal('fetch', fetchMock);
-  });
-  afterEach(() => {
-    vi.unstubAllGlobals();
-  });
+  const fetchMock = mockFetchWithStores();
 
   async function loaded() {
     const store = usePlanStore();
