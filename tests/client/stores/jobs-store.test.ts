@@ -5,7 +5,7 @@ import type { JobDto } from '../../../shared/schemas/jobs';
 import type { JobEventDto } from '../../../shared/events/log';
 import { fieldErrorOf } from '../../../src/stores/form-errors';
 import { figureDifferences, useJobsStore } from '../../../src/stores/jobs';
-import { buildJob, JOB_ID, json, mockFetchWithStores, UNIT_ID } from '../api-fakes';
+import { buildJob, JOB_ID, json, mockFetchWithStores, UNIT_ID, type FetchArgs } from '../api-fakes';
 
 const SUPERVISOR_ID = '0b9a8c7d-6e5f-4a3b-9c2d-1e0f9a8b7c6d';
 
