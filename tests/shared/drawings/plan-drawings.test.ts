@@ -9,9 +9,8 @@ import { reevingSvg, sheavesUsed } from '../../../shared/drawings/reeving';
 import { sitePlanSvg } from '../../../shared/drawings/site-plan';
 import { computeConfiguration } from '../../../shared/planner/compute';
 import type { LoadCaseResult, PowerLineResult } from '../../../shared/planner/types';
-import type { InventoryItem } from '../../../shared/schemas/arrangement';
 import { configurationSchema } from '../../../shared/schemas/configuration';
-import { demoAssistCrane, demoCrane } from '../helpers';
+import { demoAssistCrane, demoCrane, demoKit } from '../helpers';
 
 function parse(svg: string): Document {
   const window = new Window();
@@ -31,25 +30,6 @@ function texts(doc: Document): string[] {
 }
 
 const num = (el: Element | null, attr: string) => Number(el?.getAttribute(attr));
-
-function kit(): InventoryItem[] {
-  const items: InventoryItem[] = [];
-  const kinds: [InventoryItem['kind'], string, number][] = [
-    ['section', 'base', 1],
-    ['section', 'ins3', 1],
-    ['section', 'ins6', 1],
-    ['section', 'ins12', 6],
-    ['section', 'tip', 1],
-    ['guy_line', 'GT', 2],
-    ['guy_line', 'GB', 2],
-    ['guy_line', 'G3', 2],
-    ['guy_line', 'G6', 2],
-    ['guy_line', 'G12', 12],
-    ['hook_block', 'HB120', 1],
-  ];
-  for (const [kind, typeId, n] of kinds) for (let i = 1; i <= n; i += 1) items.push({ serial: `D-${typeId}-${i}`, kind, typeId, status: 'serviceable' });
-  return items;
-}
 
 /** 36 m, HB120 × 6, 41 t at 12 m, 200 kPa: the unloaded case fails bare at its worst slew angle and passes on mats. */
 const results = computeConfiguration(
@@ -72,7 +52,7 @@ const results = computeConfiguration(
     },
     fallZoneMarginM: 3,
   }),
-  { arrangement: demoCrane(), inventory: kit(), assistCrane: demoAssistCrane() },
+  { arrangement: demoCrane(), inventory: demoKit('D'), assistCrane: demoAssistCrane() },
 );
 
 describe('reevingSvg', () => {
