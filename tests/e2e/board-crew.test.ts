@@ -308,6 +308,8 @@ describe('the board in the hands of a crew', () => {
     }
     const display = await openView('viewer', viewports.display, 'display');
     const stages = (await boardNow()).stages;
+    // Wait for each stage to render (isVisible() alone does not wait), then check it is there.
+    for (const s of stages) await display.getByTestId(`tv-stage-${s.id}`).waitFor({ state: 'visible', timeout: 10_000 });
     for (const s of stages) expect(await display.getByTestId(`tv-stage-${s.id}`).isVisible()).toBe(true);
     expect(await display.evaluate(() => document.documentElement.scrollHeight <= window.innerHeight)).toBe(true);
     for (const s of stages) {
