@@ -258,6 +258,15 @@ export const boardCommandRoles: { readonly [T in BoardCommandType]: readonly Cre
   'weather.record': acting,
   'defect.report': acting,
   'plan.revise': supervisor,
+  'shift.end': supervisor,
+  // Each item names its own roles; the handler checks them.
+  'shift.item.done': acting,
+  'handover.write': supervisor,
+  'handover.acknowledge': supervisor,
+  // Whoever the administrator marks qualified to inspect, in their crew role; the handler checks the mark.
+  'shift.inspect': acting,
+  'shift.acknowledge': ['operator', 'supervisor'],
+  'shift.start': supervisor,
 };
 
 /**

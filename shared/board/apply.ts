@@ -2,6 +2,7 @@ import type { JobEventDto, JobEventOf } from '../events/log.js';
 import type { Plan } from '../schemas/plan.js';
 import { readingOutOfLimit } from './readings.js';
 import { CHECK_FAILURES_BEFORE_REVIEW, stepsAfter } from './rules.js';
+import { shiftOf, withdrawAcknowledgments } from './shifts.js';
 import type { BoardHold, BoardStage, BoardState, StageState } from './types.js';
 
 /**
@@ -24,10 +25,17 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       if (changes.name !== undefined) next.job.name = changes.name;
       if (changes.site !== undefined) next.job.site = changes.site;
       if (changes.kind !== undefined) next.job.kind = changes.kind;
+      if (changes.timeZone !== undefined) next.job.timeZone = changes.timeZone;
       break;
     }
-    case 'crew.set':
+    case 'crew.set': {
       next.crew = event.data.crew;
+      const withdrawn = event.data.withdrawn ?? [];
+      if (withdrawn.length) withdrawAcknowledgments(next, withdrawn, `${[...new Set(withdrawn.map((w) => w.name))].join(', ')} left the crew or changed role`, by.at);
+      break;
+    }
+    case 'crew.member.disabled':
+      withdrawAcknowledgments(next, event.data.withdrawn, `${event.data.name}’s account was disabled`, by.at);
       break;
     case 'configuration.set':
       next.windLimits = event.data.windLimits ?? null;
@@ -40,10 +48,77 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       break;
     case 'job.started':
       next.job.state = 'live';
+      next.shift = { number: 1, phase: 'working', startedAt: by.at, makeSafe: null, start: null };
+      // Whoever starts the job runs it until they hand over; an admin's start names nobody yet.
+      next.actingSupervisor = by.role === 'supervisor' ? { userId: by.userId, name: by.name, since: by.at } : null;
       settle(next);
       break;
-    case 'briefing.acknowledged':
-      next.briefed = [...next.briefed.filter((b) => b.userId !== by.userId), { userId: by.userId, name: by.name, planVersion: event.data.planVersion, at: by.at }];
+    case 'briefing.acknowledged': {
+      const shift = event.data.shift;
+      next.briefed = [
+        ...next.briefed.filter((b) => b.userId !== by.userId),
+        { userId: by.userId, name: by.name, planVersion: event.data.planVersion, at: by.at, ...(shift !== undefined ? { shift } : {}) },
+      ];
+      break;
+    }
+    case 'shift.ending':
+      next.shift = {
+        ...shiftOf(next),
+        phase: 'making_safe',
+        makeSafe: {
+          begunBy: { userId: by.userId, name: by.name, at: by.at },
+          workPhase: event.data.workPhase,
+          items: event.data.items.map((item) => ({ ...item, doneBy: null })),
+          madeSafe: null,
+        },
+      };
+      break;
+    case 'shift.item.done': {
+      const makeSafe = next.shift?.makeSafe;
+      const item = makeSafe?.items.find((i) => i.id === event.data.itemId);
+      if (!makeSafe || !item || !next.shift) throw new Error(`event ${event.seq}: no make-safe item ${event.data.itemId}`);
+      item.doneBy = { userId: by.userId, name: by.name, at: by.at, role: event.data.role, note: event.data.note };
+      if (makeSafe.items.every((i) => i.doneBy)) {
+        // The last item done: nothing works until the next shift's start-of-shift hold is released.
+        makeSafe.madeSafe = { userId: by.userId, name: by.name, at: by.at };
+        next.shift.phase = 'made_safe';
+        next.shift.start = { inspection: null, operator: null, supervisor: null };
+        next.job.state = 'made_safe';
+        next.job.stop = null;
+      }
+      break;
+    }
+    case 'handover.written': {
+      const d = event.data;
+      next.handovers = [
+        ...(next.handovers ?? []),
+        { seq: event.seq, shift: d.shift, from: { userId: by.userId, name: by.name }, to: d.to, at: by.at, done: d.done, open: d.open, defects: d.defects, overrides: d.overrides, hazards: d.hazards, note: d.note, acknowledgedBy: null },
+      ];
+      break;
+    }
+    case 'handover.acknowledged': {
+      const note = next.handovers?.find((h) => h.seq === event.data.handoverSeq);
+      if (note) note.acknowledgedBy = { userId: by.userId, name: by.name, at: by.at };
+      next.actingSupervisor = { userId: by.userId, name: by.name, since: by.at };
+      break;
+    }
+    case 'acting.transferred':
+      next.actingSupervisor = { ...event.data.to, since: by.at };
+      break;
+    case 'shift.inspected': {
+      const start = next.shift?.start;
+      if (start) start.inspection = { userId: by.userId, name: by.name, at: by.at, note: event.data.note };
+      break;
+    }
+    case 'shift.start.acknowledged': {
+      const start = next.shift?.start;
+      if (start) start[event.data.role] = { userId: by.userId, name: by.name, at: by.at };
+      break;
+    }
+    case 'shift.started':
+      next.job.state = 'live';
+      next.shift = { number: event.data.shift, phase: 'working', startedAt: by.at, makeSafe: null, start: null };
+      settle(next);
       break;
     case 'step.completed': {
       const step = findStep(next, event.data.stepId);
@@ -184,7 +259,18 @@ function created(event: JobEventOf<'job.created'>): BoardState {
   const d = event.data;
   return {
     seq: event.seq,
-    job: { id: event.jobId, name: d.job.name, site: d.job.site, kind: d.job.kind, state: 'planning', craneFleetNumber: d.craneFleetNumber, stop: null, lastResume: null, cancelReason: null },
+    job: {
+      id: event.jobId,
+      name: d.job.name,
+      site: d.job.site,
+      kind: d.job.kind,
+      state: 'planning',
+      craneFleetNumber: d.craneFleetNumber,
+      stop: null,
+      lastResume: null,
+      cancelReason: null,
+      ...(d.job.timeZone ? { timeZone: d.job.timeZone } : {}),
+    },
     planVersion: 0,
     stages: [],
     crew: d.crew,

@@ -86,6 +86,8 @@ export interface BoardHold {
   lastReview: { userId: string; name: string; at: string; note: string } | null;
   /** The job's final sign-off: a qualified inspector acknowledges too, and its release completes the job. */
   signOff?: boolean;
+  /** Why acknowledgments were last taken back without their author withdrawing them (a crew change, a disabled account); shown on the hold. */
+  reopenedBecause?: { reason: string; at: string } | null;
 }
 
 export interface BoardStage {
@@ -130,6 +132,70 @@ export interface StopInfo {
   alsoPressedBy: { userId: string; name: string; role: string; pressedAt: string; at: string }[];
 }
 
+/** One acknowledgment of the start-of-shift hold or its shift inspection. */
+export interface ShiftSignature {
+  userId: string;
+  name: string;
+  at: string;
+}
+
+/** One item of the make-safe checklist, drawn from the plan templates for the phase of the work. */
+export interface MakeSafeItem {
+  id: string;
+  text: string;
+  /** Crew roles any of whom may tick it. */
+  roles: CrewRole[];
+  /** The item asks for a few words (the forecast, where the key is). */
+  asksNote: boolean;
+  doneBy: (ShiftSignature & { role: CrewRole; note: string | null }) | null;
+}
+
+/** The outgoing supervisor's note to the next one, with what the board listed for them. */
+export interface HandoverNote {
+  seq: number;
+  shift: number;
+  from: { userId: string; name: string };
+  /** The supervisor it is meant for, when one was named. */
+  to: { userId: string; name: string } | null;
+  at: string;
+  /** Listed from the board when it was written. */
+  done: string[];
+  open: string[];
+  defects: string[];
+  overrides: string[];
+  /** Typed by the outgoing supervisor. */
+  hazards: string;
+  note: string;
+  acknowledgedBy: ShiftSignature | null;
+}
+
+/**
+ * Shifts (absent on boards from before them: one shift, working). `working`: normal work;
+ * `making_safe`: the supervisor ended the shift and the make-safe checklist is being done (no work
+ * commands); when its last item is done the job is `made_safe` (job state) until the start-of-shift
+ * hold of the next shift is released.
+ */
+export interface ShiftState {
+  /** The shift under way, or the one that ended while the job is made safe. */
+  number: number;
+  phase: 'working' | 'making_safe' | 'made_safe';
+  startedAt: string | null;
+  makeSafe: {
+    begunBy: ShiftSignature;
+    /** The phase of the work the checklist was drawn for (shared/plan/templates/shift.ts). */
+    workPhase: string;
+    items: MakeSafeItem[];
+    /** When the last item was done, and by whom. */
+    madeSafe: ShiftSignature | null;
+  } | null;
+  /** The start-of-shift hold of the next shift, while the job is made safe. */
+  start: {
+    inspection: (ShiftSignature & { note: string }) | null;
+    operator: ShiftSignature | null;
+    supervisor: ShiftSignature | null;
+  } | null;
+}
+
 /** The event-sourced state of a job's board: what the shared reducer builds from the log. */
 export interface BoardState {
   seq: number;
@@ -144,16 +210,24 @@ export interface BoardState {
     /** The last resume, so whoever raised the stop can see why work went on. */
     lastResume: { by: { userId: string; name: string }; at: string; reason: string } | null;
     cancelReason: string | null;
+    /** The site's IANA time zone; absent on boards from before it (the server's zone applies). */
+    timeZone?: string;
   };
   planVersion: number;
   stages: BoardStage[];
   crew: { userId: string; name: string; role: CrewRole }[];
-  /** Plan version each person last acknowledged the briefing for. */
-  briefed: { userId: string; name: string; planVersion: number; at: string }[];
+  /** Plan version (and shift: absent is shift 1) each person last acknowledged the briefing for. */
+  briefed: { userId: string; name: string; planVersion: number; at: string; shift?: number }[];
   weather: WeatherReading | null;
   windLimits: { assembly: WindLimit; raising: WindLimit } | null;
   /** The job's setting for how old a wind reading may be; absent on older boards (the default applies). */
   weatherFreshMinutes?: number;
+  /** Shifts, make-safe and start of shift; absent on boards from before them. */
+  shift?: ShiftState;
+  /** The one supervisor who releases holds and runs the shift; absent on boards from before it (any supervisor). */
+  actingSupervisor?: { userId: string; name: string; since: string } | null;
+  /** The handover notes, newest last. */
+  handovers?: HandoverNote[];
   defects: { id: string; description: string; componentId: string | null; stageId: string | null; photoId: string | null; at: string; by: string }[];
 }
 

@@ -55,13 +55,38 @@ export const weatherReadingSchema = z.object({
 
 const stageHold = { stageId: z.string(), holdId: z.string() };
 
+/**
+ * An acknowledgment taken back because its author left the crew or was disabled: of a stage's
+ * hold (`stageId`), or of the start-of-shift hold (`stageId` null, `holdId` 'shift-start').
+ */
+export const withdrawnSchema = z.object({
+  stageId: z.string().nullable(),
+  holdId: z.string(),
+  userId: z.string(),
+  name: z.string(),
+  role: z.string(),
+});
+export type Withdrawn = z.infer<typeof withdrawnSchema>;
+
+const person = z.object({ userId: z.string(), name: z.string() });
+/** The roles that acknowledge the start-of-shift hold besides the inspection. */
+export const shiftStartRoleSchema = z.enum(['operator', 'supervisor']);
+
 /** An event's data: its own fields, and the effects the writer adds to every event. */
 const data = <S extends z.ZodRawShape>(shape: S) => z.object({ ...shape, effects: effectsSchema.optional() });
 
 /** The data of each event type. */
 export const eventDataSchemas = {
   'job.created': data({
-    job: z.object({ name: z.string(), site: z.string(), kind: jobKindSchema, craneUnitId: z.string().optional(), state: jobStateSchema.optional() }),
+    job: z.object({
+      name: z.string(),
+      site: z.string(),
+      kind: jobKindSchema,
+      craneUnitId: z.string().optional(),
+      state: jobStateSchema.optional(),
+      /** since 2026-12-03: the site's IANA time zone. */
+      timeZone: z.string().optional(),
+    }),
     craneFleetNumber: z.string(),
     crew: z.array(crewMemberSchema),
   }),
@@ -74,10 +99,18 @@ export const eventDataSchemas = {
       /** since 2026-12-03 */
       holdReminderMinutes: z.number().int().optional(),
       commsPlan: carried<CommsPlan>().optional(),
+      /** since 2026-12-03 */
+      timeZone: z.string().optional(),
     }),
     planRegenerated: z.boolean(),
   }),
-  'crew.set': data({ crew: z.array(crewMemberSchema), added: z.array(userRole), removed: z.array(userRole) }),
+  'crew.set': data({
+    crew: z.array(crewMemberSchema),
+    added: z.array(userRole),
+    removed: z.array(userRole),
+    /** since 2026-12-03: acknowledgments of holds not yet released that left with the people removed. */
+    withdrawn: z.array(withdrawnSchema).optional(),
+  }),
   'configuration.set': data({
     planRegenerated: z.boolean(),
     windLimits: z.object({ assembly: windLimit, raising: windLimit }).nullable(),
@@ -95,7 +128,11 @@ export const eventDataSchemas = {
   'plan.edited': data({ plan: carried<Plan>(), problems: z.array(z.string()) }),
   'job.ready': data({ state: z.literal('ready'), planVersion: z.number().int(), plan: carried<Plan>() }),
   'job.started': data({}),
-  'briefing.acknowledged': data({ planVersion: z.number().int() }),
+  'briefing.acknowledged': data({
+    planVersion: z.number().int(),
+    /** since 2026-12-03: the shift the briefing was for (older events: shift 1). */
+    shift: z.number().int().optional(),
+  }),
   'step.completed': data({
     stageId: z.string(),
     stepId: z.string(),
@@ -155,6 +192,35 @@ export const eventDataSchemas = {
   'plan.revised': data({ planVersion: z.number().int(), plan: carried<Plan>(), reason: z.string() }),
   'job.completed': data({}),
   'job.cancelled': data({ reason: z.string() }),
+  /** The acting supervisor ends the shift: the make-safe checklist for the phase of the work. */
+  'shift.ending': data({
+    shift: z.number().int(),
+    workPhase: z.string(),
+    items: z.array(z.object({ id: z.string(), text: z.string(), roles: z.array(crewRoleSchema), asksNote: z.boolean() })),
+  }),
+  /** One make-safe item done; the last one makes the job safe. */
+  'shift.item.done': data({ itemId: z.string(), role: crewRoleSchema, note: z.string().nullable(), madeSafe: z.boolean() }),
+  'handover.written': data({
+    shift: z.number().int(),
+    to: person.nullable(),
+    done: z.array(z.string()),
+    open: z.array(z.string()),
+    defects: z.array(z.string()),
+    overrides: z.array(z.string()),
+    hazards: z.string(),
+    note: z.string(),
+  }),
+  /** The incoming supervisor read the note: they are the acting supervisor from now. */
+  'handover.acknowledged': data({ handoverSeq: z.number().int(), from: person }),
+  /** An administrator made someone else the acting supervisor (the outgoing one unreachable). */
+  'acting.transferred': data({ from: person.nullable(), to: person, reason: z.string() }),
+  /** The competent person's shift inspection before the next shift starts. */
+  'shift.inspected': data({ shift: z.number().int(), note: z.string() }),
+  'shift.start.acknowledged': data({ shift: z.number().int(), role: shiftStartRoleSchema }),
+  /** The start-of-shift hold is released: work goes on. */
+  'shift.started': data({ shift: z.number().int() }),
+  /** A crew member's account was disabled: their acknowledgments of holds not yet released are taken back. */
+  'crew.member.disabled': data({ userId: z.string(), name: z.string(), withdrawn: z.array(withdrawnSchema) }),
 } as const;
 
 export type JobEventType = keyof typeof eventDataSchemas;
@@ -216,6 +282,15 @@ export const jobEventSchema = z.discriminatedUnion('type', [
   eventOf('plan.revised', eventDataSchemas['plan.revised']),
   eventOf('job.completed', eventDataSchemas['job.completed']),
   eventOf('job.cancelled', eventDataSchemas['job.cancelled']),
+  eventOf('shift.ending', eventDataSchemas['shift.ending']),
+  eventOf('shift.item.done', eventDataSchemas['shift.item.done']),
+  eventOf('handover.written', eventDataSchemas['handover.written']),
+  eventOf('handover.acknowledged', eventDataSchemas['handover.acknowledged']),
+  eventOf('acting.transferred', eventDataSchemas['acting.transferred']),
+  eventOf('shift.inspected', eventDataSchemas['shift.inspected']),
+  eventOf('shift.start.acknowledged', eventDataSchemas['shift.start.acknowledged']),
+  eventOf('shift.started', eventDataSchemas['shift.started']),
+  eventOf('crew.member.disabled', eventDataSchemas['crew.member.disabled']),
 ]);
 export type JobEventDto = z.infer<typeof jobEventSchema>;
 export type JobEventOf<T extends JobEventType> = Extract<JobEventDto, { type: T }>;

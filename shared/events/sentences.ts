@@ -1,7 +1,9 @@
 import { valueCheckFieldLabels } from '../schemas/plan.js';
 import { roleLabel } from '../schemas/users.js';
 import { clause, plural, sentences } from '../text.js';
-import type { JobEventDto } from './log.js';
+import type { JobEventDto, Withdrawn } from './log.js';
+import { makeSafeItems } from '../plan/templates/shift.js';
+import { SHIFT_START_HOLD_ID } from '../board/shifts.js';
 
 /**
  * How each event of the log reads to a person: one plain sentence (or two) saying what was done,
@@ -50,6 +52,12 @@ const holdTitle = (names: Named | null | undefined, holdId: string) => names?.st
 const stageTitle = (names: Named | null | undefined, stageId: string) => names?.stages.find((s) => s.id === stageId)?.title ?? 'a stage no longer in the plan';
 const roleWords = (role: string) => roleLabel(role).toLowerCase();
 const reasonWords = (reason: string | null) => reason && `Reason: ${reason}`;
+const makeSafeItemText = (itemId: string) =>
+  Object.values(makeSafeItems)
+    .map((items) => items[itemId]?.text)
+    .find(Boolean) ?? itemId;
+const withdrawnWords = (names: Named | null | undefined, withdrawn: readonly Withdrawn[]) =>
+  withdrawn.map((w) => `${w.name} as ${w.role === 'inspector' ? 'the inspector' : roleWords(w.role)} at “${w.holdId === SHIFT_START_HOLD_ID ? 'the start-of-shift hold' : holdTitle(names, w.holdId)}”`).join('; ');
 
 /** The sentence for one event. */
 export function describeEvent(event: JobEventDto, context: EventWordsContext = {}): string {
@@ -68,7 +76,11 @@ export function describeEvent(event: JobEventDto, context: EventWordsContext = {
       const nameOf = (userId: string) => crew.find((c) => c.userId === userId)?.name ?? context.crew?.find((m) => m.userId === userId)?.name ?? 'someone no longer in the crew';
       const named = (m: { userId: string; role: string }) => `${nameOf(m.userId)} as ${roleWords(m.role)}`;
       const parts = [added.length ? `added ${added.map(named).join(', ')}` : '', removed.length ? `removed ${removed.map(named).join(', ')}` : ''].filter(Boolean);
-      return parts.length ? `Crew: ${parts.join('; ')}` : `Crew saved unchanged (${plural(crew.length, 'person', 'people')})`;
+      const withdrawn = event.data.withdrawn ?? [];
+      return sentences(
+        parts.length ? `Crew: ${parts.join('; ')}` : `Crew saved unchanged (${plural(crew.length, 'person', 'people')})`,
+        withdrawn.length > 0 && `Acknowledgments taken back with them, so those holds are open again: ${withdrawnWords(names, withdrawn)}`,
+      );
     }
     case 'configuration.set': {
       const { configuration, figures, overridesWithdrawn } = event.data;
@@ -103,7 +115,9 @@ export function describeEvent(event: JobEventDto, context: EventWordsContext = {
     case 'job.started':
       return 'Started the job on the board.';
     case 'briefing.acknowledged':
-      return `Acknowledged the briefing for plan version ${event.data.planVersion}.`;
+      return event.data.shift !== undefined
+        ? `Acknowledged the briefing for plan version ${event.data.planVersion}, shift ${event.data.shift}.`
+        : `Acknowledged the briefing for plan version ${event.data.planVersion}.`;
     case 'step.completed': {
       const { stepId, value, photoId, outOfLimit } = event.data;
       const step = findStep(names, stepId);
@@ -160,6 +174,27 @@ export function describeEvent(event: JobEventDto, context: EventWordsContext = {
       return 'Completed the job.';
     case 'job.cancelled':
       return sentences('Cancelled the job', reasonWords(event.data.reason));
+    case 'crew.member.disabled':
+      return sentences(
+        `${event.data.name}’s account was disabled`,
+        event.data.withdrawn.length > 0 && `Their acknowledgments were taken back: ${withdrawnWords(names, event.data.withdrawn)}`,
+      );
+    case 'shift.ending':
+      return sentences(`Ended shift ${event.data.shift}: the make-safe checklist is on the board`, `${plural(event.data.items.length, 'item')} to do`);
+    case 'shift.item.done':
+      return sentences(`Made safe: ${clause(makeSafeItemText(event.data.itemId))}`, event.data.note && `Noted: ${event.data.note}`, event.data.madeSafe && 'Every item done: the job is MADE SAFE');
+    case 'handover.written':
+      return sentences(`Wrote the handover note for shift ${event.data.shift}${event.data.to ? ` to ${event.data.to.name}` : ''}`, `Hazards: ${event.data.hazards}`);
+    case 'handover.acknowledged':
+      return `Read and acknowledged ${event.data.from.name}’s handover note: now the acting supervisor.`;
+    case 'acting.transferred':
+      return sentences(`Made ${event.data.to.name} the acting supervisor${event.data.from ? ` in place of ${event.data.from.name}` : ''}`, reasonWords(event.data.reason));
+    case 'shift.inspected':
+      return sentences(`Recorded the shift inspection before shift ${event.data.shift}`, `Found: ${event.data.note}`);
+    case 'shift.start.acknowledged':
+      return `Acknowledged the start-of-shift hold for shift ${event.data.shift} as ${roleWords(event.data.role)}.`;
+    case 'shift.started':
+      return `Released the start-of-shift hold: shift ${event.data.shift} is under way.`;
     default: {
       // An event from a newer server: never its internal name or a list of its fields.
       const unknown: never = event;

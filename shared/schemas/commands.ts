@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { crewRoleSchema } from './jobs.js';
 import { planSchema, valueCheckFieldSchema } from './plan.js';
+import { shiftStartRoleSchema } from '../events/log.js';
 
 const commandId = z.uuid('commandId must be a UUID made by the client');
 const reason = z.string().trim().min(3, 'Give a reason').max(1000);
@@ -72,12 +73,88 @@ export const boardCommandSchema = z.discriminatedUnion('type', [
     })
     .refine((c) => c.componentId || c.stepId, { message: 'Name the component or the step', path: ['componentId'] }),
   z.object({ commandId, type: z.literal('plan.revise'), plan: planSchema, reason }),
+  /** The acting supervisor ends the shift: the board shows the make-safe checklist. */
+  z.object({ commandId, type: z.literal('shift.end') }),
+  z.object({ commandId, type: z.literal('shift.item.done'), itemId: z.string().min(1).max(64), note: z.string().trim().min(1).max(500).optional() }),
+  /** The outgoing acting supervisor's note; what is done, open, defects and overrides are listed by the server from the board. */
+  z.object({
+    commandId,
+    type: z.literal('handover.write'),
+    hazards: z.string().trim().min(3, 'Say what the next shift must watch for, or “none”').max(2000),
+    note: z.string().trim().max(4000),
+    toUserId: z.uuid().optional(),
+  }),
+  z.object({ commandId, type: z.literal('handover.acknowledge') }),
+  /** The competent person's shift inspection before the next shift (29 CFR 1926.1412(d), from memory). */
+  z.object({ commandId, type: z.literal('shift.inspect'), note: z.string().trim().min(3, 'Say what was inspected and found').max(2000) }),
+  z.object({ commandId, type: z.literal('shift.acknowledge'), role: shiftStartRoleSchema }),
+  z.object({ commandId, type: z.literal('shift.start') }),
 ]);
 export type BoardCommand = z.infer<typeof boardCommandSchema>;
 export type BoardCommandType = BoardCommand['type'];
 
-/** Commands accepted while the job is stopped; everything else waits for the resume. */
-export const commandsWhileStopped: ReadonlySet<BoardCommandType> = new Set(['job.stop', 'job.stop.note', 'weather.record', 'defect.report', 'job.resume']);
+/** Body of POST /api/jobs/:id/acting-supervisor: an administrator names the acting supervisor when the outgoing one is unreachable. */
+export const actingTransferSchema = z.object({ userId: z.uuid('Choose the supervisor'), reason });
+
+/**
+ * Commands accepted while the job is stopped; everything else waits for the resume. A stopped
+ * job can still be made safe for the night (a wind stop at the end of the day) and handed over.
+ */
+export const commandsWhileStopped: ReadonlySet<BoardCommandType> = new Set([
+  'job.stop',
+  'job.stop.note',
+  'weather.record',
+  'defect.report',
+  'job.resume',
+  'briefing.acknowledge',
+  'shift.end',
+  'shift.item.done',
+  'handover.write',
+  'handover.acknowledge',
+]);
+
+/** Commands accepted while the make-safe checklist is being done: no work goes on. */
+export const commandsWhileMakingSafe: ReadonlySet<BoardCommandType> = new Set([
+  'job.stop',
+  'job.stop.note',
+  'weather.record',
+  'defect.report',
+  'job.resume',
+  'briefing.acknowledge',
+  'shift.item.done',
+  'handover.write',
+  'handover.acknowledge',
+  'hold.withdraw',
+]);
+
+/** Commands accepted while the job is made safe: the handover, the start-of-shift hold and what prepares it. */
+export const commandsWhileMadeSafe: ReadonlySet<BoardCommandType> = new Set([
+  'weather.record',
+  'defect.report',
+  'briefing.acknowledge',
+  'handover.write',
+  'handover.acknowledge',
+  'shift.inspect',
+  'shift.acknowledge',
+  'shift.start',
+  'plan.revise',
+  'job.cancel',
+]);
+
+/** Commands a person may send before acknowledging the briefing for the current plan version and shift: reports that keep people safe, and the briefing itself. */
+export const commandsBeforeBriefing: ReadonlySet<BoardCommandType> = new Set([
+  'job.start',
+  'job.cancel',
+  'briefing.acknowledge',
+  'job.stop',
+  'job.stop.note',
+  'weather.record',
+  'defect.report',
+  'hold.withdraw',
+  'handover.write',
+  'handover.acknowledge',
+  'plan.revise',
+]);
 
 /**
  * Every code a board command's refusal can carry, over HTTP or the socket, so clients can react
@@ -118,6 +195,13 @@ export const refusalCodes = [
   'out_of_limit',
   'out_of_order',
   'stop_cause_required',
+  // Shifts (server/commands/board.ts, shared/board/shifts.ts)
+  'not_acting_supervisor',
+  'shift_busy',
+  'making_safe',
+  'made_safe',
+  'shift_not_ready',
+  'handover_missing',
   // A defect report quarantines its component through the fleet's inspection path
   'component_retired',
 ] as const;

@@ -3,7 +3,8 @@ import { configurationSchema, figureSchema } from './configuration.js';
 import { HOLD_REMINDER_DEFAULT_MINUTES, holdReminderMinutesSchema } from './mail.js';
 import { qualificationSchema } from './users.js';
 
-export const jobStates = ['planning', 'ready', 'live', 'stopped', 'complete', 'cancelled'] as const;
+/** `made_safe`: a shift ended with its make-safe checklist done; no work until the start-of-shift hold is released. */
+export const jobStates = ['planning', 'ready', 'live', 'stopped', 'made_safe', 'complete', 'cancelled'] as const;
 export const jobStateSchema = z.enum(jobStates);
 export type JobState = z.infer<typeof jobStateSchema>;
 export const jobStateLabels: Record<JobState, string> = {
@@ -11,6 +12,7 @@ export const jobStateLabels: Record<JobState, string> = {
   ready: 'Ready',
   live: 'Live',
   stopped: 'Stopped',
+  made_safe: 'Made safe',
   complete: 'Complete',
   cancelled: 'Cancelled',
 };

@@ -10,6 +10,7 @@ export const jobStateWords: Record<JobState, { label: string; icon: string; tone
   ready: { label: jobStateLabels.ready, icon: 'flag', tone: 'hold', hint: 'The plan is locked; the crew is briefed before work starts.' },
   live: { label: jobStateLabels.live, icon: 'play_circle', tone: 'done', hint: 'Work is under way on the board.' },
   stopped: { label: jobStateLabels.stopped, icon: 'pan_tool', tone: 'stop', hint: 'All stop recorded. Nothing moves until the supervisor resumes.' },
+  made_safe: { label: jobStateLabels.made_safe, icon: 'nightlight', tone: 'hold', hint: 'The shift ended with the boom made safe. No work until the start-of-shift checks are done.' },
   complete: { label: jobStateLabels.complete, icon: 'task_alt', tone: 'plain', hint: 'Finished; the record is closed.' },
   cancelled: { label: jobStateLabels.cancelled, icon: 'block', tone: 'plain', hint: 'Called off before it was complete.' },
 };
