@@ -5,7 +5,10 @@ import { readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/r
 import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
 import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../shared/plan/index.js';
-import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
+import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
+import { briefingShift, handoverFacts, isActingSupervisor, isBriefed, makeSafeChecklist, shiftEndBlockers, shiftOf, shiftStartMissing } from '../../shared/board/shifts.js';
+import { JobOverride } from '../entities/JobOverride.js';
+import { authorizeBoardCommand, boardCommandRoles } from '../policies/index.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
 import type { AppContext } from '../context.js';
@@ -16,7 +19,6 @@ import { JobPlan } from '../entities/JobPlan.js';
 import { Upload } from '../entities/Upload.js';
 import type { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
-import { authorizeBoardCommand } from '../policies/index.js';
 import { redactPlan } from '../presenters/plan.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { referencePlan, withFreshBriefing } from '../queries/plans.js';
@@ -47,8 +49,22 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
     if (board.job.state === 'complete' || board.job.state === 'cancelled') {
       throw refuse(409, 'job_closed', `The job is ${board.job.state}: its board is read-only and its record is closed. Stop any movement by radio and signal.`);
     }
+    if (board.job.state === 'made_safe' && !commandsWhileMadeSafe.has(command.type)) {
+      const safe = shiftOf(board).makeSafe?.madeSafe;
+      throw refuse(
+        409,
+        'made_safe',
+        `The job was made safe${safe ? ` ${siteWhen(safe.at, board)} (last item by ${safe.name})` : ''}. No work until the acting supervisor releases the start-of-shift hold: the shift inspection, the operator’s and supervisor’s acknowledgments, everyone’s briefing and a fresh weather reading.`,
+      );
+    }
     if (board.job.state === 'stopped' && !commandsWhileStopped.has(command.type)) {
-      throw refuse(409, 'job_stopped', 'The job is stopped. Only the supervisor’s resume (after a fresh weather reading), stop notes, weather readings and defect reports are accepted.');
+      throw refuse(409, 'job_stopped', 'The job is stopped. Only the supervisor’s resume (after a fresh weather reading), stop notes, weather readings, defect reports, briefings, the handover and making safe are accepted.');
+    }
+    if (shiftOf(board).phase === 'making_safe' && !commandsWhileMakingSafe.has(command.type)) {
+      throw refuse(409, 'making_safe', 'The shift is ending: the crew is making the crane safe. No work until the next shift starts; finish the make-safe checklist.');
+    }
+    if (board.planVersion > 0 && !commandsBeforeBriefing.has(command.type) && !isBriefed(board, actor.id)) {
+      throw refuse(409, 'briefing_required', `Acknowledge the briefing for plan version ${board.planVersion}, shift ${briefingShift(board)}, first: nobody acts on the board before they have been briefed for the shift.`);
     }
     const ctx: HandlerContext = { context, manager, job, board, actor, roles, now: context.now() };
     return handlers[command.type](ctx, command as never);
@@ -86,6 +102,19 @@ interface HandlerContext {
 
 type Handler<T extends BoardCommand['type']> = (ctx: HandlerContext, command: Extract<BoardCommand, { type: T }>) => Promise<EventDraft>;
 
+// TODO(lead): site time with offset once shared/time.ts lands.
+const siteWhen = (iso: string, _board: BoardState) => `at ${iso.slice(11, 16)} UTC`;
+
+/** Who may record a weather reading, in words, for refusals that ask for one. */
+const weatherRecorders = `${boardCommandRoles['weather.record'].join(', ').replace(/, ([^,]*)$/, ' or $1')} can record one on the weather panel`;
+
+/** Refuses unless the acting supervisor sends it. */
+function requireActing(board: BoardState, actor: User, doing: string): void {
+  if (isActingSupervisor(board, actor.id)) return;
+  const acting = board.actingSupervisor!;
+  throw refuse(403, 'not_acting_supervisor', `Only the acting supervisor, ${acting.name}, ${doing}. To take over, acknowledge their handover note; if they cannot be reached, an administrator can make you the acting supervisor.`);
+}
+
 function requireLive(board: BoardState, doing: string): void {
   if (board.job.state !== 'live') throw invalidState(`The job is ${board.job.state}; you can ${doing} only while it is live.`);
 }
@@ -119,8 +148,18 @@ function sameValue(typed: string, expected: string): boolean {
 
 /** Refuses unless the weather is fresh and within the raising limit: the one wind rule, for a stage that moves the boom and the hold before it. */
 function requireRaisingWeather(board: BoardState, now: Date, why: string): void {
-  const verdict = weatherVerdict(board, now.getTime(), 'raising');
-  if (!verdict.ok) throw refuse(409, 'weather_required', `${why}: ${verdict.problem}`);
+  requireWeather(board, now, why, 'raising');
+}
+
+/** Refuses unless the last reading is fresh and within the limit of the phase; says who may record one. */
+function requireWeather(board: BoardState, now: Date, why: string, phase?: 'assembly' | 'raising'): void {
+  const verdict = weatherVerdict(board, now.getTime(), phase);
+  if (!verdict.ok) throw refuse(409, 'weather_required', `${why}: ${verdict.problem} The ${weatherRecorders}.`);
+}
+
+/** Does releasing this stage's hold start a stage that moves the crane? */
+function holdGatesCraneMovement(board: BoardState, stageId: string): boolean {
+  return board.stages.some((s) => s.involvesCraneMovement && s.dependsOn.includes(stageId));
 }
 
 const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
@@ -146,10 +185,11 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'briefing.acknowledge'({ board, actor, roles }) {
     if (board.planVersion === 0) throw invalidState('There is no locked plan to be briefed on yet.');
     if (board.job.state === 'complete' || board.job.state === 'cancelled') throw invalidState(`The job is ${board.job.state}.`);
-    if (board.briefed.some((b) => b.userId === actor.id && b.planVersion === board.planVersion)) {
-      throw refuse(409, 'already_briefed', `You have already acknowledged the briefing for plan version ${board.planVersion}.`);
+    const shift = briefingShift(board);
+    if (isBriefed(board, actor.id)) {
+      throw refuse(409, 'already_briefed', `You have already acknowledged the briefing for plan version ${board.planVersion}, shift ${shift}.`);
     }
-    return { type: 'briefing.acknowledged', role: roles[0], data: { planVersion: board.planVersion } };
+    return { type: 'briefing.acknowledged', role: roles[0], data: { planVersion: board.planVersion, shift } };
   },
 
   async 'step.complete'({ manager, job, board, actor, roles, now }, c) {
@@ -164,6 +204,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     const first = stepsNeededFirst(stage, step.id);
     if (first.length) throw refuse(409, 'out_of_order', `Not yet: ${first.map((f) => `“${f.text}”`).join(' and ')} must be done before “${step.text}”.`);
     if (movesBoom(stage)) requireRaisingWeather(board, now, `“${stage.title}” moves the boom`);
+    // A stage that moves the crane starts on a fresh reading within the limit; a raise or lowering needs one for every step (above).
+    else if (stage.involvesCraneMovement && stage.steps.every((s) => s.state !== 'done')) requireWeather(board, now, `“${stage.title}” moves the crane`);
     const fields = [];
     if (step.requiresPhoto && !c.photoId) fields.push({ path: 'photoId', message: 'This step needs a photo' });
     if (step.records && !c.value) fields.push({ path: 'value', message: `Enter the ${step.records.label.toLowerCase()}` });
@@ -207,9 +249,6 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       }
     } else if (!hold.requiredRoles.includes(c.role)) {
       throw refuse(403, 'role_not_allowed', `This hold is acknowledged by: ${hold.requiredRoles.join(', ')}${hold.signOff ? ', and a qualified inspector' : ''}.`);
-    }
-    if (!board.briefed.some((b) => b.userId === actor.id && b.planVersion === board.planVersion)) {
-      throw refuse(409, 'briefing_required', `Acknowledge the briefing for plan version ${board.planVersion} first.`);
     }
     if (hold.state === 'waiting') throw invalidState(`“${hold.title}” is not open yet: the steps of “${stage.title}” are not all done.`);
     if (hold.state !== 'open') throw invalidState(`“${hold.title}” is already ${hold.state}.`);
@@ -266,6 +305,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
 
   async 'hold.release'({ manager, job, board, actor, now }, c) {
     requireLive(board, 'release holds');
+    requireActing(board, actor, 'releases holds');
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
     const hold = stage.hold!;
@@ -295,6 +335,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       );
     }
     if (holdGatesBoomMovement(board, stage.id)) requireRaisingWeather(board, now, `Releasing “${hold.title}” lets the boom move`);
+    else if (holdGatesCraneMovement(board, stage.id)) requireWeather(board, now, `Releasing “${hold.title}” starts a stage that moves the crane`);
     // The sign-off completes the job: the crane unit now stands as it was built, in the same transaction.
     if (hold.signOff) await recordAsBuilt(manager, job, board, now);
     return { type: 'hold.released', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id } };
@@ -336,10 +377,10 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (!board.job.stop?.reason) {
       throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
     }
-    const verdict = weatherVerdict(board, now.getTime());
-    // A resume needs a fresh reading within the limit of the phase; with no known limit there is
-    // nothing to hold the wind to, so work does not go on until the manufacturer's limit is known.
-    if (!verdict.ok) throw refuse(409, 'weather_required', verdict.problem!);
+    // A resume needs a fresh reading within the limit of the phase, whatever stopped the job; with
+    // no known limit there is nothing to hold the wind to, so work does not go on until the
+    // manufacturer's limit is known.
+    requireWeather(board, now, 'Work cannot resume yet');
     return { type: 'job.resumed', role: 'supervisor', data: { reason: c.reason } };
   },
 
@@ -396,5 +437,84 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     await manager.save(JobPlan, { jobId: job.id, version, plan, sourceHash: '', edited: true, reason: c.reason, createdBy: actor.id, createdAt: now.toISOString() });
     job.planVersion = version;
     return { type: 'plan.revised', role: 'supervisor', data: { planVersion: version, plan: redactPlan(plan), reason: c.reason } };
+  },
+
+  async 'shift.end'({ board, actor }) {
+    requireActing(board, actor, 'ends the shift');
+    const blockers = shiftEndBlockers(board);
+    if (blockers.length) throw refuse(409, 'shift_busy', `The shift cannot end yet. ${blockers.join(' ')}`);
+    if (board.job.state === 'stopped' && !board.job.stop?.reason) {
+      throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then end the shift.`);
+    }
+    const { workPhase, items } = makeSafeChecklist(board);
+    return { type: 'shift.ending', role: 'supervisor', data: { shift: shiftOf(board).number, workPhase, items } };
+  },
+
+  async 'shift.item.done'({ board, roles }, c) {
+    const makeSafe = shiftOf(board).makeSafe;
+    if (shiftOf(board).phase !== 'making_safe' || !makeSafe) throw invalidState('The shift is not ending: there is no make-safe checklist to tick.');
+    const item = makeSafe.items.find((i) => i.id === c.itemId);
+    if (!item) throw badRequest('There is no such item on the make-safe checklist.', [{ path: 'itemId', message: 'Unknown item' }]);
+    if (item.doneBy) throw invalidState(`“${item.text}” was already ticked by ${item.doneBy.name}.`);
+    const role = roles.find((r) => item.roles.includes(r));
+    if (!role) throw refuse(403, 'role_not_allowed', `This item is for: ${item.roles.join(', ')}.`);
+    if (item.asksNote && !c.note) throw badRequest('This item asks for a few words.', [{ path: 'note', message: 'Write what you found or noted' }]);
+    const madeSafe = makeSafe.items.every((i) => i.id === item.id || i.doneBy);
+    return { type: 'shift.item.done', role, data: { itemId: item.id, role, note: c.note ?? null, madeSafe } };
+  },
+
+  async 'handover.write'({ manager, job, board, actor }, c) {
+    if (!['live', 'stopped', 'made_safe'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; a handover is written while it is under way or made safe.`);
+    requireActing(board, actor, 'writes the handover note');
+    let to: { userId: string; name: string } | null = null;
+    if (c.toUserId) {
+      const member = board.crew.find((m) => m.userId === c.toUserId && m.role === 'supervisor');
+      if (!member || member.userId === actor.id) throw badRequest('Hand over to another supervisor in the crew.', [{ path: 'toUserId', message: 'Not another supervisor of this job' }]);
+      to = { userId: member.userId, name: member.name };
+    }
+    const overrides = (await manager.findBy(JobOverride, { jobId: job.id })).filter((o) => o.approvedBy).map((o) => `${o.figureLabel}: ${o.reason}`);
+    return { type: 'handover.written', role: 'supervisor', data: { shift: shiftOf(board).number, to, ...handoverFacts(board), overrides, hazards: c.hazards, note: c.note } };
+  },
+
+  async 'handover.acknowledge'({ board, actor }) {
+    const note = board.handovers?.at(-1);
+    if (!note || note.acknowledgedBy) throw refuse(409, 'handover_missing', 'There is no handover note waiting to be read: the acting supervisor writes one first.');
+    if (note.from.userId === actor.id) throw refuse(409, 'one_person_two_roles', 'You wrote this handover note; the supervisor taking over acknowledges it.');
+    if (note.to && note.to.userId !== actor.id) throw refuse(403, 'role_not_allowed', `This handover note is for ${note.to.name}.`);
+    return { type: 'handover.acknowledged', role: 'supervisor', data: { handoverSeq: note.seq, from: note.from } };
+  },
+
+  async 'shift.inspect'({ board, actor, roles }, c) {
+    if (board.job.state !== 'made_safe') throw invalidState('The shift inspection is made while the job is made safe, before the next shift starts.');
+    if (!actor.canInspect) {
+      throw refuse(403, 'not_inspector', 'The shift inspection is made by a competent person: someone the administrator marks as qualified to inspect cranes.');
+    }
+    const done = shiftOf(board).start?.inspection;
+    if (done) throw invalidState(`${done.name} has already recorded the shift inspection.`);
+    return { type: 'shift.inspected', role: roles[0], data: { shift: shiftOf(board).number + 1, note: c.note } };
+  },
+
+  async 'shift.acknowledge'({ board, actor, roles }, c) {
+    if (board.job.state !== 'made_safe') throw invalidState('The start-of-shift hold is acknowledged while the job is made safe.');
+    if (!roles.includes(c.role)) throw refuse(403, 'role_not_allowed', `You are not a ${c.role} on this job.`);
+    if (c.role === 'supervisor') requireActing(board, actor, 'acknowledges the start-of-shift hold as supervisor');
+    const start = shiftOf(board).start;
+    if (!start?.inspection) throw refuse(409, 'shift_not_ready', 'The shift inspection comes first: a competent person records it, then the operator and the supervisor acknowledge.');
+    const taken = start[c.role];
+    if (taken) throw invalidState(`${taken.name} has already acknowledged as ${c.role}.`);
+    if (start.operator?.userId === actor.id || start.supervisor?.userId === actor.id) throw refuse(409, 'one_person_two_roles', 'You have already acknowledged the start-of-shift hold; another person acknowledges the other role.');
+    return { type: 'shift.start.acknowledged', role: c.role, data: { shift: shiftOf(board).number + 1, role: c.role } };
+  },
+
+  async 'shift.start'({ board, actor, now }) {
+    if (board.job.state !== 'made_safe') throw invalidState('The job is not made safe: there is no shift to start.');
+    requireActing(board, actor, 'starts the shift');
+    const missing = shiftStartMissing(board, now.getTime());
+    if (missing.length) {
+      const code = missing.some((m) => m.kind === 'inspection' || m.kind === 'acknowledgment') ? 'shift_not_ready' : missing[0].kind === 'weather' ? 'weather_required' : 'briefing_required';
+      const weather = missing.some((m) => m.kind === 'weather') ? ` The ${weatherRecorders}.` : '';
+      throw refuse(409, code, `The start-of-shift hold still needs: ${missing.map((m) => m.text).join('; ')}.${weather}`);
+    }
+    return { type: 'shift.started', role: 'supervisor', data: { shift: shiftOf(board).number + 1 } };
   },
 };

@@ -85,19 +85,25 @@ export function shiftEndBlockers(board: Pick<BoardState, 'stages' | 'job' | 'shi
   return problems;
 }
 
+/** What the start-of-shift hold still needs, each with its kind; empty when the acting supervisor may release it. */
+export interface ShiftStartGap {
+  kind: 'state' | 'inspection' | 'acknowledgment' | 'weather' | 'briefing';
+  text: string;
+}
+
 /** What the start-of-shift hold still needs before the acting supervisor may release it; empty when ready. */
-export function shiftStartMissing(board: BoardState, nowMs: number): string[] {
+export function shiftStartMissing(board: BoardState, nowMs: number): ShiftStartGap[] {
   const shift = shiftOf(board);
   const start = shift.start;
-  const missing: string[] = [];
-  if (board.job.state !== 'made_safe') return ['The job is not made safe: there is no shift to start.'];
-  if (!start?.inspection) missing.push('the shift inspection by a competent person');
-  if (!start?.operator) missing.push('the operator’s acknowledgment');
-  if (!start?.supervisor) missing.push('the acting supervisor’s acknowledgment');
+  if (board.job.state !== 'made_safe') return [{ kind: 'state', text: 'The job is not made safe: there is no shift to start.' }];
+  const missing: ShiftStartGap[] = [];
+  if (!start?.inspection) missing.push({ kind: 'inspection', text: 'the shift inspection by a competent person' });
+  if (!start?.operator) missing.push({ kind: 'acknowledgment', text: 'the operator’s acknowledgment' });
+  if (!start?.supervisor) missing.push({ kind: 'acknowledgment', text: 'the acting supervisor’s acknowledgment' });
   const verdict = weatherVerdict(board, nowMs);
-  if (!verdict.ok) missing.push(`a weather reading: ${verdict.problem}`);
+  if (!verdict.ok) missing.push({ kind: 'weather', text: `a weather reading: ${verdict.problem}` });
   const unbriefed = unbriefedCrew(board);
-  if (unbriefed.length) missing.push(`the briefing for plan version ${board.planVersion}, shift ${shift.number + 1}, from ${unbriefed.map((p) => p.name).join(', ')}`);
+  if (unbriefed.length) missing.push({ kind: 'briefing', text: `the briefing for plan version ${board.planVersion}, shift ${shift.number + 1}, from ${unbriefed.map((p) => p.name).join(', ')}` });
   return missing;
 }
 
