@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { findStep } from '../../shared/board/apply.js';
 import { readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/readings.js';
-import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, movesBoom, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
+import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
 import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../shared/plan/index.js';
 import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
@@ -157,10 +157,6 @@ function requireWeather(board: BoardState, now: Date, why: string, phase?: 'asse
   if (!verdict.ok) throw refuse(409, 'weather_required', `${why}: ${verdict.problem} The ${weatherRecorders}.`);
 }
 
-/** Does releasing this stage's hold start a stage that moves the crane? */
-function holdGatesCraneMovement(board: BoardState, stageId: string): boolean {
-  return board.stages.some((s) => s.involvesCraneMovement && s.dependsOn.includes(stageId));
-}
 
 const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'job.start'({ board }) {
@@ -203,9 +199,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (!role) throw refuse(403, 'role_not_allowed', `This step is for: ${step.allowedRoles.join(', ')}.`);
     const first = stepsNeededFirst(stage, step.id);
     if (first.length) throw refuse(409, 'out_of_order', `Not yet: ${first.map((f) => `“${f.text}”`).join(' and ')} must be done before “${step.text}”.`);
-    if (movesBoom(stage)) requireRaisingWeather(board, now, `“${stage.title}” moves the boom`);
-    // A stage that moves the crane starts on a fresh reading within the limit; a raise or lowering needs one for every step (above).
-    else if (stage.involvesCraneMovement && stage.steps.every((s) => s.state !== 'done')) requireWeather(board, now, `“${stage.title}” moves the crane`);
+    const weatherNeed = stepNeedsFreshWeather(stage);
+    if (weatherNeed === 'raising') requireRaisingWeather(board, now, `“${stage.title}” moves the boom`);
+    else if (weatherNeed === 'current') requireWeather(board, now, `“${stage.title}” moves the crane`);
     const fields = [];
     if (step.requiresPhoto && !c.photoId) fields.push({ path: 'photoId', message: 'This step needs a photo' });
     if (step.records && !c.value) fields.push({ path: 'value', message: `Enter the ${step.records.label.toLowerCase()}` });

@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { holdGatesBoomMovement, movesBoom, weatherVerdict } from '../../shared/board/rules.js';
+import { holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, weatherVerdict } from '../../shared/board/rules.js';
 import type { BoardStep } from '../../shared/board/types.js';
 import type { BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
@@ -40,13 +40,18 @@ export class DemoBoardDriver {
     this.freshWeather = { who, reading };
   }
 
-  /** Records the fresh reading a raise or lowering (or the hold before it) needs, when the last one is too old. */
+  /**
+   * Records the fresh reading a raise or lowering, the first step of a stage that moves the crane,
+   * or the hold before either needs, when the last one is too old: by whoever `weatherBy` named,
+   * else the crew's signaller (or supervisor) with a calm reading.
+   */
   private async weatherIfNeeded(stageId: string, forRelease: boolean): Promise<void> {
     const { board } = await this.board();
     const stage = board.stages.find((s) => s.id === stageId)!;
-    const needs = forRelease ? holdGatesBoomMovement(board, stageId) : movesBoom(stage);
-    if (!needs || !this.freshWeather || weatherVerdict(board, this.context.now().getTime(), 'raising').fresh) return;
-    await this.send(this.freshWeather.who, { type: 'weather.record', ...this.freshWeather.reading });
+    const phase = forRelease ? (holdGatesBoomMovement(board, stageId) ? 'raising' : holdGatesCraneMovement(board, stageId) ? 'current' : null) : stepNeedsFreshWeather(stage);
+    if (!phase || weatherVerdict(board, this.context.now().getTime(), phase === 'raising' ? 'raising' : undefined).fresh) return;
+    const reader = this.freshWeather ?? { who: (this.crew.signaller ?? this.crew.supervisor)!, reading: { meanMs: 4, gustMs: 7, heightM: 10 } };
+    await this.send(reader.who, { type: 'weather.record', ...reader.reading });
   }
 
   /** A value within what the step is held to: the plan's figure, the limit, or the last wind gust. */
@@ -82,8 +87,8 @@ export class DemoBoardDriver {
       done.add(next.id);
     }
     for (const step of ordered) {
-      // Every step of a raise or lowering needs a reading from the last 15 minutes.
-      if (movesBoom(stage)) await this.weatherIfNeeded(stageId, false);
+      // Every step of a raise or lowering, and the start of a stage that moves the crane, needs a fresh reading.
+      await this.weatherIfNeeded(stageId, false);
       const role = step.allowedRoles.find((r) => this.crew[r])!;
       const who = this.crew[role]!;
       let value: string | undefined;
@@ -114,11 +119,8 @@ export class DemoBoardDriver {
   }
 
   async release(stageId: string): Promise<void> {
-    let { board } = await this.board();
-    if (holdGatesBoomMovement(board, stageId)) {
-      await this.weatherIfNeeded(stageId, true);
-      ({ board } = await this.board());
-    }
+    await this.weatherIfNeeded(stageId, true);
+    const { board } = await this.board();
     await this.send(this.crew.supervisor!, { type: 'hold.release', holdId: board.stages.find((s) => s.id === stageId)!.hold!.id });
   }
 

@@ -55,6 +55,22 @@ export function holdGatesBoomMovement(state: BoardState, stageId: string): boole
   return state.stages.some((s) => movesBoom(s) && s.dependsOn.includes(stageId));
 }
 
+/** Does releasing this stage's hold start a stage that moves the crane? It then needs a fresh reading within the limit. */
+export function holdGatesCraneMovement(state: BoardState, stageId: string): boolean {
+  return state.stages.some((s) => s.involvesCraneMovement && s.dependsOn.includes(stageId));
+}
+
+/**
+ * Does completing a step of this stage need a fresh reading within the limit? Every step of a
+ * raise or lowering (phase `raising`); the first step of any other stage that moves the crane
+ * (starting it; the current phase).
+ */
+export function stepNeedsFreshWeather(stage: Pick<BoardStage, 'id' | 'boom' | 'involvesCraneMovement' | 'steps'>): 'raising' | 'current' | null {
+  if (movesBoom(stage)) return 'raising';
+  if (stage.involvesCraneMovement && stage.steps.every((s) => s.state !== 'done')) return 'current';
+  return null;
+}
+
 /** Why a gust is over a wind limit, or null when it is within it (at the limit counts as within). */
 export function gustOverLimit(gustMs: number, limit: WindLimit | null, phase?: 'assembly' | 'raising'): string | null {
   const words = phase ? `the ${phase} limit` : 'the limit';
