@@ -381,7 +381,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   },
 
   async 'weather.record'({ board, roles }, c) {
-    if (!['ready', 'live', 'stopped'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}.`);
+    if (!['ready', 'live', 'stopped', 'made_safe'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}.`);
     const reading = { meanMs: c.meanMs, gustMs: c.gustMs, heightM: c.heightM, lightning: c.lightning ?? false, poorVisibility: c.poorVisibility ?? false, ice: c.ice ?? false };
     if (reading.gustMs < reading.meanMs) throw badRequest('A gust cannot be slower than the mean wind.', [{ path: 'gustMs', message: 'Gust is below the mean' }]);
     const phase = windPhase(board);
@@ -395,7 +395,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   },
 
   async 'defect.report'({ manager, job, board, actor, roles, now }, c) {
-    if (board.job.state !== 'live' && board.job.state !== 'stopped') throw invalidState(`The job is ${board.job.state}; record defects on the fleet screens instead.`);
+    if (!['live', 'stopped', 'made_safe'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; record defects on the fleet screens instead.`);
     let stageId: string | null = null;
     let serial: string | null = null;
     if (c.stepId) stageId = stageOfStep(board, c.stepId).id;
@@ -413,7 +413,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   },
 
   async 'plan.revise'({ manager, job, board, actor, now }, c) {
-    if (!['ready', 'live', 'stopped'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; the plan can be revised only after it is ready and before it ends.`);
+    if (!['ready', 'live', 'stopped', 'made_safe'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; the plan can be revised only after it is ready and before it ends.`);
     if (c.plan.kind !== job.kind) throw badRequest('The plan is for another kind of job.', [{ path: 'plan.kind', message: `This job is ${job.kind}` }]);
     // The plan validator (shared/plan/validate.ts), against the generated plan and the version in
     // force, so nothing the crew is working to is weakened; and the crew must still cover every hold.
