@@ -1,9 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import { In, type EntityManager } from 'typeorm';
 import type { z } from 'zod';
+import { acknowledgmentsLeaving, rolesLeftUncovered } from '../../shared/board/shifts.js';
+import type { BoardState } from '../../shared/board/types.js';
+import type { Withdrawn } from '../../shared/events/log.js';
 import { computeConfiguration } from '../../shared/planner/compute.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
 import type { Configuration } from '../../shared/schemas/configuration.js';
+import { listWords } from '../../shared/text.js';
 import { emptyCommsPlan, type CrewRole, type createJobSchema, type updateJobSchema } from '../../shared/schemas/jobs.js';
 import type { AppContext } from '../context.js';
 import { AssistCrane } from '../entities/AssistCrane.js';
@@ -39,9 +43,12 @@ export async function createJob(context: AppContext, actor: User, input: z.outpu
   return createJobWithEvent(context, { commandId, body: input, actor }, async (manager) => {
     const unit = await manager.findOneBy(CraneUnit, { id: input.craneUnitId });
     if (!unit) throw badRequest('Choose a crane unit that exists.', [{ path: 'craneUnitId', message: 'No such crane unit' }]);
+    // The site's zone as chosen, else the server's; the event carries it so the board and the record know it.
+    const timeZone = input.timeZone ?? context.config.timeZone;
     const job = manager.create(Job, {
       id: randomUUID(),
       ...input,
+      timeZone,
       state: 'planning',
       configuration: null,
       results: null,
@@ -58,18 +65,18 @@ export async function createJob(context: AppContext, actor: User, input: z.outpu
       draft: {
         type: 'job.created',
         role: joins ? 'supervisor' : 'admin',
-        data: { job: { ...input, state: 'planning' }, craneFleetNumber: unit.fleetNumber, crew: joins ? [{ userId: actor.id, name: actor.displayName, role: 'supervisor' }] : [] },
+        data: { job: { ...input, timeZone, state: 'planning' }, craneFleetNumber: unit.fleetNumber, crew: joins ? [{ userId: actor.id, name: actor.displayName, role: 'supervisor' }] : [] },
       },
       after: joins ? (m: EntityManager) => m.insert(JobCrew, { jobId: job.id, userId: actor.id, role: 'supervisor' }).then(() => undefined) : undefined,
     };
   });
 }
 
-/** Changes a job's name, site, kind, distribution list or communications plan. */
+/** Changes a job's name, site, kind, time zone, distribution list or communications plan. */
 export async function updateJob(context: AppContext, actor: User, jobId: string, changes: z.output<typeof updateJobSchema>, commandId?: string): Promise<CommandOutcome> {
   return runJobCommand(context, jobId, { commandId, body: changes, actor }, async (manager, job) => {
     const role = await planningRole(manager, job, actor);
-    requireState(job, changes.kind ? ['planning'] : ['planning', 'ready', 'live', 'stopped'], changes.kind ? 'change the kind of job' : 'change the job');
+    requireState(job, changes.kind ? ['planning'] : ['planning', 'ready', 'live', 'stopped', 'made_safe'], changes.kind ? 'change the kind of job' : 'change the job');
     if (changes.commsPlan) await assertCrewIds(manager, job.id, [...changes.commsPlan.callSigns.map((c) => c.userId), ...changes.commsPlan.motionSignallers.map((m) => m.userId)]);
     if (changes.commsPlan) {
       const signallers = new Set((await manager.findBy(JobCrew, { jobId: job.id, role: 'signaller' })).map((c) => c.userId));
@@ -90,11 +97,20 @@ async function assertCrewIds(manager: EntityManager, jobId: string, userIds: str
   if (missing.length) throw badRequest('The communications plan names someone who is not in the crew.', [{ path: 'commsPlan', message: 'Add them to the crew first' }]);
 }
 
-/** Replaces the crew. Each role must be one of the person's qualifications. */
+/** The job states in which the job has a live board: holds, acknowledgments and an acting supervisor. */
+const boardStates: readonly Job['state'][] = ['ready', 'live', 'stopped', 'made_safe'];
+
+/**
+ * Replaces the crew. Each role must be one of the person's qualifications. While the job has a
+ * board, a change may not leave a role an open hold needs with nobody (name the replacement in
+ * the same change), nor take the acting supervisor out of the supervisor role (they hand over
+ * first, or an administrator transfers the role); the acknowledgments of holds not yet released
+ * whose person leaves (or leaves that role) are withdrawn in the same event, and the hold says why.
+ */
 export async function setCrew(context: AppContext, actor: User, jobId: string, members: { userId: string; role: CrewRole }[], commandId?: string): Promise<CommandOutcome> {
   return runJobCommand(context, jobId, { commandId, body: { members }, actor }, async (manager, job) => {
     const role = await planningRole(manager, job, actor);
-    requireState(job, ['planning', 'ready', 'live', 'stopped'], 'change the crew');
+    requireState(job, ['planning', ...boardStates], 'change the crew');
     const users = new Map((await manager.findBy(User, { id: In([...new Set(members.map((m) => m.userId))]) })).map((u) => [u.id, u]));
     const fields = members.flatMap((m, i) => {
       const user = users.get(m.userId);
@@ -105,6 +121,7 @@ export async function setCrew(context: AppContext, actor: User, jobId: string, m
     });
     if (fields.length) throw badRequest('Some crew assignments are not possible.', fields);
     const unique = [...new Map(members.map((m) => [`${m.userId}:${m.role}`, m])).values()];
+    const withdrawn = job.board && boardStates.includes(job.state) ? crewChangeOnBoard(job.board, unique) : [];
     const before = await manager.findBy(JobCrew, { jobId: job.id });
     await manager.delete(JobCrew, { jobId: job.id });
     if (unique.length) await manager.insert(JobCrew, unique.map((m) => ({ jobId: job.id, userId: m.userId, role: m.role })));
@@ -118,9 +135,38 @@ export async function setCrew(context: AppContext, actor: User, jobId: string, m
         crew: unique.map((m) => ({ userId: m.userId, name: users.get(m.userId)!.displayName, role: m.role })),
         added: unique.filter((m) => !beforeKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
         removed: before.filter((m) => !afterKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
+        ...(withdrawn.length ? { withdrawn } : {}),
       },
     };
   });
+}
+
+/**
+ * The checks of a crew change on a job under way, and the acknowledgments it takes back. Refuses
+ * (409 `crew_role_needed`, a field per role and hold) a crew that leaves a role an open hold (or
+ * the start-of-shift hold) needs with nobody, and (409 `acting_supervisor`) one without the acting
+ * supervisor as supervisor.
+ */
+function crewChangeOnBoard(board: BoardState, crew: readonly { userId: string; role: CrewRole }[]): Withdrawn[] {
+  const uncovered = rolesLeftUncovered(board, crew);
+  if (uncovered.length) {
+    throw new HttpError(
+      409,
+      'crew_role_needed',
+      `This change leaves nobody to acknowledge as ${listWords([...new Set(uncovered.map((u) => u.role))])} at an open hold. Name the replacement in the same change: add the person who takes over before you remove anyone.`,
+      uncovered.map((u) => ({ path: `members.${u.role}`, message: `Nobody left as ${u.role} for “${u.hold}”` })),
+    );
+  }
+  const acting = board.actingSupervisor;
+  if (acting && !crew.some((m) => m.userId === acting.userId && m.role === 'supervisor')) {
+    throw new HttpError(
+      409,
+      'acting_supervisor',
+      `${acting.name} is the acting supervisor and cannot be taken off as supervisor. They hand over first (their handover note, acknowledged by the supervisor taking over); if they cannot be reached, an administrator makes someone else the acting supervisor.`,
+      [{ path: 'members', message: `${acting.name} is the acting supervisor` }],
+    );
+  }
+  return acknowledgmentsLeaving(board, (userId, role) => crew.some((m) => m.userId === userId && (role === null || m.role === role)));
 }
 
 /** Loads what the configuration is computed against. */

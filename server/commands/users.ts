@@ -1,14 +1,18 @@
-import { randomUUID } from 'node:crypto';
-import type { EntityManager } from 'typeorm';
+import { createHash, randomUUID } from 'node:crypto';
+import { In, type EntityManager } from 'typeorm';
+import { acknowledgmentsLeaving } from '../../shared/board/shifts.js';
 import type { InviteUserRequest, Qualification, UpdateUserRequest } from '../../shared/schemas/users.js';
 import { hashPassword } from '../auth/passwords.js';
 import { revokeAllForUser } from '../auth/refresh-tokens.js';
 import { createSignInLink } from '../auth/sign-in-links.js';
 import type { AppContext } from '../context.js';
+import { Job } from '../entities/Job.js';
+import { JobCrew } from '../entities/JobCrew.js';
 import { User } from '../entities/User.js';
 import { conflict, notFound } from '../errors.js';
 import { invitationMail, resetMail } from '../mail/templates.js';
 import { recordSignInAudit } from './audit.js';
+import { runJobCommand } from './job-writer.js';
 
 export interface NewUser {
   email: string;
@@ -113,6 +117,60 @@ export async function updateUser(context: AppContext, userId: string, changes: U
     }
     return { user: found, deactivated: wasActive && !found.active };
   });
-  if (deactivated) context.publisher.endSessions(user.id, 'Your account was deactivated by an administrator.');
+  if (deactivated) {
+    context.publisher.endSessions(user.id, 'Your account was deactivated by an administrator.');
+    await withdrawDisabledAcknowledgments(context, user, actor, now);
+  }
   return user;
+}
+
+/** The handler found nothing of theirs to take back: no event is written. */
+class NothingToWithdraw extends Error {}
+
+/**
+ * After a deactivation has committed: on every job under way where the person is crew, their
+ * acknowledgments of holds not yet released (and of the start-of-shift hold) are taken back by a
+ * `crew.member.disabled` event, in the administrator's name, so the hold re-opens and every screen
+ * says why. The deactivation is never refused or failed for it (an account may have to be shut at
+ * once, even when its person is the only one in a role; the hold then waits for someone else):
+ * a failure is logged. Each event's command id is made from the job, the person and the moment of
+ * the deactivation, so running this again for the same deactivation writes nothing twice.
+ */
+export async function withdrawDisabledAcknowledgments(context: AppContext, user: User, actor: User, deactivatedAt: Date): Promise<void> {
+  let jobIds: string[];
+  try {
+    jobIds = await context.queue.run(async () => {
+      const rows = await context.dataSource.manager.find(JobCrew, { where: { userId: user.id }, select: { jobId: true } });
+      const ids = [...new Set(rows.map((r) => r.jobId))];
+      if (ids.length === 0) return [];
+      const jobs = await context.dataSource.manager.find(Job, { where: { id: In(ids), state: In(['ready', 'live', 'stopped', 'made_safe']) }, select: { id: true } });
+      return jobs.map((j) => j.id);
+    });
+  } catch (error) {
+    context.logger.error({ err: error, userId: user.id }, 'could not list the jobs of a deactivated person; their hold acknowledgments were not withdrawn');
+    return;
+  }
+  const at = deactivatedAt.toISOString();
+  for (const jobId of jobIds) {
+    try {
+      const body = { type: 'crew.member.disabled', userId: user.id, deactivatedAt: at };
+      await runJobCommand(context, jobId, { commandId: stableCommandId(`crew.member.disabled:${jobId}:${user.id}:${at}`), body, actor }, async (_manager, job) => {
+        const board = job.board;
+        if (!board || !['ready', 'live', 'stopped', 'made_safe'].includes(board.job.state)) throw new NothingToWithdraw();
+        const withdrawn = acknowledgmentsLeaving(board, (userId) => userId !== user.id);
+        if (withdrawn.length === 0) throw new NothingToWithdraw();
+        return { type: 'crew.member.disabled', role: 'admin', data: { userId: user.id, name: user.displayName, withdrawn } };
+      });
+    } catch (error) {
+      if (error instanceof NothingToWithdraw) continue;
+      context.logger.error({ err: error, jobId, userId: user.id }, 'could not withdraw a deactivated person’s hold acknowledgments');
+    }
+  }
+}
+
+/** A UUID-shaped id that is always the same for the same words (command ids are UUIDs of 36 characters). */
+function stableCommandId(words: string): string {
+  const hex = createHash('sha256').update(words).digest('hex');
+  // Version 8 (custom) and the RFC 4122 variant, so it reads as a well-formed UUID.
+  return `${hex.slice(0, 8)}-${hex.slice(8, 12)}-8${hex.slice(13, 16)}-${((parseInt(hex[16]!, 16) & 0x3) | 0x8).toString(16)}${hex.slice(17, 20)}-${hex.slice(20, 32)}`;
 }

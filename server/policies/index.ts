@@ -165,6 +165,13 @@ export const policyTable = [
     refusal: 'You are not in this job’s crew. Ask its supervisor to add you.',
   },
   {
+    // When the outgoing supervisor cannot be reached to hand over, an admin names the acting supervisor, with a reason.
+    action: 'jobs.acting.transfer',
+    allow: ['admin'],
+    routes: ['POST /api/jobs/:jobId/acting-supervisor'],
+    refusal: 'Only an administrator can make someone the acting supervisor. The usual way is the handover: the acting supervisor writes the note and the supervisor taking over acknowledges it.',
+  },
+  {
     // The job's supervisors ask for an override; another supervisor or an admin approves it.
     action: 'jobs.override',
     allow: ['admin', 'qualification:supervisor'],

@@ -1,7 +1,9 @@
 import { Router } from 'express';
 import { z } from 'zod';
+import { actingTransferSchema } from '../../shared/schemas/commands.js';
 import { configurationSchema } from '../../shared/schemas/configuration.js';
 import { createJobSchema, overrideActionSchema, setCrewSchema, updateJobSchema } from '../../shared/schemas/jobs.js';
+import { transferActingSupervisor } from '../commands/acting.js';
 import { approveOverride, createJob, requestOverride, setConfiguration, setCrew, updateJob } from '../commands/jobs.js';
 import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
@@ -63,6 +65,14 @@ export function jobsRouter(context: AppContext): Router {
     const configuration = parseOrThrow(configurationSchema, raw, 'configuration');
     await setConfiguration(context, actor, job.id, configuration, commandIdOf(req));
     res.json({ job: await answerJob(job.id, actor) });
+  });
+
+  // An administrator names the acting supervisor when the outgoing one cannot hand over.
+  router.post('/jobs/:jobId/acting-supervisor', async (req, res) => {
+    const { job, actor } = await loadJobFor(context, req, 'jobs.acting.transfer');
+    const body = parseOrThrow(actingTransferSchema, req.body, 'transfer');
+    const { event } = await transferActingSupervisor(context, actor, job.id, body, commandIdOf(req));
+    res.json({ seq: event.seq, job: await answerJob(job.id, actor) });
   });
 
   router.post('/jobs/:jobId/overrides', async (req, res) => {
