@@ -39,14 +39,20 @@ export function nextStep(stage: BoardStage | null): NextStep {
 }
 
 /** The overall state of the board the cab and the TV show, in three words a crew uses. */
-export type BoardStatus = 'stopped' | 'holding' | 'open' | 'not-started' | 'finished';
+export type BoardStatus = 'stopped' | 'made-safe' | 'making-safe' | 'holding' | 'open' | 'not-started' | 'finished';
 
-/** Stopped wins over everything; a stage at its hold point makes the board holding; otherwise open. */
-export function boardStatus(board: Pick<BoardState, 'job' | 'stages'>): BoardStatus {
+/**
+ * Stopped wins over everything; then a job made safe (no work until the next shift starts) and a
+ * shift ending (the make-safe checklist, no work); a stage at its hold point makes the board
+ * holding; otherwise open. A board that is not working never reads "open".
+ */
+export function boardStatus(board: Pick<BoardState, 'job' | 'stages' | 'shift'>): BoardStatus {
   const state = board.job.state;
   if (state === 'stopped') return 'stopped';
+  if (state === 'made_safe') return 'made-safe';
   if (state === 'planning' || state === 'ready') return 'not-started';
   if (state === 'complete' || state === 'cancelled') return 'finished';
+  if (board.shift?.phase === 'making_safe') return 'making-safe';
   return board.stages.some((s) => s.state === 'holding') ? 'holding' : 'open';
 }
 

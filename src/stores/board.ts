@@ -3,7 +3,8 @@ import { computed, ref, shallowRef } from 'vue';
 import { BoardFollower } from '../../shared/board/follower';
 import type { BoardSnapshot, BoardState } from '../../shared/board/types';
 import type { CommandAnswer } from '../../shared/events/socket';
-import { commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
+import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
+import { isActingSupervisor, isBriefed, shiftOf } from '../../shared/board/shifts';
 import type { CrewRole } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
 import { fetchEventsAfter } from '../services/events';
@@ -64,16 +65,27 @@ export const useBoardStore = defineStore('board', () => {
   const detach: (() => void)[] = [];
 
   const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === session.user?.id).map((c) => c.role));
-  const briefed = computed(() => !!board.value && board.value.briefed.some((b) => b.userId === session.user?.id && b.planVersion === board.value!.planVersion));
+  /** Briefed for the plan version in force and the shift (while made safe: the next shift), by the shared rule. */
+  const briefed = computed(() => !!board.value && !!session.user && isBriefed(board.value, session.user.id));
   const stopped = computed(() => board.value?.job.state === 'stopped');
+  /** The site's IANA time zone every time on the board is shown in (a board from before zones: the server's). */
+  const siteTimeZone = computed(() => board.value?.job.timeZone ?? session.serverTimeZone);
+  /** This person is the job's acting supervisor: the one who releases holds, ends and starts shifts. */
+  const isActing = computed(() => !!board.value && !!session.user && myRoles.value.includes('supervisor') && isActingSupervisor(board.value, session.user.id));
 
   /**
    * Why a command cannot be sent now, in words to show beside its control, or '' when it can: the
-   * board is not live, or the job is stopped and the server accepts only the stop's own commands.
+   * board is not live; the job is stopped, ending its shift or made safe and the server accepts
+   * only that state's commands (shared/schemas/commands.ts); or a crew member has not acknowledged
+   * the briefing for this plan version and shift.
    */
   function blockReason(type: BoardCommand['type']): string {
     if (!live.value) return BLOCKED_WORDS.notLive;
+    const b = board.value;
     if (stopped.value && !commandsWhileStopped.has(type)) return BLOCKED_WORDS.stopped;
+    if (b?.job.state === 'made_safe' && !commandsWhileMadeSafe.has(type)) return BLOCKED_WORDS.madeSafe;
+    if (b && shiftOf(b).phase === 'making_safe' && !commandsWhileMakingSafe.has(type)) return BLOCKED_WORDS.makingSafe;
+    if (b && myRoles.value.some((r) => r !== 'viewer') && !briefed.value && !commandsBeforeBriefing.has(type)) return BLOCKED_WORDS.notBriefed;
     return '';
   }
 
@@ -211,7 +223,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
+  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, siteTimeZone, isActing, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

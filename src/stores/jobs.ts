@@ -1,13 +1,14 @@
 import { defineStore } from 'pinia';
 import { useLoadTracker } from '../composables/useLoadTracker';
 import { reactive, ref } from 'vue';
-import type { z } from 'zod';
+import { z } from 'zod';
 import { configurationSchema, type Configuration, type Figure } from '../../shared/schemas/configuration';
 import { fieldsFromZod, type FieldError } from '../../shared/schemas/errors';
 import { createJobSchema, jobEnvelopeSchema, jobListSchema, overrideActionSchema, readinessSchema, setCrewSchema, updateJobSchema, verifySchema, type CrewRole, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs';
 import type { JobEventDto, JobEventType } from '../../shared/events/log';
 import type { BoardState } from '../../shared/board/types';
 import { crewCandidateListSchema, type CrewCandidate } from '../../shared/schemas/users';
+import { actingTransferSchema } from '../../shared/schemas/commands';
 import { api, ApiRequestError, describeError, download, fileNamePart } from '../services/api';
 import { FOLLOW_LIMIT, type JobSummaryUpdate } from '../../shared/events/socket';
 import { connectSocket } from '../services/socket';
@@ -16,6 +17,8 @@ import { useBoardStore } from './board';
 import { useSessionStore } from './session';
 import { createBurstRunner } from './bursts';
 import { fieldErrorOf, fieldErrorsFrom, type FieldErrors } from './form-errors';
+/** The one field of a board snapshot the job page reads: who the acting supervisor is. */
+const actingOfBoardSchema = z.object({ actingSupervisor: z.object({ userId: z.string(), name: z.string(), since: z.string() }).nullable().optional() });
 
 /** One figure that reads differently on this device and on the server. */
 export interface FigureDifference {
@@ -43,7 +46,7 @@ export function figureDifferences(local: readonly Figure[], server: readonly Fig
 }
 
 /** The forms of the jobs screens; each keeps its own saving state and field errors. */
-export type JobForm = 'create' | 'details' | 'distribution' | 'crew' | 'comms' | 'configuration' | 'override';
+export type JobForm = 'create' | 'details' | 'distribution' | 'crew' | 'comms' | 'configuration' | 'override' | 'acting';
 
 interface FormState {
   saving: boolean;
@@ -101,7 +104,15 @@ export const useJobsStore = defineStore('jobs', () => {
     comms: { saving: false, problem: '', fieldErrors: {} },
     configuration: { saving: false, problem: '', fieldErrors: {} },
     override: { saving: false, problem: '', fieldErrors: {} },
+    acting: { saving: false, problem: '', fieldErrors: {} },
   });
+  /** Each job's acting supervisor as its board says (null: nobody named yet), for the administrator's transfer. */
+  const acting = reactive<Record<string, { userId: string; name: string; since: string } | null>>({});
+
+  /** The site time zone a job's times are shown in (services/time.ts); the server's until the job is known. */
+  function timeZoneOf(jobId: string): string {
+    return details[jobId]?.timeZone ?? items.value.find((s) => s.id === jobId)?.timeZone ?? useSessionStore().serverTimeZone;
+  }
 
   function resetForm(form: JobForm) {
     forms[form] = { saving: false, problem: '', fieldErrors: {} };
@@ -171,7 +182,7 @@ export const useJobsStore = defineStore('jobs', () => {
    * reached it, so a page left open never shows an old state.
    */
   function applySummary(u: JobSummaryUpdate) {
-    const line = { name: u.name, site: u.site, state: u.state, planVersion: u.planVersion, updatedAt: u.updatedAt };
+    const line = { name: u.name, site: u.site, state: u.state, timeZone: u.timeZone, planVersion: u.planVersion, updatedAt: u.updatedAt };
     if (items.value.some((s) => s.id === u.jobId)) items.value = items.value.map((s) => (s.id === u.jobId ? { ...s, ...line } : s));
     const held = details[u.jobId];
     if (held && u.lastSeq > held.lastSeq) {
@@ -243,6 +254,30 @@ export const useJobsStore = defineStore('jobs', () => {
       const query = expect ? `?expect=${encodeURIComponent(expect)}` : '';
       verification[jobId] = await api(`/jobs/${id(jobId)}/record/verify${query}`, { schema: verifySchema });
       return verification[jobId];
+    });
+  }
+
+  /** The acting supervisor from the job's board snapshot (a job with no board yet has none). */
+  function loadActing(jobId: string) {
+    return track(`acting:${jobId}`, async () => {
+      const board = (await api(`/jobs/${id(jobId)}/board`, { schema: actingOfBoardSchema })).actingSupervisor ?? null;
+      acting[jobId] = board;
+      return board;
+    });
+  }
+
+  /** An administrator makes another supervisor of the crew the acting supervisor, with a reason (the outgoing one cannot hand over). */
+  async function transferActing(jobId: string, userId: string, reason: string): Promise<JobDto | null> {
+    const parsed = actingTransferSchema.safeParse({ userId, reason });
+    if (!parsed.success) {
+      refuse('acting', fieldsFromZod(parsed.error), '');
+      return null;
+    }
+    return submit('acting', async () => {
+      const job = accept((await api(`/jobs/${id(jobId)}/acting-supervisor`, { method: 'POST', body: parsed.data, schema: jobEnvelopeSchema })).job);
+      void loadActing(jobId);
+      followUp(jobId);
+      return job;
     });
   }
 
@@ -370,6 +405,7 @@ export const useJobsStore = defineStore('jobs', () => {
     forms,
     isLoading,
     problemOf,
+    timeZoneOf,
     resetForm,
     errorOf,
     loadList,
@@ -381,6 +417,9 @@ export const useJobsStore = defineStore('jobs', () => {
     createJob,
     updateJob,
     setCrew,
+    acting,
+    loadActing,
+    transferActing,
     saveConfiguration,
     requestOverride,
     approveOverride,

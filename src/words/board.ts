@@ -1,5 +1,6 @@
 import type { BoardState, HoldState, StageState } from '../../shared/board/types';
 import { valueCheckFieldLabels, type ValueCheckField } from '../../shared/schemas/plan';
+import { jobStateLabels } from '../../shared/schemas/jobs';
 import type { BoardStatus } from '../../shared/board/status';
 import type { BoardView } from '../components/board/views';
 import type { Tone } from './common';
@@ -43,6 +44,8 @@ export const holdStateWords: Record<HoldState, StateWords> = {
  */
 export const boardStatusWords: Record<BoardStatus, StateWords & { shape: 'octagon' | 'triangle' | 'circle' | 'square'; detail: string }> = {
   stopped: { label: 'STOPPED', icon: 'pan_tool', tone: 'stop', shape: 'octagon', detail: 'All stop recorded. Nothing moves until the supervisor resumes.' },
+  'made-safe': { label: 'MADE SAFE', icon: 'nightlight', tone: 'hold', shape: 'square', detail: 'The shift has ended and the crane is made safe. No work until the next shift is started.' },
+  'making-safe': { label: 'Making safe', icon: 'nightlight', tone: 'hold', shape: 'triangle', detail: 'Shift ending: making safe. No work.' },
   holding: { label: 'Holding', icon: 'pause_circle', tone: 'hold', shape: 'triangle', detail: 'A hold point is open.' },
   open: { label: 'Board open', icon: 'construction', tone: 'info', shape: 'circle', detail: 'Work in progress on the plan.' },
   'not-started': { label: 'Not started', icon: 'flag', tone: 'plain', shape: 'square', detail: 'The job has not started on the board.' },
@@ -102,6 +105,9 @@ export function closedHeadline(board: BoardState, when: (iso: string) => string)
 export const BLOCKED_WORDS = {
   notLive: 'The board is not live: wait for it to reconnect.',
   stopped: 'Job stopped: wait for the supervisor’s resume.',
+  makingSafe: 'Shift ending: making safe. No work until the next shift is started.',
+  madeSafe: 'Made safe: no work until the acting supervisor starts the next shift.',
+  notBriefed: 'Acknowledge the briefing for this shift first (at the top of this screen).',
 } as const;
 
 /** The same rule in one line, for the fixed bar on a phone (the full rule is read out to screen readers). */
@@ -123,8 +129,12 @@ export function describeChange(before: BoardState | null, after: BoardState | nu
   if (before.job.state !== after.job.state) {
     if (after.job.state === 'stopped') parts.push(`Job stopped on the board by ${after.job.stop?.raisedBy.name ?? 'a crew member'}.`);
     else if (before.job.state === 'stopped' && after.job.state === 'live') parts.push('Stop cleared on the board by the supervisor.');
-    else parts.push(`Job now ${after.job.state}.`);
+    else if (after.job.state === 'made_safe') parts.push(`Job made safe on the board: shift ${after.shift?.number ?? 1} has ended.`);
+    else if (before.job.state === 'made_safe' && after.job.state === 'live') parts.push(`Shift ${after.shift?.number ?? 1} started on the board.`);
+    else parts.push(`Job now ${jobStateLabels[after.job.state].toLowerCase()}.`);
   }
+  if (before.shift?.phase !== 'making_safe' && after.shift?.phase === 'making_safe') parts.push('Shift ending on the board: making safe, no work.');
+  if (before.actingSupervisor?.userId !== after.actingSupervisor?.userId && after.actingSupervisor && before.actingSupervisor) parts.push(`${after.actingSupervisor.name} is now the acting supervisor.`);
   const old = new Map(before.stages.map((s) => [s.id, s]));
   for (const stage of after.stages) {
     const prev = old.get(stage.id);

@@ -26,7 +26,7 @@ export function viewsForRoles(roles: readonly CrewRole[]): BoardView[] {
 }
 
 /** Jobs whose live board is worth opening straight away; the others open on the planning page. */
-const boardStates: ReadonlySet<JobState> = new Set(['ready', 'live', 'stopped']);
+const boardStates: ReadonlySet<JobState> = new Set(['ready', 'live', 'stopped', 'made_safe']);
 
 /** Where opening a job from the list takes a person: their board view, or the planning page. */
 export function openJobTarget(job: { id: string; state: JobState; myRoles: readonly CrewRole[] }): { name: string; params: { id: string } } {

@@ -54,6 +54,14 @@ describe('the cab’s stage and next step', () => {
     expect(boardStatus(board(stages, 'complete'))).toBe('finished');
   });
 
+  it('never reads a board that is ending its shift or made safe as open or holding', () => {
+    const makingSafe = { ...board(stages), shift: { number: 1, phase: 'making_safe' as const, startedAt: null, makeSafe: null, start: null } };
+    expect(boardStatus(makingSafe)).toBe('making-safe');
+    // A stop pressed while making safe still says stopped first.
+    expect(boardStatus({ ...makingSafe, job: { ...makingSafe.job, state: 'stopped' } })).toBe('stopped');
+    expect(boardStatus(board(stages, 'made_safe'))).toBe('made-safe');
+  });
+
   it('reminds of the radio check where the plan has one or the crane moves', () => {
     expect(radioCheckOf(stage('s', 1, { steps: [step('s.radio-check', { state: 'done' })] }))).toEqual({ done: true });
     expect(radioCheckOf(stage('s', 1, { steps: [step('s.radio-check')] }))).toEqual({ done: false });

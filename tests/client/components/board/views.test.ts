@@ -22,8 +22,10 @@ describe('which view a person lands on', () => {
     expect(viewsForRoles(['signaller', 'rigger'])).toEqual(['board', 'signaller', 'rigger', 'display']);
   });
 
-  it('opens ready, live and stopped jobs on the board and the rest on the planning page', () => {
+  it('opens ready, live, stopped and made-safe jobs on the board and the rest on the planning page', () => {
     expect(openJobTarget({ id: 'j', state: 'live', myRoles: ['operator'] })).toEqual({ name: 'cab', params: { id: 'j' } });
+    // A made-safe job waits for its start-of-shift hold, which lives on the board.
+    expect(openJobTarget({ id: 'j', state: 'made_safe', myRoles: ['operator'] })).toEqual({ name: 'cab', params: { id: 'j' } });
     expect(openJobTarget({ id: 'j', state: 'stopped', myRoles: ['rigger'] })).toEqual({ name: 'rigger', params: { id: 'j' } });
     expect(openJobTarget({ id: 'j', state: 'ready', myRoles: [] })).toEqual({ name: 'board', params: { id: 'j' } });
     expect(openJobTarget({ id: 'j', state: 'planning', myRoles: ['supervisor'] })).toEqual({ name: 'job', params: { id: 'j' } });
