@@ -18,7 +18,8 @@ type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K>
 /**
  * Works a demo job's board forward with the same commands a crew sends, so its log is genuine:
  * each step by someone allowed to, with the photo or serial it asks for; each hold acknowledged by
- * different people and released by the supervisor.
+ * different people and released by the supervisor (`crew.supervisor`: the acting supervisor, so a
+ * job over two shifts uses one driver per shift).
  */
 export class DemoBoardDriver {
   private freshWeather: { who: User; reading: { meanMs: number; gustMs: number; heightM: number } } | null = null;
@@ -72,8 +73,8 @@ export class DemoBoardDriver {
     return (await storeUpload(this.context, who, { buffer: await demoPhoto(caption, 'weld') })).id;
   }
 
-  /** Completes the open steps of a stage. */
-  async completeSteps(stageId: string): Promise<void> {
+  /** Completes the open steps of a stage (only the first `count` of them, in order, when given). */
+  async completeSteps(stageId: string, count?: number): Promise<void> {
     const { board } = await this.board();
     const stage = board.stages.find((s) => s.id === stageId)!;
     // Steps in the order the plan asks for: a step waits for the steps it comes after.
@@ -86,7 +87,7 @@ export class DemoBoardDriver {
       ordered.push(next);
       done.add(next.id);
     }
-    for (const step of ordered) {
+    for (const step of ordered.slice(0, count ?? ordered.length)) {
       // Every step of a raise or lowering, and the start of a stage that moves the crane, needs a fresh reading.
       await this.weatherIfNeeded(stageId, false);
       const role = step.allowedRoles.find((r) => this.crew[r])!;
@@ -122,6 +123,45 @@ export class DemoBoardDriver {
     await this.weatherIfNeeded(stageId, true);
     const { board } = await this.board();
     await this.send(this.crew.supervisor!, { type: 'hold.release', holdId: board.stages.find((s) => s.id === stageId)!.hold!.id });
+  }
+
+  /**
+   * Ends the shift as the crew's (acting) supervisor and ticks the make-safe checklist: each item
+   * by the first of its roles the crew has, with the note `notes[itemId]` where the item asks for one.
+   */
+  async makeSafe(notes: Record<string, string>): Promise<void> {
+    await this.send(this.crew.supervisor!, { type: 'shift.end' });
+    const { board } = await this.board();
+    for (const item of board.shift!.makeSafe!.items) {
+      const role = item.roles.find((r) => this.crew[r]);
+      if (!role) throw new Error(`demo: nobody in the crew for make-safe item ${item.id}`);
+      if (item.asksNote && !notes[item.id]) throw new Error(`demo: make-safe item ${item.id} asks for a note`);
+      await this.send(this.crew[role]!, { type: 'shift.item.done', itemId: item.id, ...(item.asksNote ? { note: notes[item.id] } : {}) });
+    }
+  }
+
+  /**
+   * The start of the next shift on a made-safe job, with the crew's supervisor as the incoming
+   * acting supervisor: they acknowledge the handover note, everyone in `briefed` acknowledges the
+   * briefing for the new shift, the competent person records the shift inspection, the operator
+   * and the supervisor acknowledge the start-of-shift hold, `reader` records a fresh reading and
+   * the supervisor starts the shift.
+   */
+  async startShift(start: {
+    briefed: User[];
+    inspector: User;
+    inspectionNote: string;
+    reader: User;
+    reading: { meanMs: number; gustMs: number; heightM: number };
+  }): Promise<void> {
+    const supervisor = this.crew.supervisor!;
+    await this.send(supervisor, { type: 'handover.acknowledge' });
+    for (const who of start.briefed) await this.send(who, { type: 'briefing.acknowledge' });
+    await this.send(start.inspector, { type: 'shift.inspect', note: start.inspectionNote });
+    await this.send(this.crew.operator!, { type: 'shift.acknowledge', role: 'operator' });
+    await this.send(supervisor, { type: 'shift.acknowledge', role: 'supervisor' });
+    await this.send(start.reader, { type: 'weather.record', ...start.reading });
+    await this.send(supervisor, { type: 'shift.start' });
   }
 
   /** Works stages in plan order until `stopAt` is active or holding (or the board is finished). */

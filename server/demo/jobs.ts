@@ -115,11 +115,20 @@ function pastContext(context: AppContext, start: Date, stepMs: number): AppConte
   return { ...context, now: () => new Date((t += stepMs)) };
 }
 
+/** A history clock that can also jump forward (never back) to a later time: one job over two shifts. */
+function shiftClock(context: AppContext, start: Date, stepMs: number): { context: AppContext; jumpTo: (at: Date) => void } {
+  let t = start.getTime();
+  return { context: { ...context, now: () => new Date((t += stepMs)) }, jumpTo: (at) => void (t = Math.max(t, at.getTime())) };
+}
+
 /**
  * The invented jobs, all made by running the real commands:
  * - a 21 m trial erection on FL-12 at the depot, signed off and complete three days ago;
  * - the 60 m erection on FL-07 for the transformer lift, live, at the guy-line tensioning hold,
  *   acknowledged by the operator and waiting for the signaller;
+ * - a 21 m erection on FL-12 at a pumping station over two shifts: begun yesterday morning by Rhys
+ *   Calloway, made safe at the end of the day with the boom assembled on blocking, handed over to
+ *   Marta Lindqvist, and live again in its second shift this morning;
  * - the dismantling of FL-07 after the lift, being planned.
  */
 export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: DemoFleet): Promise<void> {
@@ -159,6 +168,8 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   // Through to the post-assembly inspection, signed off by the rigger qualified to inspect: its release completes the job.
   await trialDriver.runUntil();
 
+  await seedTwoShiftJob(context, p, fleet);
+
   // The live erection for the transformer lift, started this morning.
   const morning = pastContext(context, new Date(context.now().getTime() - 4 * 3_600_000), 40_000);
   const lift = await createJob(morning, p.supervisor, { name: 'Transformer T2 lift: boom erection', site: 'Harrowmere substation', craneUnitId: fleet.unitId, kind: 'erection' });
@@ -183,4 +194,93 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   await setCrew(context, p.supervisor2, dismantle.job.id, crewOf(p));
   await updateJob(context, p.supervisor2, dismantle.job.id, { commsPlan: comms(p, 'Site channel 4') });
   await setConfiguration(context, p.supervisor2, dismantle.job.id, liftConfiguration(fleet));
+}
+
+/**
+ * An erection over two shifts on FL-12 (back from the depot trial): the first shift, yesterday,
+ * assembles the boom on the ground and ends with the make-safe checklist and a handover note to
+ * Marta Lindqvist; this morning she acknowledges it, the crew is briefed for shift 2, Priya Raman
+ * (qualified to inspect) records the shift inspection, the operator and Marta acknowledge the
+ * start-of-shift hold, the signaller reads the wind and Marta starts the shift; the guy lines are
+ * being laid out now. Every command is the crew's own, so the handover and the made-safe record
+ * are genuine events in the log.
+ */
+async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFleet): Promise<void> {
+  const now = context.now().getTime();
+  const hour = 3_600_000;
+  const clock = shiftClock(context, new Date(now - 26 * hour), 45_000);
+  const at = clock.context;
+  const job = await createJob(at, p.supervisor, {
+    name: 'Pump house roof lift: boom erection',
+    site: 'Ashcombe Reach pumping station',
+    craneUnitId: fleet.secondUnitId,
+    kind: 'erection',
+    timeZone: 'Europe/London',
+  });
+  const jobId = job.job.id;
+  const crew = crewOf(p).filter((m) => m.userId !== p.viewer.id);
+  await setCrew(at, p.supervisor, jobId, crew);
+  const siteComms = comms(p, 'Site channel 1');
+  await updateJob(at, p.supervisor, jobId, {
+    commsPlan: { ...siteComms, motionSignallers: siteComms.motionSignallers.filter((m) => m.motion !== 'assist crane') },
+    distribution: ['records@fenwold-lifting.test', 'works.office@ashcombe-water.test'],
+  });
+  await setConfiguration(at, p.supervisor, jobId, {
+    ...liftConfiguration(fleet),
+    craneUnitId: fleet.secondUnitId,
+    boomLengthM: 21,
+    mainHook: { hookBlockId: 'HB45', parts: 4, lowestHookPositionM: 0 },
+    heaviestLoad: { description: 'Roof truss pair on its spreader frame (9.5 t)', loadT: 9.5, riggingT: 0.8, radiusM: 10 },
+    ground: ground(250, 'Ashcombe Reach hardstanding design note HS-3'),
+    mats: { ...liftConfiguration(fleet).mats, used: false },
+    assist: { ...liftConfiguration(fleet).assist, assistCraneId: null, chartId: null, lifts: [] },
+    siteHazards: {
+      ...liftConfiguration(fleet).siteHazards,
+      powerLines: [],
+      buriedServices: 'Rising main under the access road: the crane tracks stay on the hardstanding, never on the road.',
+      neighbours: 'Settling tanks 25 m south: handrails and the walkway closed while the boom is raised.',
+    },
+  });
+  await makeReady(at, p.supervisor, jobId);
+  const people = [p.supervisor, p.supervisor2, p.operator, p.signaller, p.rigger, p.rigger2];
+
+  // Shift 1, yesterday: Rhys Calloway is the acting supervisor (he starts the job).
+  const first = new DemoBoardDriver(at, jobId, { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger });
+  await first.send(p.supervisor, { type: 'job.start' });
+  for (const who of people) await first.send(who, { type: 'briefing.acknowledge' });
+  await first.send(p.signaller, { type: 'weather.record', meanMs: 3.8, gustMs: 6.5, heightM: 10 });
+  // The boom assembled on the ground, joint by joint; the guy lines wait for the morning.
+  await first.runUntil('er-guy-layout');
+  // The end of the day: made safe, then the handover note to the morning's supervisor.
+  clock.jumpTo(new Date(now - 17 * hour));
+  await first.makeSafe({
+    keyHeld: 'In the key safe of the site cabin; Marta Lindqvist has the code.',
+    forecast: 'Overnight: mean 6 m/s, gusts to 11 m/s from the south-west after midnight, easing by morning. Rain; no frost.',
+  });
+  await first.send(p.supervisor, {
+    type: 'handover.write',
+    toUserId: p.supervisor2.id,
+    hazards:
+      'Boom assembled on blocking across the laydown, tip to the south: nobody walks under it or steps over the pendant ends. ' +
+      'Hardstanding by the east blocking went soft in the afternoon rain; keep the telehandler off it. ' +
+      'Gusts forecast overnight: read the wind before anything moves.',
+    note:
+      'Every joint pinned and counted, retainers fitted. The guy lines are still coiled on the trailer, GT pair on the north side. ' +
+      'Start with the guy-line layout.',
+  });
+
+  // Shift 2, this morning: Marta Lindqvist takes over and starts the shift.
+  clock.jumpTo(new Date(now - 2 * hour));
+  const second = new DemoBoardDriver(at, jobId, { supervisor: p.supervisor2, operator: p.operator, signaller: p.signaller, rigger: p.rigger });
+  await second.startShift({
+    briefed: people,
+    inspector: p.rigger2,
+    inspectionNote:
+      'Walked round the boom, the blocking and the crawlers before work: no section moved, every pin and retainer in place, ' +
+      'tracks level on the hardstanding after the rain, key in the cabin safe. Fit to continue.',
+    reader: p.signaller,
+    reading: { meanMs: 4.1, gustMs: 6.9, heightM: 10 },
+  });
+  // A little work in shift 2: the guy lines are being laid out.
+  await second.completeSteps('er-guy-layout', 1);
 }

@@ -65,13 +65,14 @@ describe('records', () => {
   });
 
   it('on a desktop: every job with its chain in words, the final hash in full on tap, site and date filters, a download and a failed one', async () => {
-    expect(rows).toHaveLength(3);
+    // The demo's four jobs: the trial, the two-shift erection, the live erection and the dismantling.
+    expect(rows).toHaveLength(4);
     const page = await open('/records', viewports.desktop);
     const table = page.locator('.records-table');
-    await expect.poll(() => table.locator('tbody tr').count(), { timeout: 15_000 }).toBe(3);
-    expect(await table.getByText('Chain verified', { exact: true }).count()).toBe(3);
+    await expect.poll(() => table.locator('tbody tr').count(), { timeout: 15_000 }).toBe(4);
+    expect(await table.getByText('Chain verified', { exact: true }).count()).toBe(4);
     // Never colour alone: each chain badge carries its icon.
-    expect(await table.locator('.chain-status .q-icon').count()).toBe(3);
+    expect(await table.locator('.chain-status .q-icon').count()).toBe(4);
     await screenshot(page, 'records-desktop');
     expect(await axeProblems(page)).toEqual([]);
 
@@ -106,14 +107,15 @@ describe('records', () => {
     await page.getByLabel('Site contains').fill('nowhere at all');
     await page.getByText('No job matches these filters').waitFor();
     await page.getByRole('button', { name: 'Clear filters' }).click();
-    await expect.poll(() => table.locator('tbody tr').count()).toBe(3);
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(4);
 
     // Dates by when a job ended: only the finished trial has ended.
     await page.getByLabel('Dates by').click();
     await page.getByRole('option', { name: 'Completed or cancelled' }).click();
     await expect.poll(() => table.locator('tbody tr').count()).toBe(1);
     expect(await table.locator('tbody tr').innerText()).toContain(PAST_JOB);
-    // From today on this device's calendar, by last change: the two jobs the demo drives today, not the trial that ended days before.
+    // From today on this device's calendar, by last change: the jobs the demo drives today (the two-shift job's last
+    // change, two hours ago, counts only when that was still today), not the trial that ended days before.
     await page.getByLabel('Dates by').click();
     await page.getByRole('option', { name: 'Last change' }).click();
     const today = await page.evaluate(() => {
@@ -121,17 +123,18 @@ describe('records', () => {
       return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
     });
     await page.getByLabel('From').fill(today);
-    await expect.poll(() => table.locator('tbody tr').count()).toBe(rows.filter((r) => r.name !== PAST_JOB).length);
+    const midnight = new Date(`${today}T00:00`).getTime();
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(rows.filter((r) => Date.parse(r.updatedAt) >= midnight).length);
     expect(await table.innerText()).not.toContain(PAST_JOB);
     await page.getByRole('button', { name: 'Clear filters' }).click();
-    await expect.poll(() => table.locator('tbody tr').count()).toBe(3);
+    await expect.poll(() => table.locator('tbody tr').count()).toBe(4);
   });
 
   it('on a phone: cards with the chain, the hash and the downloads in reach, nothing wider than the screen', async () => {
     const page = await open('/records', viewports.phone);
     const cards = page.locator('.record-card');
-    await expect.poll(() => cards.count(), { timeout: 15_000 }).toBe(3);
-    expect(await page.getByText('Chain verified', { exact: true }).count()).toBe(3);
+    await expect.poll(() => cards.count(), { timeout: 15_000 }).toBe(4);
+    expect(await page.getByText('Chain verified', { exact: true }).count()).toBe(4);
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     // The first record is in view without scrolling past the filters, which open on a tap.
     expect((await cards.first().boundingBox())!.y).toBeLessThan(viewports.phone.height - 200);

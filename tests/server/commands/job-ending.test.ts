@@ -2,6 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { craneUnitSchema } from '../../../shared/schemas/fleet.js';
 import type { BoardState } from '../../../shared/board/types.js';
+import type { JobEventDto } from '../../../shared/events/log.js';
 import { jobEnvelopeSchema, jobListSchema } from '../../../shared/schemas/jobs.js';
 import type { Plan } from '../../../shared/schemas/plan.js';
 import { userSchema } from '../../../shared/schemas/users.js';
@@ -314,5 +315,48 @@ describe('the demo on first start', () => {
     expect(unit.asBuilt).toMatchObject({ jobId: trial!.id, kind: 'erection', boomLengthM: 21 });
     expect(unit.asBuilt!.serials.length).toBeGreaterThan(0);
     expect(Object.keys(unit.asBuilt!.controllerValues).length).toBeGreaterThan(0);
+  });
+
+  it('seeds a job over two shifts: made safe yesterday, handed over to Marta Lindqvist, live in shift 2', async () => {
+    const login = await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200);
+    const headers = { Authorization: `Bearer ${login.body.token as string}` };
+    const jobs = jobListSchema.parse((await request(server.app).get('/api/jobs').set(headers).expect(200)).body).items;
+    const job = jobs.find((j) => j.name === 'Pump house roof lift: boom erection')!;
+    expect(job).toMatchObject({ state: 'live', timeZone: 'Europe/London' });
+    const board = (await request(server.app).get(`/api/jobs/${job.id}/board`).set(headers).expect(200)).body as BoardState;
+    expect(board.shift).toMatchObject({ number: 2, phase: 'working' });
+    expect(board.actingSupervisor?.name).toBe('Marta Lindqvist');
+    expect(board.handovers).toHaveLength(1);
+    expect(board.handovers![0]).toMatchObject({ shift: 1, from: { name: 'Rhys Calloway' }, to: { name: 'Marta Lindqvist' }, acknowledgedBy: { name: 'Marta Lindqvist' } });
+    expect(board.handovers![0].done.length).toBeGreaterThan(0);
+    // Some work in shift 2, so the board is live rather than just restarted.
+    expect(board.stages.find((s) => s.id === 'er-guy-layout')!.steps.some((s) => s.state === 'done')).toBe(true);
+
+    // The log tells the two shifts in order, every time in the past and none going back.
+    const events: JobEventDto[] = [];
+    for (let after = 0; ; ) {
+      const page = (await request(server.app).get(`/api/jobs/${job.id}/events?after=${after}`).set(headers).expect(200)).body as { items: JobEventDto[]; lastSeq: number };
+      events.push(...page.items);
+      if (!page.items.length || page.items.at(-1)!.seq >= page.lastSeq) break;
+      after = page.items.at(-1)!.seq;
+    }
+    const times = events.map((e) => Date.parse(e.at));
+    expect(times.every((t, i) => i === 0 || t >= times[i - 1])).toBe(true);
+    expect(times.at(-1)!).toBeLessThanOrEqual(Date.now());
+    const first = (type: JobEventDto['type']) => events.find((e) => e.type === type)!;
+    const ending = first('shift.ending');
+    if (ending.type !== 'shift.ending') throw new Error('no shift.ending');
+    const ticked = events.filter((e) => e.type === 'shift.item.done');
+    // Every item of the checklist ticked once, by someone holding one of the item's roles.
+    expect(ticked.map((e) => (e.type === 'shift.item.done' ? e.data.itemId : '')).sort()).toEqual(ending.data.items.map((i) => i.id).sort());
+    for (const e of ticked) if (e.type === 'shift.item.done') expect(ending.data.items.find((i) => i.id === e.data.itemId)!.roles).toContain(e.by.role);
+    expect(ticked.at(-1)!.type === 'shift.item.done' && ticked.at(-1)!.data.madeSafe).toBe(true);
+    expect(first('shift.inspected').by.name).toBe('Priya Raman');
+    expect(first('shift.started').by.name).toBe('Marta Lindqvist');
+    // Made safe in the evening and started again the next morning: a night in between.
+    expect(Date.parse(first('shift.started').at) - Date.parse(ticked.at(-1)!.at)).toBeGreaterThan(8 * 3_600_000);
+    expect(events.map((e) => e.type).indexOf('shift.started')).toBeGreaterThan(events.map((e) => e.type).indexOf('handover.acknowledged'));
+    const verify = (await request(server.app).get(`/api/jobs/${job.id}/record/verify`).set(headers).expect(200)).body as { valid: boolean };
+    expect(verify.valid).toBe(true);
   });
 });

@@ -72,7 +72,8 @@ beforeAll(async () => {
   signaller = await signIn('signaller@holdline.test');
   const list = (await request(server.app).get('/api/jobs').set('Authorization', `Bearer ${supervisor}`).expect(200)).body.items as JobSummary[];
   complete = await jobOf(list.find((j) => j.state === 'complete')!.id);
-  live = await jobOf(list.find((j) => j.state === 'live')!.id);
+  // The demo's live erection at the guy-line hold (the demo's two-shift job is live too).
+  live = await jobOf(list.find((j) => j.name === 'Transformer T2 lift: boom erection')!.id);
 }, 120_000);
 
 afterAll(async () => {
@@ -92,9 +93,9 @@ describe('the record PDF', { timeout: 120_000 }, () => {
     expect(acks.length).toBeGreaterThan(3);
     for (const ack of acks) {
       // A row of the hold's table: what, name, role, time, in writing order.
-      expect(text).toContain(`Acknowledged ${ack.by.name} ${ack.data.role === 'operator' ? 'Operator' : ack.data.role[0].toUpperCase() + ack.data.role.slice(1)} ${recordTime(ack.at)}`);
+      expect(text).toContain(`Acknowledged ${ack.by.name} ${ack.data.role === 'operator' ? 'Operator' : ack.data.role[0].toUpperCase() + ack.data.role.slice(1)} ${recordTime(ack.at, complete.timeZone)}`);
     }
-    for (const release of releases) expect(text).toContain(`RELEASED ${release.by.name} Supervisor ${recordTime(release.at)}`);
+    for (const release of releases) expect(text).toContain(`RELEASED ${release.by.name} Supervisor ${recordTime(release.at, complete.timeZone)}`);
     const plan = (await request(server.app).get(`/api/jobs/${complete.id}/plan`).set('Authorization', `Bearer ${supervisor}`).expect(200)).body.plan as { stages: { hold: { title: string; signOff?: boolean } | null }[] };
     const holds = plan.stages.flatMap((s) => (s.hold ? [s.hold] : []));
     // pdfkit wraps after a hyphen ("Post- assembly" once the line ends are collapsed).

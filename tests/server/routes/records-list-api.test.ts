@@ -62,7 +62,8 @@ describe('GET /api/records: the Records screen’s list', () => {
 
   it('a supervisor sees every job, newest first, each with its chain verified and its final hash', async () => {
     const { rows, total } = await allRows(tokens.supervisor);
-    expect(total).toBe(6);
+    // The demo's four jobs and the three made here.
+    expect(total).toBe(7);
     expect(rows.map((r) => r.id).slice(0, 3)).toEqual(extraJobs.map((j) => j.id).reverse());
     const updated = rows.map((r) => r.updatedAt);
     expect(updated).toEqual([...updated].sort().reverse());
@@ -79,10 +80,10 @@ describe('GET /api/records: the Records screen’s list', () => {
   it('pages are disjoint, cover every job, and the page size is capped at 100', async () => {
     const first = await list(tokens.admin, { page: 1, pageSize: 4 });
     const second = await list(tokens.admin, { page: 2, pageSize: 4 });
-    expect(first).toMatchObject({ total: 6, page: 1, pageSize: 4 });
+    expect(first).toMatchObject({ total: 7, page: 1, pageSize: 4 });
     expect(first.items).toHaveLength(4);
-    expect(second.items).toHaveLength(2);
-    expect(new Set([...first.items, ...second.items].map((r) => r.id)).size).toBe(6);
+    expect(second.items).toHaveLength(3);
+    expect(new Set([...first.items, ...second.items].map((r) => r.id)).size).toBe(7);
     expect((await list(tokens.admin, { page: 3, pageSize: 4 })).items).toEqual([]);
     const refused = await request(server.app).get('/api/records').query({ pageSize: 101 }).set('Authorization', `Bearer ${tokens.admin}`).expect(400);
     expect(refused.body.error.code).toBe('validation');
@@ -134,7 +135,7 @@ describe('GET /api/records: the Records screen’s list', () => {
     expect(backwards.body.error.fields.map((f: { path: string }) => f.path)).toContain('to');
     await request(server.app).get('/api/records').query({ state: 'finished' }).set('Authorization', `Bearer ${tokens.supervisor}`).expect(400);
     // Empty filter fields (as a form sends them) mean no filter.
-    expect((await list(tokens.supervisor, { state: '', site: '', craneUnitId: '' })).total).toBe(6);
+    expect((await list(tokens.supervisor, { state: '', site: '', craneUnitId: '' })).total).toBe(7);
   });
 
   it('a stored event changed behind the server shows as a broken chain at that event, on that row only', async () => {
