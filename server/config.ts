@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
+import { isTimeZone, tidyTimeZone } from '../shared/time.js';
 
 /** The server's settings, read from the environment once at start. */
 export const configSchema = z.object({
@@ -11,6 +12,12 @@ export const configSchema = z.object({
   HOLDLINE_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
   SMTP_URL: z.url().refine((u) => /^smtps?:/.test(u), 'must start with smtp:// or smtps://').optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  /** The zone a new job takes unless its site's is chosen, and the zone of times that belong to no job. */
+  HOLDLINE_TIME_ZONE: z
+    .string()
+    .refine(isTimeZone, 'must be an IANA time zone name this runtime knows, e.g. Europe/Warsaw or UTC')
+    .transform(tidyTimeZone)
+    .optional(),
 });
 
 export interface Config {
@@ -23,6 +30,8 @@ export interface Config {
   secret?: string;
   smtpUrl?: string;
   logLevel: string;
+  /** The server's IANA time zone: the default for a new job's site (HOLDLINE_TIME_ZONE, else the process's). */
+  timeZone: string;
   version: string;
 }
 
@@ -48,6 +57,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     secret: c.HOLDLINE_SECRET,
     smtpUrl: c.SMTP_URL,
     logLevel: c.LOG_LEVEL,
+    timeZone: c.HOLDLINE_TIME_ZONE ?? processTimeZone(),
     version: packageVersion(),
   };
 }
@@ -56,4 +66,19 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
 export function packageVersion(): string {
   const file = path.resolve(import.meta.dirname, '..', 'package.json');
   return (JSON.parse(readFileSync(file, 'utf8')) as { version: string }).version;
+}
+
+/**
+ * The server's zone as the environment sets it, for code that runs before the configuration is
+ * loaded (the migration that gives existing jobs a zone): a valid HOLDLINE_TIME_ZONE, else the process's.
+ */
+export function serverTimeZone(env: NodeJS.ProcessEnv = process.env): string {
+  const set = env.HOLDLINE_TIME_ZONE?.trim();
+  return set && isTimeZone(set) ? tidyTimeZone(set) : processTimeZone();
+}
+
+/** The zone the process runs in; UTC when the runtime cannot say. */
+export function processTimeZone(): string {
+  const zone = Intl.DateTimeFormat().resolvedOptions().timeZone;
+  return zone && isTimeZone(zone) ? zone : 'UTC';
 }

@@ -17,7 +17,7 @@ export interface Publisher {
   /** Tells every socket of a person why their session ended, then disconnects them. */
   endSessions(userId: string, reason: string): void;
   /** Broadcasts a committed job event to everyone on that job's board, and its list line to whoever follows the job. */
-  publishJobEvent(event: JobEventDto, job: Pick<Job, 'id' | 'name' | 'site' | 'state' | 'planVersion' | 'lastSeq' | 'updatedAt'>): void;
+  publishJobEvent(event: JobEventDto, job: Pick<Job, 'id' | 'name' | 'site' | 'state' | 'timeZone' | 'planVersion' | 'lastSeq' | 'updatedAt'>): void;
   /** Who is connected to a job's board now. */
   presenceOf(jobId: string): PresenceEntry[];
 }

@@ -20,7 +20,7 @@ const refreshRefused = () => new HttpError(401, 'session_ended', 'Your session h
 
 function sessionFor(context: AppContext, user: User, now: Date): SessionDto {
   const { token, expiresAt } = signAccessToken(user.id, context.secret, now);
-  return { token, expiresAt, user: presentUser(user) };
+  return { token, expiresAt, user: presentUser(user), timeZone: context.config.timeZone };
 }
 
 /** Checks a password and starts a session; a wrong e-mail and a wrong password look the same. */

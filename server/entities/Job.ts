@@ -28,6 +28,10 @@ export class Job {
   @Column('varchar', { length: 12 })
   state!: JobState;
 
+  /** The site's IANA time zone; every time about the job is shown in it with its UTC offset (shared/time.ts). */
+  @Column('varchar', { length: 64, name: 'time_zone', default: 'UTC' })
+  timeZone!: string;
+
   /**
    * Read through the shared schema so that a configuration saved before a field existed gains
    * that field's default; one that no longer parses is left as stored for the planner to refuse.

@@ -6,7 +6,7 @@ import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import type { QueuedMail } from './outbox.js';
-import { utcWords } from './templates.js';
+import { siteWords, zoneLine } from './templates.js';
 
 /**
  * The completion e-mails of a job: one to each address of its distribution list, with the
@@ -38,13 +38,13 @@ export async function completionMail(manager: EntityManager, publicUrl: string, 
     ? [
         'Final sign-off:',
         `  ${describeEvent(release, { names })}`,
-        `  Released by ${release.by.name} (${roleLabel(release.by.role).toLowerCase()}), ${utcWords(release.at)}`,
-        ...(hold?.acknowledgments ?? []).map((a) => `  Acknowledged by ${a.name} (${a.inspector ? 'qualified inspector' : roleLabel(a.role).toLowerCase()}), ${utcWords(a.at)}`),
+        `  Released by ${release.by.name} (${roleLabel(release.by.role).toLowerCase()}), ${siteWords(release.at, job.timeZone)}`,
+        ...(hold?.acknowledgments ?? []).map((a) => `  Acknowledged by ${a.name} (${a.inspector ? 'qualified inspector' : roleLabel(a.role).toLowerCase()}), ${siteWords(a.at, job.timeZone)}`),
       ]
     : ['No hold point was released before the job was completed.'];
   const fleet = job.board?.job.craneFleetNumber;
   const body = [
-    `The ${job.kind} job “${job.name}” at ${job.site}${fleet ? ` (crane ${fleet})` : ''} was completed ${utcWords(completed.at)} by ${completed.byName}.`,
+    `The ${job.kind} job “${job.name}” at ${job.site}${fleet ? ` (crane ${fleet})` : ''} was completed by ${completed.byName} on ${siteWords(completed.at, job.timeZone)}.`,
     '',
     ...signOff,
     '',
@@ -55,6 +55,8 @@ export async function completionMail(manager: EntityManager, publicUrl: string, 
     'it no longer leads to this hash, and checking it against the record shows the change.',
     '',
     `The job in Holdline: ${publicUrl}/jobs/${job.id}`,
+    '',
+    zoneLine(job.timeZone),
   ].join('\n');
 
   return job.distribution.map((to) => ({
@@ -83,7 +85,8 @@ export async function completingSeq(manager: EntityManager, jobId: string): Prom
   return found?.seq ?? null;
 }
 
-function stateSetTo(data: Record<string, unknown>): unknown {
+/** The job state a stored event's effects set, read without parsing the whole event; null when it set none. */
+export function stateSetTo(data: Record<string, unknown>): unknown {
   const effects = data.effects;
   if (typeof effects !== 'object' || effects === null || !('job' in effects)) return null;
   const job = effects.job;

@@ -84,8 +84,8 @@ export class HoldReminders {
           const mail = holdReminderMail(
             person.email,
             { displayName: person.displayName, roles: roles.map((r) => roleLabel(r).toLowerCase()) },
-            { title: hold.title, waitedMinutes: Math.floor(waitedMs / 60_000) },
-            { name: job.name, site: job.site, craneFleetNumber: board.job.craneFleetNumber },
+            { title: hold.title, waitedMinutes: Math.floor(waitedMs / 60_000), openSince: wait.at },
+            { name: job.name, site: job.site, craneFleetNumber: board.job.craneFleetNumber, timeZone: job.timeZone },
             `${this.context.config.publicUrl}/jobs/${job.id}/open`,
           );
           mails.push({

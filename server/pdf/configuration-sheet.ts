@@ -7,6 +7,7 @@ import type { ArrangementData } from '../../shared/schemas/arrangement.js';
 import { groundSourceLabels, type Configuration } from '../../shared/schemas/configuration.js';
 import type { JobDto } from '../../shared/schemas/jobs.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
+import { siteDateTime } from '../../shared/time.js';
 import { PdfWriter, SAFETY_TEXT, svgAspect } from './document.js';
 
 /** A figure's status in words, as the sheet and the record print it. */
@@ -14,12 +15,13 @@ export const statusWords = { pass: 'Pass', fail: 'FAIL', info: 'Info', unverifie
 
 /** The configuration sheet: every input, every figure with its rule, overrides and the drawings. */
 export async function configurationSheetPdf(job: JobDto, results: ConfigurationResults | null, arrangement: ArrangementData, printedAt: Date): Promise<Buffer> {
-  const pdf = new PdfWriter(`Configuration sheet — ${job.name}`, `Holdline configuration sheet · ${job.name} · crane ${job.craneFleetNumber} · printed ${printedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC · log seq ${job.lastSeq}`);
+  const pdf = new PdfWriter(`Configuration sheet — ${job.name}`, `Holdline configuration sheet · ${job.name} · crane ${job.craneFleetNumber} · printed ${siteDateTime(printedAt, job.timeZone)} site time · log seq ${job.lastSeq}`);
   pdf.title('Configuration sheet', `${job.name} — ${job.site}`);
   pdf.facts([
     ['Crane', `${job.craneFleetNumber} — ${arrangement.manufacturer} ${arrangement.model}`],
     ['Job', `${job.kind === 'erection' ? 'Erection' : 'Dismantling'}, ${job.state}`],
     ['Log', `event ${job.lastSeq}, head ${job.headHash.slice(0, 16)}…`],
+    ['Site time', `${job.timeZone}; every time on this sheet is the site's, with its offset from UTC`],
   ]);
   pdf.notice(SAFETY_TEXT);
 
@@ -55,7 +57,7 @@ export async function configurationSheetPdf(job: JobDto, results: ConfigurationR
     pdf.table(
       ['Figure', 'Reason', 'Asked by', 'Approved by'],
       [0.22, 0.4, 0.19, 0.19],
-      job.overrides.map((o) => [o.figureLabel, o.reason, `${o.requestedBy.name}, ${o.requestedAt.slice(0, 16).replace('T', ' ')}`, o.approvedBy ? `${o.approvedBy.name}, ${o.approvedAt!.slice(0, 16).replace('T', ' ')}` : 'NOT APPROVED']),
+      job.overrides.map((o) => [o.figureLabel, o.reason, `${o.requestedBy.name}, ${siteDateTime(o.requestedAt, job.timeZone)}`, o.approvedBy ? `${o.approvedBy.name}, ${siteDateTime(o.approvedAt!, job.timeZone)}` : 'NOT APPROVED']),
     );
 
   for (const drawn of configurationDrawings(c, results, arrangement)) {

@@ -1,5 +1,6 @@
 import type { JobDto } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels, type Plan } from '../../shared/schemas/plan.js';
+import { siteDateTime } from '../../shared/time.js';
 import { PdfWriter, SAFETY_TEXT } from './document.js';
 
 const roleWords: Record<string, string> = { supervisor: 'Supervisor', operator: 'Operator', signaller: 'Signaller', rigger: 'Rigger', viewer: 'Viewer' };
@@ -8,11 +9,11 @@ const roleWords: Record<string, string> = { supervisor: 'Supervisor', operator: 
  * The plan as a printable checklist: every stage, step and hold in order, with boxes to tick and
  * lines to sign. It is also the paper fallback when the site network fails.
  */
-export async function planChecklistPdf(job: Pick<JobDto, 'name' | 'site' | 'craneFleetNumber'>, plan: Plan, version: number, printedAt: Date): Promise<Buffer> {
-  const pdf = new PdfWriter(`Plan — ${job.name}`, `Holdline plan v${version} · ${job.name} · crane ${job.craneFleetNumber} · printed ${printedAt.toISOString().slice(0, 16).replace('T', ' ')} UTC`);
+export async function planChecklistPdf(job: Pick<JobDto, 'name' | 'site' | 'craneFleetNumber' | 'timeZone'>, plan: Plan, version: number, printedAt: Date): Promise<Buffer> {
+  const pdf = new PdfWriter(`Plan — ${job.name}`, `Holdline plan v${version} · ${job.name} · crane ${job.craneFleetNumber} · printed ${siteDateTime(printedAt, job.timeZone)} site time`);
   pdf.title(`${plan.kind === 'erection' ? 'Erection' : 'Dismantling'} plan, version ${version}`, `${job.name} — ${job.site} — crane ${job.craneFleetNumber}`);
   pdf.notice(SAFETY_TEXT);
-  pdf.paragraph('Paper fallback: tick each step when done; at each hold every named role signs before the supervisor releases it. Stop by radio and signal first.', { size: 9 });
+  pdf.paragraph(`Paper fallback: tick each step when done; at each hold every named role signs before the supervisor releases it. Stop by radio and signal first. Write times as the site's clock (${job.timeZone}).`, { size: 9 });
 
   const titleOf = new Map(plan.stages.map((s, i) => [s.id, `${i + 1}. ${s.title}`]));
   plan.stages.forEach((stage, i) => {

@@ -9,7 +9,7 @@ import { recordPdf, type RecordPdfInput } from './record.js';
 /** One PDF to render, as plain data a worker thread receives by structured clone. */
 export type PdfTask =
   | { kind: 'configuration'; job: JobDto; results: ConfigurationResults | null; arrangement: ArrangementData; printedAt: string }
-  | { kind: 'plan'; job: Pick<JobDto, 'name' | 'site' | 'craneFleetNumber'>; plan: Plan; version: number; printedAt: string }
+  | { kind: 'plan'; job: Pick<JobDto, 'name' | 'site' | 'craneFleetNumber' | 'timeZone'>; plan: Plan; version: number; printedAt: string }
   | ({ kind: 'record' } & RecordPdfInput);
 
 /** Renders one task in the calling thread; the worker runs this, and so can a test. */

@@ -16,6 +16,7 @@ export function presentJob(
     craneFleetNumber: rel.fleetNumber,
     kind: job.kind,
     state: job.state,
+    timeZone: job.timeZone,
     configuration: job.configuration,
     figures: job.results?.figures ?? [],
     crew: rel.crew,

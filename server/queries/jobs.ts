@@ -54,6 +54,7 @@ export async function jobsVisibleTo(manager: EntityManager, viewer: User): Promi
     craneFleetNumber: units.get(j.craneUnitId) ?? '?',
     kind: j.kind,
     state: j.state,
+    timeZone: j.timeZone,
     planVersion: j.planVersion,
     updatedAt: j.updatedAt,
     myRoles: rolesByJob.get(j.id) ?? [],

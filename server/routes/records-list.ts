@@ -72,6 +72,7 @@ export function recordsListRouter(context: AppContext): Router {
         site: job.site,
         kind: job.kind,
         state: job.state,
+        timeZone: job.timeZone,
         craneUnitId: job.craneUnitId,
         craneFleetNumber: units.get(job.craneUnitId) ?? '?',
         createdAt: job.createdAt,

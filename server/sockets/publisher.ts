@@ -83,8 +83,8 @@ export class BoardPublisher implements Publisher {
 
   publishJobEvent(event: JobEventDto, job: Parameters<Publisher['publishJobEvent']>[1]): void {
     this.noteSeq(event.jobId, event.seq);
-    const { id: jobId, name, site, state, planVersion, lastSeq, updatedAt } = job;
-    this.io.to(summaryRoom(jobId)).emit('jobs:summary', { jobId, name, site, state, planVersion, lastSeq, updatedAt });
+    const { id: jobId, name, site, state, timeZone, planVersion, lastSeq, updatedAt } = job;
+    this.io.to(summaryRoom(jobId)).emit('jobs:summary', { jobId, name, site, state, timeZone, planVersion, lastSeq, updatedAt });
     if (eventNeedsRedaction(event)) {
       this.io.to(jobRoom(event.jobId)).except(plannerRoom(event.jobId)).emit('board:event', redactEventFor(event, false));
       this.io.to(plannerRoom(event.jobId)).emit('board:event', event);

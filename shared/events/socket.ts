@@ -32,6 +32,8 @@ export interface JobSummaryUpdate {
   name: string;
   site: string;
   state: JobState;
+  /** The site's IANA time zone. */
+  timeZone: string;
   planVersion: number;
   lastSeq: number;
   updatedAt: string;

@@ -15,6 +15,8 @@ export const sessionSchema = z.object({
   /** ISO time at which the access token expires. */
   expiresAt: z.string(),
   user: userSchema,
+  /** The server's IANA time zone: a new job's default site zone, and the zone of times that belong to no job. */
+  timeZone: z.string(),
 });
 export type SessionDto = z.infer<typeof sessionSchema>;
 

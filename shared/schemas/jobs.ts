@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { configurationSchema, figureSchema } from './configuration.js';
 import { HOLD_REMINDER_DEFAULT_MINUTES, holdReminderMinutesSchema } from './mail.js';
 import { qualificationSchema } from './users.js';
+import { isTimeZone, tidyTimeZone } from '../time.js';
 
 /** `made_safe`: a shift ended with its make-safe checklist done; no work until the start-of-shift hold is released. */
 export const jobStates = ['planning', 'ready', 'live', 'stopped', 'made_safe', 'complete', 'cancelled'] as const;
@@ -73,6 +74,8 @@ export const jobSchema = z.object({
   craneFleetNumber: z.string(),
   kind: jobKindSchema,
   state: jobStateSchema,
+  /** The site's IANA time zone: every time about this job is shown in it, with its UTC offset. */
+  timeZone: z.string(),
   configuration: configurationSchema.nullable(),
   /** The server's figures; they win over any a client computed. */
   figures: z.array(figureSchema),
@@ -92,16 +95,25 @@ export const jobSchema = z.object({
 });
 export type JobDto = z.infer<typeof jobSchema>;
 
-export const jobSummarySchema = jobSchema.pick({ id: true, name: true, site: true, craneUnitId: true, craneFleetNumber: true, kind: true, state: true, planVersion: true, updatedAt: true }).extend({
+export const jobSummarySchema = jobSchema.pick({ id: true, name: true, site: true, craneUnitId: true, craneFleetNumber: true, kind: true, state: true, timeZone: true, planVersion: true, updatedAt: true }).extend({
   myRoles: z.array(crewRoleSchema),
 });
 export type JobSummary = z.infer<typeof jobSummarySchema>;
 
+/** A site's IANA time zone ("Europe/Warsaw"): one the runtime's Intl knows, written the usual way. */
+export const timeZoneSchema = z
+  .string()
+  .trim()
+  .min(1, 'Choose the site’s time zone')
+  .max(64, 'Choose a time zone from the list')
+  .refine(isTimeZone, 'Not a time zone this server knows: choose one from the list, e.g. Europe/Warsaw')
+  .transform(tidyTimeZone);
+
 const name = z.string().trim().min(1, 'Name the job').max(120);
 const site = z.string().trim().min(1, 'Name the site').max(200);
 
-/** Body of POST /api/jobs. */
-export const createJobSchema = z.object({ name, site, craneUnitId: z.uuid('Choose the crane unit'), kind: jobKindSchema });
+/** Body of POST /api/jobs; without `timeZone` the job takes the server's zone. */
+export const createJobSchema = z.object({ name, site, craneUnitId: z.uuid('Choose the crane unit'), kind: jobKindSchema, timeZone: timeZoneSchema.optional() });
 /** Body of PATCH /api/jobs/:id. */
 export const updateJobSchema = z
   .object({
@@ -111,6 +123,7 @@ export const updateJobSchema = z
     distribution: z.array(z.email()).max(50),
     holdReminderMinutes: holdReminderMinutesSchema,
     commsPlan: commsPlanSchema,
+    timeZone: timeZoneSchema,
   })
   .partial()
   .strict()

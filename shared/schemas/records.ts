@@ -48,6 +48,8 @@ export const recordRowSchema = z.object({
   site: z.string(),
   kind: jobKindSchema,
   state: jobStateSchema,
+  /** The site's IANA time zone: the row's times are shown in it. */
+  timeZone: z.string(),
   craneUnitId: z.string(),
   craneFleetNumber: z.string(),
   createdAt: z.string(),

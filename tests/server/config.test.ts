@@ -10,6 +10,8 @@ describe('configuration', () => {
     expect(config.publicUrl).toBe('http://localhost:3000');
     expect(config.demo).toBe(true);
     expect(config.secret).toBeUndefined();
+    // Without HOLDLINE_TIME_ZONE, the zone the process runs in (the test runner's).
+    expect(config.timeZone).toBe(Intl.DateTimeFormat().resolvedOptions().timeZone);
   });
 
   it('reads every variable', () => {
@@ -20,8 +22,9 @@ describe('configuration', () => {
       HOLDLINE_DEMO: '0',
       HOLDLINE_SECRET: 'a'.repeat(40),
       SMTP_URL: 'smtp://mail.example.test:2525',
+      HOLDLINE_TIME_ZONE: 'europe/warsaw',
     });
-    expect(config).toMatchObject({ port: 3456, databasePath: '/tmp/x/h.sqlite', dataDir: '/tmp/x', publicUrl: 'https://board.example.test', demo: false, smtpUrl: 'smtp://mail.example.test:2525' });
+    expect(config).toMatchObject({ port: 3456, databasePath: '/tmp/x/h.sqlite', dataDir: '/tmp/x', publicUrl: 'https://board.example.test', demo: false, smtpUrl: 'smtp://mail.example.test:2525', timeZone: 'Europe/Warsaw' });
   });
 
   it.each([
@@ -31,6 +34,8 @@ describe('configuration', () => {
     ['HOLDLINE_DEMO', 'yes'],
     ['HOLDLINE_SECRET', 'short'],
     ['SMTP_URL', 'http://mail.example.test'],
+    ['HOLDLINE_TIME_ZONE', 'Mars/Olympus'],
+    ['HOLDLINE_TIME_ZONE', '+01:00'],
   ])('refuses a bad %s and names it', (name, value) => {
     expect(() => loadConfig({ [name]: value })).toThrow(ConfigError);
     expect(() => loadConfig({ [name]: value })).toThrow(new RegExp(name));

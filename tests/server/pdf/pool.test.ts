@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { PdfWorkerPool } from '../../../server/pdf/pool.js';
 import { smallPlan } from '../../shared/board/board-plan.js';
 
-const job = { name: 'Worker check', site: 'Test yard', craneFleetNumber: 'TC-1' };
+const job = { name: 'Worker check', site: 'Test yard', craneFleetNumber: 'TC-1', timeZone: 'UTC' };
 
 describe('PDF worker threads', { timeout: 120_000 }, () => {
   it('render under Vitest on a thread other than the test’s, and a failing task rejects only itself', async () => {
