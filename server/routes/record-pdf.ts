@@ -78,6 +78,7 @@ export async function recordPdfInputFor(context: AppContext, reader: RecordReade
     qualificationsOf,
     inspectors: people.filter((p) => p.canInspect).map((p) => p.id),
     figures: job.results?.figures ?? null,
+    defaultTimeZone: context.config.timeZone,
   });
 
   const uploads = record.photoIds.length ? await manager.findBy(Upload, { id: In(record.photoIds) }) : [];

@@ -9,6 +9,7 @@ import { z } from 'zod';
 import { hashSchema } from '../../shared/events/chain.js';
 import { describeEvent, type EventWordsContext } from '../../shared/events/sentences.js';
 import { roleLabel } from '../../shared/schemas/users.js';
+import { siteDateTime } from '../../shared/time.js';
 import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
@@ -33,16 +34,22 @@ const verifyQuerySchema = z.object({ expect: z.string().trim().toLowerCase().pip
 /** Longest "details" cell of the CSV; the whole data is in events.jsonl. */
 const CSV_DETAILS_MAX = 600;
 
-/** The CSV's columns, in order; their headings are what a spreadsheet shows. */
-const csvColumns = [
+/**
+ * The CSV's columns, in order; their headings are what a spreadsheet shows. The site's clock (with
+ * its offset, as on every screen and in the record PDF) sits beside the UTC time, which stays as
+ * the exact stored value; the heading names the job's zone.
+ */
+const csvColumnsFor = (zone: string) => [
   { key: 'seq', header: 'seq' },
   { key: 'time', header: 'time (UTC)' },
+  { key: 'siteTime', header: `time at the site (${zone})` },
   { key: 'who', header: 'who' },
   { key: 'role', header: 'role' },
   { key: 'what', header: 'what' },
   { key: 'details', header: 'details' },
   { key: 'hash', header: 'hash' },
 ] as const;
+type CsvKey = ReturnType<typeof csvColumnsFor>[number]['key'];
 
 /** Who is reading the log and so what of it they may see: the job's planners see blind-check values, everyone else gets them redacted as GET /events does. */
 type Reader = RecordReader;
@@ -87,19 +94,19 @@ function detailsCell(data: Record<string, unknown>): string {
 }
 
 /** events.csv rows, one per event. */
-async function* csvRows(context: AppContext, reader: Reader, until?: number): AsyncGenerator<Record<(typeof csvColumns)[number]['key'], string | number>> {
+async function* csvRows(context: AppContext, reader: Reader, until?: number): AsyncGenerator<Record<CsvKey, string | number>> {
   const { manager } = context.dataSource;
   const words = await wordsContext(manager, reader);
   until ??= await headOf(context, reader.job.id);
   for await (const row of storedEvents(manager, reader.job.id, until)) {
     const { event } = readRow(row, reader.planner);
-    yield { seq: row.seq, time: row.at, who: row.byName, role: roleLabel(row.role), what: describeEvent(event, words), details: detailsCell(event.data), hash: row.hash };
+    yield { seq: row.seq, time: row.at, siteTime: siteDateTime(row.at, reader.job.timeZone, { seconds: true }), who: row.byName, role: roleLabel(row.role), what: describeEvent(event, words), details: detailsCell(event.data), hash: row.hash };
   }
 }
 
 function csvStream(context: AppContext, reader: Reader, until?: number): Readable {
   // Cells a spreadsheet would run as a formula (=, +, -, @ first) are escaped: reasons are typed by people.
-  const csv = stringify({ header: true, columns: [...csvColumns], escape_formulas: true, bom: true });
+  const csv = stringify({ header: true, columns: csvColumnsFor(reader.job.timeZone), escape_formulas: true, bom: true });
   const rows = Readable.from(csvRows(context, reader, until));
   // pipe() does not pass a failed read on; without this the download would hang instead of failing.
   rows.on('error', (error) => csv.destroy(error));

@@ -1,5 +1,9 @@
-import type { JobEventDto, JobEventOf } from '../events/log.js';
+import { applyEvent } from '../board/apply.js';
+import { SHIFT_START_HOLD_ID } from '../board/shifts.js';
+import type { BoardState } from '../board/types.js';
+import type { JobEventDto, JobEventOf, Withdrawn } from '../events/log.js';
 import { describeEvent, namesFromLog, type EventWordsContext } from '../events/sentences.js';
+import { workPhaseWords, type WorkPhase } from '../plan/templates/shift.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
 import type { Plan } from '../schemas/plan.js';
 
@@ -74,8 +78,14 @@ export interface RecordStep {
 }
 
 export interface RecordHoldEntry extends RecordEntry {
-  kind: 'acknowledged' | 'withdrawn' | 'check_failed' | 'check_reviewed';
+  /**
+   * `taken_back`: the acknowledgment left with its author (removed from the crew, or their
+   * account disabled); the entry names that person and role, its sentence is the crew change's.
+   */
+  kind: 'acknowledged' | 'withdrawn' | 'check_failed' | 'check_reviewed' | 'taken_back';
   photoId: string | null;
+  /** An acknowledgment as the qualified inspector of the final sign-off, or its taking back. */
+  inspector: boolean;
 }
 
 export interface RecordHold {
@@ -138,6 +148,95 @@ export interface RecordRevision {
   briefings: RecordEntry[];
 }
 
+/** One signature of a start-of-shift hold: the shift inspection (with its note) or an acknowledgment. */
+export interface RecordShiftSignature extends RecordEntry {
+  kind: 'inspection' | 'operator' | 'supervisor';
+  /** What the inspection found; null for an acknowledgment. */
+  note: string | null;
+  /** The crew change or disabled account that took it back; null while it stands. */
+  takenBack: RecordEntry | null;
+}
+
+/** One make-safe item as the shift's end listed it, and who ticked it. */
+export interface RecordMakeSafeItem {
+  id: string;
+  text: string;
+  roles: string[];
+  asksNote: boolean;
+  done: (RecordEntry & { note: string | null }) | null;
+}
+
+/** A handover note in full, with who acknowledged it. */
+export interface RecordHandover {
+  written: RecordEntry;
+  /** The shift number the note carries. */
+  shift: number;
+  /** The supervisor it was meant for, when one was named. */
+  to: { userId: string; name: string } | null;
+  done: string[];
+  open: string[];
+  defects: string[];
+  overrides: string[];
+  hazards: string;
+  note: string;
+  /** The incoming supervisor's acknowledgment (they became the acting supervisor by it); null while unread. */
+  acknowledged: RecordEntry | null;
+}
+
+/** How one shift began and ended. */
+export interface RecordShift {
+  number: number;
+  /** What began it: the job's start (shift 1) or the release of its start-of-shift hold; null while not begun. */
+  started: RecordEntry | null;
+  /** The start-of-shift hold's inspection and acknowledgments in order, taken-back ones kept (none for the first shift). */
+  startHold: RecordShiftSignature[];
+  /** Who acknowledged the briefing for this shift, with the plan version, in order. */
+  briefed: (RecordEntry & { planVersion: number })[];
+  /** The end of the shift: who ended it, the make-safe checklist, when the job was made safe; null while working. */
+  end: {
+    ended: RecordEntry;
+    workPhase: string;
+    /** The phase in words (shared/plan/templates/shift.ts); the phase id itself when the templates do not know it. */
+    workPhaseWords: string;
+    items: RecordMakeSafeItem[];
+    /** The entry of the last item, which made the job safe; null while items are open. */
+    madeSafe: RecordEntry | null;
+  } | null;
+  /** Handover notes written from this shift's start until the next one began, in order. */
+  handovers: RecordHandover[];
+}
+
+/** A change of the acting supervisor: at the job's start, by a handover, or by an administrator. */
+export interface RecordActingChange {
+  entry: RecordEntry;
+  how: 'job_start' | 'handover' | 'admin_transfer';
+  from: { userId: string; name: string } | null;
+  to: { userId: string; name: string };
+  /** The administrator's reason; null for the other ways. */
+  reason: string | null;
+}
+
+/** An acknowledgment a crew change or a disabled account took back. */
+export interface RecordTakenBack {
+  userId: string;
+  name: string;
+  /** The crew role, or `inspector`. */
+  role: string;
+  /** The hold's title, or "the start-of-shift hold". */
+  hold: string;
+}
+
+/** A crew change after the job started, or a disabled account, with the acknowledgments that left with it. */
+export interface RecordCrewChange {
+  entry: RecordEntry;
+  kind: 'crew_changed' | 'account_disabled';
+  added: { userId: string; name: string; role: string }[];
+  removed: { userId: string; name: string; role: string }[];
+  /** The person whose account was disabled; null for a crew change. */
+  disabled: { userId: string; name: string } | null;
+  takenBack: RecordTakenBack[];
+}
+
 export interface RecordConfiguration {
   saved: RecordEntry;
   configuration: Configuration;
@@ -162,6 +261,22 @@ export interface JobRecord {
   /** The hold the plan marks as the job's final sign-off; null when the plan has none. */
   signOff: { stageTitle: string; hold: RecordHold } | null;
   cancelled: (RecordEntry & { reason: string }) | null;
+  /** The site's IANA time zone: the job's own (job.created, job.updated), else the caller's default. */
+  timeZone: string;
+  /** Whether the zone is the job's own or the caller's default (a job from before site time). */
+  timeZoneFrom: 'job' | 'default';
+  /** Every shift in order: how it began and ended, its handover notes. Empty before the job started. */
+  shifts: RecordShift[];
+  /** Every handover note in order (also under their shifts). */
+  handovers: RecordHandover[];
+  /** Who was acting supervisor when, and how the role passed. */
+  actingChanges: RecordActingChange[];
+  /** Crew changes after the job started and disabled accounts, with the acknowledgments taken back. */
+  crewChanges: RecordCrewChange[];
+  /** Where the shifts stand at the end of the log, as the board's reducer has it; null before the job started. */
+  shiftNow: { number: number; phase: 'working' | 'making_safe' | 'made_safe' } | null;
+  /** The acting supervisor at the end of the log, as the board's reducer has it. */
+  actingSupervisor: { userId: string; name: string; since: string } | null;
   /** Every event in order, worded. */
   timeline: RecordEntry[];
   /** Photos the record refers to, in order of first mention, each once. */
@@ -182,6 +297,8 @@ export interface RecordContext {
   inspectors?: readonly string[];
   /** The server's figures for the configuration in force, with their rules. */
   figures?: readonly Figure[] | null;
+  /** The zone of a job whose log names none (jobs from before site time): the server's. */
+  defaultTimeZone: string;
 }
 
 /** Builds the record of a job from its whole log, in seq order. */
@@ -212,6 +329,16 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
   let started: string | null = null;
   let finished: string | null = null;
   let cancelled: JobRecord['cancelled'] = null;
+  let timeZone: string | null = null;
+  const shifts: RecordShift[] = [];
+  const handovers: RecordHandover[] = [];
+  const actingChanges: RecordActingChange[] = [];
+  const crewChanges: RecordCrewChange[] = [];
+  // The board's own reducer runs beside the record, so the acting supervisor and the shift are
+  // what every screen showed, never worked out a second time here. A log the reducer cannot
+  // follow (a hand-made one) still gives its record; only those two are then left unknown.
+  let board: BoardState | null = null;
+  let boardFollows = true;
 
   const photo = (id: string | null) => {
     if (id && !photoIds.includes(id)) photoIds.push(id);
@@ -244,6 +371,37 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
     }
     return stage.hold;
   };
+  const shiftNumbered = (n: number): RecordShift => {
+    let shift = shifts.find((s) => s.number === n);
+    if (!shift) {
+      shift = { number: n, started: null, startHold: [], briefed: [], end: null, handovers: [] };
+      shifts.push(shift);
+      shifts.sort((a, b) => a.number - b.number);
+    }
+    return shift;
+  };
+  /** The shift a handover note was written in: the last one begun, in the log's order. */
+  const shiftBegunLast = () => shifts.filter((s) => s.started).sort((a, b) => a.started!.seq - b.started!.seq).at(-1) ?? null;
+  /** The shift whose make-safe checklist an item belongs to: the last one ended. */
+  const shiftEndedLast = () => shifts.filter((s) => s.end).sort((a, b) => a.end!.ended.seq - b.end!.ended.seq).at(-1) ?? null;
+  const holdWords = (w: Withdrawn) => (w.holdId === SHIFT_START_HOLD_ID ? 'the start-of-shift hold' : (names.stages.find((s) => s.hold?.id === w.holdId)?.hold?.title ?? 'a hold point no longer in the plan'));
+  /** Puts acknowledgments a crew change or a disabled account took back on their holds, and lists them. */
+  const takeBack = (withdrawn: readonly Withdrawn[], entry: RecordEntry): RecordTakenBack[] =>
+    withdrawn.map((w) => {
+      if (w.holdId === SHIFT_START_HOLD_ID) {
+        const kind = w.role === 'inspector' ? 'inspection' : w.role;
+        const signature = shifts
+          .filter((s) => !s.started)
+          .flatMap((s) => s.startHold)
+          .filter((g) => g.userId === w.userId && g.kind === kind && !g.takenBack)
+          .at(-1);
+        if (signature) signature.takenBack = entry;
+      } else if (w.stageId) {
+        holdOf(w.stageId, w.holdId).entries.push({ ...entry, userId: w.userId, name: w.name, role: w.role, kind: 'taken_back', photoId: null, inspector: w.role === 'inspector' });
+      }
+      return { userId: w.userId, name: w.name, role: w.role, hold: holdWords(w) };
+    });
+
   /** Lays out the plan now in force, keeping what was recorded against stages and steps it still has. */
   const putPlanInForce = (plan: Plan) => {
     const before = new Map(stages);
@@ -270,6 +428,25 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
   for (const e of ordered) {
     const entry = entryOf(e);
     timeline.push(entry);
+    const actingBefore = board?.actingSupervisor ?? null;
+    if (boardFollows) {
+      try {
+        board = applyEvent(board, e);
+      } catch {
+        boardFollows = false;
+        board = null;
+      }
+    }
+    const actingAfter = board?.actingSupervisor ?? null;
+    if (actingAfter && (e.type === 'job.started' || e.type === 'handover.acknowledged' || e.type === 'acting.transferred')) {
+      actingChanges.push({
+        entry,
+        how: e.type === 'job.started' ? 'job_start' : e.type === 'handover.acknowledged' ? 'handover' : 'admin_transfer',
+        from: actingBefore ? { userId: actingBefore.userId, name: actingBefore.name } : null,
+        to: { userId: actingAfter.userId, name: actingAfter.name },
+        reason: e.type === 'acting.transferred' ? e.data.reason : null,
+      });
+    }
     const state = e.data.effects?.job?.state;
     if (state === 'complete' || state === 'cancelled') {
       status = state;
@@ -279,6 +456,7 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
       case 'job.created':
         created = e;
         ({ name, site, kind } = e.data.job);
+        timeZone = e.data.job.timeZone ?? timeZone;
         crew = e.data.crew;
         for (const m of crew) if (!crewNames.some((c) => c.userId === m.userId)) crewNames.push({ userId: m.userId, name: m.name });
         break;
@@ -286,10 +464,29 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
         name = e.data.changes.name ?? name;
         site = e.data.changes.site ?? site;
         kind = e.data.changes.kind ?? kind;
+        timeZone = e.data.changes.timeZone ?? timeZone;
         break;
-      case 'crew.set':
+      case 'crew.set': {
+        const before = crew;
         crew = e.data.crew;
         for (const m of crew) if (!crewNames.some((c) => c.userId === m.userId)) crewNames.push({ userId: m.userId, name: m.name });
+        const withdrawn = e.data.withdrawn ?? [];
+        // Planning sets the crew many times; the record lists the changes made once the job was under way.
+        if (started || withdrawn.length) {
+          const nameOf = (userId: string) => crew.find((m) => m.userId === userId)?.name ?? before.find((m) => m.userId === userId)?.name ?? crewNames.find((m) => m.userId === userId)?.name ?? 'someone no longer in the crew';
+          crewChanges.push({
+            entry,
+            kind: 'crew_changed',
+            added: e.data.added.map((m) => ({ userId: m.userId, name: nameOf(m.userId), role: m.role })),
+            removed: e.data.removed.map((m) => ({ userId: m.userId, name: nameOf(m.userId), role: m.role })),
+            disabled: null,
+            takenBack: takeBack(withdrawn, entry),
+          });
+        }
+        break;
+      }
+      case 'crew.member.disabled':
+        crewChanges.push({ entry, kind: 'account_disabled', added: [], removed: [], disabled: { userId: e.data.userId, name: e.data.name }, takenBack: takeBack(e.data.withdrawn, entry) });
         break;
       case 'configuration.set': {
         for (const w of e.data.overridesWithdrawn) {
@@ -323,9 +520,51 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
         break;
       case 'job.started':
         started ??= e.at;
+        shiftNumbered(1).started ??= entry;
         break;
       case 'briefing.acknowledged':
         revisions.find((r) => r.version === e.data.planVersion)?.briefings.push(entry);
+        // A briefing from before shifts were recorded was for the first shift.
+        shiftNumbered(e.data.shift ?? 1).briefed.push({ ...entry, planVersion: e.data.planVersion });
+        break;
+      case 'shift.ending': {
+        const phase = e.data.workPhase;
+        shiftNumbered(e.data.shift).end = {
+          ended: entry,
+          workPhase: phase,
+          workPhaseWords: Object.hasOwn(workPhaseWords, phase) ? workPhaseWords[phase as WorkPhase] : phase,
+          items: e.data.items.map((i) => ({ id: i.id, text: i.text, roles: [...i.roles], asksNote: i.asksNote, done: null })),
+          madeSafe: null,
+        };
+        break;
+      }
+      case 'shift.item.done': {
+        const end = shiftEndedLast()?.end;
+        const item = end?.items.find((i) => i.id === e.data.itemId);
+        if (item) item.done = { ...entry, role: e.data.role, note: e.data.note };
+        if (end && e.data.madeSafe) end.madeSafe = entry;
+        break;
+      }
+      case 'handover.written': {
+        const d = e.data;
+        const note: RecordHandover = { written: entry, shift: d.shift, to: d.to, done: [...d.done], open: [...d.open], defects: [...d.defects], overrides: [...d.overrides], hazards: d.hazards, note: d.note, acknowledged: null };
+        handovers.push(note);
+        (shiftBegunLast() ?? shiftNumbered(d.shift)).handovers.push(note);
+        break;
+      }
+      case 'handover.acknowledged': {
+        const note = handovers.find((h) => h.written.seq === e.data.handoverSeq);
+        if (note) note.acknowledged = entry;
+        break;
+      }
+      case 'shift.inspected':
+        shiftNumbered(e.data.shift).startHold.push({ ...entry, kind: 'inspection', note: e.data.note, takenBack: null });
+        break;
+      case 'shift.start.acknowledged':
+        shiftNumbered(e.data.shift).startHold.push({ ...entry, role: e.data.role, kind: e.data.role, note: null, takenBack: null });
+        break;
+      case 'shift.started':
+        shiftNumbered(e.data.shift).started = entry;
         break;
       case 'step.completed': {
         const step = stepOf(e.data.stageId, e.data.stepId);
@@ -346,18 +585,18 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
         break;
       }
       case 'hold.acknowledged':
-        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'acknowledged', photoId: e.data.photoId });
+        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'acknowledged', photoId: e.data.photoId, inspector: e.data.inspector === true });
         photo(e.data.photoId);
         break;
       case 'hold.withdrawn':
-        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'withdrawn', photoId: null });
+        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'withdrawn', photoId: null, inspector: false });
         break;
       case 'hold.check.failed':
-        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'check_failed', photoId: e.data.photoId });
+        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, role: e.data.role, kind: 'check_failed', photoId: e.data.photoId, inspector: false });
         photo(e.data.photoId);
         break;
       case 'hold.check.reviewed':
-        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, kind: 'check_reviewed', photoId: null });
+        holdOf(e.data.stageId, e.data.holdId).entries.push({ ...entry, kind: 'check_reviewed', photoId: null, inspector: false });
         break;
       case 'hold.released':
         holdOf(e.data.stageId, e.data.holdId).released = entry;
@@ -446,6 +685,14 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
     revisions,
     signOff: signOffStage?.hold ? { stageTitle: signOffStage.title, hold: signOffStage.hold } : null,
     cancelled,
+    timeZone: timeZone ?? context.defaultTimeZone,
+    timeZoneFrom: timeZone ? 'job' : 'default',
+    shifts,
+    handovers,
+    actingChanges,
+    crewChanges,
+    shiftNow: board?.shift ? { number: board.shift.number, phase: board.shift.phase } : null,
+    actingSupervisor: board?.actingSupervisor ?? null,
     timeline,
     photoIds,
     lastSeq: ordered.at(-1)?.seq ?? 0,

@@ -62,6 +62,8 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
   let work: string;
   let jobId: string;
   let lastSeq: number;
+  /** The demo job's site zone (the server's, as the demo names none of its own for this job). */
+  let zone: string;
   const tokens: Record<string, string> = {};
   const as = (who: string) => ({ Authorization: `Bearer ${tokens[who]}` });
   const download = async (who: string, file: string) =>
@@ -76,7 +78,7 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
     }
     const jobs = (await request(server.app).get('/api/jobs').set(as('supervisor')).expect(200)).body.items as { id: string; name: string }[];
     jobId = jobs.find((j) => j.name === 'Depot trial erection, 21 m')!.id;
-    lastSeq = jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${jobId}`).set(as('supervisor')).expect(200)).body).job.lastSeq;
+    ({ lastSeq, timeZone: zone } = jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${jobId}`).set(as('supervisor')).expect(200)).body).job);
     // A driven erection has well over a hundred events.
     expect(lastSeq).toBeGreaterThan(100);
   }, 180_000);
@@ -122,11 +124,13 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
   it('events.csv read back by csv-parse has one row per event with its sentence and hash', async () => {
     const text = (await download('supervisor', 'events.csv')).toString('utf8');
     const rows = parse(text, { columns: true, bom: true, skip_empty_lines: true }) as Record<string, string>[];
-    expect(Object.keys(rows[0])).toEqual(['seq', 'time (UTC)', 'who', 'role', 'what', 'details', 'hash']);
+    expect(Object.keys(rows[0])).toEqual(['seq', 'time (UTC)', `time at the site (${zone})`, 'who', 'role', 'what', 'details', 'hash']);
     expect(rows.map((r) => Number(r.seq))).toEqual(Array.from({ length: lastSeq }, (_, i) => i + 1));
     const events = lines((await download('supervisor', 'events.jsonl')).toString('utf8'));
     expect(rows.map((r) => r.hash)).toEqual(events.map((e) => e.hash));
     expect(rows.map((r) => r['time (UTC)'])).toEqual(events.map((e) => e.at));
+    // Beside it, the site's clock with its offset, as the record PDF writes it (its zone's own test: tests/server/pdf/record-shifts-pdf.test.ts).
+    for (const r of rows) expect(r[`time at the site (${zone})`]).toMatch(/^\d{1,2} [A-Z][a-z]{2} \d{4}, \d\d:\d\d:\d\d \(UTC[+\u2212]\d\d:\d\d\)$/);
     expect(rows.every((r) => r.what.length > 0 && r.what !== UNKNOWN_EVENT && r.who.length > 0)).toBe(true);
     expect(rows[0].what).toContain('Depot trial erection, 21 m');
     // Details are JSON a spreadsheet user can read; a long one is cut and says where the rest is.

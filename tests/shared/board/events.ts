@@ -12,6 +12,9 @@ export const people = {
   rita: { userId: 'u-rita', name: 'Rita Venn', role: 'rigger' },
   sam: { userId: 'u-sam', name: 'Sam Pike', role: 'signaller' },
   vic: { userId: 'u-vic', name: 'Vic Lowe', role: 'viewer' },
+  /** A second supervisor and operator, for shifts and crew changes. */
+  ned: { userId: 'u-ned', name: 'Ned Orr', role: 'supervisor' },
+  ola: { userId: 'u-ola', name: 'Ola Hart', role: 'operator' },
 } as const satisfies Record<string, { userId: string; name: string; role: CrewRole }>;
 export type Who = (typeof people)[keyof typeof people];
 
