@@ -7,8 +7,10 @@ import type { Config } from '../config.js';
 import type { WriteQueue } from '../db/write-queue.js';
 import { MailOutbox, type OutboxAttachment, type OutboxHoldWait } from '../entities/MailOutbox.js';
 import { Job } from '../entities/Job.js';
+import { JobEvent } from '../entities/JobEvent.js';
 import type { Logger } from '../logger.js';
-import { completesJob, completingSeq, completionMail } from './completion.js';
+import { completesJob, completingSeq, completionMail, stateSetTo } from './completion.js';
+import { mayAnchorShift, shiftAnchorMails } from './shift-anchor.js';
 import { holdStillWaiting } from './hold-wait.js';
 import type { MailAttachment, Mailer } from './mailer.js';
 import { noRecordPdf, type RecordPdfSource } from './record-pdf.js';
@@ -80,13 +82,13 @@ export class MailOutboxService {
     this.recordPdf = options.recordPdf ?? noRecordPdf;
   }
 
-  /** Starts sending; queues the completion e-mails of any job completed while the server was down. */
+  /** Starts sending; queues the completion and shift-end e-mails of any job completed or made safe while the server was down. */
   start(): void {
     if (this.started || this.stopped) return;
     this.started = true;
-    this.starting = this.queueMissedCompletions().then(
+    this.starting = Promise.all([this.queueMissedCompletions(), this.queueMissedShiftAnchors()]).then(
       () => this.kick(),
-      (error: unknown) => this.deps.logger.error({ err: error }, 'could not look for completion e-mails to send'),
+      (error: unknown) => this.deps.logger.error({ err: error }, 'could not look for completion or shift-end e-mails to send'),
     );
   }
 
@@ -104,11 +106,19 @@ export class MailOutboxService {
    * command's answer does not depend on e-mail.
    */
   jobEventCommitted(event: JobEventDto): void {
-    if (!completesJob(event) || this.stopped) return;
-    this.queueCompletion(event.jobId, event.seq).then(
-      () => this.kick(),
-      (error: unknown) => this.deps.logger.error({ err: error, jobId: event.jobId }, 'could not queue the completion e-mail'),
-    );
+    if (this.stopped) return;
+    if (completesJob(event)) {
+      this.queueCompletion(event.jobId, event.seq).then(
+        () => this.kick(),
+        (error: unknown) => this.deps.logger.error({ err: error, jobId: event.jobId }, 'could not queue the completion e-mail'),
+      );
+    }
+    if (mayAnchorShift(event)) {
+      this.queueShiftAnchor(event.jobId, event.seq).then(
+        () => this.kick(),
+        (error: unknown) => this.deps.logger.error({ err: error, jobId: event.jobId, seq: event.seq }, 'could not queue the shift-end e-mail'),
+      );
+    }
   }
 
   /** Queues e-mails; one whose key is already queued (or sent) is left alone. Returns how many were new. */
@@ -262,6 +272,30 @@ export class MailOutboxService {
   private async queueCompletion(jobId: string, seq: number): Promise<void> {
     const mails = await completionMail(this.deps.dataSource.manager, this.deps.config.publicUrl, jobId, seq);
     await this.enqueue(mails);
+  }
+
+  private async queueShiftAnchor(jobId: string, seq: number): Promise<void> {
+    const mails = await this.deps.queue.run(() => shiftAnchorMails(this.deps.dataSource.manager, this.deps.config.publicUrl, jobId, seq));
+    await this.enqueue(mails);
+  }
+
+  /**
+   * A job made safe (or a handover note written while it is) just before a crash or shutdown still
+   * gets its shift-end e-mails: the events since the job was last made safe are looked at again,
+   * and the keys make this safe to repeat.
+   */
+  private async queueMissedShiftAnchors(): Promise<void> {
+    const { manager } = this.deps.dataSource;
+    const madeSafe = await manager.find(Job, { where: { state: 'made_safe' }, select: { id: true } });
+    for (const job of madeSafe) {
+      if (this.stopped) return;
+      const recent = await manager.find(JobEvent, { where: { jobId: job.id }, order: { seq: 'DESC' }, take: 200, select: { seq: true, type: true, data: true } });
+      const since = recent.findIndex((r) => stateSetTo(r.data) === 'made_safe');
+      if (since < 0) continue;
+      for (const row of recent.slice(0, since + 1).reverse()) {
+        if (row.seq === recent[since]!.seq || row.type === 'handover.written') await this.queueShiftAnchor(job.id, row.seq);
+      }
+    }
   }
 
   /** A completion committed just before a crash or shutdown still gets its e-mails: the keys make this safe to repeat. */

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** What an e-mail sent for the record is about. */
-export const outboxKinds = ['completion', 'hold_reminder'] as const;
+export const outboxKinds = ['completion', 'hold_reminder', 'shift_anchor'] as const;
 export type OutboxKind = (typeof outboxKinds)[number];
 
 /**
