@@ -1,28 +1,27 @@
-const sameDay = (a: Date, b: Date) => a.getFullYear() === b.getFullYear() && a.getMonth() === b.getMonth() && a.getDate() === b.getDate();
+import { siteDateTime, siteWhen, utcOffset } from '../../shared/time';
 
-const clock = new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit', hourCycle: 'h23' });
-const day = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+// Every time on screen is the site's wall clock with its UTC offset (shared/time.ts), never the
+// device's: a supervisor reading the board from another country sees the site's 18:04, not theirs.
+// The zone is always passed in: a job's `timeZone` (the board: `board.job.timeZone`, through the
+// board store's `siteTimeZone`), or the server's (`useSessionStore().serverTimeZone`) for times
+// that belong to no job (fleet, people).
 
-/** The device's local 24-hour clock, with the date in front when it is not today. */
-export function formatWhen(iso: string, now: Date = new Date()): string {
-  const at = new Date(iso);
-  if (Number.isNaN(at.getTime())) return iso;
-  return sameDay(at, now) ? clock.format(at) : `${day.format(at)}, ${clock.format(at)}`;
+/** The site's 24-hour clock with its offset, with the site's date in front when it is not the site's today. */
+export function formatWhen(iso: string, zone: string, now: Date = new Date()): string {
+  return siteWhen(iso, zone, now);
 }
 
-const instant = new Intl.DateTimeFormat('en-GB', {
-  day: 'numeric',
-  month: 'short',
-  year: 'numeric',
-  hour: '2-digit',
-  minute: '2-digit',
-  second: '2-digit',
-  hourCycle: 'h23',
-  timeZoneName: 'short',
-});
+/** A moment for the record: the site's date, time to the second and offset, never shortened to "today". */
+export function formatInstant(iso: string, zone: string): string {
+  return siteDateTime(iso, zone, { seconds: true });
+}
 
-/** A moment for the record: date, time to the second and the zone, never shortened to "today". */
-export function formatInstant(iso: string): string {
-  const at = new Date(iso);
-  return Number.isNaN(at.getTime()) ? iso : instant.format(at);
+/** The zone said once in a header: "Site time UTC+01:00 (Europe/Warsaw)". */
+export function zoneWords(zone: string, now: Date = new Date()): string {
+  return `Site time ${utcOffset(now, zone)} (${zone})`;
+}
+
+/** The zone for a board header: short words ("Site time UTC+01:00") and the zone's name for a tooltip. */
+export function siteTimeWords(zone: string, now: Date = new Date()): { words: string; title: string } {
+  return { words: `Site time ${utcOffset(now, zone)}`, title: `Every time on this board is the site's clock (${zone}) with its offset from UTC.` };
 }

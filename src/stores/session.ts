@@ -14,6 +14,12 @@ export const useSessionStore = defineStore('session', () => {
   const token = ref<string | null>(null);
   const expiresAtMs = ref(0);
   const restored = ref(false);
+  /**
+   * The server's IANA time zone, from every session answer: a new job's default site zone, and the
+   * zone of times that belong to no job (fleet, people). Until a session arrives, the device's zone;
+   * every time is written with its UTC offset, so either reads true.
+   */
+  const serverTimeZone = ref(Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC');
   let refreshing: Promise<boolean> | null = null;
   let timer: ReturnType<typeof setTimeout> | undefined;
 
@@ -23,6 +29,7 @@ export const useSessionStore = defineStore('session', () => {
   function accept(session: SessionDto) {
     user.value = session.user;
     token.value = session.token;
+    serverTimeZone.value = session.timeZone;
     expiresAtMs.value = Date.parse(session.expiresAt);
     renewSocketToken(session.token);
     clearTimeout(timer);
@@ -89,5 +96,5 @@ export const useSessionStore = defineStore('session', () => {
     onUnauthorized: () => refresh(),
   });
 
-  return { user, token, expiresAtMs, restored, signedIn, isAdmin, login, refresh, restore, logout, adopt };
+  return { user, token, expiresAtMs, restored, serverTimeZone, signedIn, isAdmin, login, refresh, restore, logout, adopt };
 });

@@ -37,3 +37,14 @@ export const headHashWords = {
   label: (seq: number) => `Log hash at event ${seq}`,
   hint: 'Compare it with the final hash on the printed record or in the e-mail.',
 };
+
+/** The site's time zone: chosen when a job is created, shown on its page (shared/time.ts writes the times). */
+export const timeZoneWords = {
+  label: 'Site time zone',
+  hint: 'Every time for this job (board, e-mails, PDFs) is shown as the site’s clock with its offset from UTC.',
+  noMatch: 'No time zone by that name. Type a city or region, e.g. Warsaw, Chicago or Kolkata.',
+  /** A zone in the list, with its offset today. */
+  option: (zone: string, offset: string) => `${zone.replace(/_/g, ' ')} · ${offset} now`,
+  /** The job page's fact line. */
+  fact: (zone: string, offset: string) => `${zone.replace(/_/g, ' ')}, ${offset} now`,
+};

@@ -36,6 +36,7 @@ export function buildJob(overrides: Partial<JobDto> = {}): JobDto {
     craneFleetNumber: 'CC-11',
     kind: 'erection',
     state: 'planning',
+    timeZone: 'Europe/Warsaw',
     configuration: null,
     figures: [],
     crew: [],

@@ -79,6 +79,7 @@ function summary(overrides: Partial<JobSummary> = {}): JobSummary {
     craneFleetNumber: 'CC-11',
     kind: 'erection',
     state: 'ready',
+    timeZone: 'Europe/Warsaw',
     planVersion: 1,
     updatedAt: '2026-10-01T07:00:00.000Z',
     myRoles: ['supervisor'],
@@ -245,13 +246,13 @@ describe('job lines followed without their board', () => {
     expect(emitted).toEqual([['jobs:follow', { jobIds: [JOB_ID] }]]);
 
     fetchMock.mockResolvedValueOnce(json(200, { job: buildJob({ state: 'stopped', lastSeq: 8 }) }));
-    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'Boom erection for the pump house', site: 'Riverside works', state: 'stopped', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
+    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'Boom erection for the pump house', site: 'Riverside works', state: 'stopped', timeZone: 'Europe/Warsaw', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
     expect(jobs.items[0].state).toBe('stopped');
     expect(jobs.details[JOB_ID].state).toBe('stopped');
     await wait(BURST_MS + 50);
     expect(fetchMock).toHaveBeenCalledTimes(3);
     // An update the page already holds (an older seq) reads nothing back.
-    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'x', site: 'y', state: 'stopped', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
+    fake.deliver('jobs:summary', { jobId: JOB_ID, name: 'x', site: 'y', state: 'stopped', timeZone: 'Europe/Warsaw', planVersion: 1, lastSeq: 8, updatedAt: at(8) });
     await wait(BURST_MS + 50);
     expect(fetchMock).toHaveBeenCalledTimes(3);
   });

@@ -14,6 +14,7 @@ function row(overrides: Partial<RecordRow> = {}): RecordRow {
     site: 'Riverside works',
     kind: 'erection',
     state: 'complete',
+    timeZone: 'Europe/Warsaw',
     craneUnitId: UNIT_ID,
     craneFleetNumber: 'CC-11',
     createdAt: '2026-10-01T07:00:00.000Z',

@@ -1,24 +1,6 @@
 import { mount } from '@vue/test-utils';
 import { describe, expect, it } from 'vitest';
 import LinkifiedText from '../../../../src/components/people/LinkifiedText.vue';
-import { formatWhen } from '../../../../src/services/time';
-
-describe('formatWhen', () => {
-  const now = new Date(2026, 10, 2, 15, 0); // 2 Nov 2026, 15:00 local
-
-  it('shows only the 24-hour clock for today', () => {
-    expect(formatWhen(new Date(2026, 10, 2, 7, 5).toISOString(), now)).toBe('07:05');
-    expect(formatWhen(new Date(2026, 10, 2, 23, 59).toISOString(), now)).toBe('23:59');
-  });
-
-  it('puts the date in front on any other day', () => {
-    expect(formatWhen(new Date(2026, 10, 1, 18, 30).toISOString(), now)).toBe('1 Nov 2026, 18:30');
-  });
-
-  it('hands back text it cannot read as a time', () => {
-    expect(formatWhen('not a time', now)).toBe('not a time');
-  });
-});
 
 describe('LinkifiedText', () => {
   it('turns web addresses into links and leaves the rest as text', () => {
