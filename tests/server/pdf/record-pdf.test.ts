@@ -162,6 +162,29 @@ describe('the record PDF', { timeout: 120_000 }, () => {
     expect(pages[0]).toContain(`holds: ${holdIds.filter((id) => released.has(id)).length} of ${holdIds.length} released`);
   });
 
+  it('of the demo’s job over two shifts shows the make-safe checklist, the handover note and the start of shift 2, in the site’s zone', async () => {
+    const list = (await request(server.app).get('/api/jobs').set('Authorization', `Bearer ${supervisor}`).expect(200)).body.items as JobSummary[];
+    const twoShift = await jobOf(list.find((j) => j.name === 'Pump house roof lift: boom erection')!.id);
+    expect(twoShift.timeZone).toBe('Europe/London');
+    const text = pagesOf(await recordPdf(twoShift.id), 'two-shifts-demo').join(' ');
+    expect(text).toContain('Site time Europe/London');
+    // London is UTC+00:00 in winter and UTC+01:00 in summer (IANA tz database, from memory); the demo's dates follow today's.
+    expect(text).toMatch(/\(UTC\+0[01]:00\)/);
+    const shifts = text.slice(text.indexOf('Shifts How each shift started'));
+    const events = await eventsOf(twoShift.id);
+    const note = events.find((e) => e.type === 'handover.written');
+    const ending = events.find((e) => e.type === 'shift.ending');
+    if (note?.type !== 'handover.written' || ending?.type !== 'shift.ending') throw new Error('the demo job has no handover note or shift end');
+    expect(shifts).toContain(`END OF SHIFT 1: ended by ${ending.by.name} (supervisor), ${recordTime(ending.at, 'Europe/London')}.`);
+    for (const item of ending.data.items) expect(shifts.replace(/- /g, '-')).toContain(item.text);
+    expect(shifts).toMatch(/MADE SAFE \d+ \w{3} \d{4}, /);
+    expect(shifts).toContain(`Hazards ${note.data.hazards}`);
+    expect(shifts).toContain(`Note ${note.data.note}`);
+    expect(shifts).toContain('START-OF-SHIFT HOLD released by Marta Lindqvist (supervisor)');
+    expect(shifts).toContain('Shift inspection Priya Raman');
+    expect(shifts).toContain('Acknowledged the handover note (Marta Lindqvist) Rhys Calloway Marta Lindqvist');
+  });
+
   it('is refused to someone outside the job and to nobody signed in', async () => {
     const outsider = await signedInUser(server, { qualifications: ['rigger'] });
     const res = await request(server.app).get(`/api/jobs/${live.id}/record.pdf`).set('Authorization', `Bearer ${outsider.token}`);
