@@ -8,6 +8,7 @@ import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../
 import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
 import { briefingShift, handoverFacts, isActingSupervisor, isBriefed, makeSafeChecklist, shiftEndBlockers, shiftOf, shiftStartMissing } from '../../shared/board/shifts.js';
 import { JobOverride } from '../entities/JobOverride.js';
+import { siteDateTime } from '../../shared/time.js';
 import { authorizeBoardCommand, boardCommandRoles } from '../policies/index.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
@@ -54,7 +55,7 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
       throw refuse(
         409,
         'made_safe',
-        `The job was made safe${safe ? ` ${siteWhen(safe.at, board)} (last item by ${safe.name})` : ''}. No work until the acting supervisor releases the start-of-shift hold: the shift inspection, the operator’s and supervisor’s acknowledgments, everyone’s briefing and a fresh weather reading.`,
+        `The job was made safe${safe ? ` on ${siteDateTime(safe.at, job.timeZone)} (last item by ${safe.name})` : ''}. No work until the acting supervisor releases the start-of-shift hold: the shift inspection, the operator’s and supervisor’s acknowledgments, everyone’s briefing and a fresh weather reading.`,
       );
     }
     if (board.job.state === 'stopped' && !commandsWhileStopped.has(command.type)) {
@@ -101,9 +102,6 @@ interface HandlerContext {
 }
 
 type Handler<T extends BoardCommand['type']> = (ctx: HandlerContext, command: Extract<BoardCommand, { type: T }>) => Promise<EventDraft>;
-
-// TODO(lead): site time with offset once shared/time.ts lands.
-const siteWhen = (iso: string, _board: BoardState) => `at ${iso.slice(11, 16)} UTC`;
 
 /** Who may record a weather reading, in words, for refusals that ask for one. */
 const weatherRecorders = `${boardCommandRoles['weather.record'].join(', ').replace(/, ([^,]*)$/, ' or $1')} can record one on the weather panel`;
