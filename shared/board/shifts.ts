@@ -31,9 +31,9 @@ export function isBriefed(board: Pick<BoardState, 'shift' | 'job' | 'briefed' | 
   return board.briefed.some((b) => b.userId === userId && b.planVersion === board.planVersion && (b.shift ?? 1) === shift);
 }
 
-/** Crew members (by person) not briefed for the plan version and the shift. */
+/** Crew members (by person) who work on the board and are not briefed for the plan version and the shift; viewers only watch. */
 export function unbriefedCrew(board: Pick<BoardState, 'shift' | 'job' | 'briefed' | 'planVersion' | 'crew'>): { userId: string; name: string }[] {
-  const people = new Map(board.crew.map((m) => [m.userId, m.name]));
+  const people = new Map(board.crew.filter((m) => m.role !== 'viewer').map((m) => [m.userId, m.name]));
   return [...people].filter(([userId]) => !isBriefed(board, userId)).map(([userId, name]) => ({ userId, name }));
 }
 
