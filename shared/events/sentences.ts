@@ -38,6 +38,7 @@ const changeWords: Record<string, string> = {
   distribution: 'distribution list',
   holdReminderMinutes: 'hold reminder time',
   commsPlan: 'communications plan',
+  timeZone: 'site’s time zone',
 };
 
 function findStep(names: Named | null | undefined, stepId: string) {

@@ -174,6 +174,8 @@ describe('the record of a job over two shifts at a site in another zone', { time
     for (const e of events) expect(pdfText).toContain(`${e.seq} ${aucklandInDecember(e.at)} ${e.by.name}`);
     expect(pdfText).not.toMatch(/\d\d:\d\d:\d\d UTC/);
     expect(pdfText).not.toContain('(UTC+00:00)');
+    expect(pdfText).toContain('Changed the site’s time zone');
+    expect(pdfText).not.toContain('timeZone');
     // The morning of shift 2 is the next day at the site.
     expect(aucklandInDecember(one('shift.started').at)).toMatch(/^11 Dec 2026, 07:/);
   });
