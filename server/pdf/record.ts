@@ -350,7 +350,7 @@ function stopsAndWeather(pdf: PdfWriter, record: JobRecord, t: Times) {
   else
     pdf.table(
       ['Time', 'By', 'Mean / gust', 'Height', 'Limit (mean / gust)', 'Verdict'],
-      [0.19, 0.2, 0.13, 0.09, 0.15, 0.24],
+      [0.23, 0.16, 0.13, 0.09, 0.15, 0.24],
       record.weather.map((w) => [
         t.at(w.at),
         who(w),
@@ -448,7 +448,7 @@ function timeline(pdf: PdfWriter, record: JobRecord, t: Times) {
   pdf.title('The whole log', 'Every event in order, in the words the board showed.');
   pdf.table(
     ['#', 'Time', 'Who', 'What'],
-    [0.06, 0.2, 0.2, 0.54],
+    [0.06, 0.24, 0.18, 0.52],
     record.timeline.map((e) => [String(e.seq), t.at(e.at), who(e), e.sentence]),
     { size: 7.5 },
   );

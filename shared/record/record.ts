@@ -265,7 +265,11 @@ export interface JobRecord {
   timeZone: string;
   /** Whether the zone is the job's own or the caller's default (a job from before site time). */
   timeZoneFrom: 'job' | 'default';
-  /** Every shift in order: how it began and ended, its handover notes. Empty before the job started. */
+  /**
+   * Every shift in order: how it began and ended, its handover notes; a shift appears with the first
+   * thing recorded for it (its briefing may come before the job's start), and a made-safe job's
+   * next shift is listed, not begun.
+   */
   shifts: RecordShift[];
   /** Every handover note in order (also under their shifts). */
   handovers: RecordHandover[];
@@ -644,6 +648,9 @@ export function buildRecord(events: readonly JobEventDto[], context: RecordConte
         break;
     }
   }
+
+  // A made-safe job waits for its next shift: listed, not begun, even before anyone has signed for it.
+  if (board?.shift?.phase === 'made_safe') shiftNumbered(board.shift.number + 1);
 
   if (configuration && context.figures?.length) {
     const saved: RecordConfiguration = configuration;

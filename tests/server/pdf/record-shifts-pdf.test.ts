@@ -55,6 +55,8 @@ describe('the record of a job over two shifts at a site in another zone', { time
   let holdTitle: string;
   let events: JobEventDto[];
   let pdfText: string;
+  /** The record printed overnight, while the job was made safe. */
+  let overnightText: string;
   const everyone = () => [crew.supervisor, crew.operator, crew.signaller, crew.rigger, rigger2, supervisor2, admin];
   const auth = (who: SignedInUser) => ({ Authorization: `Bearer ${who.token}` });
   const ok = async (who: SignedInUser, command: CommandBody) => {
@@ -142,6 +144,7 @@ describe('the record of a job over two shifts at a site in another zone', { time
       toUserId: supervisor2.user.id,
     });
     await ok(supervisor2, { type: 'handover.acknowledge' });
+    overnightText = textOf(await download('record.pdf', supervisor2), 'two-shifts-auckland-overnight');
 
     // The next morning (14 hours on): everyone signs in again, the start-of-shift hold, shift 2.
     server.advance(14 * HOUR);
@@ -194,6 +197,15 @@ describe('the record of a job over two shifts at a site in another zone', { time
     }
     const last = done.find((e) => e.data.madeSafe)!;
     expect(shifts).toContain(`MADE SAFE ${aucklandInDecember(last.at)}, last item by ${last.by.name}.`);
+  });
+
+  it('says on the cover of a record printed overnight that the job is made safe, when and by whom', () => {
+    const last = events.find((e) => e.type === 'shift.item.done' && e.data.madeSafe)!;
+    const cover = overnightText.slice(0, overnightText.indexOf('Crew Name'));
+    expect(cover).toContain(`Shift 1, MADE SAFE: no work until the next shift starts (${aucklandInDecember(last.at)}, last item by ${last.by.name})`);
+    expect(cover).toContain(`Acting supervisor ${supervisor2.user.displayName}, since ${aucklandInDecember(one('handover.acknowledged').at)}`);
+    const shifts = overnightText.slice(overnightText.indexOf('Shifts How each shift started'));
+    expect(shifts).toContain('Start-of-shift hold: nothing recorded yet. NOT STARTED.');
   });
 
   it('prints the handover note in full and who acknowledged it', () => {

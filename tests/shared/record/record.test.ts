@@ -342,6 +342,11 @@ describe('buildRecord: shifts', () => {
     expect(safe.shiftNow).toEqual({ number: 1, phase: 'made_safe' });
     expect(safe.handovers[0].acknowledged).toBeNull();
     expect(safe.actingSupervisor).toMatchObject({ name: 'Sue Marsh' });
+    // The next shift is listed, waiting for its start-of-shift hold.
+    expect(safe.shifts.map((s) => [s.number, s.started, s.startHold.length])).toEqual([
+      [1, expect.objectContaining({ seq: 8 }), 0],
+      [2, null, 0],
+    ]);
   });
 
   it('lists who was acting supervisor: from the job’s start, by the handover, and by an administrator with the reason', () => {
