@@ -82,7 +82,7 @@ function cover(pdf: PdfWriter, input: RecordPdfInput, kindWord: string, t: Times
   const { record } = input;
   pdf.title(`${kindWord} record`, `${record.job.name} — ${record.job.site}`);
   pdf.facts([
-    ['State', statusText[record.status]],
+    ['State', record.status === 'in_progress' && record.shiftNow?.phase === 'made_safe' ? 'MADE SAFE: job in progress, no work until the next shift starts; this record is not final' : statusText[record.status]],
     ['Site time', `${record.timeZone}: every time in this record is the site’s clock, with its offset from UTC${record.timeZoneFrom === 'default' ? ' (the job names no zone of its own: the server’s zone is used)' : ''}`],
     ...(record.shiftNow ? [['Shift', shiftNowWords(record, t)] as [string, string]] : []),
     ...(record.actingSupervisor ? [['Acting supervisor', `${record.actingSupervisor.name}, since ${t.at(record.actingSupervisor.since)}`] as [string, string]] : []),

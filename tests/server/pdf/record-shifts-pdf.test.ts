@@ -202,6 +202,7 @@ describe('the record of a job over two shifts at a site in another zone', { time
   it('says on the cover of a record printed overnight that the job is made safe, when and by whom', () => {
     const last = events.find((e) => e.type === 'shift.item.done' && e.data.madeSafe)!;
     const cover = overnightText.slice(0, overnightText.indexOf('Crew Name'));
+    expect(cover).toContain('State MADE SAFE: job in progress, no work until the next shift starts; this record is not final');
     expect(cover).toContain(`Shift 1, MADE SAFE: no work until the next shift starts (${aucklandInDecember(last.at)}, last item by ${last.by.name})`);
     expect(cover).toContain(`Acting supervisor ${supervisor2.user.displayName}, since ${aucklandInDecember(one('handover.acknowledged').at)}`);
     const shifts = overnightText.slice(overnightText.indexOf('Shifts How each shift started'));
