@@ -73,12 +73,15 @@ export class DemoBoardDriver {
     return (await storeUpload(this.context, who, { buffer: await demoPhoto(caption, 'weld') })).id;
   }
 
-  /** Completes the open steps of a stage (only the first `count` of them, in order, when given). */
-  async completeSteps(stageId: string, count?: number): Promise<void> {
+  /**
+   * Completes the open steps of a stage (only the first `count` of them, in order, when given),
+   * leaving open the steps named in `except` (for a person to do on screen).
+   */
+  async completeSteps(stageId: string, count?: number, except: readonly string[] = []): Promise<void> {
     const { board } = await this.board();
     const stage = board.stages.find((s) => s.id === stageId)!;
     // Steps in the order the plan asks for: a step waits for the steps it comes after.
-    const open = stage.steps.filter((s) => s.state === 'open');
+    const open = stage.steps.filter((s) => s.state === 'open' && !except.includes(s.id));
     const done = new Set(stage.steps.filter((s) => s.state === 'done').map((s) => s.id));
     const ordered: BoardStep[] = [];
     while (ordered.length < open.length) {

@@ -1,0 +1,249 @@
+import type { BrowserContext, Locator, Page } from 'playwright-core';
+import request from 'supertest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import type { BoardSnapshot } from '../../shared/board/types.js';
+import { DemoBoardDriver } from '../../server/demo/board-driver.js';
+import { DEMO_PASSWORD } from '../../server/demo/people.js';
+import { seedDemoIfEmpty } from '../../server/demo/seed.js';
+import { User } from '../../server/entities/User.js';
+import { startTestServer, type TestServer } from '../helpers/server.js';
+import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+
+const LIVE_JOB = 'Transformer T2 lift: boom erection';
+
+/**
+ * Must-show 2 of issue 17, in real browsers on the demo's live erection: four people at once over
+ * two shifts. Rhys Calloway (supervisor@, laptop) runs shift 1; Priya Raman (rigger2@, phone,
+ * qualified to inspect) finishes the reeving; Rhys ends the shift; the make-safe checklist is
+ * ticked from the screens of the roles it names (Priya, the operator Tomasz Wierzba on his phone,
+ * Marta Lindqvist as signaller and Rhys); every screen says MADE SAFE, when and by whom. Rhys
+ * writes the handover for Marta (supervisor2@, laptop), she acknowledges it and every header names
+ * her acting; she takes the off-shift rigger out of the crew on the crew screen and every screen's
+ * start-of-shift hold follows; Priya records the shift inspection, the operator and Marta
+ * acknowledge, everyone is briefed for shift 2, the wind is read and Marta starts shift 2.
+ */
+describe('two shifts, four people: make safe, hand over, change the crew, start again', () => {
+  let server: TestServer;
+  let chromium: LaunchedBrowser;
+  let jobId: string;
+  let token: string;
+  const open: BrowserContext[] = [];
+  const pageErrors: string[] = [];
+  let people: Record<'supervisor' | 'supervisor2' | 'operator' | 'signaller' | 'rigger' | 'rigger2', User>;
+
+  const boardNow = async () => (await request(server.app).get(`/api/jobs/${jobId}/board`).set({ Authorization: `Bearer ${token}` }).expect(200)).body as BoardSnapshot;
+
+  async function openView(email: string, view: string, viewport: { width: number; height: number }): Promise<Page> {
+    const context = await chromium.browser.newContext({ viewport });
+    open.push(context);
+    const page = await context.newPage();
+    page.on('pageerror', (error) => pageErrors.push(`${email}: ${error.message}`));
+    await signInThroughForm(page, `${server.url}/jobs/${jobId}/${view}`, email, DEMO_PASSWORD);
+    await page.waitForURL((url) => url.pathname.endsWith(`/${view}`));
+    await page.locator('.board-header .fleet').waitFor();
+    await expect.poll(() => page.getByTestId('not-live').count(), { timeout: 10_000 }).toBe(0);
+    return page;
+  }
+
+  /** Presses and holds a control until `done` resolves, then lets go. */
+  async function pressAndHold(page: Page, control: Locator, done: () => Promise<unknown>) {
+    await control.scrollIntoViewIfNeeded();
+    await control.hover();
+    await page.mouse.down();
+    try {
+      await done();
+    } finally {
+      await page.mouse.up();
+    }
+  }
+
+  /** A text field by its test id, whether Quasar put the id on the field or on its input. */
+  const field = (page: Page, id: string) =>
+    page.locator(`input[data-testid="${id}"], textarea[data-testid="${id}"], [data-testid="${id}"] input, [data-testid="${id}"] textarea`).first();
+
+  /** Ticks a make-safe item from this person's screen (with a note where it asks for one) and waits for the tick to show. */
+  async function tick(page: Page, itemId: string, note?: string) {
+    const item = page.getByTestId(`make-safe-item-${itemId}`);
+    await item.scrollIntoViewIfNeeded();
+    if (note) await field(page, `make-safe-note-${itemId}`).fill(note);
+    await page.getByTestId(`make-safe-tick-${itemId}`).click();
+    await expect.poll(() => page.getByTestId(`make-safe-done-by-${itemId}`).count(), { timeout: 10_000 }).toBe(1);
+  }
+
+  async function topShot(page: Page, name: string) {
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(page, name);
+  }
+
+  beforeAll(async () => {
+    server = await startTestServer({ withClient: true });
+    await seedDemoIfEmpty(server.context);
+    chromium = await launchBrowser();
+    const person = (who: string) => server.context.dataSource.manager.findOneByOrFail(User, { email: `${who}@holdline.test` });
+    people = {
+      supervisor: await person('supervisor'),
+      supervisor2: await person('supervisor2'),
+      operator: await person('operator'),
+      signaller: await person('signaller'),
+      rigger: await person('rigger'),
+      rigger2: await person('rigger2'),
+    };
+    token = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
+    const jobs = await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${token}` }).expect(200);
+    jobId = (jobs.body.items as { id: string; name: string }[]).find((j) => j.name === LIVE_JOB)!.id;
+    // The demo waits at the tensioning hold; the crew releases it and reeves the main hoist, all
+    // but the over-hoist weight, which the rigger fits on screen.
+    const driver = new DemoBoardDriver(server.context, jobId, { supervisor: people.supervisor, operator: people.operator, signaller: people.signaller, rigger: people.rigger });
+    await driver.acknowledge('er-tension', ['signaller']);
+    await driver.release('er-tension');
+    await driver.completeSteps('er-reeve', undefined, ['er-reeve.over-hoist']);
+  }, 120_000);
+  afterEach(async () => {
+    for (const context of open.splice(0)) await context.close().catch(() => undefined);
+    expect(pageErrors.splice(0)).toEqual([]);
+  });
+  afterAll(async () => {
+    await chromium?.close();
+    await server?.stop();
+  });
+
+  it('work, end of shift, make safe, handover, crew change and the start of shift 2, every screen following live', { timeout: 180_000 }, async () => {
+    const rhys = await openView('supervisor@holdline.test', 'console', viewports.desktop);
+    const marta = await openView('supervisor2@holdline.test', 'console', viewports.desktop);
+    const operator = await openView('operator@holdline.test', 'cab', viewports.phone);
+    const priya = await openView('rigger2@holdline.test', 'rigger', viewports.phone);
+    const screens = [rhys, marta, operator, priya];
+    for (const page of screens) expect(await page.getByTestId('acting-supervisor').textContent()).toBe('Acting supervisor: Rhys Calloway');
+
+    // 1. Work: the rigger fits the over-hoist weight, the last step of the reeving.
+    const lastStep = priya.getByTestId('complete-er-reeve.over-hoist');
+    await lastStep.scrollIntoViewIfNeeded();
+    await lastStep.click();
+    await expect.poll(async () => (await boardNow()).stages.find((s) => s.id === 'er-reeve')!.state, { timeout: 10_000 }).toBe('holding');
+
+    // Only the acting supervisor ends the shift: Marta is told who does.
+    expect(await marta.getByTestId('end-shift-not-acting').textContent()).toContain('Only the acting supervisor (Rhys Calloway) ends the shift.');
+
+    // 2. Rhys ends the shift: the dialog lists the checklist, a press-and-hold ends it.
+    await rhys.getByTestId('end-shift-open').click();
+    const dialog = rhys.getByTestId('end-shift-dialog');
+    await dialog.waitFor();
+    expect(await dialog.textContent()).toContain('Every boom section on the ground sits on blocking');
+    await screenshot(rhys, 'two-shift-end-dialog-laptop');
+    await pressAndHold(rhys, dialog.getByTestId('end-shift-hold'), () => expect.poll(async () => (await boardNow()).shift?.phase, { timeout: 10_000 }).toBe('making_safe'));
+    for (const page of screens) await page.getByTestId('making-safe-banner').waitFor({ timeout: 10_000 });
+    // Work stops on every screen: the rigger's next stage offers no step to complete.
+    await topShot(operator, 'two-shift-making-safe-cab-phone');
+
+    // 3. The make-safe checklist, ticked from the screens of the roles each item names.
+    const items = (await boardNow()).shift!.makeSafe!.items;
+    expect(items.map((i) => i.id)).toEqual(['blocking', 'noHangingSection', 'hookBlocks', 'counterweight', 'guyLines', 'engineOff', 'keyHeld', 'exclusionZone', 'forecast']);
+    // The operator's phone offers only the items an operator may tick.
+    expect(await operator.getByTestId('make-safe-tick-guyLines').count()).toBe(0);
+    expect(await operator.getByTestId('make-safe-tick-engineOff').count()).toBe(1);
+    for (const id of ['blocking', 'noHangingSection', 'guyLines']) await tick(priya, id);
+    await screenshot(priya, 'two-shift-make-safe-rigger-phone');
+    for (const id of ['hookBlocks', 'counterweight', 'engineOff']) await tick(operator, id);
+    await tick(marta, 'exclusionZone');
+    await tick(rhys, 'keyHeld', 'Site cabin key safe; Marta has the code.');
+    await screenshot(rhys, 'two-shift-make-safe-console-laptop');
+    await tick(rhys, 'forecast', 'Overnight gusts to 11 m/s from the south-west, easing by 06:00; no frost.');
+
+    // 4. Made safe: every screen says so in large words, when and by whom; no stop bar, no work control.
+    const board = await boardNow();
+    expect(board.job.state).toBe('made_safe');
+    const made = board.shift!.makeSafe!.madeSafe!;
+    expect(made.name).toBe('Rhys Calloway');
+    for (const [page, name] of [
+      [rhys, 'two-shift-made-safe-console-laptop'],
+      [marta, 'two-shift-made-safe-console2-laptop'],
+      [operator, 'two-shift-made-safe-cab-phone'],
+      [priya, 'two-shift-made-safe-rigger-phone'],
+    ] as const) {
+      const headline = page.getByTestId('made-safe-headline');
+      await headline.waitFor({ timeout: 10_000 });
+      expect(await headline.textContent()).toMatch(/^MADE SAFE at \d\d:\d\d.* — last item by Rhys Calloway, shift ended by Rhys Calloway$/);
+      expect(await page.getByTestId('made-safe-board').count()).toBe(1);
+      expect(await page.getByTestId('stop-bar').count()).toBe(0);
+      expect(await page.locator('[data-testid^="complete-"]').count()).toBe(0);
+      await topShot(page, name);
+    }
+
+    // 5. The handover: Rhys writes it for Marta; she reads it on her screen and acknowledges.
+    // The made-safe board opens the note's form for the acting supervisor by itself.
+    const form = rhys.getByTestId('handover-form');
+    await form.waitFor({ timeout: 10_000 });
+    expect(await form.textContent()).toContain('Main hoist reeving');
+    await field(rhys, 'handover-hazards').fill('Hook block hanging on 6 parts at the tip: nobody under it. Boom hoist locked, tip on the ground.');
+    await field(rhys, 'handover-note').fill('Reeving done and counted; the reeving hold is not acknowledged yet. Electrics next.');
+    await rhys.getByLabel('Meant for (optional)').click();
+    await rhys.getByRole('option', { name: 'Marta Lindqvist' }).click();
+    await rhys.getByTestId('handover-write').click();
+    for (const page of screens) await expect.poll(() => page.getByTestId('handover-hazards-text').textContent(), { timeout: 10_000 }).toContain('nobody under it');
+    const latest = marta.getByTestId('handover-latest');
+    expect(await latest.textContent()).toContain('for Marta Lindqvist');
+    await latest.scrollIntoViewIfNeeded();
+    await screenshot(marta, 'two-shift-handover-waiting-laptop');
+    await marta.getByTestId('handover-acknowledge').click();
+    for (const page of screens) {
+      await expect.poll(() => page.getByTestId('acting-supervisor').textContent(), { timeout: 10_000 }).toBe('Acting supervisor: Marta Lindqvist');
+      await expect.poll(() => page.getByTestId('handover-acknowledged').textContent(), { timeout: 10_000 }).toContain('Read and acknowledged by Marta Lindqvist');
+    }
+    expect(await rhys.getByTestId('shift-start-not-acting').textContent()).toContain('Only the acting supervisor (Marta Lindqvist) starts the next shift.');
+
+    // 6. A crew change: Callum Frey is off this shift, and Marta takes him out of the crew. The job's
+    // crew screen is read-only once a job has left planning, so she sends the crew through the API
+    // (PUT /api/jobs/:id/crew) as the screen would. Every start-of-shift hold stops waiting for his briefing.
+    const briefingList = (page: Page) => page.getByTestId('shift-start-briefing').textContent();
+    for (const page of screens) expect(await briefingList(page)).toContain('Callum Frey');
+    const martaToken = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
+    const members = (await boardNow()).crew.filter((m) => m.userId !== people.rigger.id).map((m) => ({ userId: m.userId, role: m.role }));
+    await request(server.app).put(`/api/jobs/${jobId}/crew`).set({ Authorization: `Bearer ${martaToken}` }).send({ members }).expect(200);
+    for (const page of screens) await expect.poll(() => briefingList(page), { timeout: 10_000 }).not.toContain('Callum Frey');
+
+    // 7. The start of shift 2. Everyone in the crew is briefed for it (the four here on their screens, the signaller elsewhere;
+    // the client's engineer only watches and is not asked).
+    for (const page of screens) {
+      const button = page.getByTestId('briefing').getByRole('button', { name: 'Acknowledge the briefing' });
+      await button.scrollIntoViewIfNeeded();
+      await button.click();
+      await expect.poll(() => page.getByTestId('briefing').count(), { timeout: 10_000 }).toBe(0);
+    }
+    const elsewhere = new DemoBoardDriver(server.context, jobId, {});
+    await elsewhere.send(people.signaller, { type: 'briefing.acknowledge' });
+    // The competent person's shift inspection, from the rigger's phone.
+    const note = field(priya, 'shift-inspect-note');
+    await note.scrollIntoViewIfNeeded();
+    await note.fill('Walked the boom, blocking, crawlers and counterweight: nothing moved overnight, pins and keepers in place.');
+    await priya.getByTestId('shift-inspect').click();
+    for (const page of screens) await expect.poll(() => page.getByTestId('shift-start-inspection').textContent(), { timeout: 10_000 }).toContain('by Priya Raman');
+    await operator.getByTestId('shift-ack-operator').click();
+    await expect.poll(() => marta.getByTestId('shift-start-operator').textContent(), { timeout: 10_000 }).toContain('acknowledged by Tomasz Wierzba');
+    await marta.getByTestId('shift-ack-supervisor').click();
+    await expect.poll(() => operator.getByTestId('shift-start-supervisor').textContent(), { timeout: 10_000 }).toContain('acknowledged by Marta Lindqvist');
+    // The wind read by the signaller on the ground.
+    await elsewhere.send(people.signaller, { type: 'weather.record', meanMs: 4.2, gustMs: 6.6, heightM: 10 });
+    await expect.poll(() => marta.getByTestId('shift-start-missing').textContent(), { timeout: 10_000 }).toContain('Everything the start-of-shift hold needs is in place.');
+    await marta.getByTestId('shift-start-hold').scrollIntoViewIfNeeded();
+    await screenshot(marta, 'two-shift-start-ready-laptop');
+    await screenshot(priya, 'two-shift-start-ready-rigger-phone');
+    await pressAndHold(marta, marta.getByTestId('shift-start-button'), () => expect.poll(async () => (await boardNow()).job.state, { timeout: 10_000 }).toBe('live'));
+
+    // Shift 2 under way on every screen: no band, Marta acting, the stop bar back.
+    const after = await boardNow();
+    expect(after.shift).toMatchObject({ number: 2, phase: 'working' });
+    expect(after.actingSupervisor?.name).toBe('Marta Lindqvist');
+    expect(after.crew.some((m) => m.name === 'Callum Frey')).toBe(false);
+    for (const [page, name] of [
+      [rhys, 'two-shift-2-console-laptop'],
+      [marta, 'two-shift-2-console2-laptop'],
+      [operator, 'two-shift-2-cab-phone'],
+      [priya, 'two-shift-2-rigger-phone'],
+    ] as const) {
+      await expect.poll(() => page.getByTestId('made-safe-banner').count(), { timeout: 10_000 }).toBe(0);
+      expect(await page.getByTestId('acting-supervisor').textContent()).toBe('Acting supervisor: Marta Lindqvist');
+      expect(await page.getByTestId('stop-bar').count()).toBe(1);
+      await topShot(page, name);
+    }
+  });
+});
