@@ -128,6 +128,12 @@ export function siteDateTime(at: string | Date, zone: string, options: SiteTimeO
   return `${dateWords(w)}, ${clockWords(w, options)} (${w.offset})`;
 }
 
+/** The site's clock alone, for a list whose offset is written beside it or once above it: "18:04". */
+export function siteClock(at: string | Date, zone: string, options: SiteTimeOptions = {}): string {
+  const date = toDate(at);
+  return date ? clockWords(wallClock(date, zone), options) : String(at);
+}
+
 /** The site's calendar date: "3 Dec 2026". */
 export function siteDate(at: string | Date, zone: string): string {
   const date = toDate(at);

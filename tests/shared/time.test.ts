@@ -13,7 +13,7 @@
 // - Pacific/Auckland: New Zealand Daylight Time UTC+13:00 from the last Sunday of September to the
 //   first Sunday of April (New Zealand Daylight Time Order 2007; from memory), so in December.
 import { describe, expect, it } from 'vitest';
-import { isTimeZone, sameSiteDay, siteDate, siteDateTime, siteTime, siteWhen, tidyTimeZone, timeZoneNames, utcOffset, utcTime } from '../../shared/time';
+import { isTimeZone, sameSiteDay, siteClock, siteDate, siteDateTime, siteTime, siteWhen, tidyTimeZone, timeZoneNames, utcOffset, utcTime } from '../../shared/time';
 
 const MINUS = '\u2212';
 
@@ -92,6 +92,10 @@ describe('siteTime and siteDateTime: the site wall clock with its offset', () =>
     expect(siteDate('2026-12-03T12:30:00Z', 'Pacific/Auckland')).toBe('4 Dec 2026');
     // 03:00 UTC on 4 December − 6 h = 21:00 on 3 December in Chicago.
     expect(siteDateTime('2026-12-04T03:00:00Z', 'America/Chicago')).toBe(`3 Dec 2026, 21:00 (UTC${MINUS}06:00)`);
+  });
+  it('siteClock is the clock alone, for lists that write the offset once', () => {
+    expect(siteClock('2026-12-03T17:04:12Z', 'Europe/Warsaw')).toBe('18:04');
+    expect(siteClock('2026-12-03T17:04:12Z', 'Asia/Kolkata', { seconds: true })).toBe('22:34:12');
   });
   it('midnight is 00:00, never 24:00', () => {
     expect(siteTime('2026-12-03T23:00:00Z', 'Europe/Warsaw')).toBe('00:00 (UTC+01:00)');

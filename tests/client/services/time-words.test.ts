@@ -4,7 +4,7 @@
 // UTC−06:00 in winter (Central Standard Time, 15 U.S.C. 260a); Pacific/Auckland UTC+13:00 in
 // December (New Zealand daylight time; from memory).
 import { describe, expect, it } from 'vitest';
-import { formatInstant, formatWhen, zoneWords } from '../../../src/services/time';
+import { formatInstant, formatWhen, formatWhenParts, siteTimeWords, zoneWords } from '../../../src/services/time';
 
 describe('formatWhen: the site’s clock with its offset', () => {
   const now = new Date('2026-11-02T14:00:00Z'); // 15:00 on 2 Nov in Warsaw
@@ -34,6 +34,15 @@ describe('formatWhen: the site’s clock with its offset', () => {
   });
 });
 
+describe('formatWhenParts: the clock and the offset apart, for a narrow column', () => {
+  it('gives the same clock and offset as formatWhen', () => {
+    const now = new Date('2026-12-03T18:00:00Z');
+    expect(formatWhenParts('2026-12-03T17:04:00Z', 'America/Chicago', now)).toEqual({ when: '11:04', offset: 'UTC\u221206:00' });
+    expect(formatWhenParts('2026-12-02T17:04:00Z', 'America/Chicago', now)).toEqual({ when: '2 Dec 2026, 11:04', offset: 'UTC\u221206:00' });
+    expect(formatWhenParts('garbled', 'America/Chicago', now)).toEqual({ when: 'garbled', offset: '' });
+  });
+});
+
 describe('formatInstant: for the record, always with the date and seconds', () => {
   it('writes the site’s date, time to the second and offset', () => {
     expect(formatInstant('2026-12-03T17:04:12.345Z', 'Europe/Warsaw')).toBe('3 Dec 2026, 18:04:12 (UTC+01:00)');
@@ -45,5 +54,6 @@ describe('zoneWords: the zone said once in a board header', () => {
   it('names the offset in force and the zone', () => {
     expect(zoneWords('Europe/Warsaw', new Date('2026-07-01T12:00:00Z'))).toBe('Site time UTC+02:00 (Europe/Warsaw)');
     expect(zoneWords('Europe/Warsaw', new Date('2026-12-01T12:00:00Z'))).toBe('Site time UTC+01:00 (Europe/Warsaw)');
+    expect(siteTimeWords('Asia/Kolkata', new Date('2026-12-01T12:00:00Z')).words).toBe('Site time UTC+05:30');
   });
 });
