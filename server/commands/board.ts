@@ -310,7 +310,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     }
     // A hold meant for two people is not passed by one: whoever acknowledged under another role, or as the inspector, does not release.
     const mine = hold.acknowledgments.find((a) => a.userId === actor.id && (a.role !== 'supervisor' || a.inspector));
-    if (mine) throw refuse(409, 'one_person_two_roles', `You acknowledged “${hold.title}” as ${mine.inspector ? 'the inspector' : mine.role}; another supervisor must release it.`);
+    if (mine) {
+      throw refuse(409, 'one_person_two_roles', `You acknowledged “${hold.title}” as ${mine.inspector ? 'the inspector' : mine.role}; another supervisor must release it: hand the job over to them first, since only the acting supervisor releases holds.`);
+    }
     if (hold.signOff) {
       const open = board.stages.filter((s) => s.id !== stage.id && s.state !== 'done' && s.state !== 'skipped');
       if (open.length) throw invalidState(`The job cannot be signed off while ${open.length === 1 ? 'a stage is' : `${open.length} stages are`} not finished: ${open.map((s) => `“${s.title}”`).join(', ')}.`);

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import sharp from 'sharp';
 import { io as connect, type Socket } from 'socket.io-client';
 import request from 'supertest';
-import { holdGatesBoomMovement, movesBoom, weatherVerdict } from '../../shared/board/rules.js';
+import { holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, weatherVerdict } from '../../shared/board/rules.js';
 import type { BoardState, BoardStep } from '../../shared/board/types.js';
 import type { ClientToServerEvents, CommandAnswer, JoinAnswer, ServerToClientEvents } from '../../shared/events/socket.js';
 import type { BoardCommand } from '../../shared/schemas/commands.js';
@@ -82,12 +82,17 @@ export type CrewByRole = Record<Exclude<CrewRole, 'viewer'>, SignedInUser>;
 /** A calm weather reading at 10 m, well inside the test crane's limits (18 m boom: gust 13 m/s, mean 9 m/s). */
 export const calmWeather = { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 } as const;
 
-/** Records a calm reading when the boom is about to move (or the hold before it released) on an old or missing one. */
+/**
+ * Records a calm reading, on an old or missing one, when the next step or release needs a fresh
+ * one: every step of a raise or lowering, the first step of a stage that moves the crane, and the
+ * release of a hold that lets either start. The same rule the server applies (shared/board/rules.ts)
+ * and the demo driver follows (server/demo/board-driver.ts).
+ */
 export async function weatherIfNeeded(server: TestServer, crew: CrewByRole, jobId: string, stageId: string, forRelease: boolean): Promise<void> {
   const board = await boardOf(server, crew.supervisor, jobId);
   const stage = board.stages.find((s) => s.id === stageId)!;
-  const needs = forRelease ? holdGatesBoomMovement(board, stageId) : movesBoom(stage);
-  if (!needs || weatherVerdict(board, server.context.now().getTime(), 'raising').fresh) return;
+  const phase = forRelease ? (holdGatesBoomMovement(board, stageId) ? 'raising' : holdGatesCraneMovement(board, stageId) ? 'current' : null) : stepNeedsFreshWeather(stage);
+  if (!phase || weatherVerdict(board, server.context.now().getTime(), phase === 'raising' ? 'raising' : undefined).fresh) return;
   const answer = await httpCommand(server, crew.rigger, jobId, calmWeather);
   if (answer.status !== 200) throw new Error(`weather: ${JSON.stringify(answer.body)}`);
 }

@@ -156,6 +156,8 @@ describe('board rules', () => {
       board = await boardOf(server, crew.supervisor, jobId);
       expect(outOfLimitSteps(board)).toEqual([]);
       await acknowledgeAll(jobId, 'er-ground');
+      // Releasing the ground hold starts a stage that moves the crane: it needs a fresh reading too.
+      await httpCommand(server, crew.rigger, jobId, calmWeather);
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
     });
 
@@ -219,8 +221,9 @@ describe('board rules', () => {
           expect(revised.stages.find((s) => s.id === 'er-upper')?.state).toBe('active');
           expect(revised.stages.find((s) => s.id === holding.id)?.state).toBe('locked');
           expect(outOfLimitSteps(revised)).toEqual([]);
-          expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-upper.test-slope', value: '0.8' })).status).toBe(200);
+          // Version 2 of the plan: nobody works to it before they are briefed on it.
           await briefEveryone(server, crew, jobId);
+          expect((await httpCommand(server, crew.rigger, jobId, { type: 'step.complete', stepId: 'er-upper.test-slope', value: '0.8' })).status).toBe(200);
           await acknowledgeAndRelease(server, crew, jobId, 'er-upper');
           for (let g = 0; g < 20; g++) {
             const now = await boardOf(server, crew.supervisor, jobId);
@@ -324,7 +327,7 @@ describe('board rules', () => {
       server.advance(16 * 60 * 1000);
       resign();
       const old = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
-      expect(old.body.error).toMatchObject({ code: 'weather_required', message: 'Releasing “Ready to raise” lets the boom move: Record a new weather reading: the last one is older than 15 minutes.' });
+      expect(old.body.error).toMatchObject({ code: 'weather_required', message: 'Releasing “Ready to raise” lets the boom move: Record a new weather reading: the last one is older than 15 minutes. The supervisor, operator, signaller or rigger can record one on the weather panel.' });
       await httpCommand(server, crew.rigger, jobId, calmWeather);
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
 
@@ -344,7 +347,7 @@ describe('board rules', () => {
       expect(board.weather).toMatchObject({ gustMs: 14, heightM: 30 });
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Gusts easing' })).body.error).toMatchObject({
         code: 'weather_required',
-        message: 'The latest reading is over the limits (Gust 14 m/s is over the limit of 13 m/s). Wait and record a new reading.',
+        message: 'Work cannot resume yet: The latest reading is over the limits (Gust 14 m/s is over the limit of 13 m/s). Wait and record a new reading. The supervisor, operator, signaller or rigger can record one on the weather panel.',
       });
       // A reading to 0.1 m/s just inside the limit lets the supervisor resume, and the raise goes on.
       await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 8.9, gustMs: 12.9, heightM: 30 });
@@ -474,18 +477,32 @@ describe('board rules', () => {
   });
 
   describe('who releases and who stops', () => {
-    it('a supervisor who acknowledged as signaller cannot release the same hold; another supervisor can', async () => {
+    it('the acting supervisor who acknowledged as signaller cannot release the same hold; another supervisor can only once the job is handed over to them (only the acting supervisor releases)', async () => {
       const jobId = await liveJob(() => {}, [{ userId: supervisor2.user.id, role: 'signaller' }]);
+      const handOver = async (from: SignedInUser, to: SignedInUser) => {
+        expect((await httpCommand(server, from, jobId, { type: 'handover.write', hazards: 'None beyond the plan', note: 'Ground hold under way.', toUserId: to.user.id })).status).toBe(200);
+        expect((await httpCommand(server, to, jobId, { type: 'handover.acknowledge' })).status).toBe(200);
+      };
+      // supervisor2, also the signaller, takes the job over and so becomes the acting supervisor.
+      await handOver(crew.supervisor, supervisor2);
       await completeSteps(server, crew, jobId, 'er-ground');
       const hold = (await boardOf(server, crew.supervisor, jobId)).stages[0].hold!;
-      expect(hold.requiredRoles).toContain('signaller');
+      expect(hold.requiredRoles).toEqual(expect.arrayContaining(['supervisor', 'signaller']));
       for (const role of hold.requiredRoles) {
         const who = role === 'signaller' ? supervisor2 : crew[role as keyof CrewByRole];
         expect((await ack(who, jobId, hold.id, role)).status).toBe(200);
       }
+      await httpCommand(server, crew.rigger, jobId, calmWeather);
       const alone = await httpCommand(server, supervisor2, jobId, { type: 'hold.release', holdId: hold.id });
       expect(alone.status).toBe(409);
-      expect(alone.body.error).toMatchObject({ code: 'one_person_two_roles', message: `You acknowledged “${hold.title}” as signaller; another supervisor must release it.` });
+      expect(alone.body.error?.code).toBe('one_person_two_roles');
+      expect(alone.body.error?.message).toMatch(new RegExp(`^You acknowledged “${hold.title}” as signaller; another supervisor must release it`));
+      // Before issue 17 any other supervisor released it; now only the acting one does.
+      const notActing = await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
+      expect(notActing.status).toBe(403);
+      expect(notActing.body.error?.code).toBe('not_acting_supervisor');
+      expect(notActing.body.error?.message).toContain(`Only the acting supervisor, ${supervisor2.user.displayName},`);
+      await handOver(supervisor2, crew.supervisor);
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
     });
 

@@ -27,8 +27,9 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
 /**
  * The job's ending (issue 16): the erection plan's last hold is the post-assembly inspection and
  * hand-over; besides its roles a crew member the admin marks as qualified to inspect acknowledges
- * it, and its release by another supervisor completes the job, closes its board and writes the
- * crane unit's as-built configuration. Everything goes through the real HTTP and socket paths.
+ * it, and its release by the acting supervisor (issue 17: whoever started the job, until they hand
+ * over) completes the job, closes its board and writes the crane unit's as-built configuration.
+ * Everything goes through the real HTTP and socket paths.
  */
 describe('the job ending with its sign-off', () => {
   let server: TestServer;
@@ -36,7 +37,7 @@ describe('the job ending with its sign-off', () => {
   let crew: CrewByRole;
   /** A rigger the admin marks as qualified to inspect. */
   let inspector: SignedInUser;
-  /** A second supervisor, also marked qualified to inspect: may inspect or release, never both. */
+  /** A second supervisor, also marked qualified to inspect: may inspect or release (once acting), never both. */
   let supervisor2: SignedInUser;
   let unitId: string;
   let parts: Record<string, string>;
@@ -142,23 +143,33 @@ describe('the job ending with its sign-off', () => {
       expect((await send(crew.operator, jobId, { type: 'hold.acknowledge', holdId, role: 'operator' })).status).toBe(200);
       const hold = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-handover')!.hold!;
       expect(hold.state).toBe('open');
-      const answer = await send(supervisor2, jobId, { type: 'hold.release', holdId });
+      const answer = await send(crew.supervisor, jobId, { type: 'hold.release', holdId });
       expect(answer.status).toBe(409);
       expect(answer.body.error?.message).toContain('still needs: a qualified inspector');
     });
 
-    it('the supervisor who acknowledges as the inspector does not release it', async () => {
+    it('the supervisor who acknowledges as the inspector does not release it, not even once the job is handed over to them (only the acting supervisor releases)', async () => {
       // supervisor2 is qualified: acknowledges as the inspector in their crew role (supervisor)...
       const ack = await send(supervisor2, jobId, { type: 'hold.acknowledge', holdId, role: 'supervisor', asInspector: true });
       expect(ack.status, JSON.stringify(ack.body)).toBe(200);
       let hold = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-handover')!.hold!;
       expect(hold.state).toBe('acknowledged');
       expect(hold.acknowledgments.find((a) => a.userId === supervisor2.user.id)).toMatchObject({ role: 'supervisor', inspector: true });
-      // ...and may not then release what they inspected.
+      // ...is not the acting supervisor, so may not release at all (issue 17)...
+      const notActing = await send(supervisor2, jobId, { type: 'hold.release', holdId });
+      expect(notActing.status).toBe(403);
+      expect(notActing.body.error?.code).toBe('not_acting_supervisor');
+      // ...and once the job is handed over to them, still may not release what they inspected.
+      expect((await send(crew.supervisor, jobId, { type: 'handover.write', hazards: 'None beyond the plan', note: 'Sign-off under way.', toUserId: supervisor2.user.id })).status).toBe(200);
+      expect((await send(supervisor2, jobId, { type: 'handover.acknowledge' })).status).toBe(200);
       const release = await send(supervisor2, jobId, { type: 'hold.release', holdId });
       expect(release.status).toBe(409);
       expect(release.body.error?.code).toBe('one_person_two_roles');
       expect(release.body.error?.message).toContain('as the inspector');
+      // Handed back, so the next test's release is by the supervisor who acknowledged as supervisor.
+      expect((await send(supervisor2, jobId, { type: 'handover.write', hazards: 'None beyond the plan', note: 'Back to you for the sign-off.', toUserId: crew.supervisor.user.id })).status).toBe(200);
+      expect((await send(crew.supervisor, jobId, { type: 'handover.acknowledge' })).status).toBe(200);
+      expect((await boardOf(server, crew.supervisor, jobId)).actingSupervisor?.userId).toBe(crew.supervisor.user.id);
       // A second inspector is refused while the hold is fully acknowledged; the first withdraws and the rigger takes the slot.
       const second = await send(inspector, jobId, { type: 'hold.acknowledge', holdId, role: 'rigger', asInspector: true });
       expect(second.status).toBe(409);
@@ -169,7 +180,7 @@ describe('the job ending with its sign-off', () => {
       expect(hold.acknowledgments.some((a) => a.inspector)).toBe(false);
     });
 
-    it('released by a supervisor after the qualified inspector, it completes the job', async () => {
+    it('released by the acting supervisor after the qualified inspector, it completes the job', async () => {
       const ack = await send(inspector, jobId, { type: 'hold.acknowledge', holdId, role: 'rigger', asInspector: true });
       expect(ack.status, JSON.stringify(ack.body)).toBe(200);
       const release = await send(crew.supervisor, jobId, { type: 'hold.release', holdId });
@@ -253,13 +264,13 @@ describe('the job ending with its sign-off', () => {
       const answer = await send(who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role, ...(asInspector ? { asInspector } : {}) });
       expect(answer.status, JSON.stringify(answer.body)).toBe(200);
     }
-    const refused = await send(supervisor2, jobId, { type: 'hold.release', holdId: hold.id });
+    const refused = await send(crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
     expect(refused.status).toBe(409);
     expect(refused.body.error?.message).toContain('“Tidy the laydown area”');
     expect((await boardOf(server, crew.supervisor, jobId)).job.state).toBe('live');
     // Once the added stage is done, the same release completes the job.
     expect((await send(crew.rigger, jobId, { type: 'step.complete', stepId: 'er-extra-tidy.sweep' })).status).toBe(200);
-    const released = await send(supervisor2, jobId, { type: 'hold.release', holdId: hold.id });
+    const released = await send(crew.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
     expect(released.status, JSON.stringify(released.body)).toBe(200);
     expect((await boardOf(server, crew.supervisor, jobId)).job.state).toBe('complete');
   }, 180_000);

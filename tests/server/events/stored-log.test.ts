@@ -14,7 +14,7 @@ import { presentJobEvent } from '../../../server/presenters/job-event.js';
 /**
  * A database written by the demo seed of the version before the event log was typed (commit
  * fc53c1c): the stored events must still read through the typed schema, give back the board
- * the old server stored, and still verify.
+ * the old server stored (plus what later versions derive from the same events), and still verify.
  */
 describe('events stored before the log was typed', () => {
   let dir: string;
@@ -39,7 +39,20 @@ describe('events stored before the log was typed', () => {
       const events = rows.map((row) => presentJobEvent(row));
       count += events.length;
       expect(events.map((e) => e.seq)).toEqual(rows.map((_, i) => i + 1));
-      expect(replay(events)).toEqual(job.board);
+      // The old server stored no shifts and no acting supervisor (issue 17): the replay adds them
+      // (a started job is in its first shift, run by whoever started it); the rest is as stored.
+      const { shift, actingSupervisor, ...asBefore } = replay(events)!;
+      expect(asBefore).toEqual(job.board);
+      expect(job.board).not.toHaveProperty('shift');
+      expect(job.board).not.toHaveProperty('actingSupervisor');
+      const started = events.find((e) => e.type === 'job.started');
+      if (started) {
+        expect(shift).toMatchObject({ number: 1, startedAt: started.at });
+        expect(actingSupervisor).toEqual(started.by.role === 'supervisor' ? { userId: started.by.userId, name: started.by.name, since: started.at } : null);
+      } else {
+        expect(shift).toBeUndefined();
+        expect(actingSupervisor).toBeUndefined();
+      }
       expect(await verifyJobChain(dataSource.manager, job.id)).toMatchObject({ valid: true, checked: rows.length, firstBadSeq: null });
     }
     expect(count).toBe(287);

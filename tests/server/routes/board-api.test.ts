@@ -318,7 +318,7 @@ describe('the live board engine', () => {
     expect(other).toMatchObject({ ok: false, error: { code: 'command_id_reused' } });
   });
 
-  it('20 concurrent releases from two supervisors: exactly one succeeds', async () => {
+  it('20 concurrent releases from two devices of the acting supervisor and from a second supervisor: exactly one succeeds, the second supervisor is refused as not acting', async () => {
     const jobId = await liveJob();
     await completeSteps(server, crew, jobId, 'er-ground');
     const hold = (await boardOf(server, crew.supervisor, jobId)).stages[0].hold!;
@@ -326,12 +326,19 @@ describe('the live board engine', () => {
       const who = crew[role as keyof CrewByRole];
       expect((await httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role })).status).toBe(200);
     }
-    const a = client(crew.supervisor);
-    const b = client(supervisor2);
-    await Promise.all([a.join(jobId), b.join(jobId)]);
-    const answers = await Promise.all(Array.from({ length: 20 }, (_, i) => (i % 2 ? a : b).command(jobId, { type: 'hold.release', holdId: hold.id })));
-    expect(answers.filter((x) => x.ok)).toHaveLength(1);
-    expect(answers.filter((x) => !x.ok).every((x) => !x.ok && x.error.code === 'invalid_state')).toBe(true);
+    // The release starts a stage that moves the crane: on a fresh reading.
+    expect((await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 })).status).toBe(200);
+    const phone = client(crew.supervisor);
+    const tablet = client(crew.supervisor);
+    const other = client(supervisor2);
+    await Promise.all([phone.join(jobId), tablet.join(jobId), other.join(jobId)]);
+    const senders = [phone, tablet, other];
+    const answers = await Promise.all(Array.from({ length: 20 }, (_, i) => senders[i % 3].command(jobId, { type: 'hold.release', holdId: hold.id }).then((answer) => ({ acting: i % 3 !== 2, answer }))));
+    expect(answers.filter((x) => x.answer.ok)).toHaveLength(1);
+    expect(answers.filter((x) => x.answer.ok).every((x) => x.acting)).toBe(true);
+    // Before issue 17 either supervisor could release; now the second is refused whatever the hold's state.
+    expect(answers.filter((x) => !x.acting).map((x) => (x.answer.ok ? 'ok' : x.answer.error.code))).toEqual(Array(6).fill('not_acting_supervisor'));
+    expect(answers.filter((x) => x.acting && !x.answer.ok).every((x) => !x.answer.ok && x.answer.error.code === 'invalid_state')).toBe(true);
   });
 
   it('replaying the whole event log through the shared reducer gives the server’s snapshot', async () => {
