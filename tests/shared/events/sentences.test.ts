@@ -52,7 +52,7 @@ describe('event sentences', () => {
     expect(describeEvent(event('job.updated', { changes: { timeZone: 'Pacific/Auckland' }, planRegenerated: false }))).toBe('Changed the site’s time zone');
     expect(
       describeEvent(event('crew.set', { crew: [{ userId: 'u2', name: 'Ola Brandt', role: 'operator' }], added: [{ userId: 'u2', role: 'operator' }], removed: [{ userId: 'sup', role: 'rigger' }] }), { crew }),
-    ).toBe('Crew: added Ola Brandt as operator; removed Maren Holt as rigger');
+    ).toBe('Crew: added Ola Brandt as operator; removed Maren Holt as rigger.');
     const figure = (status: 'fail' | 'pass') => ({ key: 'k', value: '1', status, overridable: false });
     const base = { planRegenerated: false, windLimits: null, figures: [figure('fail'), figure('pass')], overridesWithdrawn: [] };
     expect(describeEvent(event('configuration.set', { ...base, configuration: config({ boomLengthM: 18 }) }))).toBe('Configuration saved: 18 m boom; 1 failing');
