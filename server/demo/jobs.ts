@@ -127,7 +127,7 @@ function shiftClock(context: AppContext, start: Date, stepMs: number): { context
  * - the 60 m erection on FL-07 for the transformer lift, live, at the guy-line tensioning hold,
  *   acknowledged by the operator and waiting for the signaller;
  * - a 21 m erection on FL-12 at a pumping station over two shifts: begun yesterday morning by Rhys
- *   Calloway, made safe at the end of the day with the boom assembled on blocking, handed over to
+ *   Calloway, made safe at the end of the day with the boom sections checked and on blocking, handed over to
  *   Marta Lindqvist, and live again in its second shift this morning;
  * - the dismantling of FL-07 after the lift, being planned.
  */
@@ -198,11 +198,12 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
 
 /**
  * An erection over two shifts on FL-12 (back from the depot trial): the first shift, yesterday,
- * assembles the boom on the ground and ends with the make-safe checklist and a handover note to
+ * sets the crane up and checks and lays down the boom sections, and ends with the make-safe
+ * checklist and a handover note to
  * Marta Lindqvist; this morning she acknowledges it, the crew is briefed for shift 2, Priya Raman
  * (qualified to inspect) records the shift inspection, the operator and Marta acknowledge the
- * start-of-shift hold, the signaller reads the wind and Marta starts the shift; the guy lines are
- * being laid out now. Every command is the crew's own, so the handover and the made-safe record
+ * start-of-shift hold, the signaller reads the wind and Marta starts the shift; the boom is
+ * being pinned joint by joint now. Every command is the crew's own, so the handover and the made-safe record
  * are genuine events in the log.
  */
 async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFleet): Promise<void> {
@@ -249,8 +250,8 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
   await first.send(p.supervisor, { type: 'job.start' });
   for (const who of people) await first.send(who, { type: 'briefing.acknowledge' });
   await first.send(p.signaller, { type: 'weather.record', meanMs: 3.8, gustMs: 6.5, heightM: 10 });
-  // The boom assembled on the ground, joint by joint; the guy lines wait for the morning.
-  await first.runUntil('er-guy-layout');
+  // Ground, crawlers, mast and counterweight, then every section checked and laid down on blocking; the joints wait for the morning.
+  await first.runUntil('er-joints');
   // The end of the day: made safe, then the handover note to the morning's supervisor.
   clock.jumpTo(new Date(now - 17 * hour));
   await first.makeSafe({
@@ -261,12 +262,12 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
     type: 'handover.write',
     toUserId: p.supervisor2.id,
     hazards:
-      'Boom assembled on blocking across the laydown, tip to the south: nobody walks under it or steps over the pendant ends. ' +
+      'Boom sections laid out on blocking in joint order across the laydown, tip to the south: nobody climbs on them or steps between them. ' +
       'Hardstanding by the east blocking went soft in the afternoon rain; keep the telehandler off it. ' +
       'Gusts forecast overnight: read the wind before anything moves.',
     note:
-      'Every joint pinned and counted, retainers fitted. The guy lines are still coiled on the trailer, GT pair on the north side. ' +
-      'Start with the guy-line layout.',
+      'Every section, pin and guy line checked serviceable and its serial recorded; no joint pinned yet. ' +
+      'Start with the boom foot: the slings and the backstops come first.',
   });
 
   // Shift 2, this morning: Marta Lindqvist takes over and starts the shift.
@@ -276,11 +277,11 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
     briefed: people,
     inspector: p.rigger2,
     inspectionNote:
-      'Walked round the boom, the blocking and the crawlers before work: no section moved, every pin and retainer in place, ' +
+      'Walked round the sections, the blocking, the crawlers and the counterweight before work: nothing moved overnight, pins boxed and counted, ' +
       'tracks level on the hardstanding after the rain, key in the cabin safe. Fit to continue.',
     reader: p.signaller,
     reading: { meanMs: 4.1, gustMs: 6.9, heightM: 10 },
   });
-  // A little work in shift 2: the guy lines are being laid out.
-  await second.completeSteps('er-guy-layout', 1);
+  // A little work in shift 2: the radio check and the slings at the boom foot.
+  await second.completeSteps('er-joints', 2);
 }

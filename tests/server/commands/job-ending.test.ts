@@ -341,7 +341,7 @@ describe('the demo on first start', () => {
     expect(board.handovers![0]).toMatchObject({ shift: 1, from: { name: 'Rhys Calloway' }, to: { name: 'Marta Lindqvist' }, acknowledgedBy: { name: 'Marta Lindqvist' } });
     expect(board.handovers![0].done.length).toBeGreaterThan(0);
     // Some work in shift 2, so the board is live rather than just restarted.
-    expect(board.stages.find((s) => s.id === 'er-guy-layout')!.steps.some((s) => s.state === 'done')).toBe(true);
+    expect(board.stages.find((s) => s.id === 'er-joints')!.steps.some((s) => s.state === 'done')).toBe(true);
 
     // The log tells the two shifts in order, every time in the past and none going back.
     const events: JobEventDto[] = [];
