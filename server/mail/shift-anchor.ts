@@ -4,12 +4,11 @@ import { shiftOf } from '../../shared/board/shifts.js';
 import type { BoardState } from '../../shared/board/types.js';
 import type { JobEventDto } from '../../shared/events/log.js';
 import { roleLabel } from '../../shared/schemas/users.js';
-import { siteDateTime } from '../../shared/time.js';
 import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import type { QueuedMail } from './outbox.js';
-import { shiftAnchorMail as shiftAnchorText, type ShiftAnchorFacts } from './templates.js';
+import { shiftAnchorMail as shiftAnchorText, siteWords, type ShiftAnchorFacts } from './templates.js';
 
 /**
  * The shift-end e-mails ("anchored at each shift end"): when an event makes a job `made_safe`, and
@@ -45,7 +44,7 @@ export async function shiftAnchorMails(manager: EntityManager, publicUrl: string
   if (!occasion) return [];
   const facts = shiftFacts(board, job, occasion, { seq: row.seq, hash: row.hash, at: row.at, byName: row.byName }, publicUrl);
   const zone = facts.timeZone;
-  const { subject, text } = shiftAnchorText(facts, (iso) => `on ${siteDateTime(iso, zone)}`);
+  const { subject, text } = shiftAnchorText(facts, (iso) => `on ${siteWords(iso, zone)}`);
   return job.distribution.map((to) => ({
     dedupeKey: `shift-anchor:${job.id}:${seq}:${to.toLowerCase()}`,
     kind: 'shift_anchor' as const,

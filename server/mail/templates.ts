@@ -162,7 +162,7 @@ export function shiftAnchorMail(f: ShiftAnchorFacts, at: (iso: string) => string
     '  - or, with the job’s exported events.jsonl and no server at all:',
     `    npm run verify-record -- events.jsonl --expect ${f.event.hash}`,
     '',
-    `All times are site time (${f.timeZone}) with their offset from UTC.`,
+    zoneLine(f.timeZone),
   ].join('\n');
   const subject = f.occasion === 'made_safe' ? `Record of ${f.job.name}: made safe at the end of shift ${f.shift}` : `Record of ${f.job.name}: handover note for shift ${f.shift}`;
   return { subject, text };

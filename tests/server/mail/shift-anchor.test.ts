@@ -164,6 +164,26 @@ describe('the shift-end e-mail', () => {
     expect(mail.text).toContain('Not yet acknowledged by the supervisor taking over.');
   }, 120_000);
 
+  it('is queued again at start for a job made safe whose e-mails were never queued (a crash right after the commit)', async () => {
+    const jobId = await jobMakingSafe('Crash night job');
+    await tickItems(jobId);
+    const written = await httpCommand(server, crew.supervisor, jobId, { type: 'handover.write', hazards: 'none', note: 'Nothing to add.' });
+    expect(written.status).toBe(200);
+    await server.context.outbox.idle();
+    // Read through whichever server runs now.
+    const keys = async () => (await server.context.dataSource.manager.findBy(MailOutbox, { jobId, kind: 'shift_anchor' })).map((r) => r.dedupeKey).sort();
+    const before = await keys();
+    expect(before).toHaveLength(2 * DISTRIBUTION.length);
+    // As if the server had stopped between the commits and the queueing: the rows are gone.
+    await server.context.queue.transaction((m) => m.delete(MailOutbox, { jobId }));
+    const dataDir = server.dataDir;
+    await server.close();
+    server = await startTestServer({ dataDir, outbox: { retryDelaysMs: [0, 50, 100] } });
+    const until = Date.now() + 8_000;
+    while ((await keys()).length < before.length && Date.now() < until) await new Promise((r) => setTimeout(r, 50));
+    expect(await keys()).toEqual(before);
+  }, 120_000);
+
   async function tickLast(jobId: string): Promise<void> {
     const item = (await boardOf(server, crew.supervisor, jobId)).shift!.makeSafe!.items.find((i) => !i.doneBy)!;
     const role = item.roles.find((r) => r !== 'viewer') as keyof CrewByRole;
