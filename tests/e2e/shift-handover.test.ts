@@ -1,3 +1,5 @@
+import { mkdirSync } from 'node:fs';
+import path from 'node:path';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -7,7 +9,7 @@ import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { User } from '../../server/entities/User.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 
@@ -70,15 +72,21 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     await expect.poll(() => page.getByTestId(`make-safe-done-by-${itemId}`).count(), { timeout: 10_000 }).toBe(1);
   }
 
+  /** The whole page from its top (the fixed header drawn once, where it belongs). */
   async function topShot(page: Page, name: string) {
     await page.evaluate(() => window.scrollTo(0, 0));
     await screenshot(page, name);
   }
 
+  /** What the screen shows now, as the person sees it. */
+  async function viewShot(page: Page, name: string) {
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`) });
+  }
+
   beforeAll(async () => {
     server = await startTestServer({ withClient: true });
-    await seedDemoIfEmpty(server.context);
-    chromium = await launchBrowser();
+    [chromium] = await Promise.all([launchBrowser(), seedDemoIfEmpty(server.context)]);
     const person = (who: string) => server.context.dataSource.manager.findOneByOrFail(User, { email: `${who}@holdline.test` });
     people = {
       supervisor: await person('supervisor'),
@@ -108,10 +116,12 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
   });
 
   it('work, end of shift, make safe, handover, crew change and the start of shift 2, every screen following live', { timeout: 180_000 }, async () => {
-    const rhys = await openView('supervisor@holdline.test', 'console', viewports.desktop);
-    const marta = await openView('supervisor2@holdline.test', 'console', viewports.desktop);
-    const operator = await openView('operator@holdline.test', 'cab', viewports.phone);
-    const priya = await openView('rigger2@holdline.test', 'rigger', viewports.phone);
+    const [rhys, marta, operator, priya] = await Promise.all([
+      openView('supervisor@holdline.test', 'console', viewports.desktop),
+      openView('supervisor2@holdline.test', 'console', viewports.desktop),
+      openView('operator@holdline.test', 'cab', viewports.phone),
+      openView('rigger2@holdline.test', 'rigger', viewports.phone),
+    ]);
     const screens = [rhys, marta, operator, priya];
     for (const page of screens) expect(await page.getByTestId('acting-supervisor').textContent()).toBe('Acting supervisor: Rhys Calloway');
 
@@ -129,11 +139,10 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     const dialog = rhys.getByTestId('end-shift-dialog');
     await dialog.waitFor();
     expect(await dialog.textContent()).toContain('Every boom section on the ground sits on blocking');
-    await screenshot(rhys, 'two-shift-end-dialog-laptop');
+    await viewShot(rhys, 'two-shift-end-dialog-laptop');
     await pressAndHold(rhys, dialog.getByTestId('end-shift-hold'), () => expect.poll(async () => (await boardNow()).shift?.phase, { timeout: 10_000 }).toBe('making_safe'));
     for (const page of screens) await page.getByTestId('making-safe-banner').waitFor({ timeout: 10_000 });
-    // Work stops on every screen: the rigger's next stage offers no step to complete.
-    await topShot(operator, 'two-shift-making-safe-cab-phone');
+    await viewShot(operator, 'two-shift-making-safe-cab-phone');
 
     // 3. The make-safe checklist, ticked from the screens of the roles each item names.
     const items = (await boardNow()).shift!.makeSafe!.items;
@@ -141,32 +150,48 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     // The operator's phone offers only the items an operator may tick.
     expect(await operator.getByTestId('make-safe-tick-guyLines').count()).toBe(0);
     expect(await operator.getByTestId('make-safe-tick-engineOff').count()).toBe(1);
-    for (const id of ['blocking', 'noHangingSection', 'guyLines']) await tick(priya, id);
-    await screenshot(priya, 'two-shift-make-safe-rigger-phone');
-    for (const id of ['hookBlocks', 'counterweight', 'engineOff']) await tick(operator, id);
-    await tick(marta, 'exclusionZone');
-    await tick(rhys, 'keyHeld', 'Site cabin key safe; Marta has the code.');
-    await screenshot(rhys, 'two-shift-make-safe-console-laptop');
+    // All at once, as on site: each person works down their own items.
+    await Promise.all([
+      (async () => {
+        for (const id of ['blocking', 'noHangingSection', 'guyLines']) await tick(priya, id);
+        await viewShot(priya, 'two-shift-make-safe-rigger-phone');
+      })(),
+      (async () => {
+        for (const id of ['hookBlocks', 'counterweight', 'engineOff']) await tick(operator, id);
+      })(),
+      tick(marta, 'exclusionZone'),
+      (async () => {
+        await tick(rhys, 'keyHeld', 'Site cabin key safe; Marta has the code.');
+        await viewShot(rhys, 'two-shift-make-safe-console-laptop');
+      })(),
+    ]);
     await tick(rhys, 'forecast', 'Overnight gusts to 11 m/s from the south-west, easing by 06:00; no frost.');
 
     // 4. Made safe: every screen says so in large words, when and by whom; no stop bar, no work control.
     const board = await boardNow();
     expect(board.job.state).toBe('made_safe');
     const made = board.shift!.makeSafe!.madeSafe!;
+    // Rhys ticked the last item (the forecast) once the others were done.
     expect(made.name).toBe('Rhys Calloway');
-    for (const [page, name] of [
-      [rhys, 'two-shift-made-safe-console-laptop'],
-      [marta, 'two-shift-made-safe-console2-laptop'],
-      [operator, 'two-shift-made-safe-cab-phone'],
-      [priya, 'two-shift-made-safe-rigger-phone'],
+    // The time the screens give is the site's clock time of the event that made it safe.
+    const madeAt = new Intl.DateTimeFormat('en-GB', { timeZone: board.job.timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(new Date(made.at));
+    for (const [page, name, whole] of [
+      [rhys, 'two-shift-made-safe-console-laptop', true],
+      [marta, 'two-shift-made-safe-console2-laptop', false],
+      [operator, 'two-shift-made-safe-cab-phone', true],
+      [priya, 'two-shift-made-safe-rigger-phone', false],
     ] as const) {
       const headline = page.getByTestId('made-safe-headline');
       await headline.waitFor({ timeout: 10_000 });
-      expect(await headline.textContent()).toMatch(/^MADE SAFE at \d\d:\d\d.* — last item by Rhys Calloway, shift ended by Rhys Calloway$/);
+      expect(await headline.textContent()).toMatch(new RegExp(`^MADE SAFE at ${madeAt} \\(UTC[+−-]\\d\\d:\\d\\d\\) — last item by ${made.name}, shift ended by Rhys Calloway$`));
       expect(await page.getByTestId('made-safe-board').count()).toBe(1);
       expect(await page.getByTestId('stop-bar').count()).toBe(0);
       expect(await page.locator('[data-testid^="complete-"]').count()).toBe(0);
-      await topShot(page, name);
+      if (whole) await topShot(page, name);
+      else {
+        await page.evaluate(() => window.scrollTo(0, 0));
+        await viewShot(page, name);
+      }
     }
 
     // 5. The handover: Rhys writes it for Marta; she reads it on her screen and acknowledges.
@@ -183,7 +208,7 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     const latest = marta.getByTestId('handover-latest');
     expect(await latest.textContent()).toContain('for Marta Lindqvist');
     await latest.scrollIntoViewIfNeeded();
-    await screenshot(marta, 'two-shift-handover-waiting-laptop');
+    await viewShot(marta, 'two-shift-handover-waiting-laptop');
     await marta.getByTestId('handover-acknowledge').click();
     for (const page of screens) {
       await expect.poll(() => page.getByTestId('acting-supervisor').textContent(), { timeout: 10_000 }).toBe('Acting supervisor: Marta Lindqvist');
@@ -203,12 +228,14 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
 
     // 7. The start of shift 2. Everyone in the crew is briefed for it (the four here on their screens, the signaller elsewhere;
     // the client's engineer only watches and is not asked).
-    for (const page of screens) {
-      const button = page.getByTestId('briefing').getByRole('button', { name: 'Acknowledge the briefing' });
-      await button.scrollIntoViewIfNeeded();
-      await button.click();
-      await expect.poll(() => page.getByTestId('briefing').count(), { timeout: 10_000 }).toBe(0);
-    }
+    await Promise.all(
+      screens.map(async (page) => {
+        const button = page.getByTestId('briefing').getByRole('button', { name: 'Acknowledge the briefing' });
+        await button.scrollIntoViewIfNeeded();
+        await button.click();
+        await expect.poll(() => page.getByTestId('briefing').count(), { timeout: 10_000 }).toBe(0);
+      }),
+    );
     const elsewhere = new DemoBoardDriver(server.context, jobId, {});
     await elsewhere.send(people.signaller, { type: 'briefing.acknowledge' });
     // The competent person's shift inspection, from the rigger's phone.
@@ -225,8 +252,9 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     await elsewhere.send(people.signaller, { type: 'weather.record', meanMs: 4.2, gustMs: 6.6, heightM: 10 });
     await expect.poll(() => marta.getByTestId('shift-start-missing').textContent(), { timeout: 10_000 }).toContain('Everything the start-of-shift hold needs is in place.');
     await marta.getByTestId('shift-start-hold').scrollIntoViewIfNeeded();
-    await screenshot(marta, 'two-shift-start-ready-laptop');
-    await screenshot(priya, 'two-shift-start-ready-rigger-phone');
+    await viewShot(marta, 'two-shift-start-ready-laptop');
+    await priya.getByTestId('shift-start-missing').scrollIntoViewIfNeeded();
+    await viewShot(priya, 'two-shift-start-ready-rigger-phone');
     await pressAndHold(marta, marta.getByTestId('shift-start-button'), () => expect.poll(async () => (await boardNow()).job.state, { timeout: 10_000 }).toBe('live'));
 
     // Shift 2 under way on every screen: no band, Marta acting, the stop bar back.
@@ -243,7 +271,8 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
       await expect.poll(() => page.getByTestId('made-safe-banner').count(), { timeout: 10_000 }).toBe(0);
       expect(await page.getByTestId('acting-supervisor').textContent()).toBe('Acting supervisor: Marta Lindqvist');
       expect(await page.getByTestId('stop-bar').count()).toBe(1);
-      await topShot(page, name);
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await viewShot(page, name);
     }
   });
 });
