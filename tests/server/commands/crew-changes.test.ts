@@ -212,6 +212,51 @@ describe('crew changes mid-job', () => {
     }
   }, 120_000);
 
+  it('while the job is made safe: the start-of-shift hold keeps its operator and supervisor; a swapped operator’s acknowledgment is withdrawn', async () => {
+    const inspector = await signedInUser(server, { qualifications: ['rigger'] });
+    await request(server.app).patch(`/api/users/${inspector.user.id}`).set(auth(admin)).send({ canInspect: true }).expect(200);
+    const operator2 = await signedInUser(server, { qualifications: ['operator'] });
+    const job = await plannedJob(server, crew, unitId, 'Made safe crew job');
+    const base = [...crewOf(crew), member(supervisor2, 'supervisor'), member(inspector, 'rigger')];
+    await putCrew(job.id, base).expect(200);
+    await request(server.app).post(`/api/jobs/${job.id}/ready`).set(auth(crew.supervisor)).expect(200);
+    expect((await httpCommand(server, crew.supervisor, job.id, { type: 'job.start' })).status).toBe(200);
+    await briefEveryone(server, crew, job.id);
+    expect((await httpCommand(server, inspector, job.id, { type: 'briefing.acknowledge' })).status).toBe(200);
+    expect((await httpCommand(server, crew.supervisor, job.id, { type: 'shift.end' })).status).toBe(200);
+    for (const item of (await boardOf(server, crew.supervisor, job.id)).shift!.makeSafe!.items) {
+      const role = item.roles[0] as keyof CrewByRole;
+      const done = await httpCommand(server, crew[role], job.id, { type: 'shift.item.done', itemId: item.id, ...(item.asksNote ? { note: 'In the site office safe.' } : {}) });
+      expect(done.status, JSON.stringify(done.body)).toBe(200);
+    }
+    expect((await boardOf(server, crew.supervisor, job.id)).job.state).toBe('made_safe');
+    // The next shift's briefing, then the inspection and the operator's acknowledgment of the start-of-shift hold.
+    await briefEveryone(server, crew, job.id);
+    expect((await httpCommand(server, inspector, job.id, { type: 'briefing.acknowledge' })).status).toBe(200);
+    expect((await httpCommand(server, inspector, job.id, { type: 'shift.inspect', note: 'Boom, pins, rope and blocking seen; nothing found.' })).status).toBe(200);
+    expect((await httpCommand(server, crew.operator, job.id, { type: 'shift.acknowledge', role: 'operator' })).status).toBe(200);
+
+    const withoutOperator = base.filter((m) => m.role !== 'operator');
+    const refused = await putCrew(job.id, withoutOperator);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('crew_role_needed');
+    expect(refused.body.error.fields).toContainEqual({ path: 'members.operator', message: 'Nobody left as operator for “the start-of-shift hold”' });
+
+    const swapped = await putCrew(job.id, [...withoutOperator, member(operator2, 'operator')]);
+    expect(swapped.status, JSON.stringify(swapped.body)).toBe(200);
+    const board = await boardOf(server, crew.supervisor, job.id);
+    expect(board.shift!.start!.operator).toBeNull();
+    expect(board.shift!.start!.inspection?.userId).toBe(inspector.user.id);
+    const set = (await eventsOf(job.id)).filter((e): e is JobEventOf<'crew.set'> => e.type === 'crew.set').at(-1)!;
+    expect(set.data.withdrawn).toEqual([{ stageId: null, holdId: 'shift-start', userId: crew.operator.user.id, name: crew.operator.user.displayName, role: 'operator' }]);
+    // The new operator is briefed for the coming shift before acknowledging it.
+    const early = await httpCommand(server, operator2, job.id, { type: 'shift.acknowledge', role: 'operator' });
+    expect(early.body.error?.code).toBe('briefing_required');
+    expect((await httpCommand(server, operator2, job.id, { type: 'briefing.acknowledge' })).status).toBe(200);
+    const acknowledged = await httpCommand(server, operator2, job.id, { type: 'shift.acknowledge', role: 'operator' });
+    expect(acknowledged.status, JSON.stringify(acknowledged.body)).toBe(200);
+  }, 120_000);
+
   it('disabling an account with nothing acknowledged writes no event', async () => {
     const own: CrewByRole = { ...crew, signaller: await signedInUser(server, { qualifications: ['signaller'] }) };
     const { jobId } = await jobAtRiggerHold('Nothing to withdraw job', own);
