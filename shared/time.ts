@@ -23,16 +23,50 @@ export function isTimeZone(zone: string): boolean {
   }
 }
 
-/** Every zone name a person can pick, sorted, with UTC first (Intl's list leaves it out). */
+/**
+ * Zones the IANA database has renamed (its "backward" links, from memory) that ICU's list still
+ * gives under the old name: a planner typing "Kolkata" or "Kyiv" must find their site. The current
+ * name is offered wherever the runtime accepts it.
+ */
+const RENAMED_ZONES: Readonly<Record<string, string>> = {
+  'Asia/Calcutta': 'Asia/Kolkata',
+  'Europe/Kiev': 'Europe/Kyiv',
+  'Asia/Saigon': 'Asia/Ho_Chi_Minh',
+  'Asia/Katmandu': 'Asia/Kathmandu',
+  'Asia/Rangoon': 'Asia/Yangon',
+  'America/Godthab': 'America/Nuuk',
+  'Atlantic/Faeroe': 'Atlantic/Faroe',
+  'Pacific/Enderbury': 'Pacific/Kanton',
+  'Pacific/Truk': 'Pacific/Chuuk',
+  'Pacific/Ponape': 'Pacific/Pohnpei',
+  'Africa/Asmera': 'Africa/Asmara',
+  'America/Buenos_Aires': 'America/Argentina/Buenos_Aires',
+  'America/Catamarca': 'America/Argentina/Catamarca',
+  'America/Cordoba': 'America/Argentina/Cordoba',
+  'America/Jujuy': 'America/Argentina/Jujuy',
+  'America/Mendoza': 'America/Argentina/Mendoza',
+  'America/Indianapolis': 'America/Indiana/Indianapolis',
+  'America/Louisville': 'America/Kentucky/Louisville',
+};
+
+let names: string[] | null = null;
+
+/** Every zone name a person can pick, sorted, with UTC first (Intl's list leaves it out) and current names for renamed zones. */
 export function timeZoneNames(): string[] {
-  const listed = typeof Intl.supportedValuesOf === 'function' ? Intl.supportedValuesOf('timeZone') : [];
-  return ['UTC', ...listed.filter((z) => z !== 'UTC')];
+  if (!names) {
+    const listed = typeof Intl.supportedValuesOf === 'function' ? Intl.supportedValuesOf('timeZone') : [];
+    const current = listed.filter((z) => z !== 'UTC').map((z) => (RENAMED_ZONES[z] && isTimeZone(RENAMED_ZONES[z]) ? RENAMED_ZONES[z] : z));
+    names = ['UTC', ...[...new Set(current)].sort()];
+  }
+  return [...names];
 }
 
-/** The zone's usual spelling when a person typed it in another case ("europe/warsaw"); otherwise as given. */
+/** The zone's usual spelling when a person typed it in another case ("europe/warsaw") or an old name ("Asia/Calcutta"); otherwise as given. */
 export function tidyTimeZone(zone: string): string {
   const trimmed = zone.trim();
   const lower = trimmed.toLowerCase();
+  const renamed = Object.entries(RENAMED_ZONES).find(([old]) => old.toLowerCase() === lower)?.[1];
+  if (renamed && isTimeZone(renamed)) return renamed;
   return timeZoneNames().find((z) => z.toLowerCase() === lower) ?? trimmed;
 }
 

@@ -47,4 +47,7 @@ export const timeZoneWords = {
   option: (zone: string, offset: string) => `${zone.replace(/_/g, ' ')} · ${offset} now`,
   /** The job page's fact line. */
   fact: (zone: string, offset: string) => `${zone.replace(/_/g, ' ')}, ${offset} now`,
+  editorHint: 'The zone of the site where the crane stands. Times already recorded keep their moment; they are shown again in the zone saved here.',
+  save: 'Save the time zone',
+  saved: (zone: string) => `Site time zone saved: ${zone.replace(/_/g, ' ')}.`,
 };

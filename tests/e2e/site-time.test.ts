@@ -106,6 +106,15 @@ describe('site time on screen', () => {
     const job = jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${id}`).set({ Authorization: `Bearer ${token}` }).expect(200)).body).job;
     expect(job.timeZone).toBe(SITE);
     await page.getByText(/^Pacific\/Auckland, UTC\+1[23]:00 now$/).waitFor({ timeout: 10_000 });
+    // A planner corrects the zone on the job's page; the fact follows the server's answer.
+    const editor = page.locator('[data-test="time-zone-editor"]');
+    await editor.getByLabel('Site time zone').fill('kolkata');
+    await page.getByRole('option', { name: /Asia\/Kolkata/ }).click();
+    await editor.getByRole('button', { name: 'Save the time zone' }).click();
+    await page.getByText(/^Asia\/Kolkata, UTC\+05:30 now$/).waitFor({ timeout: 10_000 });
+    await screenshot(page, 'site-time-zone-editor-phone');
+    const saved = jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${id}`).set({ Authorization: `Bearer ${token}` }).expect(200)).body).job;
+    expect(saved.timeZone).toBe('Asia/Kolkata');
     await context.close();
   }, 120_000);
 });

@@ -142,4 +142,16 @@ describe('zone names', () => {
     expect(tidyTimeZone(' europe/warsaw ')).toBe('Europe/Warsaw');
     expect(tidyTimeZone('utc')).toBe('UTC');
   });
+  it('offers the current names of renamed zones, each one Intl accepts (IANA "backward" links, from memory)', () => {
+    const names = timeZoneNames();
+    expect(names).toContain('Asia/Kolkata');
+    expect(names).toContain('Europe/Kyiv');
+    expect(names).not.toContain('Asia/Calcutta');
+    expect(names.filter((n) => !isTimeZone(n))).toEqual([]);
+    expect(new Set(names).size).toBe(names.length);
+    expect(tidyTimeZone('Asia/Calcutta')).toBe('Asia/Kolkata');
+    expect(tidyTimeZone('europe/kiev')).toBe('Europe/Kyiv');
+    // Both names mean the same offsets (Kolkata UTC+05:30).
+    expect(utcOffset('2026-12-03T12:00:00Z', 'Asia/Kolkata')).toBe(utcOffset('2026-12-03T12:00:00Z', 'Asia/Calcutta'));
+  });
 });
