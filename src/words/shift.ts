@@ -1,5 +1,5 @@
 import type { BoardHold, BoardState, MakeSafeItem } from '../../shared/board/types';
-import { shiftOf } from '../../shared/board/shifts';
+import { shiftOf, type ShiftStartGap } from '../../shared/board/shifts';
 import { workPhaseWords, type WorkPhase } from '../../shared/plan/templates/shift';
 import { roleLabel } from '../../shared/schemas/users';
 
@@ -117,4 +117,9 @@ export function reopenedWords(hold: Pick<BoardHold, 'reopenedBecause' | 'state'>
 /** The acting supervisor's start button: the shift it starts. */
 export function startShiftLabel(board: Pick<BoardState, 'shift'>): string {
   return `Hold to start shift ${shiftOf(board).number + 1}`;
+}
+
+/** One thing the start-of-shift hold still needs, as a line of its list (the shared rule words it mid-sentence). */
+export function gapWords(gap: ShiftStartGap): string {
+  return gap.text ? `${gap.text.charAt(0).toUpperCase()}${gap.text.slice(1)}.` : '';
 }
