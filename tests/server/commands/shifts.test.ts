@@ -56,7 +56,7 @@ describe('shifts', () => {
     for (const who of [...everyone(), admin]) who.token = signAccessToken(who.user.id, server.context.secret, server.context.now()).token;
   };
   const OLD = 31 * 60 * 1000;
-  const send = (who: SignedInUser, jobId: string, command: CommandBody, commandId?: string) => httpCommand(server, who, jobId, command, commandId);
+  const send = (who: SignedInUser, jobId: string, command: CommandBody, commandId?: ReturnType<typeof randomUUID>) => httpCommand(server, who, jobId, command, commandId);
   const events = async (jobId: string): Promise<JobEventDto[]> =>
     jobEventListSchema.parse((await request(server.app).get(`/api/jobs/${jobId}/events?after=0`).set(auth(crew.supervisor)).expect(200)).body).items;
   const brief = async (jobId: string, people: SignedInUser[]) => {

@@ -571,3 +571,143 @@ describe('stagesFromPlan on a revision', () => {
     expect(stageOf(after, 'ballast')).toMatchObject({ state: 'skipped', skipReason: 'Counterweight stays on from the last job' });
   });
 });
+
+describe('shifts (issue 17)', () => {
+  const items = [
+    { id: 'hookBlocks', text: 'Hook blocks secured.', roles: ['rigger', 'operator'] as const, asksNote: false },
+    { id: 'forecast', text: 'Forecast noted.', roles: ['supervisor'] as const, asksNote: true },
+  ].map((i) => ({ ...i, roles: [...i.roles] }));
+  /** A live job whose shift 1 is ended and whose checklist is ticked: made safe. */
+  function madeSafeJob() {
+    const job = liveJob();
+    job.apply('shift.ending', { shift: 1, workPhase: 'boom-on-ground', items });
+    job.apply('shift.item.done', { itemId: 'hookBlocks', role: 'rigger', note: null, madeSafe: false }, { by: people.rita });
+    job.apply('shift.item.done', { itemId: 'forecast', role: 'supervisor', note: 'Gusts easing overnight', madeSafe: true }, { by: people.sue, at: minutes(120) });
+    return job;
+  }
+
+  it('job.started begins shift 1 with whoever started it as the acting supervisor; a start not recorded as a supervisor’s names nobody', () => {
+    const job = liveJob();
+    expect(job.state.shift).toEqual({ number: 1, phase: 'working', startedAt: minutes(5), makeSafe: null, start: null });
+    expect(job.state.actingSupervisor).toEqual({ userId: people.sue.userId, name: people.sue.name, since: minutes(5) });
+    const log = eventLog();
+    log.next('job.created', { job: { name: 'J', site: 'S', kind: 'erection', state: 'planning' }, craneFleetNumber: 'CR-07', crew });
+    log.next('job.ready', { state: 'ready', planVersion: 1, plan: smallPlan() });
+    log.next('job.started', {}, { by: people.vic });
+    expect(replay(log.events)!.actingSupervisor).toBeNull();
+  });
+
+  it('briefing.acknowledged keeps the shift the briefing was for; an older event without one keeps none', () => {
+    const job = liveJob();
+    job.apply('briefing.acknowledged', { planVersion: 1, shift: 2 }, { by: people.rita });
+    job.apply('briefing.acknowledged', { planVersion: 1 }, { by: people.otto });
+    expect(job.state.briefed.find((b) => b.userId === people.rita.userId)).toMatchObject({ planVersion: 1, shift: 2 });
+    expect(job.state.briefed.find((b) => b.userId === people.otto.userId)).not.toHaveProperty('shift');
+  });
+
+  it('shift.ending puts the checklist on the board, nothing ticked; the job stays live until the last item', () => {
+    const job = liveJob();
+    job.apply('shift.ending', { shift: 1, workPhase: 'boom-on-ground', items }, { at: minutes(100) });
+    expect(job.state.job.state).toBe('live');
+    expect(job.state.shift).toMatchObject({ number: 1, phase: 'making_safe', makeSafe: { begunBy: { userId: people.sue.userId, at: minutes(100) }, workPhase: 'boom-on-ground', madeSafe: null } });
+    expect(job.state.shift!.makeSafe!.items.map((i) => [i.id, i.doneBy])).toEqual([
+      ['hookBlocks', null],
+      ['forecast', null],
+    ]);
+    job.apply('shift.item.done', { itemId: 'hookBlocks', role: 'rigger', note: null, madeSafe: false }, { by: people.rita });
+    expect(job.state.job.state).toBe('live');
+    expect(job.state.shift!.makeSafe!.items[0].doneBy).toMatchObject({ userId: people.rita.userId, role: 'rigger', note: null });
+  });
+
+  it('the last item makes the job safe with when and by whom, opens an empty start-of-shift hold, and clears a stop', () => {
+    const job = liveJob();
+    job.apply('job.stopped', { reason: 'Wind rising', pressedAt: minutes(90) }, { by: people.sam });
+    job.apply('shift.ending', { shift: 1, workPhase: 'boom-on-ground', items });
+    job.apply('shift.item.done', { itemId: 'hookBlocks', role: 'operator', note: null, madeSafe: false }, { by: people.otto });
+    job.apply('shift.item.done', { itemId: 'forecast', role: 'supervisor', note: 'Gusts easing overnight', madeSafe: true }, { by: people.sue, at: minutes(120) });
+    expect(job.state.job).toMatchObject({ state: 'made_safe', stop: null });
+    expect(job.state.shift).toMatchObject({ number: 1, phase: 'made_safe', start: { inspection: null, operator: null, supervisor: null } });
+    expect(job.state.shift!.makeSafe!.madeSafe).toEqual({ userId: people.sue.userId, name: people.sue.name, at: minutes(120) });
+    expect(job.state.shift!.makeSafe!.items[1].doneBy).toMatchObject({ note: 'Gusts easing overnight' });
+  });
+
+  it('an item the checklist does not have is a bug and throws', () => {
+    const job = liveJob();
+    expect(() => job.apply('shift.item.done', { itemId: 'hookBlocks', role: 'rigger', note: null, madeSafe: false })).toThrow('no make-safe item hookBlocks');
+  });
+
+  it('handover.written keeps the note with its lists; handover.acknowledged marks it read and makes its reader the acting supervisor', () => {
+    const job = madeSafeJob();
+    const written = job.log.events.length + 1;
+    job.apply('handover.written', {
+      shift: 1,
+      to: { userId: people.ned.userId, name: people.ned.name },
+      done: ['Stage ground'],
+      open: ['Stage assemble: 1 of 1 steps to do'],
+      defects: [],
+      overrides: ['Lift against the chart: slow lift'],
+      hazards: 'Soft ground by the gate',
+      note: 'Mats to be checked first',
+    });
+    expect(job.state.handovers).toEqual([
+      {
+        seq: written,
+        shift: 1,
+        from: { userId: people.sue.userId, name: people.sue.name },
+        to: { userId: people.ned.userId, name: people.ned.name },
+        at: minutes(written),
+        done: ['Stage ground'],
+        open: ['Stage assemble: 1 of 1 steps to do'],
+        defects: [],
+        overrides: ['Lift against the chart: slow lift'],
+        hazards: 'Soft ground by the gate',
+        note: 'Mats to be checked first',
+        acknowledgedBy: null,
+      },
+    ]);
+    expect(job.state.actingSupervisor?.userId).toBe(people.sue.userId);
+    job.apply('handover.acknowledged', { handoverSeq: written, from: { userId: people.sue.userId, name: people.sue.name } }, { by: people.ned, at: minutes(200) });
+    expect(job.state.handovers![0].acknowledgedBy).toEqual({ userId: people.ned.userId, name: people.ned.name, at: minutes(200) });
+    expect(job.state.actingSupervisor).toEqual({ userId: people.ned.userId, name: people.ned.name, since: minutes(200) });
+  });
+
+  it('acting.transferred names the new acting supervisor', () => {
+    const job = liveJob();
+    job.apply('acting.transferred', { from: { userId: people.sue.userId, name: people.sue.name }, to: { userId: people.ned.userId, name: people.ned.name }, reason: 'Sue taken ill' }, { at: minutes(50) });
+    expect(job.state.actingSupervisor).toEqual({ userId: people.ned.userId, name: people.ned.name, since: minutes(50) });
+  });
+
+  it('the inspection and both acknowledgments fill the start-of-shift hold; shift.started makes the job live in the next shift and work moves on', () => {
+    const job = madeSafeJob();
+    job.apply('shift.inspected', { shift: 2, note: 'Pins and blocking as left' }, { by: people.rita, at: minutes(300) });
+    job.apply('shift.start.acknowledged', { shift: 2, role: 'operator' }, { by: people.otto, at: minutes(301) });
+    job.apply('shift.start.acknowledged', { shift: 2, role: 'supervisor' }, { by: people.sue, at: minutes(302) });
+    expect(job.state.shift!.start).toEqual({
+      inspection: { userId: people.rita.userId, name: people.rita.name, at: minutes(300), note: 'Pins and blocking as left' },
+      operator: { userId: people.otto.userId, name: people.otto.name, at: minutes(301) },
+      supervisor: { userId: people.sue.userId, name: people.sue.name, at: minutes(302) },
+    });
+    expect(job.state.job.state).toBe('made_safe');
+    job.apply('shift.started', { shift: 2 }, { at: minutes(310) });
+    expect(job.state.job.state).toBe('live');
+    expect(job.state.shift).toEqual({ number: 2, phase: 'working', startedAt: minutes(310), makeSafe: null, start: null });
+    releaseGround(job);
+    expect(stateOf(job.state, 'assemble')).toBe('active');
+    expect(replay(job.log.events)).toEqual(job.state);
+  });
+
+  it('crew.set with acknowledgments withdrawn takes them off and says why on the hold; a disabled account does the same', () => {
+    const job = liveJob();
+    finishGroundSteps(job);
+    job.apply('hold.acknowledged', { stageId: 'ground', holdId: 'ground.hold', role: 'rigger' }, { by: people.rita });
+    job.apply('hold.acknowledged', { stageId: 'ground', holdId: 'ground.hold', role: 'operator' }, { by: people.otto });
+    expect(stageOf(job.state, 'ground').hold?.state).toBe('acknowledged');
+    const ottoOut = [{ stageId: 'ground', holdId: 'ground.hold', userId: people.otto.userId, name: people.otto.name, role: 'operator' }];
+    job.apply('crew.set', { crew: crew.filter((m) => m.userId !== people.otto.userId), withdrawn: ottoOut }, { at: minutes(60) });
+    expect(stageOf(job.state, 'ground').hold).toMatchObject({ state: 'open', reopenedBecause: { reason: 'Otto Brand left the crew or changed role', at: minutes(60) } });
+    expect(stageOf(job.state, 'ground').hold!.acknowledgments.map((a) => a.userId)).toEqual([people.rita.userId]);
+    const ritaOut = [{ stageId: 'ground', holdId: 'ground.hold', userId: people.rita.userId, name: people.rita.name, role: 'rigger' }];
+    job.apply('crew.member.disabled', { userId: people.rita.userId, name: people.rita.name, withdrawn: ritaOut }, { at: minutes(70) });
+    expect(stageOf(job.state, 'ground').hold).toMatchObject({ state: 'open', acknowledgments: [], reopenedBecause: { reason: 'Rita Venn’s account was disabled', at: minutes(70) } });
+  });
+});
