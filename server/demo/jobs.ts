@@ -1,5 +1,6 @@
 import type { Configuration } from '../../shared/schemas/configuration.js';
 import type { CommsPlan } from '../../shared/schemas/jobs.js';
+import { utcOffset } from '../../shared/time.js';
 import type { AppContext } from '../context.js';
 import { createJob, setConfiguration, setCrew, updateJob } from '../commands/jobs.js';
 import { makeReady } from '../commands/plans.js';
@@ -115,6 +116,28 @@ function pastContext(context: AppContext, start: Date, stepMs: number): AppConte
   return { ...context, now: () => new Date((t += stepMs)) };
 }
 
+/** The zone's offset from UTC in minutes at that moment, read from the site-time words ("UTC+01:00", "UTC−06:00"). */
+function offsetMinutes(atMs: number, zone: string): number {
+  const m = /UTC([+\u2212-])(\d\d):(\d\d)/.exec(utcOffset(new Date(atMs), zone));
+  if (!m) return 0;
+  return (m[1] === '+' ? 1 : -1) * (Number(m[2]) * 60 + Number(m[3]));
+}
+
+/**
+ * The moment the site's clock reads `hour`:00, `daysBack` days before the latest such morning that
+ * is at least `leadMs` before now: "yesterday at 07:00" for the demo, whatever time it is seeded.
+ */
+function siteMorning(nowMs: number, zone: string, hour: number, daysBack: number, leadMs: number): Date {
+  const day = 86_400_000;
+  const latest = nowMs - leadMs;
+  const local = latest + offsetMinutes(latest, zone) * 60_000;
+  let target = Math.floor(local / day) * day + hour * 3_600_000;
+  if (target > local) target -= day;
+  target -= daysBack * day;
+  // Site wall-clock time to UTC, with the offset in force at that moment (summer time included).
+  return new Date(target - offsetMinutes(target - offsetMinutes(target, zone) * 60_000, zone) * 60_000);
+}
+
 /** A history clock that can also jump forward (never back) to a later time: one job over two shifts. */
 function shiftClock(context: AppContext, start: Date, stepMs: number): { context: AppContext; jumpTo: (at: Date) => void } {
   let t = start.getTime();
@@ -208,15 +231,18 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
  */
 async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFleet): Promise<void> {
   const now = context.now().getTime();
+  const zone = 'Europe/London';
   const hour = 3_600_000;
-  const clock = shiftClock(context, new Date(now - 26 * hour), 45_000);
+  // Site time: planned the afternoon before, shift 1 from 07:00 to about 16:30 yesterday, shift 2 from 07:00 today
+  // (the last 07:00 at least an hour and a half ago, so shift 2 has begun whenever the demo is seeded).
+  const clock = shiftClock(context, new Date(siteMorning(now, zone, 7, 2, 1.5 * hour).getTime() + 8 * hour), 45_000);
   const at = clock.context;
   const job = await createJob(at, p.supervisor, {
     name: 'Pump house roof lift: boom erection',
     site: 'Ashcombe Reach pumping station',
     craneUnitId: fleet.secondUnitId,
     kind: 'erection',
-    timeZone: 'Europe/London',
+    timeZone: zone,
   });
   const jobId = job.job.id;
   const crew = crewOf(p).filter((m) => m.userId !== p.viewer.id);
@@ -246,6 +272,7 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
   const people = [p.supervisor, p.supervisor2, p.operator, p.signaller, p.rigger, p.rigger2];
 
   // Shift 1, yesterday: Rhys Calloway is the acting supervisor (he starts the job).
+  clock.jumpTo(siteMorning(now, zone, 7, 1, 1.5 * hour));
   const first = new DemoBoardDriver(at, jobId, { supervisor: p.supervisor, operator: p.operator, signaller: p.signaller, rigger: p.rigger });
   await first.send(p.supervisor, { type: 'job.start' });
   for (const who of people) await first.send(who, { type: 'briefing.acknowledge' });
@@ -253,7 +280,7 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
   // Ground, crawlers, mast and counterweight, then every section checked and laid down on blocking; the joints wait for the morning.
   await first.runUntil('er-joints');
   // The end of the day: made safe, then the handover note to the morning's supervisor.
-  clock.jumpTo(new Date(now - 17 * hour));
+  clock.jumpTo(new Date(siteMorning(now, zone, 7, 1, 1.5 * hour).getTime() + 9.5 * hour));
   await first.makeSafe({
     keyHeld: 'In the key safe of the site cabin; Marta Lindqvist has the code.',
     forecast: 'Overnight: mean 6 m/s, gusts to 11 m/s from the south-west after midnight, easing by morning. Rain; no frost.',
@@ -271,7 +298,7 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
   });
 
   // Shift 2, this morning: Marta Lindqvist takes over and starts the shift.
-  clock.jumpTo(new Date(now - 2 * hour));
+  clock.jumpTo(siteMorning(now, zone, 7, 0, 1.5 * hour));
   const second = new DemoBoardDriver(at, jobId, { supervisor: p.supervisor2, operator: p.operator, signaller: p.signaller, rigger: p.rigger });
   await second.startShift({
     briefed: people,

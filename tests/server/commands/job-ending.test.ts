@@ -366,6 +366,15 @@ describe('the demo on first start', () => {
     expect(first('shift.started').by.name).toBe('Marta Lindqvist');
     // Made safe in the evening and started again the next morning: a night in between.
     expect(Date.parse(first('shift.started').at) - Date.parse(ticked.at(-1)!.at)).toBeGreaterThan(8 * 3_600_000);
+    // On the site's clock (read with Intl, in the job's zone): each shift begins at 7 in the morning, on consecutive days;
+    // the first shift ends in the afternoon.
+    const siteHour = (iso: string) => Number(new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: '2-digit', hourCycle: 'h23' }).format(new Date(iso)));
+    const siteDay = (iso: string) => new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/London', year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
+    const started = first('job.started');
+    const acknowledged = first('handover.acknowledged');
+    expect([siteHour(started.at), siteHour(acknowledged.at)]).toEqual([7, 7]);
+    expect(Date.parse(`${siteDay(acknowledged.at)}T00:00Z`) - Date.parse(`${siteDay(started.at)}T00:00Z`)).toBe(86_400_000);
+    expect(siteHour(ending.at)).toBe(16);
     expect(events.map((e) => e.type).indexOf('shift.started')).toBeGreaterThan(events.map((e) => e.type).indexOf('handover.acknowledged'));
     const verify = (await request(server.app).get(`/api/jobs/${job.id}/record/verify`).set(headers).expect(200)).body as { valid: boolean };
     expect(verify.valid).toBe(true);
