@@ -70,7 +70,9 @@ export function describeEvent(event: JobEventDto, context: EventWordsContext = {
     }
     case 'job.updated': {
       const keys = Object.keys(event.data.changes);
-      return keys.length ? `Changed the ${keys.map((k) => changeWords[k] ?? k).join(', ')}` : 'Job changed';
+      // A new site zone is named: every later time is read in it.
+      const changed = (k: string) => (k === 'timeZone' && event.data.changes.timeZone ? `${changeWords[k]} to ${event.data.changes.timeZone}` : (changeWords[k] ?? k));
+      return keys.length ? `Changed the ${keys.map(changed).join(', ')}` : 'Job changed';
     }
     case 'crew.set': {
       const { crew, added, removed } = event.data;

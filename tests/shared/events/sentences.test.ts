@@ -49,7 +49,7 @@ describe('event sentences', () => {
     const crew = [{ userId: 'sup', name: 'Maren Holt' }];
     expect(describeEvent(event('job.updated', { changes: { site: 'Pad 3' }, planRegenerated: false }))).toBe('Changed the site');
     // A change of the site's zone is named in words, never by its field name.
-    expect(describeEvent(event('job.updated', { changes: { timeZone: 'Pacific/Auckland' }, planRegenerated: false }))).toBe('Changed the site’s time zone');
+    expect(describeEvent(event('job.updated', { changes: { timeZone: 'Pacific/Auckland' }, planRegenerated: false }))).toBe('Changed the site’s time zone to Pacific/Auckland');
     expect(
       describeEvent(event('crew.set', { crew: [{ userId: 'u2', name: 'Ola Brandt', role: 'operator' }], added: [{ userId: 'u2', role: 'operator' }], removed: [{ userId: 'sup', role: 'rigger' }] }), { crew }),
     ).toBe('Crew: added Ola Brandt as operator; removed Maren Holt as rigger.');
