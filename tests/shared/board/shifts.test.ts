@@ -71,8 +71,9 @@ describe('which shift and who is briefed for it', () => {
     expect(isBriefed({ ...b, job: { ...b.job, state: 'made_safe' }, shift: { number: 1, phase: 'made_safe', startedAt: null, makeSafe: null, start: null } }, 'u-otto')).toBe(false);
   });
 
-  it('lists each unbriefed person once, whatever roles they hold', () => {
-    const b: BoardState = { ...board([]), crew, briefed: [{ userId: 'u-otto', name: 'Otto Brand', planVersion: 1, at: at(0), shift: 1 }] };
+  it('lists each unbriefed person once, whatever roles they hold; a viewer, who cannot acknowledge a briefing, is not asked', () => {
+    const withViewer = [...crew, { userId: 'u-vic', name: 'Vic Lowe', role: 'viewer' as const }];
+    const b: BoardState = { ...board([]), crew: withViewer, briefed: [{ userId: 'u-otto', name: 'Otto Brand', planVersion: 1, at: at(0), shift: 1 }] };
     expect(unbriefedCrew(b)).toEqual([
       { userId: 'u-sue', name: 'Sue Marsh' },
       { userId: 'u-rita', name: 'Rita Venn' },
