@@ -20,9 +20,9 @@ const LIVE_JOB = 'Transformer T2 lift: boom erection';
  * ticked from the screens of the roles it names (Priya, the operator Tomasz Wierzba on his phone,
  * Marta Lindqvist as signaller and Rhys); every screen says MADE SAFE, when and by whom. Rhys
  * writes the handover for Marta (supervisor2@, laptop), she acknowledges it and every header names
- * her acting; she takes the off-shift rigger out of the crew on the crew screen and every screen's
- * start-of-shift hold follows; Priya records the shift inspection, the operator and Marta
- * acknowledge, everyone is briefed for shift 2, the wind is read and Marta starts shift 2.
+ * her acting; Priya records the shift inspection, the operator and Marta acknowledge, everyone is
+ * briefed for shift 2, the wind is read and Marta starts shift 2; then a crew change takes a rigger
+ * off the job and every screen says why his acknowledgment of an open hold was withdrawn.
  */
 describe('two shifts, four people: make safe, hand over, change the crew, start again', () => {
   let server: TestServer;
@@ -216,18 +216,8 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     }
     expect(await rhys.getByTestId('shift-start-not-acting').textContent()).toContain('Only the acting supervisor (Marta Lindqvist) starts the next shift.');
 
-    // 6. A crew change: Callum Frey is off this shift, and Marta takes him out of the crew. The job's
-    // crew screen is read-only once a job has left planning, so she sends the crew through the API
-    // (PUT /api/jobs/:id/crew) as the screen would. Every start-of-shift hold stops waiting for his briefing.
-    const briefingList = (page: Page) => page.getByTestId('shift-start-briefing').textContent();
-    for (const page of screens) expect(await briefingList(page)).toContain('Callum Frey');
-    const martaToken = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
-    const members = (await boardNow()).crew.filter((m) => m.userId !== people.rigger.id).map((m) => ({ userId: m.userId, role: m.role }));
-    await request(server.app).put(`/api/jobs/${jobId}/crew`).set({ Authorization: `Bearer ${martaToken}` }).send({ members }).expect(200);
-    for (const page of screens) await expect.poll(() => briefingList(page), { timeout: 10_000 }).not.toContain('Callum Frey');
-
-    // 7. The start of shift 2. Everyone in the crew is briefed for it (the four here on their screens, the signaller elsewhere;
-    // the client's engineer only watches and is not asked).
+    // 6. The start of shift 2. Everyone in the crew is briefed for it (the four here on their screens, the signaller and
+    // the other rigger elsewhere; the client's engineer only watches and is not asked).
     await Promise.all(
       screens.map(async (page) => {
         const button = page.getByTestId('briefing').getByRole('button', { name: 'Acknowledge the briefing' });
@@ -237,7 +227,7 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
       }),
     );
     const elsewhere = new DemoBoardDriver(server.context, jobId, {});
-    await elsewhere.send(people.signaller, { type: 'briefing.acknowledge' });
+    for (const who of [people.signaller, people.rigger]) await elsewhere.send(who, { type: 'briefing.acknowledge' });
     // The competent person's shift inspection, from the rigger's phone.
     const note = field(priya, 'shift-inspect-note');
     await note.scrollIntoViewIfNeeded();
@@ -261,7 +251,6 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     const after = await boardNow();
     expect(after.shift).toMatchObject({ number: 2, phase: 'working' });
     expect(after.actingSupervisor?.name).toBe('Marta Lindqvist');
-    expect(after.crew.some((m) => m.name === 'Callum Frey')).toBe(false);
     for (const [page, name] of [
       [rhys, 'two-shift-2-console-laptop'],
       [marta, 'two-shift-2-console2-laptop'],
@@ -273,6 +262,34 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
       expect(await page.getByTestId('stop-bar').count()).toBe(1);
       await page.evaluate(() => window.scrollTo(0, 0));
       await viewShot(page, name);
+    }
+
+    // 7. A crew change in shift 2. Callum Frey, the other rigger, acknowledges the reeving hold from
+    // the ground; then he is called to another job and Marta takes him out of the crew. The job's
+    // crew screen is read-only once a job has left planning, so she sends the crew through the API
+    // (PUT /api/jobs/:id/crew), as that screen does. His acknowledgment is withdrawn, the hold
+    // asks for a rigger again, and every screen says why.
+    const reeveHold = after.stages.find((s) => s.id === 'er-reeve')!.hold!;
+    await elsewhere.send(people.rigger, { type: 'hold.acknowledge', holdId: reeveHold.id, role: 'rigger' });
+    const martaToken = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
+    const members = (await boardNow()).crew.filter((m) => m.userId !== people.rigger.id).map((m) => ({ userId: m.userId, role: m.role }));
+    await request(server.app).put(`/api/jobs/${jobId}/crew`).set({ Authorization: `Bearer ${martaToken}` }).send({ members }).expect(200);
+    const reopened = await boardNow();
+    expect(reopened.crew.some((m) => m.name === 'Callum Frey')).toBe(false);
+    expect(reopened.stages.find((s) => s.id === 'er-reeve')!.hold!.acknowledgments).toEqual([]);
+    for (const [page, name] of [
+      [marta, 'two-shift-crew-change-console2-laptop'],
+      [rhys, null],
+      [operator, 'two-shift-crew-change-cab-phone'],
+      [priya, 'two-shift-crew-change-rigger-phone'],
+    ] as const) {
+      const why = page.getByTestId(`reopened-${reeveHold.id}`);
+      await expect.poll(() => why.count(), { timeout: 10_000 }).toBe(1);
+      expect(await why.textContent()).toContain('Callum Frey left the crew or changed role');
+      if (name) {
+        await why.scrollIntoViewIfNeeded();
+        await viewShot(page, name);
+      }
     }
   });
 });
