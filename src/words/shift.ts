@@ -121,5 +121,6 @@ export function startShiftLabel(board: Pick<BoardState, 'shift'>): string {
 
 /** One thing the start-of-shift hold still needs, as a line of its list (the shared rule words it mid-sentence). */
 export function gapWords(gap: ShiftStartGap): string {
-  return gap.text ? `${gap.text.charAt(0).toUpperCase()}${gap.text.slice(1)}.` : '';
+  const text = gap.text.trim().replace(/\.+$/, '');
+  return text ? `${text.charAt(0).toUpperCase()}${text.slice(1)}.` : '';
 }
