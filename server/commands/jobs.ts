@@ -153,7 +153,7 @@ function crewChangeOnBoard(board: BoardState, crew: readonly { userId: string; r
     throw new HttpError(
       409,
       'crew_role_needed',
-      `This change leaves nobody to acknowledge as ${listWords([...new Set(uncovered.map((u) => u.role))])} at an open hold. Name the replacement in the same change: add the person who takes over before you remove anyone.`,
+      `This change leaves nobody as ${listWords([...new Set(uncovered.map((u) => u.role))])} for a hold that is still open. Name the replacement in the same change: put the person who takes over in the crew as you take the other out.`,
       uncovered.map((u) => ({ path: `members.${u.role}`, message: `Nobody left as ${u.role} for “${u.hold}”` })),
     );
   }
