@@ -133,7 +133,7 @@ describe('the job signed off by the inspector and the supervisor', () => {
     ] as const) {
       const headline = page.getByTestId('closed-headline');
       await headline.waitFor({ timeout: 10_000 });
-      expect(await headline.textContent()).toMatch(/^Job complete: signed off by Priya Raman and released by Rhys Calloway at \d\d:\d\d$/);
+      expect(await headline.textContent()).toMatch(/^Job complete: signed off by Priya Raman and released by Rhys Calloway at \d\d:\d\d \(UTC[+\u2212]\d\d:\d\d\)$/);
       // No control that acts on the job: only the history's hash may be shown in full or copied.
       const controls = await page.locator('.board-page').locator('button, input, textarea, select').evaluateAll((els) => els.filter((el) => !el.closest('.head-hash')).map((el) => el.textContent?.trim() ?? el.tagName));
       expect(controls).toEqual([]);
