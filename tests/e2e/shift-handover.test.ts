@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { BrowserContext, Locator, Page } from 'playwright-core';
@@ -187,7 +188,17 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
       expect(await page.getByTestId('made-safe-board').count()).toBe(1);
       expect(await page.getByTestId('stop-bar').count()).toBe(0);
       expect(await page.locator('[data-testid^="complete-"]').count()).toBe(0);
-      if (whole) await topShot(page, name);
+      // Nothing wider than the screen, and the made-safe board readable (the rules the live board is held to; the cab's enhanced contrast).
+      const width = page.viewportSize()!.width;
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(width);
+      if (whole) {
+        // One laptop and the cab's phone (axe is slow on a page this long).
+        const rules = ['color-contrast', 'button-name', 'link-name', 'label', 'image-alt', 'aria-command-name', 'aria-input-field-name', 'aria-toggle-field-name'];
+        if (page === operator) rules.push('color-contrast-enhanced');
+        const axe = await new AxeBuilder({ page }).withRules(rules).analyze();
+        expect(axe.violations.map((v) => `${name} ${v.id}: ${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')}`)).toEqual([]);
+        await topShot(page, name);
+      }
       else {
         await page.evaluate(() => window.scrollTo(0, 0));
         await viewShot(page, name);
