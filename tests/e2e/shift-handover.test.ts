@@ -249,8 +249,13 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     await expect.poll(() => marta.getByTestId('shift-start-operator').textContent(), { timeout: 10_000 }).toContain('acknowledged by Tomasz Wierzba');
     await marta.getByTestId('shift-ack-supervisor').click();
     await expect.poll(() => operator.getByTestId('shift-start-supervisor').textContent(), { timeout: 10_000 }).toContain('acknowledged by Marta Lindqvist');
-    // The wind read by the signaller on the ground.
-    await elsewhere.send(people.signaller, { type: 'weather.record', meanMs: 4.2, gustMs: 6.6, heightM: 10 });
+    // The wind, read by Marta (a signaller too) at the start-of-shift hold.
+    const hold = marta.getByTestId('shift-start-hold');
+    await hold.getByLabel('Mean wind').fill('4.2');
+    await hold.getByLabel('Gust').fill('6.6');
+    await hold.getByLabel('Height of the reading').fill('10');
+    await hold.getByTestId('wind-record').click();
+    await expect.poll(async () => (await boardNow()).weather?.gustMs, { timeout: 10_000 }).toBe(6.6);
     await expect.poll(() => marta.getByTestId('shift-start-missing').textContent(), { timeout: 10_000 }).toContain('Everything the start-of-shift hold needs is in place.');
     await marta.getByTestId('shift-start-hold').scrollIntoViewIfNeeded();
     await viewShot(marta, 'two-shift-start-ready-laptop');
