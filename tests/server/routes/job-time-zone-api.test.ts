@@ -88,11 +88,10 @@ describe('a job in its site’s time zone', () => {
     expect((await boardOf(server, crew.supervisor, job.id)).job.timeZone).toBe('Europe/Warsaw');
   });
 
-  it('prints the configuration sheet’s time in the site’s zone with its offset', async () => {
-    const job = await plannedJob(server, crew, unitId, 'Sheet job');
-    await request(server.app).patch(`/api/jobs/${job.id}`).set(auth()).send({ timeZone: 'Pacific/Auckland' }).expect(200);
+  /** A PDF of the job read back as text (poppler's pdftotext), whitespace collapsed. */
+  async function pdfText(url: string): Promise<string> {
     const res = await request(server.app)
-      .get(`/api/jobs/${job.id}/configuration.pdf`)
+      .get(url)
       .set(auth())
       .buffer(true)
       .parse((r, done) => {
@@ -101,15 +100,29 @@ describe('a job in its site’s time zone', () => {
         r.on('end', () => done(null, Buffer.concat(chunks)));
       })
       .expect(200);
-    const text = execFileSync('pdftotext', ['-raw', '-enc', 'UTF-8', '-', '-'], { input: res.body as Buffer }).toString('utf8').replace(/\s+/g, ' ');
-    expect(text).toContain('Site time Pacific/Auckland');
+    return execFileSync('pdftotext', ['-raw', '-enc', 'UTF-8', '-', '-'], { input: res.body as Buffer }).toString('utf8').replace(/\s+/g, ' ');
+  }
+
+  /** The "printed" line's site clock, minus the offset it claims, is the moment it was printed (to the minute). */
+  function expectPrintedNowInAuckland(text: string) {
     const printed = /printed (\d{1,2}) (\w{3}) (\d{4}), (\d\d):(\d\d) \(UTC\+(\d\d):00\) site time/.exec(text);
     expect(printed, text.slice(0, 400)).not.toBeNull();
     const [, d, mon, y, hh, mm, oh] = printed!;
-    // The site clock minus the offset it claims is the moment the sheet was printed (to the minute).
     const printedUtcMs = Date.UTC(Number(y), MONTHS.indexOf(mon!), Number(d), Number(hh), Number(mm)) - Number(oh) * HOUR;
     expect(Math.abs(printedUtcMs - server.context.now().getTime())).toBeLessThan(2 * MINUTE);
     expect(['12', '13']).toContain(oh);
+  }
+
+  it('prints the configuration sheet’s and the plan checklist’s time in the site’s zone with its offset', async () => {
+    const job = await plannedJob(server, crew, unitId, 'Sheet job');
+    await request(server.app).patch(`/api/jobs/${job.id}`).set(auth()).send({ timeZone: 'Pacific/Auckland' }).expect(200);
+    const sheet = await pdfText(`/api/jobs/${job.id}/configuration.pdf`);
+    expect(sheet).toContain('Site time Pacific/Auckland');
+    expectPrintedNowInAuckland(sheet);
+    await request(server.app).post(`/api/jobs/${job.id}/ready`).set(auth()).expect(200);
+    const plan = await pdfText(`/api/jobs/${job.id}/plan.pdf`);
+    expect(plan).toContain("Write times as the site's clock (Pacific/Auckland).");
+    expectPrintedNowInAuckland(plan);
   });
 
   it('writes a hold reminder’s time as the site’s clock with its offset, and UTC beside it', async () => {
