@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import type { EntityManager } from 'typeorm';
+import { In, type EntityManager } from 'typeorm';
 import { findStep } from '../../shared/board/apply.js';
 import { readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/readings.js';
 import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
@@ -18,7 +18,7 @@ import { JobCrew } from '../entities/JobCrew.js';
 import type { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
 import { Upload } from '../entities/Upload.js';
-import type { User } from '../entities/User.js';
+import { User } from '../entities/User.js';
 import { badRequest, HttpError } from '../errors.js';
 import { redactPlan } from '../presenters/plan.js';
 import { crewRolesOf } from '../queries/crew.js';
@@ -105,6 +105,23 @@ type Handler<T extends BoardCommand['type']> = (ctx: HandlerContext, command: Ex
 
 /** Who may record a weather reading, in words, for refusals that ask for one. */
 const weatherRecorders = `${boardCommandRoles['weather.record'].join(', ').replace(/, ([^,]*)$/, ' or $1')} can record one on the weather panel`;
+
+/**
+ * Refuses a release that would count an acknowledgment by someone whose account is now disabled.
+ * Disabling withdraws them at once (server/commands/users.ts), after its own commit; this holds
+ * even if that step never ran.
+ */
+async function requireActiveAcknowledgers(manager: EntityManager, people: readonly { userId: string; name: string }[], what: string): Promise<void> {
+  if (!people.length) return;
+  const inactive = await manager.findBy(User, { id: In(people.map((p) => p.userId)), active: false });
+  if (!inactive.length) return;
+  const names = inactive.map((u) => u.displayName).join(', ');
+  throw refuse(
+    409,
+    'account_inactive',
+    `${what} cannot be released: ${names} acknowledged it and ${inactive.length === 1 ? 'their account is' : 'their accounts are'} disabled. Take them off the crew (their acknowledgment is withdrawn) and have someone else acknowledge.`,
+  );
+}
 
 /** Refuses unless the acting supervisor sends it. */
 function requireActing(board: BoardState, actor: User, doing: string): void {
@@ -330,6 +347,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
         blocking.map((b) => ({ path: `steps.${b.stepId}`, message: b.outOfLimit.reason })),
       );
     }
+    await requireActiveAcknowledgers(manager, hold.acknowledgments, `“${hold.title}”`);
     if (holdGatesBoomMovement(board, stage.id)) requireRaisingWeather(board, now, `Releasing “${hold.title}” lets the boom move`);
     else if (holdGatesCraneMovement(board, stage.id)) requireWeather(board, now, `Releasing “${hold.title}” starts a stage that moves the crane`);
     // The sign-off completes the job: the crane unit now stands as it was built, in the same transaction.
@@ -502,7 +520,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'shift.start.acknowledged', role: c.role, data: { shift: shiftOf(board).number + 1, role: c.role } };
   },
 
-  async 'shift.start'({ board, actor, now }) {
+  async 'shift.start'({ manager, board, actor, now }) {
     if (board.job.state !== 'made_safe') throw invalidState('The job is not made safe: there is no shift to start.');
     requireActing(board, actor, 'starts the shift');
     const missing = shiftStartMissing(board, now.getTime());
@@ -511,6 +529,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       const weather = missing.some((m) => m.kind === 'weather') ? ` The ${weatherRecorders}.` : '';
       throw refuse(409, code, `The start-of-shift hold still needs: ${missing.map((m) => m.text).join('; ')}.${weather}`);
     }
+    const start = shiftOf(board).start;
+    await requireActiveAcknowledgers(manager, [start?.inspection, start?.operator].filter((p) => !!p), 'The start-of-shift hold');
     return { type: 'shift.started', role: 'supervisor', data: { shift: shiftOf(board).number + 1 } };
   },
 };

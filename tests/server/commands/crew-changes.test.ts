@@ -9,6 +9,7 @@ import { acknowledgeAndRelease, BoardClient, boardOf, briefEveryone, completeSte
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
+import { User } from '../../../server/entities/User.js';
 
 /**
  * Crew changes while a job is under way (issue 17): PUT /api/jobs/:id/crew on a live board, and an
@@ -210,6 +211,28 @@ describe('crew changes mid-job', () => {
     } finally {
       for (const w of watchers) w.close();
     }
+  }, 120_000);
+
+  it('a release never counts an acknowledgment by a disabled account, even when its withdrawal never ran', async () => {
+    const own: CrewByRole = { ...crew, rigger: await signedInUser(server, { qualifications: ['rigger'] }) };
+    const { jobId, hold } = await jobAtRiggerHold('Disabled without withdrawal job', own);
+    for (const role of hold.requiredRoles) {
+      const who = role === 'supervisor' ? supervisor2 : own[role as keyof CrewByRole];
+      expect((await httpCommand(server, who, jobId, { type: 'hold.acknowledge', holdId: hold.id, role })).status).toBe(200);
+    }
+    // The deactivation committed and the server died before the withdrawal: only the account row changed.
+    await server.context.dataSource.manager.update(User, { id: own.rigger.user.id }, { active: false });
+    const refused = await httpCommand(server, own.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
+    expect(refused.status).toBe(409);
+    expect(refused.body.error.code).toBe('account_inactive');
+    expect(refused.body.error.message).toContain(own.rigger.user.displayName);
+    expect(holdOn(await boardOf(server, own.supervisor, jobId), hold.id).state).toBe('acknowledged');
+    // Taking them off the crew with a replacement withdraws the acknowledgment; the new rigger acknowledges and the release goes.
+    const members = [...crewOf(own).filter((m) => m.userId !== own.rigger.user.id), member(rigger2, 'rigger'), member(supervisor2, 'supervisor')];
+    expect((await putCrew(jobId, members, own.supervisor)).status).toBe(200);
+    expect((await httpCommand(server, rigger2, jobId, { type: 'briefing.acknowledge' })).status).toBe(200);
+    expect((await httpCommand(server, rigger2, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'rigger' })).status).toBe(200);
+    expect((await httpCommand(server, own.supervisor, jobId, { type: 'hold.release', holdId: hold.id })).status).toBe(200);
   }, 120_000);
 
   it('while the job is made safe: the start-of-shift hold keeps its operator and supervisor; a swapped operator’s acknowledgment is withdrawn', async () => {
