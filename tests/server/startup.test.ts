@@ -41,12 +41,13 @@ describe('the server process', () => {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'holdline-boot-'));
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-  it('starts on PORT, seeds the demo once, prints the sign-ins and stops cleanly on SIGTERM', { timeout: 120_000 }, async () => {
+  it('starts on PORT, seeds the demo once, prints the sign-ins and stops cleanly on SIGTERM', { timeout: 240_000 }, async () => {
     const port = await freePort();
     const env = { PORT: String(port), HOLDLINE_DB: path.join(dir, 'h.sqlite'), HOLDLINE_DEMO: '1' };
 
     const first = boot(env);
-    await waitFor(() => first.output().includes('Holdline is serving'));
+    // The seed works four jobs through real commands, one of them over two shifts.
+    await waitFor(() => first.output().includes('Holdline is serving'), 150_000);
     expect(first.output()).toContain(`http://localhost:${port}`);
     expect(first.output()).toContain('supervisor@holdline.test');
     expect(first.output()).toContain('holdline-demo');
@@ -62,9 +63,9 @@ describe('the server process', () => {
     const quarantined = db.prepare("SELECT serial FROM component WHERE status = 'quarantined' ORDER BY serial").all() as { serial: string }[];
     expect(quarantined.map((r) => r.serial)).toEqual(['F07-BALL12-01', 'F07-G12-12', 'F07-INS12-06']);
     expect((db.prepare('SELECT COUNT(*) AS n FROM upload WHERE owner_kind = ?').get('inspection') as { n: number }).n).toBe(3);
-    // The jobs too: one complete, one live at a hold, one being planned.
+    // The jobs too: one complete, one live at a hold, one live in its second shift (issue 17), one being planned.
     const jobs = db.prepare('SELECT state FROM job ORDER BY state').all() as { state: string }[];
-    expect(jobs.map((j) => j.state)).toEqual(['complete', 'live', 'planning']);
+    expect(jobs.map((j) => j.state)).toEqual(['complete', 'live', 'live', 'planning']);
 
     const second = boot(env);
     await waitFor(() => second.output().includes('Holdline is serving'));

@@ -48,12 +48,14 @@ describe('shifts', () => {
   let supervisor2: SignedInUser;
   /** A rigger the admin marks as qualified to inspect: the competent person of the shift inspection. */
   let inspector: SignedInUser;
+  /** On every crew: a viewer watches and cannot acknowledge a briefing, so the start of a shift never waits for them. */
+  let viewer: SignedInUser;
   let unitId: string;
   const auth = (who: SignedInUser) => ({ Authorization: `Bearer ${who.token}` });
   const everyone = () => [...Object.values(crew), supervisor2, inspector];
   /** New access tokens after a test moves the server's clock past their 15 minutes. */
   const resign = () => {
-    for (const who of [...everyone(), admin]) who.token = signAccessToken(who.user.id, server.context.secret, server.context.now()).token;
+    for (const who of [...everyone(), viewer, admin]) who.token = signAccessToken(who.user.id, server.context.secret, server.context.now()).token;
   };
   const OLD = 31 * 60 * 1000;
   const send = (who: SignedInUser, jobId: string, command: CommandBody, commandId?: ReturnType<typeof randomUUID>) => httpCommand(server, who, jobId, command, commandId);
@@ -77,6 +79,7 @@ describe('shifts', () => {
           ...Object.entries(crew).map(([role, who]) => ({ userId: who.user.id, role })),
           { userId: supervisor2.user.id, role: 'supervisor' },
           { userId: inspector.user.id, role: 'rigger' },
+          { userId: viewer.user.id, role: 'viewer' },
         ],
       })
       .expect(200);
@@ -129,6 +132,7 @@ describe('shifts', () => {
     };
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     inspector = await signedInUser(server, { qualifications: ['rigger'] });
+    viewer = await signedInUser(server, { qualifications: ['viewer'] });
     await request(server.app).patch(`/api/users/${inspector.user.id}`).set(auth(admin)).send({ canInspect: true }).expect(200);
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     unitId = unit.id;
@@ -524,7 +528,7 @@ describe('shifts', () => {
     expect(refused.body.error?.code).toBe('briefing_required');
     expect(refused.body.error?.message).toContain('shift 2');
     for (const who of [crew.signaller, crew.rigger, supervisor2]) expect(refused.body.error?.message).toContain(who.user.displayName);
-    expect(refused.body.error?.message).not.toContain(crew.operator.user.displayName);
+    for (const who of [crew.operator, viewer]) expect(refused.body.error?.message).not.toContain(who.user.displayName);
     await briefEveryone(server, crew, jobId);
     await brief(jobId, [supervisor2]);
     expect((await send(crew.supervisor, jobId, { type: 'shift.start' })).status).toBe(200);
