@@ -238,6 +238,9 @@ describe('shifts', () => {
       const onSocket = await follower.command(jobId, { type: 'step.complete', stepId: first.id, value: '1' });
       expect(onSocket).toMatchObject({ ok: false, error: { code: 'making_safe' } });
       expect((await send(crew.signaller, jobId, calmWeather)).status).toBe(200);
+      // Anyone may still stop the job; the checklist goes on while it is stopped.
+      expect((await send(crew.signaller, jobId, { type: 'job.stop', pressedAt: new Date().toISOString(), reason: 'Walker inside the barrier' })).status).toBe(200);
+      expect((await boardOf(server, crew.supervisor, jobId)).job).toMatchObject({ state: 'stopped', stop: { reason: 'Walker inside the barrier' } });
     });
 
     it('ticks each item only by its roles, with a note where one is asked; the last item makes the job safe, once', async () => {
@@ -263,7 +266,7 @@ describe('shifts', () => {
         expect(answer.status, JSON.stringify(answer.body)).toBe(200);
         expect(answer.body).toMatchObject({ event: { data: { itemId: item.id, madeSafe: false } } });
       }
-      expect((await boardOf(server, crew.supervisor, jobId)).job.state).toBe('live');
+      expect((await boardOf(server, crew.supervisor, jobId)).job.state).toBe('stopped');
       const last: CommandBody = { type: 'shift.item.done', itemId: 'forecast', note: 'Gusts to 14 m/s after midnight, easing by six' };
       const first = await send(crew.supervisor, jobId, last, madeSafeCommandId);
       expect(first.status).toBe(200);
@@ -276,7 +279,8 @@ describe('shifts', () => {
     it('shows made safe on the board with when and by whom, to every screen', async () => {
       const board = await boardOf(server, crew.operator, jobId);
       const lastItem = (await events(jobId)).filter((e) => e.type === 'shift.item.done').at(-1)!;
-      expect(board.job.state).toBe('made_safe');
+      // Made safe, the stop pressed while making safe is over: the start-of-shift hold takes its place.
+      expect(board.job).toMatchObject({ state: 'made_safe', stop: null });
       expect(board.shift).toMatchObject({ number: 1, phase: 'made_safe', start: { inspection: null, operator: null, supervisor: null } });
       expect(board.shift!.makeSafe!.madeSafe).toEqual({ userId: crew.supervisor.user.id, name: crew.supervisor.user.displayName, at: lastItem.at });
       expect(board.shift!.makeSafe!.items.every((i) => i.doneBy)).toBe(true);
