@@ -682,7 +682,7 @@ describe('shifts (issue 17)', () => {
     job.apply('shift.inspected', { shift: 2, note: 'Pins and blocking as left' }, { by: people.rita, at: minutes(300) });
     job.apply('shift.start.acknowledged', { shift: 2, role: 'operator' }, { by: people.otto, at: minutes(301) });
     job.apply('shift.start.acknowledged', { shift: 2, role: 'supervisor' }, { by: people.sue, at: minutes(302) });
-    expect(job.state.shift!.start).toEqual({
+    expect(job.state.shift!.start).toMatchObject({
       inspection: { userId: people.rita.userId, name: people.rita.name, at: minutes(300), note: 'Pins and blocking as left' },
       operator: { userId: people.otto.userId, name: people.otto.name, at: minutes(301) },
       supervisor: { userId: people.sue.userId, name: people.sue.name, at: minutes(302) },
