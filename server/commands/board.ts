@@ -503,6 +503,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (!actor.canInspect) {
       throw refuse(403, 'not_inspector', 'The shift inspection is made by a competent person: someone the administrator marks as qualified to inspect cranes.');
     }
+    if (board.actingSupervisor?.userId === actor.id) {
+      throw refuse(409, 'one_person_two_roles', 'The acting supervisor acknowledges the shift inspection, so another competent person makes it.');
+    }
     const done = shiftOf(board).start?.inspection;
     if (done) throw invalidState(`${done.name} has already recorded the shift inspection.`);
     return { type: 'shift.inspected', role: roles[0], data: { shift: shiftOf(board).number + 1, note: c.note } };
@@ -517,6 +520,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     const taken = start[c.role];
     if (taken) throw invalidState(`${taken.name} has already acknowledged as ${c.role}.`);
     if (start.operator?.userId === actor.id || start.supervisor?.userId === actor.id) throw refuse(409, 'one_person_two_roles', 'You have already acknowledged the start-of-shift hold; another person acknowledges the other role.');
+    // The acknowledgments confirm someone else's inspection: as on the sign-off, nobody passes their own.
+    if (start.inspection.userId === actor.id) throw refuse(409, 'one_person_two_roles', 'You made the shift inspection; the operator and the acting supervisor who acknowledge it must be other people.');
     return { type: 'shift.start.acknowledged', role: c.role, data: { shift: shiftOf(board).number + 1, role: c.role } };
   },
 

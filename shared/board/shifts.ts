@@ -101,7 +101,7 @@ export function shiftStartMissing(board: BoardState, nowMs: number): ShiftStartG
   if (!start?.operator) missing.push({ kind: 'acknowledgment', text: 'the operator’s acknowledgment' });
   if (!start?.supervisor) missing.push({ kind: 'acknowledgment', text: 'the acting supervisor’s acknowledgment' });
   const verdict = weatherVerdict(board, nowMs);
-  if (!verdict.ok) missing.push({ kind: 'weather', text: `a weather reading: ${verdict.problem}` });
+  if (!verdict.ok) missing.push({ kind: 'weather', text: verdict.problem! });
   const unbriefed = unbriefedCrew(board);
   if (unbriefed.length) missing.push({ kind: 'briefing', text: `the briefing for plan version ${board.planVersion}, shift ${shift.number + 1}, from ${unbriefed.map((p) => p.name).join(', ')}` });
   return missing;
@@ -153,8 +153,10 @@ export function withdrawAcknowledgments(board: BoardState, withdrawn: readonly W
       const start = board.shift?.start;
       if (!start) continue;
       if (w.role === 'inspector' && start.inspection?.userId === w.userId) start.inspection = null;
-      if (w.role === 'operator' && start.operator?.userId === w.userId) start.operator = null;
-      if (w.role === 'supervisor' && start.supervisor?.userId === w.userId) start.supervisor = null;
+      else if (w.role === 'operator' && start.operator?.userId === w.userId) start.operator = null;
+      else if (w.role === 'supervisor' && start.supervisor?.userId === w.userId) start.supervisor = null;
+      else continue;
+      start.reopenedBecause = { reason, at };
       continue;
     }
     const hold = board.stages.find((s) => s.id === w.stageId)?.hold;

@@ -193,6 +193,8 @@ export interface ShiftState {
     inspection: (ShiftSignature & { note: string }) | null;
     operator: ShiftSignature | null;
     supervisor: ShiftSignature | null;
+    /** Why acknowledgments of this hold were last taken back by a crew change or a disabled account. */
+    reopenedBecause?: { reason: string; at: string } | null;
   } | null;
 }
 

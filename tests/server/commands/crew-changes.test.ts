@@ -125,7 +125,7 @@ describe('crew changes mid-job', () => {
     const withoutRigger = [...crewOf(crew).filter((m) => m.role !== 'rigger'), member(supervisor2, 'supervisor')];
     const refused = await putCrew(jobId, withoutRigger);
     expect(refused.status).toBe(409);
-    expect(refused.body.error.code).toBe('crew_role_needed');
+    expect(refused.body.error?.code).toBe('crew_role_needed');
     expect(refused.body.error.fields).toContainEqual({ path: 'members.rigger', message: `Nobody left as rigger for “${hold.title}”` });
     // Nothing changed: no event, the same crew.
     const unchanged = await boardOf(server, crew.supervisor, jobId);
@@ -143,8 +143,8 @@ describe('crew changes mid-job', () => {
     // Another supervisor covers the role, but the acting one may not be taken off.
     const refused = await putCrew(jobId, [...others, member(supervisor2, 'supervisor')], supervisor2);
     expect(refused.status).toBe(409);
-    expect(refused.body.error.code).toBe('acting_supervisor');
-    expect(refused.body.error.message).toContain(crew.supervisor.user.displayName);
+    expect(refused.body.error?.code).toBe('acting_supervisor');
+    expect(refused.body.error?.message).toContain(crew.supervisor.user.displayName);
     // An administrator cannot do it through the crew either: they transfer the role first.
     expect((await putCrew(jobId, [...others, member(supervisor2, 'supervisor')], admin)).body.error.code).toBe('acting_supervisor');
     const transferred = await request(server.app)
@@ -224,8 +224,8 @@ describe('crew changes mid-job', () => {
     await server.context.dataSource.manager.update(User, { id: own.rigger.user.id }, { active: false });
     const refused = await httpCommand(server, own.supervisor, jobId, { type: 'hold.release', holdId: hold.id });
     expect(refused.status).toBe(409);
-    expect(refused.body.error.code).toBe('account_inactive');
-    expect(refused.body.error.message).toContain(own.rigger.user.displayName);
+    expect(refused.body.error?.code).toBe('account_inactive');
+    expect(refused.body.error?.message).toContain(own.rigger.user.displayName);
     expect(holdOn(await boardOf(server, own.supervisor, jobId), hold.id).state).toBe('acknowledged');
     // Taking them off the crew with a replacement withdraws the acknowledgment; the new rigger acknowledges and the release goes.
     const members = [...crewOf(own).filter((m) => m.userId !== own.rigger.user.id), member(rigger2, 'rigger'), member(supervisor2, 'supervisor')];
@@ -262,7 +262,7 @@ describe('crew changes mid-job', () => {
     const withoutOperator = base.filter((m) => m.role !== 'operator');
     const refused = await putCrew(job.id, withoutOperator);
     expect(refused.status).toBe(409);
-    expect(refused.body.error.code).toBe('crew_role_needed');
+    expect(refused.body.error?.code).toBe('crew_role_needed');
     expect(refused.body.error.fields).toContainEqual({ path: 'members.operator', message: 'Nobody left as operator for “the start-of-shift hold”' });
 
     const swapped = await putCrew(job.id, [...withoutOperator, member(operator2, 'operator')]);

@@ -356,6 +356,14 @@ describe('shifts', () => {
       const notCompetent = await send(crew.rigger, jobId, { type: 'shift.inspect', note: 'Looked fine to me.' });
       expect(notCompetent.status).toBe(403);
       expect(notCompetent.body.error?.code).toBe('not_inspector');
+      // The acting supervisor acknowledges the inspection, so even a qualified one does not make it.
+      await request(server.app).patch(`/api/users/${supervisor2.user.id}`).set(auth(admin)).send({ canInspect: true }).expect(200);
+      resign();
+      const ownInspection = await send(supervisor2, jobId, { type: 'shift.inspect', note: 'Boom, pins and blocking as left.' });
+      expect(ownInspection.status).toBe(409);
+      expect(ownInspection.body.error?.code).toBe('one_person_two_roles');
+      await request(server.app).patch(`/api/users/${supervisor2.user.id}`).set(auth(admin)).send({ canInspect: false }).expect(200);
+      resign();
       expect((await send(inspector, jobId, { type: 'shift.inspect', note: 'Boom, pins, ropes and blocking looked at: as left.' })).status).toBe(200);
       const noAcks = await send(supervisor2, jobId, { type: 'shift.start' });
       expect(noAcks.body.error?.code).toBe('shift_not_ready');

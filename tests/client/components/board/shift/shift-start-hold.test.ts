@@ -83,7 +83,7 @@ describe('the start-of-shift hold', () => {
     vi.setSystemTime(readingAt + 11 * 60_000);
     const { wrapper } = mountHold(job, people.sue);
     // One sentence, one full stop.
-    expect(wrapper.get('[data-testid="shift-start-missing"]').text()).toContain('A weather reading: Record a new weather reading: the last one is older than 10 minutes.');
+    expect(wrapper.get('[data-testid="shift-start-missing"]').text()).toContain('Record a new weather reading: the last one is older than 10 minutes.');
     expect(wrapper.get('[data-testid="shift-start-missing"]').text()).not.toContain('..');
     expect(wrapper.get('[data-testid="shift-start-button"]').attributes('disabled')).toBeDefined();
   });
