@@ -8,7 +8,7 @@ import { computeConfiguration } from '../../shared/planner/compute.js';
 import type { ConfigurationResults } from '../../shared/planner/types.js';
 import type { Configuration } from '../../shared/schemas/configuration.js';
 import { listWords } from '../../shared/text.js';
-import { emptyCommsPlan, type CrewRole, type createJobSchema, type updateJobSchema } from '../../shared/schemas/jobs.js';
+import { crewEditStates, emptyCommsPlan, type CrewRole, type createJobSchema, type updateJobSchema } from '../../shared/schemas/jobs.js';
 import type { AppContext } from '../context.js';
 import { AssistCrane } from '../entities/AssistCrane.js';
 import { CraneModel } from '../entities/CraneModel.js';
@@ -110,7 +110,7 @@ const boardStates: readonly Job['state'][] = ['ready', 'live', 'stopped', 'made_
 export async function setCrew(context: AppContext, actor: User, jobId: string, members: { userId: string; role: CrewRole }[], commandId?: string): Promise<CommandOutcome> {
   return runJobCommand(context, jobId, { commandId, body: { members }, actor }, async (manager, job) => {
     const role = await planningRole(manager, job, actor);
-    requireState(job, ['planning', ...boardStates], 'change the crew');
+    requireState(job, [...crewEditStates], 'change the crew');
     const users = new Map((await manager.findBy(User, { id: In([...new Set(members.map((m) => m.userId))]) })).map((u) => [u.id, u]));
     const fields = members.flatMap((m, i) => {
       const user = users.get(m.userId);

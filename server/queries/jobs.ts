@@ -1,6 +1,6 @@
 import { In, type EntityManager } from 'typeorm';
 import { commsProblems } from '../../shared/plan/comms.js';
-import { missingCrewRoles, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs.js';
+import { crewEditStates, missingCrewRoles, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs.js';
 import { Job } from '../entities/Job.js';
 import { JobCrew } from '../entities/JobCrew.js';
 import { JobOverride } from '../entities/JobOverride.js';
@@ -27,6 +27,8 @@ export async function jobFor(manager: EntityManager, job: Job, viewer: User): Pr
     can: {
       edit: job.state === 'planning' && can(viewer, 'jobs.plan', { crewRoles: myRoles }),
       approveOverrides: job.state === 'planning' && can(viewer, 'jobs.override', { crewRoles: myRoles }),
+      // The same rule setCrew enforces (planningRole and crewEditStates), so the crew tab offers what the server accepts.
+      editCrew: crewEditStates.includes(job.state) && can(viewer, 'jobs.plan', { crewRoles: myRoles }),
     },
   });
 }

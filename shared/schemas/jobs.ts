@@ -8,6 +8,12 @@ import { isTimeZone, tidyTimeZone } from '../time.js';
 export const jobStates = ['planning', 'ready', 'live', 'stopped', 'made_safe', 'complete', 'cancelled'] as const;
 export const jobStateSchema = z.enum(jobStates);
 export type JobState = z.infer<typeof jobStateSchema>;
+/**
+ * The states in which the job's supervisors (or an admin) may change the crew: planning and every
+ * state with a board (a shift change, someone leaving). The server enforces it (setCrew) and tells
+ * the screen through `can.editCrew`.
+ */
+export const crewEditStates: readonly JobState[] = ['planning', 'ready', 'live', 'stopped', 'made_safe'];
 export const jobStateLabels: Record<JobState, string> = {
   planning: 'Planning',
   ready: 'Ready',
@@ -91,7 +97,12 @@ export const jobSchema = z.object({
   createdAt: z.string(),
   updatedAt: z.string(),
   /** What the person asking may do, so the screen can hide the rest. */
-  can: z.object({ edit: z.boolean(), approveOverrides: z.boolean() }),
+  can: z.object({
+    edit: z.boolean(),
+    approveOverrides: z.boolean(),
+    /** The crew may be changed by this person now: the job's supervisors or an admin, in `crewEditStates`. */
+    editCrew: z.boolean(),
+  }),
 });
 export type JobDto = z.infer<typeof jobSchema>;
 

@@ -1,4 +1,4 @@
-import { jobStateLabels, type JobKind, type JobState } from '../../shared/schemas/jobs';
+import { jobStateLabels, type JobDto, type JobKind, type JobState } from '../../shared/schemas/jobs';
 import type { Tone } from './common';
 
 /** The sections of a job's page. */
@@ -14,6 +14,18 @@ export const jobStateWords: Record<JobState, { label: string; icon: string; tone
   complete: { label: jobStateLabels.complete, icon: 'task_alt', tone: 'plain', hint: 'Finished; the record is closed.' },
   cancelled: { label: jobStateLabels.cancelled, icon: 'block', tone: 'plain', hint: 'Called off before it was complete.' },
 };
+
+/**
+ * The note above a job's tabs for a person who cannot change the plan: what is read only and,
+ * past planning, whether the crew can still be changed (the server's `can`, never guessed here).
+ * Null when the person edits the plan.
+ */
+export function readOnlyNote(job: Pick<JobDto, 'state' | 'can'>): { text: string; crewEditable: boolean } | null {
+  if (job.can.edit) return null;
+  if (job.state === 'planning') return { text: 'Read only: the job’s supervisors change the plan.', crewEditable: false };
+  if (job.can.editCrew) return { text: 'The plan is locked; the crew can still be changed by the job’s supervisors.', crewEditable: true };
+  return { text: `Read only: the job is ${jobStateWords[job.state].label.toLowerCase()}, past planning.`, crewEditable: false };
+}
 
 export const jobKindLabels: Record<JobKind, string> = { erection: 'Erection', dismantling: 'Dismantling' };
 

@@ -1,4 +1,4 @@
-import type { BoardHold, BoardState, MakeSafeItem } from '../../shared/board/types';
+import type { BoardHold, BoardState, MakeSafeItem, ShiftState } from '../../shared/board/types';
 import { shiftOf, type ShiftStartGap } from '../../shared/board/shifts';
 import { workPhaseWords, type WorkPhase } from '../../shared/plan/templates/shift';
 import { roleLabel } from '../../shared/schemas/users';
@@ -14,7 +14,9 @@ export const SHIFT_WORDS = {
   checklistTitle: 'Make-safe checklist',
   checklistDone: 'Make-safe checklist: every item done',
   notYourItem: 'Ticked by',
-  tick: 'Done',
+  tickHold: 'Hold: done',
+  /** The held button's accessible name: the item it ticks, in full. */
+  tickName: (text: string) => `Hold to mark done: ${text}`,
   notePlaceholder: 'A few words (needed)',
   madeSafeRule: 'No work on this crane until the acting supervisor starts the next shift. Stop any movement by radio and signal.',
   manualFirst: 'Holdline records the checks; the crane manufacturer’s manual and the site’s rules for leaving a crane come first.',
@@ -112,6 +114,16 @@ export function reopenedWords(hold: Pick<BoardHold, 'reopenedBecause' | 'state'>
   const r = hold.reopenedBecause;
   if (!r || hold.state === 'released' || hold.state === 'waived') return null;
   return `Acknowledgments taken back at ${when(r.at)}: ${r.reason}. The roles named below acknowledge again.`;
+}
+
+/**
+ * Why the start-of-shift hold asks again for an inspection or an acknowledgment it had (a crew
+ * change, a disabled account), on every view while the hold stands (it goes when the shift starts).
+ */
+export function startReopenedWords(start: Pick<NonNullable<ShiftState['start']>, 'reopenedBecause'> | null | undefined, when: (iso: string) => string): string | null {
+  const r = start?.reopenedBecause;
+  if (!r) return null;
+  return `Taken back at ${when(r.at)}: ${r.reason}. What shows as waiting below is signed again.`;
 }
 
 /** The acting supervisor's start button: the shift it starts. */

@@ -49,7 +49,7 @@ export function buildJob(overrides: Partial<JobDto> = {}): JobDto {
     planVersion: 0,
     createdAt: '2026-10-01T07:00:00.000Z',
     updatedAt: '2026-10-01T07:00:00.000Z',
-    can: { edit: true, approveOverrides: true },
+    can: { edit: true, approveOverrides: true, editCrew: true },
     ...overrides,
   };
 }

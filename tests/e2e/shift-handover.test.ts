@@ -64,25 +64,24 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
   const field = (page: Page, id: string) =>
     page.locator(`input[data-testid="${id}"], textarea[data-testid="${id}"], [data-testid="${id}"] input, [data-testid="${id}"] textarea`).first();
 
-  /** Ticks a make-safe item from this person's screen (with a note where it asks for one) and waits for the tick to show. */
+  /**
+   * Ticks a make-safe item from this person's screen (with a note where it asks for one) by
+   * press-and-hold, and waits for the tick to show. The others tick their items at the same
+   * moment, so the list moves under the pointer as their ticks arrive: a move lets go of the hold
+   * (nothing is ticked), and a press that landed on another item's button is let go at once, as a
+   * person seeing the wrong ring fill would. Then the press is made again.
+   */
   async function tick(page: Page, itemId: string, note?: string) {
     const item = page.getByTestId(`make-safe-item-${itemId}`);
     await item.scrollIntoViewIfNeeded();
     if (note) await field(page, `make-safe-note-${itemId}`).fill(note);
     const button = page.getByTestId(`make-safe-tick-${itemId}`);
     const doneBy = page.getByTestId(`make-safe-done-by-${itemId}`);
-    // A tap that landed on this person's next item already ticked it (by them, from this screen).
-    if (await doneBy.count()) return;
-    await button.click();
-    // The others tick their items at the same moment, so the list can move under the pointer as
-    // their ticks arrive; a tap that missed is made again, as a person would.
-    for (let attempt = 0; attempt < 3; attempt++) {
-      try {
-        await doneBy.waitFor({ timeout: 3_000 });
-        break;
-      } catch {
-        if ((await button.count()) && (await button.isEnabled())) await button.click();
-      }
+    for (let attempt = 0; attempt < 5 && !(await doneBy.count()) && (await button.count()); attempt++) {
+      await pressAndHold(page, button, async () => {
+        const onThisItem = await button.evaluate((el) => el.classList.contains('holding')).catch(() => false);
+        if (onThisItem) await doneBy.waitFor({ timeout: 5_000 }).catch(() => undefined);
+      });
     }
     await expect.poll(async () => ((await doneBy.count()) ? 'ticked' : await item.textContent()), { timeout: 10_000 }).toBe('ticked');
   }
@@ -154,6 +153,17 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     const dialog = rhys.getByTestId('end-shift-dialog');
     await dialog.waitFor();
     expect(await dialog.textContent()).toContain('Every boom section on the ground sits on blocking');
+    // The dialog opens at its top: once it has appeared, its title is on the screen (it used to
+    // open with the title and first line above the window) and focus is on the title.
+    await expect
+      .poll(() =>
+        dialog.evaluate((el) => {
+          const title = el.querySelector('#end-shift-dialog-title')!;
+          const appearing = !!el.closest('[class*="enter-active"]');
+          return { appearing, titleTop: Math.round(title.getBoundingClientRect().top) >= 0, focused: document.activeElement === title };
+        }),
+      )
+      .toEqual({ appearing: false, titleTop: true, focused: true });
     await viewShot(rhys, 'two-shift-end-dialog-laptop');
     await pressAndHold(rhys, dialog.getByTestId('end-shift-hold'), () => expect.poll(async () => (await boardNow()).shift?.phase, { timeout: 10_000 }).toBe('making_safe'));
     for (const page of screens) await page.getByTestId('making-safe-banner').waitFor({ timeout: 10_000 });

@@ -9,7 +9,8 @@ import { jobEventListSchema } from '../../../shared/events/log.js';
 import { plannerInputsFor } from '../../../server/commands/jobs.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { addParts18m, demoArrangement, seedModelAndUnit } from '../../helpers/fleet.js';
-import { configuration18m } from '../../helpers/jobs.js';
+import { httpCommand } from '../../helpers/board.js';
+import { configuration18m, plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 describe('jobs, crews, configuration and the event log', () => {
@@ -19,6 +20,7 @@ describe('jobs, crews, configuration and the event log', () => {
   let operator: SignedInUser;
   let signaller: SignedInUser;
   let rigger: SignedInUser;
+  let admin: SignedInUser;
   let unitId: string;
   const as = (who: SignedInUser) => ({ Authorization: `Bearer ${who.token}` });
 
@@ -42,7 +44,7 @@ describe('jobs, crews, configuration and the event log', () => {
     operator = await signedInUser(server, { qualifications: ['operator'] });
     signaller = await signedInUser(server, { qualifications: ['signaller'] });
     rigger = await signedInUser(server, { qualifications: ['rigger'] });
-    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     unitId = unit.id;
     await addParts18m(server, admin.token, model.id, unit.id, 'J');
@@ -178,6 +180,38 @@ describe('jobs, crews, configuration and the event log', () => {
     await request(server.app).get(`/api/jobs/${job.id}`).set(as(outsider)).expect(403);
     await request(server.app).get(`/api/jobs/${job.id}`).expect(401);
     await request(server.app).get(`/api/jobs/${randomUUID()}`).set(as(supervisor)).expect(404);
+  });
+
+  it('tells each person whether they may change the crew, in every state, exactly as the crew change itself answers', async () => {
+    const job = await plannedJob(server, { supervisor, operator, signaller, rigger }, unitId, 'Crew changes past planning');
+    const members = [
+      { userId: supervisor.user.id, role: 'supervisor' },
+      { userId: operator.user.id, role: 'operator' },
+      { userId: signaller.user.id, role: 'signaller' },
+      { userId: rigger.user.id, role: 'rigger' },
+    ];
+    const canOf = async (who: SignedInUser) => jobEnvelopeSchema.parse((await request(server.app).get(`/api/jobs/${job.id}`).set(as(who)).expect(200)).body).job.can;
+    const crewChange = async (who: SignedInUser) => (await request(server.app).put(`/api/jobs/${job.id}/crew`).set(as(who)).send({ members })).status;
+    // supervisor2 is a supervisor by qualification who reads every job but is not in this crew.
+    const people = { supervisor, admin, operator, rigger, supervisor2 };
+    async function expectCrewEdit(state: string, allowed: (keyof typeof people)[]) {
+      for (const [name, who] of Object.entries(people) as [keyof typeof people, SignedInUser][]) {
+        const can = await canOf(who);
+        expect(can.editCrew, `${name} while ${state}`).toBe(allowed.includes(name));
+        // The flag is the server's own rule: the change is accepted exactly when the flag says so.
+        const status = await crewChange(who);
+        expect(status, `${name} changes the crew while ${state}`).toBe(allowed.includes(name) ? 200 : state === 'cancelled' && (name === 'supervisor' || name === 'admin') ? 409 : 403);
+      }
+    }
+    await expectCrewEdit('planning', ['supervisor', 'admin']);
+    await request(server.app).post(`/api/jobs/${job.id}/ready`).set(as(supervisor)).expect(200);
+    // The plan is locked from here (edit false for everyone), the crew is not.
+    expect(await canOf(supervisor)).toEqual({ edit: false, approveOverrides: false, editCrew: true });
+    await expectCrewEdit('ready', ['supervisor', 'admin']);
+    expect((await httpCommand(server, supervisor, job.id, { type: 'job.start' })).status).toBe(200);
+    await expectCrewEdit('live', ['supervisor', 'admin']);
+    expect((await httpCommand(server, supervisor, job.id, { type: 'job.cancel', reason: 'Crane called to another site' })).status).toBe(200);
+    await expectCrewEdit('cancelled', []);
   });
 
   it('a repeated X-Command-Id applies once; the same id with another body is refused', async () => {

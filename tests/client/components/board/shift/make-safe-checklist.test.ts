@@ -1,6 +1,7 @@
 import { mount } from '@vue/test-utils';
-import { describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import MakeSafeChecklist from '../../../../../src/components/board/shift/MakeSafeChecklist.vue';
+import { HOLD_TO_CONFIRM_MS } from '../../../../../src/composables/useHoldToConfirm';
 import { liveJob, people, quasarStubs, storesWith } from './shift-board';
 
 function mountChecklist(who: (typeof people)[keyof typeof people], readOnly = false) {
@@ -9,13 +10,16 @@ function mountChecklist(who: (typeof people)[keyof typeof people], readOnly = fa
   const { pinia, store } = storesWith(job.state, who);
   const send = vi.spyOn(store, 'send').mockResolvedValue({ ok: false, error: { code: 'test', message: 'Not sent in this test.' } });
   const wrapper = mount(MakeSafeChecklist, { props: { board: job.state, readOnly }, global: { plugins: [pinia], stubs: quasarStubs } });
-  return { wrapper, send, board: job.state };
+  return { wrapper, send, job };
 }
 
 describe('the make-safe checklist', () => {
+  beforeEach(() => vi.useFakeTimers());
+  afterEach(() => vi.useRealTimers());
+
   it('gives a crew member one target per item of their role, and none for the others', () => {
-    const { wrapper, board } = mountChecklist(people.rita);
-    const items = board.shift!.makeSafe!.items;
+    const { wrapper, job } = mountChecklist(people.rita);
+    const items = job.state.shift!.makeSafe!.items;
     for (const item of items) {
       const tick = wrapper.find(`[data-testid="make-safe-tick-${item.id}"]`);
       expect(tick.exists(), item.id).toBe(item.roles.includes('rigger'));
@@ -24,13 +28,51 @@ describe('the make-safe checklist', () => {
     expect(wrapper.get('[data-testid="make-safe-item-engineOff"]').text()).toContain('For operator');
   });
 
-  it('asks for the note where the item needs one and sends it with the item', async () => {
+  it('never ticks on a tap or a short press; a full press-and-hold ticks the item under it', async () => {
+    const { wrapper, send } = mountChecklist(people.rita);
+    const tick = wrapper.get('[data-testid="make-safe-tick-guyLines"]');
+    // The item is named in full for a screen reader; the button itself says what holding does.
+    expect(tick.attributes('aria-label')).toContain(wrapper.get('[data-testid="make-safe-item-guyLines"] .text').text());
+    expect(tick.text()).toContain('Hold: done');
+    await tick.trigger('click');
+    await tick.trigger('pointerdown', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS / 2);
+    await tick.trigger('pointerup', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS * 2);
+    expect(send).not.toHaveBeenCalled();
+    await tick.trigger('pointerdown', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS + 100);
+    expect(send.mock.calls.map((c) => c[0])).toEqual([{ type: 'shift.item.done', itemId: 'guyLines' }]);
+  });
+
+  it('lets go of a hold when another person’s tick moves the list, so nothing is ticked by a press that moved', async () => {
+    const { wrapper, send, job } = mountChecklist(people.rita);
+    const tick = wrapper.get('[data-testid="make-safe-tick-guyLines"]');
+    await tick.trigger('pointerdown', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS / 2);
+    // Otto ticks the engine item meanwhile: its button goes, the list below it moves up.
+    const state = job.apply('shift.item.done', { itemId: 'engineOff', role: 'operator', note: null, madeSafe: false }, { by: people.otto });
+    await wrapper.setProps({ board: state });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS * 2);
+    expect(send).not.toHaveBeenCalled();
+    // A fresh, full hold on the item then ticks it.
+    await tick.trigger('pointerdown', { pointerId: 2 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS + 100);
+    expect(send.mock.calls.map((c) => c[0])).toEqual([{ type: 'shift.item.done', itemId: 'guyLines' }]);
+  });
+
+  it('asks for the note where the item needs one and sends it with the item; Enter in the note does not tick', async () => {
     const { wrapper, send } = mountChecklist(people.sue);
     const tick = wrapper.get('[data-testid="make-safe-tick-keyHeld"]');
     expect(tick.attributes('disabled')).toBeDefined();
-    await wrapper.get('[data-testid="make-safe-note-keyHeld"]').setValue('In the site office key safe');
+    const note = wrapper.get('[data-testid="make-safe-note-keyHeld"]');
+    await note.setValue('In the site office key safe');
     expect(tick.attributes('disabled')).toBeUndefined();
-    await wrapper.get('[data-testid="make-safe-item-keyHeld"] form').trigger('submit');
+    await note.trigger('keydown', { key: 'Enter' });
+    expect(wrapper.find('[data-testid="make-safe-item-keyHeld"] form').exists()).toBe(false);
+    expect(send).not.toHaveBeenCalled();
+    await tick.trigger('pointerdown', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS + 100);
     expect(send).toHaveBeenCalledWith({ type: 'shift.item.done', itemId: 'keyHeld', note: 'In the site office key safe' });
     await vi.waitFor(() => expect(wrapper.text()).toContain('Not sent in this test.'));
   });

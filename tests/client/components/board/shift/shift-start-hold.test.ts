@@ -1,5 +1,6 @@
 import { mount } from '@vue/test-utils';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import { SHIFT_START_HOLD_ID } from '../../../../../shared/board/shifts';
 import ShiftStartHold from '../../../../../src/components/board/shift/ShiftStartHold.vue';
 import { HOLD_TO_CONFIRM_MS } from '../../../../../src/composables/useHoldToConfirm';
 import { liveJob, people, quasarStubs, storesWith } from './shift-board';
@@ -86,6 +87,22 @@ describe('the start-of-shift hold', () => {
     expect(wrapper.get('[data-testid="shift-start-missing"]').text()).toContain('Record a new weather reading: the last one is older than 10 minutes.');
     expect(wrapper.get('[data-testid="shift-start-missing"]').text()).not.toContain('..');
     expect(wrapper.get('[data-testid="shift-start-button"]').attributes('disabled')).toBeDefined();
+  });
+
+  it('says why an acknowledgment was taken back by a crew change, on every view, until the shift starts', () => {
+    const job = madeSafe(everyone);
+    job.apply('shift.start.acknowledged', { shift: 1, role: 'operator' }, { by: people.otto });
+    // Before anything is taken back the hold says nothing about it.
+    expect(mountHold(job, people.sue).wrapper.find('[data-testid="shift-start-reopened"]').exists()).toBe(false);
+    const at = '2026-03-02T18:30:00.000Z';
+    job.apply('crew.set', { crew: [], withdrawn: [{ stageId: null, holdId: SHIFT_START_HOLD_ID, userId: people.otto.userId, name: people.otto.name, role: 'operator' }] }, { at });
+    for (const view of [mountHold(job, people.sue), mountHold(job, people.rita, { readOnly: true })]) {
+      const note = view.wrapper.get('[data-testid="shift-start-reopened"]').text();
+      expect(note).toContain('Otto Brand left the crew or changed role');
+      // The time in the site's zone with its offset, as every time on the board.
+      expect(note).toMatch(/18:30.*UTC/);
+      expect(view.wrapper.get('[data-testid="shift-start-operator"]').text()).toContain('not yet acknowledged');
+    }
   });
 
   it('shows the hold with no control on a read-only view', () => {
