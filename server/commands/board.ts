@@ -364,8 +364,9 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'hold.check.reviewed', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id, note: c.note, failuresReviewed: hold.failuresSinceReview } };
   },
 
-  async 'stage.skip'({ board }, c) {
+  async 'stage.skip'({ board, actor }, c) {
     requireLive(board, 'skip stages');
+    requireActing(board, actor, 'skips stages');
     const stage = board.stages.find((s) => s.id === c.stageId);
     if (!stage) throw badRequest('There is no such stage in the current plan.', [{ path: 'stageId', message: 'Unknown stage' }]);
     if (stage.hold?.mandatory) throw refuse(409, 'mandatory_hold', `“${stage.title}” has a mandatory hold (${stage.hold.title}); it can never be skipped.`);
@@ -386,8 +387,10 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'job.stop.noted', role: pressed ? roles[0] : 'supervisor', data: { reason: c.reason } };
   },
 
-  async 'job.resume'({ board, now }, c) {
+  async 'job.resume'({ board, actor, now }, c) {
     if (board.job.state !== 'stopped') throw invalidState('The job is not stopped.');
+    // A resume lets work go on like a release: the one person running the job decides it.
+    requireActing(board, actor, 'resumes work after a stop');
     if (!board.job.stop?.reason) {
       throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
     }
@@ -493,6 +496,10 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
   async 'handover.acknowledge'({ board, actor }) {
     const note = board.handovers?.at(-1);
     if (!note || note.acknowledgedBy) throw refuse(409, 'handover_missing', 'There is no handover note waiting to be read: the acting supervisor writes one first.');
+    // A note passes the role only from the person who holds it: one overtaken by a transfer or a later handover hands nothing over.
+    if (board.actingSupervisor && note.from.userId !== board.actingSupervisor.userId) {
+      throw refuse(409, 'handover_missing', `This handover note was written by ${note.from.name}, who is no longer the acting supervisor. ${board.actingSupervisor.name} writes a new one.`);
+    }
     if (note.from.userId === actor.id) throw refuse(409, 'one_person_two_roles', 'You wrote this handover note; the supervisor taking over acknowledges it.');
     if (note.to && note.to.userId !== actor.id) throw refuse(403, 'role_not_allowed', `This handover note is for ${note.to.name}.`);
     return { type: 'handover.acknowledged', role: 'supervisor', data: { handoverSeq: note.seq, from: note.from } };
@@ -535,7 +542,12 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
       throw refuse(409, code, `The start-of-shift hold still needs: ${missing.map((m) => m.text).join('; ')}.${weather}`);
     }
     const start = shiftOf(board).start;
-    await requireActiveAcknowledgers(manager, [start?.inspection, start?.operator].filter((p) => !!p), 'The start-of-shift hold');
+    await requireActiveAcknowledgers(manager, [start?.inspection, start?.operator, start?.supervisor].filter((p) => !!p), 'The start-of-shift hold');
+    // The inspection counts only from someone still marked qualified to inspect.
+    const inspector = start?.inspection ? await manager.findOneBy(User, { id: start.inspection.userId }) : null;
+    if (start?.inspection && !inspector?.canInspect) {
+      throw refuse(409, 'not_inspector', `${start.inspection.name} is no longer marked as qualified to inspect cranes: a competent person makes the shift inspection again.`);
+    }
     return { type: 'shift.started', role: 'supervisor', data: { shift: shiftOf(board).number + 1 } };
   },
 };

@@ -100,10 +100,12 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
       const note = next.handovers?.find((h) => h.seq === event.data.handoverSeq);
       if (note) note.acknowledgedBy = { userId: by.userId, name: by.name, at: by.at };
       next.actingSupervisor = { userId: by.userId, name: by.name, since: by.at };
+      clearOutgoingSupervisorStart(next);
       break;
     }
     case 'acting.transferred':
       next.actingSupervisor = { ...event.data.to, since: by.at };
+      clearOutgoingSupervisorStart(next);
       break;
     case 'shift.inspected': {
       const start = next.shift?.start;
@@ -376,6 +378,12 @@ export function settle(state: BoardState): void {
       }
     }
   }
+}
+
+/** When the acting role passes, the outgoing supervisor's acknowledgment of the start-of-shift hold no longer counts: the new one gives their own. */
+function clearOutgoingSupervisorStart(state: BoardState): void {
+  const start = state.shift?.start;
+  if (start?.supervisor && start.supervisor.userId !== state.actingSupervisor?.userId) start.supervisor = null;
 }
 
 /** Every required role has acknowledged (each slot by another person), and a sign-off's inspector too. */

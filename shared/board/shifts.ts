@@ -47,7 +47,8 @@ export function isActingSupervisor(board: Pick<BoardState, 'actingSupervisor'>, 
 
 /** Where the work stands, for the make-safe checklist. */
 export function workPhase(board: Pick<BoardState, 'job' | 'stages'>): WorkPhase {
-  const moved = board.stages.some((s) => movesBoom(s) && s.state === 'done');
+  // A raise (or lowering) whose steps are all done is up (or down) while its hold waits.
+  const moved = board.stages.some((s) => movesBoom(s) && (s.state === 'done' || s.state === 'holding'));
   if (board.job.kind === 'dismantling') return moved ? 'boom-lowered' : 'boom-up';
   return moved ? 'boom-up' : 'boom-on-ground';
 }
@@ -99,7 +100,10 @@ export function shiftStartMissing(board: BoardState, nowMs: number): ShiftStartG
   const missing: ShiftStartGap[] = [];
   if (!start?.inspection) missing.push({ kind: 'inspection', text: 'the shift inspection by a competent person' });
   if (!start?.operator) missing.push({ kind: 'acknowledgment', text: 'the operator’s acknowledgment' });
-  if (!start?.supervisor) missing.push({ kind: 'acknowledgment', text: 'the acting supervisor’s acknowledgment' });
+  // Only the acting supervisor's own acknowledgment counts: one given before the role passed does not.
+  if (!start?.supervisor || (board.actingSupervisor && start.supervisor.userId !== board.actingSupervisor.userId)) {
+    missing.push({ kind: 'acknowledgment', text: 'the acting supervisor’s acknowledgment' });
+  }
   const verdict = weatherVerdict(board, nowMs);
   if (!verdict.ok) missing.push({ kind: 'weather', text: verdict.problem! });
   const unbriefed = unbriefedCrew(board);
@@ -182,6 +186,13 @@ export function rolesLeftUncovered(board: BoardState, crew: readonly { userId: s
   }
   if (board.job.state === 'made_safe') {
     for (const role of ['operator', 'supervisor'] as const) if (!has(role)) out.push({ role, hold: 'the start-of-shift hold' });
+  }
+  const shift = shiftOf(board);
+  if (shift.phase === 'making_safe') {
+    // An item nobody left in the crew may tick would keep the job from ever being made safe.
+    for (const item of shift.makeSafe?.items ?? []) {
+      if (!item.doneBy && !item.roles.some(has)) out.push({ role: item.roles[0]!, hold: `the make-safe item “${item.text}”` });
+    }
   }
   return out;
 }

@@ -524,6 +524,52 @@ describe('shifts', () => {
     expect(replay(await events(jobId))).toEqual(snapshot);
   });
 
+  it('only the acting supervisor resumes and skips; an overtaken handover note or a stale supervisor’s acknowledgment passes nothing; a revoked inspector’s inspection does not count', async () => {
+    const jobId = await liveJob('Acting supervisor’s own decisions');
+    expect((await send(crew.rigger, jobId, calmWeather)).status).toBe(200);
+    expect((await send(crew.signaller, jobId, { type: 'job.stop', pressedAt: server.context.now().toISOString(), reason: 'Radio check failed' })).status).toBe(200);
+    const otherResume = await send(supervisor2, jobId, { type: 'job.resume', reason: 'Radios fine now' });
+    expect(otherResume.status).toBe(403);
+    expect(otherResume.body.error?.code).toBe('not_acting_supervisor');
+    expect((await send(crew.supervisor, jobId, { type: 'job.resume', reason: 'Radios fine now' })).status).toBe(200);
+    const skippable = (await boardOf(server, crew.supervisor, jobId)).stages.find((st) => !st.hold?.mandatory && st.state !== 'done')!;
+    expect((await send(supervisor2, jobId, { type: 'stage.skip', stageId: skippable.id, reason: 'Not needed on this site' })).body.error?.code).toBe('not_acting_supervisor');
+
+    // Made safe; the acting supervisor acknowledges the start-of-shift hold, then the role passes by an admin's transfer.
+    expect((await send(crew.supervisor, jobId, { type: 'shift.end' })).status).toBe(200);
+    await tickAll(jobId);
+    expect((await send(crew.supervisor, jobId, { type: 'handover.write', hazards: 'None beyond the plan.', note: 'Written before the transfer.' })).status).toBe(200);
+    await brief(jobId, everyone());
+    expect((await send(inspector, jobId, { type: 'shift.inspect', note: 'Boom, pins, ropes and blocking as left.' })).status).toBe(200);
+    expect((await send(crew.operator, jobId, { type: 'shift.acknowledge', role: 'operator' })).status).toBe(200);
+    expect((await send(crew.supervisor, jobId, { type: 'shift.acknowledge', role: 'supervisor' })).status).toBe(200);
+    const transfer = await request(server.app).post(`/api/jobs/${jobId}/acting-supervisor`).set(auth(admin)).send({ userId: supervisor2.user.id, reason: 'Rhys called away to another site' });
+    expect(transfer.status, JSON.stringify(transfer.body)).toBe(200);
+    // The note was written by someone no longer acting: it hands nothing over.
+    const stale = await send(supervisor2, jobId, { type: 'handover.acknowledge' });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error?.code).toBe('handover_missing');
+    // The outgoing supervisor's acknowledgment went with the role: the new one gives their own.
+    expect((await boardOf(server, crew.supervisor, jobId)).shift!.start!.supervisor).toBeNull();
+    expect((await send(crew.rigger, jobId, calmWeather)).status).toBe(200);
+    const noAck = await send(supervisor2, jobId, { type: 'shift.start' });
+    expect(noAck.body.error?.code).toBe('shift_not_ready');
+    expect(noAck.body.error?.message).toContain('the acting supervisor’s acknowledgment');
+    expect((await send(supervisor2, jobId, { type: 'shift.acknowledge', role: 'supervisor' })).status).toBe(200);
+    // The inspector's qualification is withdrawn before the start: the inspection no longer counts.
+    await request(server.app).patch(`/api/users/${inspector.user.id}`).set(auth(admin)).send({ canInspect: false }).expect(200);
+    try {
+      resign();
+      const revoked = await send(supervisor2, jobId, { type: 'shift.start' });
+      expect(revoked.status).toBe(409);
+      expect(revoked.body.error?.code).toBe('not_inspector');
+    } finally {
+      await request(server.app).patch(`/api/users/${inspector.user.id}`).set(auth(admin)).send({ canInspect: true }).expect(200);
+      resign();
+    }
+    expect((await send(supervisor2, jobId, { type: 'shift.start' })).status).toBe(200);
+  });
+
   it('a start refused for want of briefing names who has not acknowledged the new shift', async () => {
     const jobId = await liveJob('Shift briefing');
     expect((await send(crew.supervisor, jobId, { type: 'shift.end' })).status).toBe(200);

@@ -671,6 +671,23 @@ describe('shifts (issue 17)', () => {
     expect(job.state.actingSupervisor).toEqual({ userId: people.ned.userId, name: people.ned.name, since: minutes(200) });
   });
 
+  it('when the acting role passes, the outgoing supervisor’s acknowledgment of the start-of-shift hold is cleared; the operator’s stays', () => {
+    for (const pass of ['handover', 'transfer'] as const) {
+      const job = madeSafeJob();
+      job.apply('shift.inspected', { shift: 2, note: 'As left' }, { by: people.rita });
+      job.apply('shift.start.acknowledged', { shift: 2, role: 'operator' }, { by: people.otto });
+      job.apply('shift.start.acknowledged', { shift: 2, role: 'supervisor' }, { by: people.sue });
+      if (pass === 'handover') {
+        const written = job.log.events.length + 1;
+        job.apply('handover.written', { shift: 1, to: null, done: [], open: [], defects: [], overrides: [], hazards: 'None', note: '' });
+        job.apply('handover.acknowledged', { handoverSeq: written, from: { userId: people.sue.userId, name: people.sue.name } }, { by: people.ned });
+      } else {
+        job.apply('acting.transferred', { from: { userId: people.sue.userId, name: people.sue.name }, to: { userId: people.ned.userId, name: people.ned.name }, reason: 'Sue taken ill' });
+      }
+      expect(job.state.shift!.start).toMatchObject({ supervisor: null, operator: { userId: people.otto.userId }, inspection: { userId: people.rita.userId } });
+    }
+  });
+
   it('acting.transferred names the new acting supervisor', () => {
     const job = liveJob();
     job.apply('acting.transferred', { from: { userId: people.sue.userId, name: people.sue.name }, to: { userId: people.ned.userId, name: people.ned.name }, reason: 'Sue taken ill' }, { at: minutes(50) });

@@ -91,11 +91,13 @@ describe('which shift and who is briefed for it', () => {
 
 describe('the make-safe checklist for the phase of the work', () => {
   /** A stage that moves the boom: declared by the plan, or (`legacy`) known only by its id as in older plans. */
-  const raise = (state: 'active' | 'done', id = 'lift-boom', legacy = false) => stage(id, 5, { state, ...(legacy ? {} : { boom: 'moves' as const }) });
+  const raise = (state: 'active' | 'holding' | 'done', id = 'lift-boom', legacy = false) => stage(id, 5, { state, ...(legacy ? {} : { boom: 'moves' as const }) });
 
   it('erection: on the ground until the raise is done, then boom up; an older plan’s raise is known by its id', () => {
     expect(workPhase(board([raise('active')]))).toBe('boom-on-ground');
     expect(workPhase(board([raise('done')]))).toBe('boom-up');
+    // Every step of the raise done, its hold (the function tests) not yet released: the boom is up all the same.
+    expect(workPhase(board([raise('holding')]))).toBe('boom-up');
     expect(workPhase(board([raise('done', 'er-raise', true)]))).toBe('boom-up');
     // A stage that only readies the boom moves nothing.
     expect(workPhase(board([stage('ready', 4, { state: 'done', boom: 'prepares' })]))).toBe('boom-on-ground');
@@ -105,6 +107,7 @@ describe('the make-safe checklist for the phase of the work', () => {
     const dismantling = (stages: ReturnType<typeof stage>[]) => ({ ...board(stages), job: { ...board([]).job, kind: 'dismantling' as const } });
     expect(workPhase(dismantling([raise('active', 'dm-lower', true)]))).toBe('boom-up');
     expect(workPhase(dismantling([raise('done', 'dm-lower', true)]))).toBe('boom-lowered');
+    expect(workPhase(dismantling([raise('holding', 'dm-lower', true)]))).toBe('boom-lowered');
   });
 
   it('draws each phase’s items, each with its roles and whether it asks for a note', () => {
@@ -172,6 +175,12 @@ describe('what the start-of-shift hold still needs', () => {
     // The reading is 10 minutes old at nowMs; just over 6 minutes later it is past the job's 15.
     expect(shiftStartMissing(ready, nowMs + 6 * 60_000 + 1).map((m) => m.kind)).toEqual(['weather']);
     expect(shiftStartMissing({ ...ready, weather: { ...calm(0)!, gustMs: 17, meanMs: 9 } }, nowMs).map((m) => m.kind)).toEqual(['weather']);
+  });
+
+  it('a supervisor’s acknowledgment counts only from the acting supervisor: one given before the role passed does not', () => {
+    const signed = madeSafe({ inspection: { ...sign('u-rita', 'Rita Venn'), note: 'As left' }, operator: sign('u-otto', 'Otto Brand'), supervisor: sign('u-sue', 'Sue Marsh') });
+    const handedOver = everyoneBriefed({ ...signed, weather: calm(0), actingSupervisor: { userId: 'u-ned', name: 'Ned Orr', since: at(1) } });
+    expect(shiftStartMissing(handedOver, nowMs)).toEqual([{ kind: 'acknowledgment', text: 'the acting supervisor’s acknowledgment' }]);
   });
 });
 
@@ -250,5 +259,30 @@ describe('acknowledgments that leave with a crew change', () => {
       { role: 'operator', hold: 'the start-of-shift hold' },
       { role: 'supervisor', hold: 'the start-of-shift hold' },
     ]);
+  });
+
+  it('while making safe, a crew may not leave an unticked make-safe item with nobody who may tick it', () => {
+    const making: BoardState = {
+      ...withHolds(),
+      shift: {
+        number: 1,
+        phase: 'making_safe',
+        startedAt: at(-600),
+        start: null,
+        makeSafe: {
+          begunBy: sign('u-sue', 'Sue Marsh'),
+          workPhase: 'boom-on-ground',
+          madeSafe: null,
+          items: [
+            { id: 'noHangingSection', text: 'No section hangs on a pin.', roles: ['rigger'], asksNote: false, doneBy: null },
+            { id: 'engineOff', text: 'Engine off.', roles: ['operator'], asksNote: false, doneBy: { ...sign('u-otto', 'Otto Brand'), role: 'operator', note: null } },
+          ],
+        },
+      },
+    };
+    const withoutRigger = rolesLeftUncovered(making, [{ userId: 'u-otto', role: 'operator' }]);
+    expect(withoutRigger).toContainEqual({ role: 'rigger', hold: 'the make-safe item “No section hangs on a pin.”' });
+    // A ticked item needs nobody any more.
+    expect(withoutRigger.some((u) => u.hold.includes('Engine off'))).toBe(false);
   });
 });
