@@ -5,7 +5,7 @@ import { readingOutOfLimit, readingsBlockingRelease } from '../../shared/board/r
 import { CHECK_FAILURES_BEFORE_REVIEW, CHECK_RETRY_MS, checkRetryAt, holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, stepsAfter, stepsNeededFirst, weatherOverLimit, weatherVerdict, windPhase } from '../../shared/board/rules.js';
 import type { BoardStage, BoardState } from '../../shared/board/types.js';
 import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../shared/plan/index.js';
-import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
+import { actingSupervisorCommands, commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
 import { briefingShift, handoverFacts, isActingSupervisor, isBriefed, makeSafeChecklist, shiftEndBlockers, shiftOf, shiftStartMissing } from '../../shared/board/shifts.js';
 import { JobOverride } from '../entities/JobOverride.js';
 import { siteDateTime } from '../../shared/time.js';
@@ -67,6 +67,7 @@ export async function runBoardCommand(context: AppContext, actor: User, jobId: s
     if (board.planVersion > 0 && !commandsBeforeBriefing.has(command.type) && !isBriefed(board, actor.id)) {
       throw refuse(409, 'briefing_required', `Acknowledge the briefing for plan version ${board.planVersion}, shift ${briefingShift(board)}, first: nobody acts on the board before they have been briefed for the shift.`);
     }
+    if (actingSupervisorCommands.has(command.type)) requireActing(board, actor, actingWords[command.type] ?? 'does that');
     const ctx: HandlerContext = { context, manager, job, board, actor, roles, now: context.now() };
     return handlers[command.type](ctx, command as never);
   });
@@ -122,6 +123,16 @@ async function requireActiveAcknowledgers(manager: EntityManager, people: readon
     `${what} cannot be released: ${names} acknowledged it and ${inactive.length === 1 ? 'their account is' : 'their accounts are'} disabled. Take them off the crew (their acknowledgment is withdrawn) and have someone else acknowledge.`,
   );
 }
+
+/** What the acting supervisor alone does, for the refusal. */
+const actingWords: Partial<Record<BoardCommand['type'], string>> = {
+  'hold.release': 'releases holds',
+  'job.resume': 'resumes work after a stop',
+  'stage.skip': 'skips stages',
+  'shift.end': 'ends the shift',
+  'shift.start': 'starts the shift',
+  'handover.write': 'writes the handover note',
+};
 
 /** Refuses unless the acting supervisor sends it. */
 function requireActing(board: BoardState, actor: User, doing: string): void {
@@ -316,7 +327,6 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
 
   async 'hold.release'({ manager, job, board, actor, now }, c) {
     requireLive(board, 'release holds');
-    requireActing(board, actor, 'releases holds');
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
     const hold = stage.hold!;
@@ -364,9 +374,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'hold.check.reviewed', role: 'supervisor', data: { stageId: stage.id, holdId: hold.id, note: c.note, failuresReviewed: hold.failuresSinceReview } };
   },
 
-  async 'stage.skip'({ board, actor }, c) {
+  async 'stage.skip'({ board }, c) {
     requireLive(board, 'skip stages');
-    requireActing(board, actor, 'skips stages');
     const stage = board.stages.find((s) => s.id === c.stageId);
     if (!stage) throw badRequest('There is no such stage in the current plan.', [{ path: 'stageId', message: 'Unknown stage' }]);
     if (stage.hold?.mandatory) throw refuse(409, 'mandatory_hold', `“${stage.title}” has a mandatory hold (${stage.hold.title}); it can never be skipped.`);
@@ -387,10 +396,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'job.stop.noted', role: pressed ? roles[0] : 'supervisor', data: { reason: c.reason } };
   },
 
-  async 'job.resume'({ board, actor, now }, c) {
+  async 'job.resume'({ board, now }, c) {
     if (board.job.state !== 'stopped') throw invalidState('The job is not stopped.');
-    // A resume lets work go on like a release: the one person running the job decides it.
-    requireActing(board, actor, 'resumes work after a stop');
     if (!board.job.stop?.reason) {
       throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
     }
@@ -456,8 +463,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'plan.revised', role: 'supervisor', data: { planVersion: version, plan: redactPlan(plan), reason: c.reason } };
   },
 
-  async 'shift.end'({ board, actor }) {
-    requireActing(board, actor, 'ends the shift');
+  async 'shift.end'({ board }) {
     const blockers = shiftEndBlockers(board);
     if (blockers.length) throw refuse(409, 'shift_busy', `The shift cannot end yet. ${blockers.join(' ')}`);
     if (board.job.state === 'stopped' && !board.job.stop?.reason) {
@@ -482,7 +488,6 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
 
   async 'handover.write'({ manager, job, board, actor }, c) {
     if (!['live', 'stopped', 'made_safe'].includes(board.job.state)) throw invalidState(`The job is ${board.job.state}; a handover is written while it is under way or made safe.`);
-    requireActing(board, actor, 'writes the handover note');
     let to: { userId: string; name: string } | null = null;
     if (c.toUserId) {
       const member = board.crew.find((m) => m.userId === c.toUserId && m.role === 'supervisor');
@@ -532,9 +537,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'shift.start.acknowledged', role: c.role, data: { shift: shiftOf(board).number + 1, role: c.role } };
   },
 
-  async 'shift.start'({ manager, board, actor, now }) {
+  async 'shift.start'({ manager, board, now }) {
     if (board.job.state !== 'made_safe') throw invalidState('The job is not made safe: there is no shift to start.');
-    requireActing(board, actor, 'starts the shift');
     const missing = shiftStartMissing(board, now.getTime());
     if (missing.length) {
       const code = missing.some((m) => m.kind === 'inspection' || m.kind === 'acknowledgment') ? 'shift_not_ready' : missing[0].kind === 'weather' ? 'weather_required' : 'briefing_required';

@@ -141,6 +141,12 @@ export const commandsWhileMadeSafe: ReadonlySet<BoardCommandType> = new Set([
   'job.cancel',
 ]);
 
+/**
+ * Commands only the acting supervisor sends: each lets work go on, ends or starts a shift, or
+ * hands the job over. Another supervisor of the crew is refused (`not_acting_supervisor`).
+ */
+export const actingSupervisorCommands: ReadonlySet<BoardCommandType> = new Set(['hold.release', 'job.resume', 'stage.skip', 'shift.end', 'shift.start', 'handover.write']);
+
 /** Commands a person may send before acknowledging the briefing for the current plan version and shift: reports that keep people safe, and the briefing itself. */
 export const commandsBeforeBriefing: ReadonlySet<BoardCommandType> = new Set([
   'job.start',

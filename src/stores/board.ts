@@ -3,7 +3,7 @@ import { computed, ref, shallowRef } from 'vue';
 import { BoardFollower } from '../../shared/board/follower';
 import type { BoardSnapshot, BoardState } from '../../shared/board/types';
 import type { CommandAnswer } from '../../shared/events/socket';
-import { commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
+import { actingSupervisorCommands, commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands';
 import { isActingSupervisor, isBriefed, shiftOf } from '../../shared/board/shifts';
 import type { CrewRole } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
@@ -86,6 +86,7 @@ export const useBoardStore = defineStore('board', () => {
     if (b?.job.state === 'made_safe' && !commandsWhileMadeSafe.has(type)) return BLOCKED_WORDS.madeSafe;
     if (b && shiftOf(b).phase === 'making_safe' && !commandsWhileMakingSafe.has(type)) return BLOCKED_WORDS.makingSafe;
     if (b && myRoles.value.some((r) => r !== 'viewer') && !briefed.value && !commandsBeforeBriefing.has(type)) return BLOCKED_WORDS.notBriefed;
+    if (b?.actingSupervisor && actingSupervisorCommands.has(type) && !isActing.value) return BLOCKED_WORDS.notActing(b.actingSupervisor.name);
     return '';
   }
 

@@ -108,6 +108,7 @@ export const BLOCKED_WORDS = {
   makingSafe: 'Shift ending: making safe. No work until the next shift is started.',
   madeSafe: 'Made safe: no work until the acting supervisor starts the next shift.',
   notBriefed: 'Acknowledge the briefing for this shift first (at the top of this screen).',
+  notActing: (name: string) => `Only the acting supervisor, ${name}, does this. Take over by acknowledging their handover note.`,
 } as const;
 
 /** The same rule in one line, for the fixed bar on a phone (the full rule is read out to screen readers). */

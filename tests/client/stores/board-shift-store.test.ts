@@ -48,6 +48,18 @@ describe('the board store through a shift', () => {
     expect(storesWith(job.state, people.ned).store.isActing).toBe(true);
   });
 
+  it('offers the acting supervisor’s commands (release, resume, skip, end and start of shift, handover) to the acting supervisor only', () => {
+    const job = liveJob();
+    const sue = storesWith(job.state, people.sue).store;
+    const ned = storesWith(job.state, people.ned).store;
+    for (const type of ['hold.release', 'job.resume', 'stage.skip', 'shift.end', 'handover.write'] as const) {
+      expect(sue.blockReason(type)).not.toBe(BLOCKED_WORDS.notActing(people.sue.name));
+      expect(ned.blockReason(type)).toBe(BLOCKED_WORDS.notActing(people.sue.name));
+    }
+    // Acknowledging a handover is how the other supervisor takes over: never blocked for not acting.
+    expect(ned.blockReason('handover.acknowledge')).toBe('');
+  });
+
   it('keeps a crew member added mid-job from acting until they acknowledge the briefing', () => {
     const job = liveJob();
     const newcomer = people.ola;
