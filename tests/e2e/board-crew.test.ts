@@ -14,7 +14,7 @@ import { JobPlan } from '../../server/entities/JobPlan.js';
 import { User } from '../../server/entities/User.js';
 import type { ValueCheckField } from '../../shared/schemas/plan.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, pressAndHold, screenshot, signInThroughForm, type LaunchedBrowser, viewports } from './browser.js';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 type Who = 'supervisor' | 'operator' | 'signaller' | 'rigger' | 'viewer';
@@ -76,17 +76,6 @@ describe('the board in the hands of a crew', () => {
     return page;
   }
 
-  /** Presses and holds a control until `done` resolves, then lets go: the only gesture that releases or resumes. */
-  async function pressAndHold(page: Page, control: Locator, done: () => Promise<unknown>) {
-    await control.scrollIntoViewIfNeeded();
-    await control.hover();
-    await page.mouse.down();
-    try {
-      await done();
-    } finally {
-      await page.mouse.up();
-    }
-  }
 
   /** Is the element's centre the element itself (not covered by the fixed header or stop bar) and inside the window? */
   const reachable = (locator: Locator) =>

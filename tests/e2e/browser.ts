@@ -1,6 +1,6 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
 
 export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 /** Screenshots land here (git-ignored) so a person can look at them. */
@@ -62,4 +62,16 @@ export async function signInThroughForm(page: Page, url: string, email: string, 
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password', { exact: true }).fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** Presses and holds a control until `done` resolves, then lets go: the gesture that releases, resumes, ends and starts shifts and ticks make-safe items. */
+export async function pressAndHold(page: Page, control: Locator, done: () => Promise<unknown>): Promise<void> {
+  await control.scrollIntoViewIfNeeded();
+  await control.hover();
+  await page.mouse.down();
+  try {
+    await done();
+  } finally {
+    await page.mouse.up();
+  }
 }

@@ -1,4 +1,4 @@
-import type { BrowserContext, Locator, Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { BoardSnapshot } from '../../shared/board/types.js';
@@ -8,7 +8,7 @@ import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { Job } from '../../server/entities/Job.js';
 import { User } from '../../server/entities/User.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, pressAndHold, screenshot, signInThroughForm, type LaunchedBrowser, viewports } from './browser.js';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 
@@ -44,17 +44,6 @@ describe('the job signed off by the inspector and the supervisor', () => {
     return page;
   }
 
-  /** Presses and holds a control until `done` resolves, then lets go. */
-  async function pressAndHold(page: Page, control: Locator, done: () => Promise<unknown>) {
-    await control.scrollIntoViewIfNeeded();
-    await control.hover();
-    await page.mouse.down();
-    try {
-      await done();
-    } finally {
-      await page.mouse.up();
-    }
-  }
 
   beforeAll(async () => {
     server = await startTestServer({ withClient: true });

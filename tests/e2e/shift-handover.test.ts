@@ -1,7 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import type { BrowserContext, Locator, Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { BoardSnapshot } from '../../shared/board/types.js';
@@ -10,7 +10,7 @@ import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { User } from '../../server/entities/User.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, pressAndHold, screenshot, SCREENSHOT_DIR, signInThroughForm, type LaunchedBrowser, viewports } from './browser.js';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 
@@ -48,17 +48,6 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     return page;
   }
 
-  /** Presses and holds a control until `done` resolves, then lets go. */
-  async function pressAndHold(page: Page, control: Locator, done: () => Promise<unknown>) {
-    await control.scrollIntoViewIfNeeded();
-    await control.hover();
-    await page.mouse.down();
-    try {
-      await done();
-    } finally {
-      await page.mouse.up();
-    }
-  }
 
   /** A text field by its test id, whether Quasar put the id on the field or on its input. */
   const field = (page: Page, id: string) =>

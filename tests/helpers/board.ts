@@ -9,7 +9,7 @@ import type { BoardCommand } from '../../shared/schemas/commands.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { JobEventDto } from '../../shared/events/log.js';
 import { Component } from '../../server/entities/Component.js';
-import type { SignedInUser } from './auth.js';
+import { signedInUser, type SignedInUser } from './auth.js';
 import type { TestServer } from './server.js';
 
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
@@ -187,6 +187,16 @@ export async function advanceUntilActive(server: TestServer, crew: CrewByRole, j
     else await acknowledgeAndRelease(server, crew, jobId, next.id, inspector);
   }
   throw new Error('board did not settle');
+}
+
+/** A signed-in person for each working crew role, each qualified for that role only. */
+export async function signedInCrew(server: TestServer): Promise<CrewByRole> {
+  return {
+    supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
+    operator: await signedInUser(server, { qualifications: ['operator'] }),
+    signaller: await signedInUser(server, { qualifications: ['signaller'] }),
+    rigger: await signedInUser(server, { qualifications: ['rigger'] }),
+  };
 }
 
 /** Everyone in the crew acknowledges the briefing for the current plan version. */

@@ -10,20 +10,7 @@ import { isEventOf, jobEventListSchema, type JobEventDto } from '../../../shared
 import type { Plan, PlanStep } from '../../../shared/schemas/plan.js';
 import { signAccessToken } from '../../../server/auth/access-token.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import {
-  acknowledgeAndRelease,
-  advanceUntilActive,
-  boardOf,
-  briefEveryone,
-  calmWeather,
-  completeSteps,
-  controllerValues18m,
-  httpCommand,
-  inStepOrder,
-  readingWithinLimit,
-  uploadPhoto,
-  type CrewByRole,
-} from '../../helpers/board.js';
+import { acknowledgeAndRelease, advanceUntilActive, boardOf, briefEveryone, calmWeather, completeSteps, controllerValues18m, httpCommand, inStepOrder, readingWithinLimit, uploadPhoto, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -109,12 +96,7 @@ describe('board rules', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor', 'signaller'] });
     viewer = await signedInUser(server, { qualifications: ['viewer'] });
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });

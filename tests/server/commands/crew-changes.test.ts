@@ -5,7 +5,7 @@ import type { JobEventDto, JobEventOf } from '../../../shared/events/log.js';
 import { jobEventListSchema } from '../../../shared/events/log.js';
 import type { CrewRole } from '../../../shared/schemas/jobs.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { acknowledgeAndRelease, BoardClient, boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { acknowledgeAndRelease, BoardClient, boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -35,12 +35,7 @@ describe('crew changes mid-job', () => {
   beforeAll(async () => {
     server = await startTestServer();
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     rigger2 = await signedInUser(server, { qualifications: ['rigger'] });
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);

@@ -9,17 +9,7 @@ import { userSchema } from '../../../shared/schemas/users.js';
 import { DEMO_PASSWORD } from '../../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../../server/demo/seed.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import {
-  advanceUntilActive,
-  BoardClient,
-  boardOf,
-  briefEveryone,
-  calmWeather,
-  completeSteps,
-  httpCommand,
-  type CommandBody,
-  type CrewByRole,
-} from '../../helpers/board.js';
+import { advanceUntilActive, BoardClient, boardOf, briefEveryone, calmWeather, completeSteps, httpCommand, type CommandBody, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -87,12 +77,7 @@ describe('the job ending with its sign-off', () => {
   beforeAll(async () => {
     server = await startTestServer();
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     inspector = await signedInUser(server, { qualifications: ['rigger'] });
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
@@ -283,12 +268,7 @@ describe('the board helper works a job to its end', () => {
   it('advanceUntilActive completes a job when given the qualified inspector, and stops at the sign-off without one', async () => {
     server = await startTestServer();
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    const crew: CrewByRole = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    const crew: CrewByRole = await signedInCrew(server);
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'H');
     await request(server.app).patch(`/api/users/${crew.rigger.user.id}`).set({ Authorization: `Bearer ${admin.token}` }).send({ canInspect: true }).expect(200);

@@ -8,21 +8,7 @@ import type { CrewRole } from '../../../shared/schemas/jobs.js';
 import { signAccessToken } from '../../../server/auth/access-token.js';
 import { JobOverride } from '../../../server/entities/JobOverride.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import {
-  acknowledgeAndRelease,
-  advanceUntilActive,
-  BoardClient,
-  boardOf,
-  briefEveryone,
-  calmWeather,
-  completeSteps,
-  httpCommand,
-  inStepOrder,
-  readingWithinLimit,
-  uploadPhoto,
-  type CommandBody,
-  type CrewByRole,
-} from '../../helpers/board.js';
+import { acknowledgeAndRelease, advanceUntilActive, BoardClient, boardOf, briefEveryone, calmWeather, completeSteps, httpCommand, inStepOrder, readingWithinLimit, uploadPhoto, type CommandBody, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -124,12 +110,7 @@ describe('shifts', () => {
   beforeAll(async () => {
     server = await startTestServer();
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     inspector = await signedInUser(server, { qualifications: ['rigger'] });
     viewer = await signedInUser(server, { qualifications: ['viewer'] });

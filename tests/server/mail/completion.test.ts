@@ -12,7 +12,7 @@ import { User } from '../../../server/entities/User.js';
 import { FakeSmtpServer } from '../../../server/mail/fake-smtp.js';
 import { noRecordPdf } from '../../../server/mail/record-pdf.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { acknowledgeAndRelease, boardOf, briefEveryone, completeSteps, httpCommand, weatherIfNeeded, type CrewByRole } from '../../helpers/board.js';
+import { acknowledgeAndRelease, boardOf, briefEveryone, completeSteps, httpCommand, weatherIfNeeded, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -28,12 +28,7 @@ interface Setup {
 }
 
 async function setUp(server: TestServer): Promise<Setup> {
-  const crew: CrewByRole = {
-    supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-    operator: await signedInUser(server, { qualifications: ['operator'] }),
-    signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-    rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-  };
+  const crew: CrewByRole = await signedInCrew(server);
   const inspector = await signedInUser(server, { qualifications: ['rigger'] });
   await server.context.queue.transaction((m) => m.update(User, { id: inspector.user.id }, { canInspect: true }));
   const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });

@@ -3,7 +3,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { jobEnvelopeSchema } from '../../../shared/schemas/jobs.js';
 import { MailOutbox } from '../../../server/entities/MailOutbox.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { acknowledgeAndRelease, BoardClient, boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { acknowledgeAndRelease, BoardClient, boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -11,12 +11,7 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
 const MINUTE = 60_000;
 
 async function crewAndUnit(server: TestServer): Promise<{ crew: CrewByRole; unitId: string }> {
-  const crew: CrewByRole = {
-    supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-    operator: await signedInUser(server, { qualifications: ['operator'] }),
-    signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-    rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-  };
+  const crew: CrewByRole = await signedInCrew(server);
   const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
   const { model, unit } = await seedModelAndUnit(server, admin.token);
   await addParts18m(server, admin.token, model.id, unit.id, 'R');

@@ -6,7 +6,7 @@ import type { InboxMessage } from '../../../shared/schemas/audit.js';
 import { jobEnvelopeSchema } from '../../../shared/schemas/jobs.js';
 import { MailOutbox } from '../../../server/entities/MailOutbox.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { boardOf, briefEveryone, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { boardOf, briefEveryone, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -45,12 +45,7 @@ describe('the shift-end e-mail', () => {
   beforeAll(async () => {
     server = await startTestServer({ outbox: { retryDelaysMs: [0, 50, 100] } });
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'C');

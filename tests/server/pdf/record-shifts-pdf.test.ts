@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { jobEventListSchema, type JobEventDto } from '../../../shared/events/log.js';
 import type { CrewRole } from '../../../shared/schemas/jobs.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { acknowledgeAndRelease, boardOf, briefEveryone, calmWeather, completeSteps, httpCommand, type CrewByRole, type CommandBody } from '../../helpers/board.js';
+import { acknowledgeAndRelease, boardOf, briefEveryone, calmWeather, completeSteps, httpCommand, type CrewByRole, type CommandBody, signedInCrew } from '../../helpers/board.js';
 import { TEST_PASSWORD } from '../../helpers/factories.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
@@ -83,12 +83,7 @@ describe('the record of a job over two shifts at a site in another zone', { time
     // A fixed December day, so the site's offset is known whenever the test runs; tokens follow the same clock.
     server.advance(START - Date.now());
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     rigger2 = await signedInUser(server, { qualifications: ['rigger'] });
     supervisor2 = await signedInUser(server, { qualifications: ['supervisor'] });
     await request(server.app).patch(`/api/users/${rigger2.user.id}`).set(auth(admin)).send({ canInspect: true }).expect(200);

@@ -8,18 +8,7 @@ import { openDatabase } from '../../../server/db/data-source.js';
 import { createLogger } from '../../../server/logger.js';
 import { signAccessToken } from '../../../server/auth/access-token.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import {
-  acknowledgeAndRelease,
-  advanceUntilActive,
-  BoardClient,
-  boardOf,
-  briefEveryone,
-  completeSteps,
-  controllerValues18m,
-  httpCommand,
-  uploadPhoto,
-  type CrewByRole,
-} from '../../helpers/board.js';
+import { acknowledgeAndRelease, advanceUntilActive, BoardClient, boardOf, briefEveryone, completeSteps, controllerValues18m, httpCommand, uploadPhoto, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -380,12 +369,7 @@ describe('the live board engine', () => {
 describe('idempotency across a restart', () => {
   it('a command repeated after the server restarts on the same database is not applied twice', async () => {
     const server = await startTestServer();
-    const crew: CrewByRole = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    const crew: CrewByRole = await signedInCrew(server);
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'R');

@@ -10,7 +10,7 @@ import { jobEnvelopeSchema, jobListSchema } from '../../../shared/schemas/jobs.j
 import { sessionSchema } from '../../../shared/schemas/auth.js';
 import { signedInUser } from '../../helpers/auth.js';
 import { TEST_PASSWORD } from '../../helpers/factories.js';
-import { boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { boardOf, briefEveryone, completeSteps, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -41,12 +41,7 @@ describe('a job in its site’s time zone', () => {
 
   beforeAll(async () => {
     server = await startTestServer({ outbox: { retryDelaysMs: [0, 50, 100] } });
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'Z');

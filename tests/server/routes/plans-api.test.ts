@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { planEnvelopeSchema, planVersionListSchema, type Plan } from '../../../shared/schemas/plan.js';
 import { jobEnvelopeSchema, readinessSchema } from '../../../shared/schemas/jobs.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob, type Crew } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -18,12 +19,7 @@ describe('plans: draft, edits, mandatory holds, ready and versions', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     viewer = await signedInUser(server, { qualifications: ['viewer'] });
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BoardFollower } from '../../../shared/board/follower.js';
 import { jobEventListSchema } from '../../../shared/events/log.js';
 import { signedInUser } from '../../helpers/auth.js';
-import { BoardClient, briefEveryone, completeSteps, httpCommand, type CrewByRole } from '../../helpers/board.js';
+import { BoardClient, briefEveryone, completeSteps, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -16,12 +16,7 @@ describe('the board follower on a real connection', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'F');

@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobSummaryUpdate } from '../../../shared/events/socket.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
-import { BoardClient } from '../../helpers/board.js';
+import { BoardClient, signedInCrew } from '../../helpers/board.js';
 import { seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob, type Crew } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -25,12 +25,7 @@ describe('following job list lines live', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = {
-      supervisor: await signedInUser(server, { qualifications: ['supervisor'] }),
-      operator: await signedInUser(server, { qualifications: ['operator'] }),
-      signaller: await signedInUser(server, { qualifications: ['signaller'] }),
-      rigger: await signedInUser(server, { qualifications: ['rigger'] }),
-    };
+    crew = await signedInCrew(server);
     outsider = await signedInUser(server, { qualifications: ['rigger'] });
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     unitId = (await seedModelAndUnit(server, admin.token)).unit.id;
