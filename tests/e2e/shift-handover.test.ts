@@ -66,7 +66,7 @@ describe('two shifts, four people: make safe, hand over, change the crew, start 
     if (note) await field(page, `make-safe-note-${itemId}`).fill(note);
     const button = page.getByTestId(`make-safe-tick-${itemId}`);
     const doneBy = page.getByTestId(`make-safe-done-by-${itemId}`);
-    for (let attempt = 0; attempt < 5 && !(await doneBy.count()) && (await button.count()); attempt++) {
+    for (let attempt = 0; attempt < 10 && !(await doneBy.count()) && (await button.count()); attempt++) {
       await pressAndHold(page, button, async () => {
         const onThisItem = await button.evaluate((el) => el.classList.contains('holding')).catch(() => false);
         if (onThisItem) await doneBy.waitFor({ timeout: 5_000 }).catch(() => undefined);

@@ -45,19 +45,32 @@ describe('the make-safe checklist', () => {
     expect(send.mock.calls.map((c) => c[0])).toEqual([{ type: 'shift.item.done', itemId: 'guyLines' }]);
   });
 
-  it('lets go of a hold when another person’s tick moves the list, so nothing is ticked by a press that moved', async () => {
+  it('lets go of a hold when another person’s tick moves the pressed button, so nothing is ticked by a press that moved', async () => {
     const { wrapper, send, job } = mountChecklist(people.rita);
     const tick = wrapper.get('[data-testid="make-safe-tick-guyLines"]');
     await tick.trigger('pointerdown', { pointerId: 1 });
     await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS / 2);
-    // Otto ticks the engine item meanwhile: its button goes, the list below it moves up.
-    const state = job.apply('shift.item.done', { itemId: 'engineOff', role: 'operator', note: null, madeSafe: false }, { by: people.otto });
-    await wrapper.setProps({ board: state });
+    // Where the button sits on the screen: read once before the list changes (300 px), then after it (240 px).
+    let reads = 0;
+    (tick.element as HTMLElement).getBoundingClientRect = () => ({ top: reads++ === 0 ? 300 : 240 }) as DOMRect;
+    // Otto ticks an item meanwhile and the list reflows under Rita's finger.
+    await wrapper.setProps({ board: job.apply('shift.item.done', { itemId: 'engineOff', role: 'operator', note: null, madeSafe: false }, { by: people.otto }) });
     await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS * 2);
     expect(send).not.toHaveBeenCalled();
     // A fresh, full hold on the item then ticks it.
     await tick.trigger('pointerdown', { pointerId: 2 });
     await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS + 100);
+    expect(send.mock.calls.map((c) => c[0])).toEqual([{ type: 'shift.item.done', itemId: 'guyLines' }]);
+  });
+
+  it('keeps a hold whose button stayed put while others tick, so a crew ticking together does not interrupt each other', async () => {
+    const { wrapper, send, job } = mountChecklist(people.rita);
+    const tick = wrapper.get('[data-testid="make-safe-tick-guyLines"]');
+    (tick.element as HTMLElement).getBoundingClientRect = () => ({ top: 300 }) as DOMRect;
+    await tick.trigger('pointerdown', { pointerId: 1 });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS / 2);
+    await wrapper.setProps({ board: job.apply('shift.item.done', { itemId: 'engineOff', role: 'operator', note: null, madeSafe: false }, { by: people.otto }) });
+    await vi.advanceTimersByTimeAsync(HOLD_TO_CONFIRM_MS);
     expect(send.mock.calls.map((c) => c[0])).toEqual([{ type: 'shift.item.done', itemId: 'guyLines' }]);
   });
 
