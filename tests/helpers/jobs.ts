@@ -34,8 +34,8 @@ export interface Crew {
   rigger: SignedInUser;
 }
 
-/** Creates a job as the supervisor, puts the crew on it and saves the 18 m configuration. */
-export async function plannedJob(server: TestServer, crew: Crew, unitId: string, name = 'Planned job'): Promise<JobDto> {
+/** Creates a job as the supervisor, puts the crew (and `extraCrew`) on it and saves the 18 m configuration. */
+export async function plannedJob(server: TestServer, crew: Crew, unitId: string, name = 'Planned job', extraCrew: readonly { userId: string; role: string }[] = []): Promise<JobDto> {
   const auth = { Authorization: `Bearer ${crew.supervisor.token}` };
   const created = jobEnvelopeSchema.parse((await request(server.app).post('/api/jobs').set(auth).send({ name, site: 'North yard', craneUnitId: unitId, kind: 'erection' }).expect(201)).body).job;
   await request(server.app)
@@ -47,6 +47,7 @@ export async function plannedJob(server: TestServer, crew: Crew, unitId: string,
         { userId: crew.operator.user.id, role: 'operator' },
         { userId: crew.signaller.user.id, role: 'signaller' },
         { userId: crew.rigger.user.id, role: 'rigger' },
+        ...extraCrew,
       ],
     })
     .expect(200);

@@ -57,19 +57,7 @@ describe('board rules', () => {
 
   /** A live job whose draft plan was edited before it was made ready; everyone briefed. */
   async function liveJob(edit: (plan: Plan) => void = () => {}, extraCrew: { userId: string; role: string }[] = []): Promise<string> {
-    const job = await plannedJob(server, crew, unitId, 'Rules job');
-    await request(server.app)
-      .put(`/api/jobs/${job.id}/crew`)
-      .set(auth(crew.supervisor))
-      .send({
-        members: [
-          ...Object.entries(crew).map(([role, who]) => ({ userId: who.user.id, role })),
-          { userId: supervisor2.user.id, role: 'supervisor' },
-          { userId: viewer.user.id, role: 'viewer' },
-          ...extraCrew,
-        ],
-      })
-      .expect(200);
+    const job = await plannedJob(server, crew, unitId, 'Rules job', [{ userId: supervisor2.user.id, role: 'supervisor' }, { userId: viewer.user.id, role: 'viewer' }, ...extraCrew]);
     const plan = (await request(server.app).get(`/api/jobs/${job.id}/plan`).set(auth(crew.supervisor)).expect(200)).body.plan as Plan;
     edit(plan);
     await request(server.app).put(`/api/jobs/${job.id}/plan`).set(auth(crew.supervisor)).send({ plan }).expect(200);

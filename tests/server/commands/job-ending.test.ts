@@ -40,18 +40,7 @@ describe('the job ending with its sign-off', () => {
    * changes the draft plan before it is made ready.
    */
   async function liveJob(name: string, edit: (plan: Plan) => void = () => {}): Promise<string> {
-    const job = await plannedJob(server, crew, unitId, name);
-    await request(server.app)
-      .put(`/api/jobs/${job.id}/crew`)
-      .set(auth(crew.supervisor))
-      .send({
-        members: [
-          ...Object.entries(crew).map(([role, who]) => ({ userId: who.user.id, role })),
-          { userId: inspector.user.id, role: 'rigger' },
-          { userId: supervisor2.user.id, role: 'supervisor' },
-        ],
-      })
-      .expect(200);
+    const job = await plannedJob(server, crew, unitId, name, [{ userId: inspector.user.id, role: 'rigger' }, { userId: supervisor2.user.id, role: 'supervisor' }]);
     const plan = (await request(server.app).get(`/api/jobs/${job.id}/plan`).set(auth(crew.supervisor)).expect(200)).body.plan as Plan;
     edit(plan);
     await request(server.app).put(`/api/jobs/${job.id}/plan`).set(auth(crew.supervisor)).send({ plan }).expect(200);

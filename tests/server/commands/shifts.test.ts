@@ -56,19 +56,7 @@ describe('shifts', () => {
 
   /** A live job with the second supervisor and the inspector on the crew, everyone briefed for shift 1. */
   async function liveJob(name: string, kind: 'erection' | 'dismantling' = 'erection'): Promise<string> {
-    const job = await plannedJob(server, crew, unitId, name);
-    await request(server.app)
-      .put(`/api/jobs/${job.id}/crew`)
-      .set(auth(crew.supervisor))
-      .send({
-        members: [
-          ...Object.entries(crew).map(([role, who]) => ({ userId: who.user.id, role })),
-          { userId: supervisor2.user.id, role: 'supervisor' },
-          { userId: inspector.user.id, role: 'rigger' },
-          { userId: viewer.user.id, role: 'viewer' },
-        ],
-      })
-      .expect(200);
+    const job = await plannedJob(server, crew, unitId, name, [{ userId: supervisor2.user.id, role: 'supervisor' }, { userId: inspector.user.id, role: 'rigger' }, { userId: viewer.user.id, role: 'viewer' }]);
     if (kind === 'dismantling') {
       await request(server.app).patch(`/api/jobs/${job.id}`).set(auth(crew.supervisor)).send({ kind }).expect(200);
       await request(server.app).post(`/api/jobs/${job.id}/plan/generate`).set(auth(crew.supervisor)).expect(201);
