@@ -25,6 +25,19 @@ const ground = (kpa: number, reference: string): Configuration['ground'] => ({
   source: { kind: 'ground_investigation', reference, designer: '' },
 });
 
+/** The second unit as both of its demo jobs build it: a 21 m boom, four parts on the 45 t block, no mats, no assist crane. */
+function secondUnitConfiguration(fleet: DemoFleet): Configuration {
+  const lift = liftConfiguration(fleet);
+  return {
+    ...lift,
+    craneUnitId: fleet.secondUnitId,
+    boomLengthM: 21,
+    mainHook: { hookBlockId: 'HB45', parts: 4, lowestHookPositionM: 0 },
+    mats: { ...lift.mats, used: false },
+    assist: { ...lift.assist, assistCraneId: null, chartId: null, lifts: [] },
+  };
+}
+
 function liftConfiguration(fleet: DemoFleet): Configuration {
   return {
     craneUnitId: fleet.unitId,
@@ -170,14 +183,9 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
     distribution: ['records@fenwold-lifting.test'],
   });
   await setConfiguration(past, p.supervisor, trialId, {
-    ...liftConfiguration(fleet),
-    craneUnitId: fleet.secondUnitId,
-    boomLengthM: 21,
-    mainHook: { hookBlockId: 'HB45', parts: 4, lowestHookPositionM: 0 },
+    ...secondUnitConfiguration(fleet),
     heaviestLoad: { description: 'Test weights, 12 t', loadT: 12, riggingT: 0.4, radiusM: 9 },
     ground: ground(250, 'Depot slab design note DS-7'),
-    mats: { ...liftConfiguration(fleet).mats, used: false },
-    assist: { ...liftConfiguration(fleet).assist, assistCraneId: null, chartId: null, lifts: [] },
     siteHazards: { ...liftConfiguration(fleet).siteHazards, powerLines: [], buriedServices: 'None in yard 2.', neighbours: 'Workshop doors kept shut during the raise.' },
   });
   await makeReady(past, p.supervisor, trialId);
@@ -253,14 +261,9 @@ async function seedTwoShiftJob(context: AppContext, p: DemoPeople, fleet: DemoFl
     distribution: ['records@fenwold-lifting.test', 'works.office@ashcombe-water.test'],
   });
   await setConfiguration(at, p.supervisor, jobId, {
-    ...liftConfiguration(fleet),
-    craneUnitId: fleet.secondUnitId,
-    boomLengthM: 21,
-    mainHook: { hookBlockId: 'HB45', parts: 4, lowestHookPositionM: 0 },
+    ...secondUnitConfiguration(fleet),
     heaviestLoad: { description: 'Roof truss pair on its spreader frame (9.5 t)', loadT: 9.5, riggingT: 0.8, radiusM: 10 },
     ground: ground(250, 'Ashcombe Reach hardstanding design note HS-3'),
-    mats: { ...liftConfiguration(fleet).mats, used: false },
-    assist: { ...liftConfiguration(fleet).assist, assistCraneId: null, chartId: null, lifts: [] },
     siteHazards: {
       ...liftConfiguration(fleet).siteHazards,
       powerLines: [],
