@@ -3,7 +3,6 @@ import { existsSync } from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import express, { type Express } from 'express';
-import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import { Server as SocketServer } from 'socket.io';
 import cookieParser from 'cookie-parser';
@@ -19,6 +18,8 @@ import { createMailer, type Mailer } from './mail/mailer.js';
 import { MailOutboxService, type OutboxOptions } from './mail/outbox.js';
 import { recordPdfFromRenderer } from './mail/record-pdf.js';
 import { authenticate } from './middlewares/authenticate.js';
+import { inputGuard, JSON_BODY_LIMIT, refuseDeepJson, SOCKET_MESSAGE_LIMIT_BYTES } from './middlewares/input-guard.js';
+import { allowSocketOrigin, refuseForeignOrigin, securityHeaders } from './middlewares/security.js';
 import { assistCranesRouter } from './routes/assist-cranes.js';
 import { auditRouter } from './routes/audit.js';
 import { authRouter } from './routes/auth.js';
@@ -74,7 +75,9 @@ export function createApp(deps: AppDeps): HoldlineApp {
   const queue = new WriteQueue(dataSource);
   // The Socket.IO server exists before the context so the publisher can be made once, here, and
   // handed to everyone; it is attached to the HTTP server below.
-  const io: HoldlineServer = new SocketServer({ serveClient: false });
+  // A handshake from a page of another site is refused before any transport opens.
+  // A bigger message closes that client's transport (it reconnects and resyncs): see input-guard.ts.
+  const io: HoldlineServer = new SocketServer({ serveClient: false, allowRequest: allowSocketOrigin(config, logger), maxHttpBufferSize: SOCKET_MESSAGE_LIMIT_BYTES });
   const publisher = new BoardPublisher(io);
   const mailer = deps.mailer ?? createMailer(config.smtpUrl, logger, path.join(config.dataDir, 'mail'));
   const now = deps.now ?? (() => new Date());
@@ -99,19 +102,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        directives: {
-          // Site networks are often plain http on a LAN address; upgrading would break every asset.
-          upgradeInsecureRequests: null,
-          imgSrc: ["'self'", 'data:', 'blob:'],
-          connectSrc: ["'self'"],
-        },
-      },
-      hsts: false,
-    }),
-  );
+  // Helmet with our content security policy; see server/middlewares/security.ts and SECURITY.md.
+  app.use(securityHeaders(config));
   app.use(
     pinoHttp({
       logger,
@@ -125,10 +117,14 @@ export function createApp(deps: AppDeps): HoldlineApp {
   );
 
   const api = express.Router();
-  api.use(express.json({ limit: '1mb' }));
+  // Before the body is read: another site's page gets a 403 and never an Access-Control-Allow-Origin.
+  api.use(refuseForeignOrigin(config, logger));
+  // Size (413 too_large), nesting (400 too_deep, counted before parsing), then lone surrogates and prototype keys.
+  api.use(express.json({ limit: JSON_BODY_LIMIT, verify: refuseDeepJson }));
+  api.use(inputGuard);
   api.use(cookieParser());
   api.use(authenticate(context));
-  api.use(healthRouter(dataSource, config.version));
+  api.use(healthRouter(dataSource, config.version, queue));
   api.use(authRouter(context));
   api.use(usersRouter(context));
   api.use(auditRouter(context));

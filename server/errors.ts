@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { z } from 'zod';
 import { fieldsFromZod, type ApiError, type FieldError } from '../shared/schemas/errors.js';
+import { storageFaultOf } from './db/faults.js';
 import type { Logger } from './logger.js';
 
 /** An error meant for the client: HTTP status, stable code, readable message. */
@@ -30,6 +31,15 @@ export const conflict = (code: string, message: string) => new HttpError(409, co
  * client answers a 401 by trying its refresh cookie, which is refused too, and signs out.
  */
 export const accountInactive = () => new HttpError(401, 'account_inactive', 'This account is deactivated. Ask your administrator.');
+/**
+ * An administrator's change to their own account or their own place in a crew: a second person
+ * makes it (another administrator through PATCH /api/users/:id or the crew tab; for a crew, the
+ * job's supervisor too), so nobody gives themselves rights alone.
+ */
+export const secondAdminNeeded = (doing: string, who = 'another administrator') =>
+  new HttpError(403, 'second_admin_needed', `You cannot ${doing} by yourself: ${who} makes this change for you, so that nobody gives themselves rights alone. Ask them to make it.`);
+/** A token whose sign-in has ended (signed out on that device, or every session ended by an administrator). */
+export const sessionEnded = () => new HttpError(401, 'session_ended', 'Your session has ended. Sign in again.');
 
 /** Parses with a shared schema or throws a 400 naming every failing field. */
 export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown, what = 'request'): z.infer<S> {
@@ -51,6 +61,16 @@ export const apiNotFound: RequestHandler = (req, _res, next) => {
 export function toHttpError(err: unknown, logger: Logger, where: Record<string, unknown>): HttpError {
   if (err instanceof HttpError) return err;
   if (isBodyParserError(err)) return bodyParserError(err);
+  // Express's router could not decode a path parameter (`/api/jobs/%ZZ`); it marks that URIError 400.
+  if (err instanceof URIError && (err as URIError & { status?: unknown }).status === 400) {
+    return new HttpError(400, 'malformed_path', 'The address has a malformed part (a “%” not followed by a valid encoded character). Check the link or open the page again from the app.');
+  }
+  // SQLite could not write (disk full, locked, read-only, I/O error): 503 with its own code, never the SQL.
+  const fault = storageFaultOf(err);
+  if (fault) {
+    logger.error({ sqliteCode: fault.sqliteCode, code: fault.code, ...where }, 'storage fault');
+    return new HttpError(503, fault.code, fault.message);
+  }
   logger.error({ err, ...where }, 'unhandled error');
   return new HttpError(500, 'internal', 'Something went wrong on the server. Try again; if it keeps happening, tell your administrator.');
 }
@@ -65,6 +85,8 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err: unknown, req, res, _next) => {
     if (res.headersSent) return;
     const httpError = toHttpError(err, logger, { method: req.method, url: req.originalUrl });
+    // A storage fault or a restart passes: say when to try again.
+    if (httpError.status === 503) res.setHeader('Retry-After', '5');
     res.status(httpError.status).json(httpError.toBody());
   };
 }

@@ -175,6 +175,7 @@ export const refusalCodes = [
   'unauthenticated',
   'token_invalid',
   'token_expired',
+  'session_ended',
   'account_inactive',
   'not_found',
   'validation',
@@ -184,6 +185,17 @@ export const refusalCodes = [
   'bad_request',
   'internal',
   'command_id_reused',
+  // The edge (server/middlewares/input-guard.ts, server/sockets/limits.ts, server/errors.ts): refused before any handler
+  'too_deep',
+  'forbidden_field',
+  'too_many_commands',
+  'malformed_path',
+  // The server's storage and its restarts (server/db/faults.ts, server/db/write-queue.ts): 503, nothing recorded
+  'storage_full',
+  'storage_busy',
+  'storage_readonly',
+  'storage_failed',
+  'server_restarting',
   // The board's state and rules (server/commands/board.ts)
   'invalid_state',
   'job_stopped',
@@ -210,4 +222,7 @@ export const refusalCodes = [
   'handover_missing',
   // A defect report quarantines its component through the fleet's inspection path
   'component_retired',
+  // Evidence and defects (server/commands/uploads.ts attachUploads, server/commands/board.ts)
+  'photo_already_used',
+  'component_not_on_job',
 ] as const;
