@@ -65,7 +65,11 @@ export interface HoldlineApp {
   context: AppContext;
   /** The once-a-minute look for holds waiting on someone who is not on the board; tests call `check()`. */
   reminders: HoldReminders;
-  /** Stops accepting, closes sockets, finishes queued writes, closes the database. */
+  /**
+   * Graceful shutdown: refuses new writes (`server_restarting`), tells every connected board the
+   * server is restarting (`server:restarting`), lets the queued writes commit and their answers go
+   * out, then closes sockets, the HTTP server and the database.
+   */
   close(): Promise<void>;
 }
 
@@ -153,9 +157,19 @@ export function createApp(deps: AppDeps): HoldlineApp {
   let closing: Promise<void> | undefined;
   const close = () => {
     closing ??= (async () => {
+      // The e-mail loops first (a send in progress is recorded; a mail left over is found again at
+      // the next start), bounded so a hung mail server cannot hold the restart up.
+      await Promise.race([Promise.all([reminders.stop(), outbox.stop()]), new Promise((resolve) => setTimeout(resolve, 5_000).unref())]);
+      // From here every new write is refused `server_restarting`; what is queued still commits.
+      queue.stopTaking();
+      io.emit('server:restarting', { at: new Date().toISOString() });
       stopSockets();
-      await reminders.stop();
-      await outbox.stop();
+      await queue.drain();
+      // The answers of the last commands are sent in the turns right after their commits: let them
+      // go out before the sockets close, so an acknowledged command is always one its sender heard.
+      await new Promise((resolve) => setImmediate(resolve));
+      await queue.drain();
+      await new Promise((resolve) => setImmediate(resolve));
       // io.close() also closes the HTTP server, so no new requests or sockets are accepted.
       await new Promise<void>((resolve) => io.close(() => resolve()));
       httpServer.closeAllConnections();

@@ -58,6 +58,10 @@ function registeredEvents(server: TestServer): string[] {
       names.push(name);
       return recorder;
     },
+    // The input guard's per-message middleware (server/sockets/limits.ts) listens to no event.
+    use() {
+      return recorder;
+    },
   };
   for (const onConnection of io.listeners('connection')) onConnection(recorder as unknown as HoldlineSocket);
   // Never attached to an HTTP server, so there is nothing to close.

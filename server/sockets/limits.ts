@@ -1,0 +1,29 @@
+import type { AppContext } from '../context.js';
+import { refusalOf } from '../errors.js';
+import { cleanInput, COMMAND_RATE, RateBucket, tooManyCommands } from '../middlewares/input-guard.js';
+import type { HoldlineSocket } from './auth.js';
+
+/**
+ * The socket's edge, before any handler: every message of one socket draws from its own rate
+ * bucket (`COMMAND_RATE`), and its payload is cleaned as an HTTP body is (`cleanInput`: lone
+ * surrogates to U+FFFD, forbidden keys and deep nesting refused). A refused message is answered
+ * in its acknowledgment with the same error shape as HTTP and never reaches its handler; one sent
+ * without an acknowledgment is dropped. Oversized messages never get here: Socket.IO closes the
+ * transport (`SOCKET_MESSAGE_LIMIT_BYTES`).
+ */
+export function guardSocketInput(context: AppContext, socket: HoldlineSocket): void {
+  const bucket = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst);
+  socket.use((packet, next) => {
+    const ack: unknown = packet.at(-1);
+    const answer = (error: unknown) => {
+      if (typeof ack === 'function') ack(refusalOf(error, context.logger, { event: packet[0], userId: socket.data.userId }));
+    };
+    if (!bucket.take()) return answer(tooManyCommands());
+    try {
+      for (let i = 1; i < packet.length; i++) if (typeof packet[i] !== 'function') packet[i] = cleanInput(packet[i]);
+    } catch (error) {
+      return answer(error);
+    }
+    next();
+  });
+}
