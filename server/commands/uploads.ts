@@ -21,13 +21,58 @@ const formats = {
   png: { mimeType: 'image/png', extension: 'png' },
   webp: { mimeType: 'image/webp', extension: 'webp' },
 } as const satisfies Record<string, { mimeType: Upload['mimeType']; extension: StoredExtension }>;
+type PhotoFormat = keyof typeof formats;
 
 const unsupported = () =>
   new HttpError(415, 'unsupported_image', 'That file is not a JPEG, PNG or WebP photo. Take or choose a photo and try again.');
 
-/** The bytes of an uploaded file; its client-side name is deliberately not used. */
+/**
+ * The format the first bytes announce (JPEG SOI marker FF D8 FF; the PNG signature 89 50 4E 47
+ * 0D 0A 1A 0A; a RIFF container of type WEBP), or null. Checked before the image library sees
+ * the bytes, so SVG, HTML, PDF or any other format its loaders know never reaches a parser.
+ */
+export function sniffFormat(bytes: Buffer): PhotoFormat | null {
+  if (bytes.length >= 3 && bytes[0] === 0xff && bytes[1] === 0xd8 && bytes[2] === 0xff) return 'jpeg';
+  if (bytes.length >= 8 && bytes.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))) return 'png';
+  if (bytes.length >= 12 && bytes.toString('latin1', 0, 4) === 'RIFF' && bytes.toString('latin1', 8, 12) === 'WEBP') return 'webp';
+  return null;
+}
+
+// What a file's name or declared type may say about a photo we take.
+const photoExtensions: Record<string, PhotoFormat> = { jpg: 'jpeg', jpeg: 'jpeg', jpe: 'jpeg', jfif: 'jpeg', png: 'png', webp: 'webp' };
+// Names that announce something other than a photo we take (a script-carrying SVG above all).
+const otherExtensions = new Set(['svg', 'svgz', 'gif', 'tif', 'tiff', 'bmp', 'heic', 'heif', 'avif', 'pdf', 'html', 'htm', 'xhtml', 'xml', 'js', 'mjs', 'exe']);
+const declaredTypes: Record<string, PhotoFormat> = { 'image/jpeg': 'jpeg', 'image/jpg': 'jpeg', 'image/pjpeg': 'jpeg', 'image/png': 'png', 'image/webp': 'webp' };
+const formatWords: Record<PhotoFormat, string> = { jpeg: 'a JPEG', png: 'a PNG', webp: 'a WebP' };
+
+/**
+ * Refuses a file whose name or declared type says something other than what its bytes are (a PNG
+ * named .jpg, a photo named .svg, a part sent as image/svg+xml). A name without a known
+ * extension, and an undeclared or generic type, are judged by the content alone.
+ */
+function assertNameAgrees(content: PhotoFormat, originalName: string | undefined, declaredType: string | undefined): void {
+  const extension = /\.([A-Za-z0-9]{1,5})$/.exec(originalName ?? '')?.[1]?.toLowerCase();
+  const fix = 'Choose the photo itself, as the camera saved it, and try again.';
+  if (extension && otherExtensions.has(extension)) {
+    throw new HttpError(415, 'unsupported_image', `The file is named as a .${extension} file: Holdline takes JPEG, PNG and WebP photos only. ${fix}`);
+  }
+  if (extension && photoExtensions[extension] && photoExtensions[extension] !== content) {
+    throw new HttpError(415, 'image_mismatch', `The file is named .${extension} but holds ${formatWords[content]} image. ${fix}`);
+  }
+  const declared = (declaredType ?? '').split(';')[0]!.trim().toLowerCase();
+  if (declared === '' || declared === 'application/octet-stream') return;
+  if (declaredTypes[declared] !== content) {
+    throw new HttpError(415, 'image_mismatch', `The file was sent as another kind of file than the ${formatWords[content].slice(2)} image it holds. ${fix}`);
+  }
+}
+
+/** The bytes of an uploaded file; its client-side name is never stored nor used for a path, only compared with the content. */
 export interface IncomingFile {
   buffer: Buffer;
+  /** The name the device gave the file, if any: its extension must agree with the content. */
+  originalName?: string;
+  /** The type the form part declared, if any: it must agree with the content. */
+  declaredType?: string;
 }
 
 /**
@@ -37,16 +82,23 @@ export interface IncomingFile {
 export async function storeUpload(context: AppContext, actor: User, file: IncomingFile): Promise<Upload> {
   const bytes = file.buffer;
   if (bytes.length > MAX_UPLOAD_BYTES) throw new HttpError(413, 'too_large', 'Photos can be at most 10 MB.');
+  const sniffed = sniffFormat(bytes);
+  if (!sniffed) throw unsupported();
+  assertNameAgrees(sniffed, file.originalName, file.declaredType);
 
   let metadata: Metadata;
   try {
-    metadata = await sharp(bytes).metadata();
+    // Only the header is read here (no limit, so a huge declared size is answered by our check
+    // below as too large, not as an unreadable file); the decoding below is limited.
+    metadata = await sharp(bytes, { limitInputPixels: false }).metadata();
   } catch {
     throw unsupported();
   }
-  const format = metadata.format in formats ? formats[metadata.format as keyof typeof formats] : null;
-  if (!format) throw unsupported();
-  if (metadata.width * metadata.height > MAX_PIXELS) {
+  // The library must read the same format the first bytes announced.
+  if (metadata.format !== sniffed) throw unsupported();
+  const format = formats[sniffed];
+  // Reading the header decodes nothing: a few hundred bytes can declare billions of pixels.
+  if (!(metadata.width > 0 && metadata.height > 0) || metadata.width * metadata.height > MAX_PIXELS) {
     throw new HttpError(413, 'too_large', 'Photos can be at most 100 megapixels. Use the camera’s normal size and try again.');
   }
 
@@ -111,8 +163,11 @@ async function putTracked(context: AppContext, name: string, bytes: Buffer, writ
 
 /**
  * Attaches uploads to a record inside the caller's transaction. Each id must exist, have been
- * uploaded by the actor (or the actor is an admin) and not belong to another record yet;
- * otherwise a 400 names every failing `photoIds.N`. Returns the uploads in the order given.
+ * uploaded by the actor (or the actor is an admin) and belong to no record yet: a photo is the
+ * evidence of one step, hold, defect or inspection only. On the board the owner is the job, so
+ * "already attached" is refused even for the same job (the same photo must not stand for two
+ * steps or defects). Otherwise it throws naming every failing `photoIds.N`: 409
+ * `photo_already_used` when reuse is the only problem, else 400. Returns the uploads in the order given.
  */
 export async function attachUploads(
   manager: EntityManager,
@@ -128,6 +183,7 @@ export async function attachUploads(
   const found = new Map((await manager.findBy(Upload, { id: In([...new Set(uploadIds)]) })).map((u) => [u.id, u]));
 
   const fields: FieldError[] = [];
+  let reused = 0;
   const seen = new Set<string>();
   uploadIds.forEach((id, index) => {
     const path = `${field}.${index}`;
@@ -135,11 +191,15 @@ export async function attachUploads(
     if (seen.has(id)) fields.push({ path, message: 'This photo is listed twice.' });
     else if (!upload) fields.push({ path, message: 'That photo was not found. Upload it again.' });
     else if (upload.uploadedBy !== actorId && !isAdmin) fields.push({ path, message: 'That photo was uploaded by someone else. Upload your own photo.' });
-    else if (upload.ownerKind !== null && (upload.ownerKind !== ownerKind || upload.ownerId !== ownerId)) {
-      fields.push({ path, message: 'That photo already belongs to another record. Upload it again to use it here.' });
+    else if (upload.ownerKind !== null) {
+      reused += 1;
+      fields.push({ path, message: `That photo is already the evidence for ${ownerWords[upload.ownerKind]}. Each record needs its own photo: take a new one.` });
     }
     seen.add(id);
   });
+  if (fields.length > 0 && reused === fields.length) {
+    throw new HttpError(409, 'photo_already_used', 'That photo is already the evidence for another record. Take a new photo for this one.', fields);
+  }
   if (fields.length > 0) throw badRequest('Some photos cannot be attached.', fields);
 
   const uploads = uploadIds.map((id) => found.get(id)!);
@@ -150,3 +210,10 @@ export async function attachUploads(
   await manager.save(uploads);
   return uploads;
 }
+
+const ownerWords: Record<UploadOwnerKind, string> = {
+  inspection: 'an inspection',
+  step: 'a step',
+  hold: 'a hold’s acknowledgment',
+  defect: 'a defect report',
+};

@@ -14,14 +14,38 @@ import { presentUpload } from '../presenters/upload.js';
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const signedQuerySchema = z.object({ exp: z.string().optional(), sig: z.string().optional() });
 
+const fileField = (message: string) => badRequest(message, [{ path: 'file', message }]);
+
+/** Longest file name accepted, in UTF-8 bytes (what common file systems allow for one name). */
+export const MAX_FILE_NAME_BYTES = 255;
+
+/**
+ * Why a client's file name is refused, or null. The name never becomes a path (storage makes its
+ * own), but a name that carries a folder (`../`, `/etc/`, `C:\`), a control character such as
+ * NUL, or more than 255 bytes comes from a crafted request, not a camera: refuse it outright.
+ */
+export function fileNameProblem(name: string): string | null {
+  const fix = 'Rename the photo to a plain name (for example crane-pad.jpg) and try again.';
+  if (Buffer.byteLength(name, 'utf8') > MAX_FILE_NAME_BYTES) return `The photo’s file name is longer than ${MAX_FILE_NAME_BYTES} characters. ${fix}`;
+  // eslint-disable-next-line no-control-regex
+  if (/[\u0000-\u001f\u007f]/.test(name)) return `The photo’s file name contains hidden control characters. ${fix}`;
+  if (/[/\\]/.test(name) || /^[A-Za-z]:/.test(name) || name === '.' || name === '..') return `The photo’s file name names a folder, not just a file. ${fix}`;
+  return null;
+}
+
 // Memory storage: the bytes are checked by content before anything touches the disk, and the
-// 10 MB limit bounds what one request can hold.
+// 10 MB limit bounds what one request can hold. `preservePath` keeps the name as sent, so a
+// name with a folder in it is seen and refused instead of silently cut to its last part.
 const receivePhoto = multer({
   storage: multer.memoryStorage(),
-  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, parts: 11 },
+  preservePath: true,
+  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, parts: 11, fieldNameSize: 100 },
+  fileFilter: (_req, file, accept) => {
+    const problem = fileNameProblem(file.originalname);
+    if (problem) accept(new HttpError(400, 'bad_file_name', problem, [{ path: 'file', message: problem }]));
+    else accept(null, true);
+  },
 }).single('file');
-
-const fileField = (message: string) => badRequest(message, [{ path: 'file', message }]);
 
 /** multer and busboy errors as our JSON errors. */
 function uploadProblem(err: unknown): HttpError {
@@ -38,7 +62,11 @@ function uploadProblem(err: unknown): HttpError {
         return badRequest('The upload form has too many or too long fields. Send only the photo.');
     }
   }
-  // Busboy's own errors: a cut-off or malformed multipart body.
+  // Busboy's own errors: a malformed part header (a raw control character in the file name is
+  // one), or a cut-off body.
+  if (err instanceof Error && err.message === 'Malformed part header') {
+    return new HttpError(400, 'bad_request', 'The upload form could not be read: the photo’s part of it is malformed (for example hidden characters in the file name). Rename the photo to a plain name and try again.');
+  }
   return new HttpError(400, 'bad_request', 'The upload could not be read. Check the connection and try again.');
 }
 
@@ -59,7 +87,7 @@ export function uploadsRouter(context: AppContext): Router {
     authorize(req.actor ?? null, 'uploads.create', {}, req.authProblem);
     const file = await readPhoto(req, res);
     if (!file) throw fileField('Attach a JPEG, PNG or WebP photo in the form field "file".');
-    const upload = await storeUpload(context, req.actor!, file);
+    const upload = await storeUpload(context, req.actor!, { buffer: file.buffer, originalName: file.originalname, declaredType: file.mimetype });
     res.status(201).location(`/api/uploads/${upload.id}`).json(presentUpload(upload, context));
   });
 

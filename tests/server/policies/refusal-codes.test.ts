@@ -28,6 +28,7 @@ const notSentToTheBoard: Record<string, { file: string; why: string }> = {
   types_in_use: { file: 'server/commands/fleet.ts', why: 'the board calls only recordInspection from this module' },
   unit_has_components: { file: 'server/commands/fleet.ts', why: 'the board calls only recordInspection from this module' },
   unsupported_image: { file: 'server/commands/uploads.ts', why: 'storing a photo is POST /api/uploads; the board only attaches stored ones' },
+  image_mismatch: { file: 'server/commands/uploads.ts', why: 'storing a photo is POST /api/uploads; the board only attaches stored ones' },
   no_plan: { file: 'server/queries/plans.ts', why: 'a readiness reason shown on the plan, not a refusal' },
   plan_stale: { file: 'server/queries/plans.ts', why: 'a readiness reason shown on the plan, not a refusal' },
 };

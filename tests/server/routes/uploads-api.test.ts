@@ -5,7 +5,6 @@ import sharp from 'sharp';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { uploadSchema, type UploadDto } from '../../../shared/schemas/fleet.js';
-import { signAccessToken } from '../../../server/auth/access-token.js';
 import { attachUploads, storeUpload } from '../../../server/commands/uploads.js';
 import type { AppContext } from '../../../server/context.js';
 import { Upload } from '../../../server/entities/Upload.js';
@@ -13,7 +12,7 @@ import type { User } from '../../../server/entities/User.js';
 import { HttpError } from '../../../server/errors.js';
 import { isStoredName, type Storage } from '../../../server/storage/index.js';
 import { LocalDiskStorage } from '../../../server/storage/local-disk.js';
-import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { freshToken, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 /** A noisy photo, so the encoded file is realistically larger than its thumbnail. */
@@ -32,7 +31,7 @@ describe('uploads: one path for every photo', () => {
   let admin: SignedInUser;
 
   // Minted at each call: one test moves the server's clock past the 15-minute access token.
-  const bearer = (who: SignedInUser) => ({ Authorization: `Bearer ${signAccessToken(who.user.id, server.context.secret, server.context.now()).token}` });
+  const bearer = (who: SignedInUser) => ({ Authorization: `Bearer ${freshToken(server, who)}` });
   const filesInUploads = () => (existsSync(uploadsDir) ? readdirSync(uploadsDir).sort() : []);
   const uploadRows = () => server.context.dataSource.manager.count(Upload);
   const rowOf = (id: string) => server.context.dataSource.manager.findOneByOrFail(Upload, { id });
@@ -267,8 +266,10 @@ describe('uploads: one path for every photo', () => {
       expect(await rowOf(first.id)).toMatchObject({ ownerKind: 'inspection', ownerId: inspectionId });
       await request(server.app).get(`/api/uploads/${first.id}`).set(bearer(operator)).expect(200);
       await request(server.app).get(`/api/uploads/${first.id}/thumbnail`).set(bearer(viewer)).expect(200);
-      // Attaching again to the same record is harmless (e.g. a retried request).
-      await attach([first.id], 'inspection', inspectionId, rigger.user);
+      // A photo is the evidence of one record: attaching it again is refused, even to the same owner
+      // (on the board the owner is the job, so "same owner" would let one photo stand for two steps).
+      const again = await refusal(attach([first.id], 'inspection', inspectionId, rigger.user));
+      expect([again.status, again.code, again.fields?.map((f) => f.path)]).toEqual([409, 'photo_already_used', ['photoIds.0']]);
     });
 
     it('keeps a defect photo to its uploader and admins for now', async () => {
@@ -300,11 +301,12 @@ describe('uploads: one path for every photo', () => {
       const err = await refusal(attach([free.id, taken.id, randomUUID(), free.id], 'inspection', randomUUID(), rigger.user));
       expect(err.status).toBe(400);
       expect(err.fields?.map((f) => f.path)).toEqual(['photoIds.1', 'photoIds.2', 'photoIds.3']);
-      expect(err.fields?.[0].message).toMatch(/already belongs to another record/);
+      expect(err.fields?.[0].message).toMatch(/already the evidence for an inspection/);
       expect(await rowOf(taken.id)).toMatchObject({ ownerKind: 'inspection', ownerId: firstOwner });
       expect((await rowOf(free.id)).ownerKind).toBeNull();
-      // Same owner id but another kind is still something else.
-      expect((await refusal(attach([taken.id], 'step', firstOwner, rigger.user))).fields?.[0].path).toBe('photoIds.0');
+      // Same owner id but another kind is still something else; reuse alone is its own code.
+      const reused = await refusal(attach([taken.id], 'step', firstOwner, rigger.user));
+      expect([reused.status, reused.code, reused.fields?.[0].path]).toEqual([409, 'photo_already_used', 'photoIds.0']);
     });
   });
 
