@@ -430,6 +430,15 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (c.componentId) {
       const component = await manager.findOneBy(Component, { id: c.componentId });
       if (!component) throw badRequest('There is no such component.', [{ path: 'componentId', message: 'Unknown component' }]);
+      // Only a part of this job's crane: one registered on its unit, or one whose serial a step of
+      // this board recorded as fitted. (An assist crane has no registered components.) A report
+      // here must not quarantine another crane's part behind its own crew's back.
+      const fittedHere = board.stages.some((s) => s.steps.some((st) => st.state === 'done' && st.records?.kind === 'serial' && st.doneBy?.value === component.serial));
+      if (component.unitId !== job.craneUnitId && !fittedHere) {
+        throw refuse(409, 'component_not_on_job', `${component.serial} is not a part of this job’s crane. Report a defect on another crane’s part on the fleet screens (an inspection), and tell that crane’s supervisor.`, [
+          { path: 'componentId', message: 'Not a part of this job’s crane' },
+        ]);
+      }
       serial = component.serial;
       // Quarantine through the fleet's own inspection path, in this same transaction.
       await recordInspection(manager, component.id, { result: 'damaged', notes: `Defect reported on the board: ${c.description}`, photoIds: [c.photoId] }, actor, now);

@@ -166,7 +166,8 @@ async function putTracked(context: AppContext, name: string, bytes: Buffer, writ
  * uploaded by the actor (or the actor is an admin) and belong to no record yet: a photo is the
  * evidence of one step, hold, defect or inspection only. On the board the owner is the job, so
  * "already attached" is refused even for the same job (the same photo must not stand for two
- * steps or defects). Otherwise it throws naming every failing `photoIds.N`: 409
+ * steps or defects). Otherwise it throws naming every failing `photoIds.N` (or the one-photo
+ * field, `photoId`): 409
  * `photo_already_used` when reuse is the only problem, else 400. Returns the uploads in the order given.
  */
 export async function attachUploads(
@@ -186,7 +187,9 @@ export async function attachUploads(
   let reused = 0;
   const seen = new Set<string>();
   uploadIds.forEach((id, index) => {
-    const path = `${field}.${index}`;
+    // A list field names each entry (`photoIds.1`); a one-photo field (`photoId`) names itself,
+    // so the form shows the message beside its photo.
+    const path = field.endsWith('Ids') ? `${field}.${index}` : field;
     const upload = found.get(id);
     if (seen.has(id)) fields.push({ path, message: 'This photo is listed twice.' });
     else if (!upload) fields.push({ path, message: 'That photo was not found. Upload it again.' });
