@@ -70,12 +70,36 @@ async function assertComponentTypesKept(manager: EntityManager, modelId: string,
   }
 }
 
+/**
+ * How two fleet numbers or serials are compared: Unicode-normalised (NFKC) and without letter
+ * case, so `fl-07` is `FL-07`. What people type is stored as typed.
+ */
+export function identityKey(value: string): string {
+  return value.normalize('NFKC').toUpperCase();
+}
+
+/**
+ * Refuses a fleet number that another crane unit or assist crane already has, letter case
+ * ignored: on site one fleet number names one crane. The tables are small and every write goes
+ * through the one queue, so comparing in code here is exact; unique indexes that ignore ASCII
+ * case back it up (migration FleetIdentityNoCase).
+ */
+async function assertFleetNumberFree(manager: EntityManager, fleetNumber: string, exceptUnitId?: string): Promise<void> {
+  const key = identityKey(fleetNumber);
+  const units = await manager.find(CraneUnit, { select: { id: true, fleetNumber: true } });
+  const assists = await manager.find(AssistCrane, { select: { id: true, fleetNumber: true } });
+  const taken = [...units.filter((u) => u.id !== exceptUnitId), ...assists].find((c) => identityKey(c.fleetNumber) === key);
+  if (taken) {
+    throw conflict('fleet_number_taken', taken.fleetNumber === fleetNumber ? `Fleet number ${fleetNumber} is already in use.` : `Fleet number ${fleetNumber} is already in use as ${taken.fleetNumber}: letter case does not make another crane.`);
+  }
+}
+
 /** Adds a crane unit by fleet number. */
 export async function createCraneUnit(context: AppContext, input: Input<typeof createCraneUnitSchema>): Promise<CraneUnit> {
   const now = context.now().toISOString();
   return context.queue.transaction(async (manager) => {
     if (!(await manager.existsBy(CraneModel, { id: input.modelId }))) throw badRequest('Choose a crane model that exists.', [{ path: 'modelId', message: 'No such crane model' }]);
-    if (await manager.existsBy(CraneUnit, { fleetNumber: input.fleetNumber })) throw conflict('fleet_number_taken', `Fleet number ${input.fleetNumber} is already in use.`);
+    await assertFleetNumberFree(manager, input.fleetNumber);
     return manager.save(manager.create(CraneUnit, { id: randomUUID(), ...input, createdAt: now, updatedAt: now }));
   });
 }
@@ -90,9 +114,7 @@ export async function updateCraneUnit(context: AppContext, unitId: string, chang
       if (!(await manager.existsBy(CraneModel, { id: changes.modelId }))) throw badRequest('Choose a crane model that exists.', [{ path: 'modelId', message: 'No such crane model' }]);
       if (await manager.existsBy(Component, { unitId })) throw conflict('unit_has_components', 'Move or retire this unit’s components before changing its model.');
     }
-    if (changes.fleetNumber && changes.fleetNumber !== unit.fleetNumber && (await manager.existsBy(CraneUnit, { fleetNumber: changes.fleetNumber }))) {
-      throw conflict('fleet_number_taken', `Fleet number ${changes.fleetNumber} is already in use.`);
-    }
+    if (changes.fleetNumber && changes.fleetNumber !== unit.fleetNumber) await assertFleetNumberFree(manager, changes.fleetNumber, unit.id);
     Object.assign(unit, changes, { updatedAt: now });
     return manager.save(unit);
   });
@@ -102,7 +124,7 @@ export async function updateCraneUnit(context: AppContext, unitId: string, chang
 export async function createAssistCrane(context: AppContext, input: Input<typeof createAssistCraneSchema>): Promise<AssistCrane> {
   const now = context.now().toISOString();
   return context.queue.transaction(async (manager) => {
-    if (await manager.existsBy(AssistCrane, { fleetNumber: input.fleetNumber })) throw conflict('fleet_number_taken', `Fleet number ${input.fleetNumber} is already in use.`);
+    await assertFleetNumberFree(manager, input.fleetNumber);
     if (input.operatorUserId && !(await manager.existsBy(User, { id: input.operatorUserId }))) {
       throw badRequest('Choose an operator who has an account, or leave it empty.', [{ path: 'operatorUserId', message: 'No such person' }]);
     }
@@ -120,7 +142,8 @@ export async function createComponent(context: AppContext, input: Input<typeof c
       throw badRequest('That type is not in the model’s arrangement data.', [{ path: 'typeId', message: `No ${input.kind.replace('_', ' ')} type "${input.typeId}" in this model` }]);
     }
     await assertUnitOfModel(manager, input.unitId, model.id);
-    if (await manager.existsBy(Component, { serial: input.serial })) throw conflict('serial_taken', `Serial number ${input.serial} is already registered.`);
+    const sameSerial = (await manager.find(Component, { select: { id: true, serial: true } })).find((c) => identityKey(c.serial) === identityKey(input.serial));
+    if (sameSerial) throw conflict('serial_taken', sameSerial.serial === input.serial ? `Serial number ${input.serial} is already registered.` : `Serial number ${input.serial} is already registered as ${sameSerial.serial}: letter case does not make another part.`);
     return manager.save(manager.create(Component, { id: randomUUID(), ...input, status: 'serviceable', retiredReason: null, createdAt: now, updatedAt: now }));
   });
 }
