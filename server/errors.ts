@@ -2,7 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { z } from 'zod';
 import { fieldsFromZod, type ApiError, type FieldError } from '../shared/schemas/errors.js';
 import { storageFaultOf } from './db/faults.js';
-import type { Logger } from './logger.js';
+import { loggableUrl, type Logger } from './logger.js';
 
 /** An error meant for the client: HTTP status, stable code, readable message. */
 export class HttpError extends Error {
@@ -84,7 +84,7 @@ export function refusalOf(err: unknown, logger: Logger, where: Record<string, un
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err: unknown, req, res, _next) => {
     if (res.headersSent) return;
-    const httpError = toHttpError(err, logger, { method: req.method, url: req.originalUrl });
+    const httpError = toHttpError(err, logger, { method: req.method, url: loggableUrl(req.originalUrl) });
     // A storage fault or a restart passes: say when to try again.
     if (httpError.status === 503) res.setHeader('Retry-After', '5');
     res.status(httpError.status).json(httpError.toBody());

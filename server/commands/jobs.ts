@@ -17,11 +17,12 @@ import { Job } from '../entities/Job.js';
 import { JobCrew } from '../entities/JobCrew.js';
 import { JobOverride } from '../entities/JobOverride.js';
 import { User } from '../entities/User.js';
-import { badRequest, conflict, forbidden, HttpError } from '../errors.js';
-import { can } from '../policies/index.js';
+import { badRequest, conflict, forbidden, HttpError, secondAdminNeeded } from '../errors.js';
+import { can, liveJobAccess, type LiveJobAccess } from '../policies/index.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { unitInventory } from '../queries/fleet.js';
 import { refreshGeneratedDraft } from './plan-drafts.js';
+import { recordSignInAudit } from './audit.js';
 import { createJobWithEvent, runJobCommand, type CommandOutcome } from './job-writer.js';
 
 /** The role a planning change is recorded under: the job's supervisor, or an admin acting as such. */
@@ -108,7 +109,9 @@ const boardStates: readonly Job['state'][] = ['ready', 'live', 'stopped', 'made_
  * whose person leaves (or leaves that role) are withdrawn in the same event, and the hold says why.
  */
 export async function setCrew(context: AppContext, actor: User, jobId: string, members: { userId: string; role: CrewRole }[], commandId?: string): Promise<CommandOutcome> {
-  return runJobCommand(context, jobId, { commandId, body: { members }, actor }, async (manager, job) => {
+  /** What each person whose roles changed may still receive live from the job, worked out under the queue with the change. */
+  let access: { userId: string; access: LiveJobAccess }[] = [];
+  const outcome = await runJobCommand(context, jobId, { commandId, body: { members }, actor }, async (manager, job) => {
     const role = await planningRole(manager, job, actor);
     requireState(job, [...crewEditStates], 'change the crew');
     const users = new Map((await manager.findBy(User, { id: In([...new Set(members.map((m) => m.userId))]) })).map((u) => [u.id, u]));
@@ -128,17 +131,38 @@ export async function setCrew(context: AppContext, actor: User, jobId: string, m
     const key = (m: { userId: string; role: string }) => `${m.userId}:${m.role}`;
     const beforeKeys = new Set(before.map(key));
     const afterKeys = new Set(unique.map(key));
+    const added = unique.filter((m) => !beforeKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role }));
+    const removed = before.filter((m) => !afterKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role }));
+    // An administrator's power to change any crew does not reach their own place in it: a second
+    // administrator (or the job's supervisor) puts them on or takes them off. (A supervisor of the
+    // job changes their own roles as any supervisor does: role 'supervisor' here.)
+    if (role === 'admin' && [...added, ...removed].some((m) => m.userId === actor.id)) throw secondAdminNeeded('put yourself on this job’s crew or take yourself off it', 'another administrator or the job’s supervisor');
+    const changed = [...new Set([...added, ...removed].map((m) => m.userId))];
+    const people = new Map((changed.length ? await manager.findBy(User, { id: In(changed) }) : []).map((u) => [u.id, u]));
+    access = changed.map((userId) => ({ userId, access: liveJobAccess(people.get(userId) ?? null, unique.filter((m) => m.userId === userId).map((m) => m.role)) }));
+    if (actor.isAdmin && changed.length) {
+      const names = (list: { userId: string; role: string }[]) => list.map((m) => `${people.get(m.userId)?.displayName ?? m.userId} as ${m.role}`).join(', ');
+      const detail = [added.length ? `added ${names(added)}` : '', removed.length ? `took off ${names(removed)}` : ''].filter(Boolean).join('; ');
+      await recordSignInAudit(manager, { kind: 'crew_changed', email: actor.email, userId: actor.id, detail: `${job.name} (${job.id}): ${detail}` }, context.now());
+    }
     return {
       type: 'crew.set',
       role,
       data: {
         crew: unique.map((m) => ({ userId: m.userId, name: users.get(m.userId)!.displayName, role: m.role })),
-        added: unique.filter((m) => !beforeKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
-        removed: before.filter((m) => !afterKeys.has(key(m))).map((m) => ({ userId: m.userId, role: m.role })),
+        added,
+        removed,
         ...(withdrawn.length ? { withdrawn } : {}),
       },
     };
   });
+  // After the commit and the crew.set event went out, before any later event of the job can: whoever
+  // is off the crew (and no admin) leaves the board on the sockets they have open, and is told why.
+  if (!outcome.replayed) {
+    const reason = `${actor.displayName} changed the crew of “${outcome.job.name}”: you are no longer on its crew, so its live board is closed for you. Ask the job’s supervisor if you should be on it.`;
+    for (const a of access) context.publisher.limitJobAccess(jobId, a.userId, a.access, reason);
+  }
+  return outcome;
 }
 
 /**
@@ -251,6 +275,10 @@ export async function requestOverride(context: AppContext, actor: User, jobId: s
 export async function approveOverride(context: AppContext, actor: User, jobId: string, overrideId: string, commandId?: string): Promise<CommandOutcome> {
   return runJobCommand(context, jobId, { commandId, body: { action: 'approve', overrideId }, actor }, async (manager, job) => {
     requireState(job, ['planning'], 'approve an override');
+    // The route asks the policy too; read again under the queue, so a crew change just committed counts.
+    if (!can(actor, 'jobs.override', { crewRoles: await crewRolesOf(manager, job.id, actor.id) })) {
+      throw forbidden('Only a supervisor in this job’s crew or an administrator can approve its overrides. Ask the job’s supervisor to add you to the crew.');
+    }
     const override = await manager.findOneBy(JobOverride, { id: overrideId, jobId: job.id });
     if (!override) throw badRequest('There is no such override on this job.', [{ path: 'overrideId', message: 'Unknown override' }]);
     if (override.approvedBy) throw conflict('already_approved', 'This override is already approved.');

@@ -9,7 +9,9 @@ import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import { JobCrew } from '../entities/JobCrew.js';
 import { User } from '../entities/User.js';
-import { conflict, notFound } from '../errors.js';
+import { conflict, notFound, secondAdminNeeded } from '../errors.js';
+import { liveJobAccess, type LiveJobAccess } from '../policies/index.js';
+import { crewRolesByJob } from '../queries/crew.js';
 import { invitationMail, resetMail } from '../mail/templates.js';
 import { recordSignInAudit } from './audit.js';
 import { runJobCommand } from './job-writer.js';
@@ -54,6 +56,8 @@ export async function inviteUser(context: AppContext, input: InviteUserRequest &
   const { user, token } = await context.queue.transaction(async (manager) => {
     const created = await createUser(manager, input);
     const link = await createSignInLink(manager, created.id, 'invitation', now);
+    const rights = [`qualifications ${created.qualifications.join(', ') || 'none'}`, ...(created.isAdmin ? ['administrator'] : []), ...(created.canInspect ? ['qualified to inspect'] : [])];
+    await recordSignInAudit(manager, { kind: 'user_invited', email: created.email, userId: created.id, detail: `by ${invitedBy.email}: ${rights.join('; ')}` }, now);
     return { user: created, token: link.token };
   });
   await context.mailer.send(invitationMail(user.email, user.displayName, linkUrl(context, token), invitedBy.displayName));
@@ -86,13 +90,30 @@ export async function requestPasswordReset(context: AppContext, email: string): 
   if (found) await context.mailer.send(resetMail(found.user.email, found.user.displayName, linkUrl(context, found.token)));
 }
 
+/** Each field a change really changes, in words for the audit ("qualifications rigger → rigger, operator"). */
+function changeWords(found: User, changes: UpdateUserRequest): string[] {
+  const yesNo = (v: boolean) => (v ? 'yes' : 'no');
+  const list = (q: readonly string[]) => (q.length ? q.join(', ') : 'none');
+  const out: string[] = [];
+  if (changes.displayName !== undefined && changes.displayName !== found.displayName) out.push(`name “${found.displayName}” → “${changes.displayName}”`);
+  if (changes.qualifications !== undefined) {
+    const next = [...new Set(changes.qualifications)];
+    if (next.length !== found.qualifications.length || next.some((q) => !found.qualifications.includes(q))) out.push(`qualifications ${list(found.qualifications)} → ${list(next)}`);
+  }
+  if (changes.isAdmin !== undefined && changes.isAdmin !== found.isAdmin) out.push(`administrator ${yesNo(found.isAdmin)} → ${yesNo(changes.isAdmin)}`);
+  if (changes.canInspect !== undefined && changes.canInspect !== found.canInspect) out.push(`qualified to inspect ${yesNo(found.canInspect)} → ${yesNo(changes.canInspect)}`);
+  return out;
+}
+
 /**
  * Changes a person's name, qualifications, admin flag or active flag. Deactivation revokes every
- * session and disconnects every socket at once. The last active admin cannot be removed.
+ * session and disconnects every socket at once. The last active admin cannot be removed. An
+ * administrator's own account is changed by another administrator (403 `second_admin_needed`),
+ * and every change is written to the audit.
  */
 export async function updateUser(context: AppContext, userId: string, changes: UpdateUserRequest, actor: User, ip: string | null): Promise<User> {
   const now = context.now();
-  const { user, deactivated } = await context.queue.transaction(async (manager) => {
+  const { user, deactivated, access } = await context.queue.transaction(async (manager) => {
     const found = await manager.findOneBy(User, { id: userId });
     if (!found) throw notFound('That person');
     if (changes.active === false && found.id === actor.id) throw conflict('self_deactivate', 'You cannot deactivate your own account. Ask another administrator.');
@@ -101,6 +122,9 @@ export async function updateUser(context: AppContext, userId: string, changes: U
       const admins = await manager.countBy(User, { isAdmin: true, active: true });
       if (admins <= 1) throw conflict('last_admin', 'This is the last active administrator. Make someone else an administrator first.');
     }
+    const words = changeWords(found, changes);
+    // Nobody grants themselves a qualification, the inspection mark or rights: a second administrator does.
+    if (found.id === actor.id && (words.length || (changes.active !== undefined && changes.active !== found.active))) throw secondAdminNeeded('change your own account');
     const wasActive = found.active;
     if (changes.displayName !== undefined) found.displayName = changes.displayName;
     if (changes.qualifications !== undefined) found.qualifications = [...new Set(changes.qualifications)];
@@ -109,14 +133,23 @@ export async function updateUser(context: AppContext, userId: string, changes: U
     if (changes.canInspect !== undefined) found.canInspect = changes.canInspect;
     found.updatedAt = now.toISOString();
     await manager.save(found);
+    if (words.length) await recordSignInAudit(manager, { kind: 'user_changed', email: found.email, userId: found.id, ip, detail: `by ${actor.email}: ${words.join('; ')}` }, now);
     if (wasActive && !found.active) {
       await revokeAllForUser(manager, found.id, now);
       await recordSignInAudit(manager, { kind: 'deactivated', email: found.email, userId: found.id, ip, detail: `by ${actor.email}` }, now);
     } else if (!wasActive && found.active) {
       await recordSignInAudit(manager, { kind: 'reactivated', email: found.email, userId: found.id, ip, detail: `by ${actor.email}` }, now);
     }
-    return { user: found, deactivated: wasActive && !found.active };
+    // An admin no longer: the boards they watch without being crew close on the sockets they have open.
+    let access: { jobId: string; access: LiveJobAccess }[] = [];
+    if (found.active && changes.isAdmin === false) {
+      const jobIds = context.publisher.jobsReachedBy(found.id);
+      const roles = await crewRolesByJob(manager, found.id, jobIds);
+      access = jobIds.map((jobId) => ({ jobId, access: liveJobAccess(found, roles.get(jobId) ?? []) }));
+    }
+    return { user: found, deactivated: wasActive && !found.active, access };
   });
+  for (const a of access) context.publisher.limitJobAccess(a.jobId, user.id, a.access, `${actor.displayName} made you no longer an administrator; you are not on this job’s crew, so its live board is closed for you.`);
   if (deactivated) {
     context.publisher.endSessions(user.id, 'Your account was deactivated by an administrator.');
     await withdrawDisabledAcknowledgments(context, user, actor, now);

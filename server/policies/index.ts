@@ -172,10 +172,12 @@ export const policyTable = [
     refusal: 'Only an administrator can make someone the acting supervisor. The usual way is the handover: the acting supervisor writes the note and the supervisor taking over acknowledges it.',
   },
   {
-    // The job's supervisors ask for an override; another supervisor or an admin approves it.
+    // The job's supervisors ask for an override; another of its supervisors or an admin approves
+    // it. A supervisor on no crew of the job has not planned it and approves nothing on it.
     action: 'jobs.override',
-    allow: ['admin', 'qualification:supervisor'],
+    allow: ['admin', 'crew:supervisor'],
     routes: ['POST /api/jobs/:jobId/overrides'],
+    refusal: 'Only a supervisor in this job’s crew or an administrator can ask for or approve its overrides. Ask the job’s supervisor to add you to the crew.',
   },
   {
     // The coarse rule; `canSeeUpload` then decides by what the photo belongs to.
@@ -232,6 +234,25 @@ export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedB
       // Board photos belong to a job (their owner id is the job's): its crew and watchers see them.
       return can(actor, 'board.watch', { crewRoles: jobCrewRoles });
   }
+}
+
+/** What a person's open sockets may go on receiving from one job (re-checked when their crew roles or admin flag change). */
+export interface LiveJobAccess {
+  /** The board's events and presence (`board.watch`). */
+  watch: boolean;
+  /** The planners' unredacted copy of the events (`jobs.plan`). */
+  planner: boolean;
+  /** The job's list line (`jobs.read`). */
+  read: boolean;
+}
+
+/** The live access the policy gives this person to a job on which they hold these crew roles. */
+export function liveJobAccess(actor: User | null, crewRoles: readonly Qualification[]): LiveJobAccess {
+  return {
+    watch: can(actor, 'board.watch', { crewRoles }),
+    planner: can(actor, 'jobs.plan', { crewRoles }),
+    read: can(actor, 'jobs.read', { crewRoles }),
+  };
 }
 
 /** Throws 401 when nobody is signed in and sign-in would help, 403 when the person may not. */

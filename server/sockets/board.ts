@@ -13,7 +13,7 @@ import { authorize, can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
 import { crewRolesByJob, crewRolesOf } from '../queries/crew.js';
 import { eventsAfter } from '../queries/events.js';
-import { socketTokenValid, type HoldlineSocket } from './auth.js';
+import { checkSocketSession, type HoldlineSocket } from './auth.js';
 import { jobRoom, plannerRoom, summaryRoom, type BoardPublisher } from './publisher.js';
 
 /** A rejoining client gets at most this many missed events; beyond it, a fresh snapshot. */
@@ -58,17 +58,32 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           const parsed = joinSchema.safeParse(payload);
           if (!parsed.success) throw badRequest('Say which job to join.', fieldsFromZod(parsed.error));
           const { jobId, afterSeq } = parsed.data;
+          await checkSocketSession(context, socket);
           const user = await actorOf(socket);
           const job = await manager.findOneBy(Job, { id: jobId });
           if (!job) throw notFound('That job');
           const roles = await crewRolesOf(manager, jobId, user.id);
           authorize(user, 'board.watch', { crewRoles: roles });
           // Join the room before reading, so nothing committed in between is missed: the client drops duplicates by seq.
-          const planner = can(user, 'jobs.plan', { crewRoles: roles });
+          let planner = can(user, 'jobs.plan', { crewRoles: roles });
           await socket.join(planner ? [jobRoom(jobId), plannerRoom(jobId)] : jobRoom(jobId));
           joined.add(jobId);
           presence.join(jobId, socket.id, { userId: user.id, name: user.displayName, roles });
           return await context.queue.run(async (): Promise<JoinAnswer> => {
+            // Asked again under the queue: a crew change that committed since the check above has
+            // either found this socket in the room (and taken it out) or is seen here.
+            const rolesNow = await crewRolesOf(manager, jobId, user.id);
+            if (!can(user, 'board.watch', { crewRoles: rolesNow })) {
+              joined.delete(jobId);
+              presence.leave(jobId, socket.id);
+              await socket.leave(jobRoom(jobId));
+              await socket.leave(plannerRoom(jobId));
+              authorize(user, 'board.watch', { crewRoles: rolesNow });
+            }
+            if (planner && !can(user, 'jobs.plan', { crewRoles: rolesNow })) {
+              planner = false;
+              await socket.leave(plannerRoom(jobId));
+            }
             const current = await manager.findOneByOrFail(Job, { id: jobId });
             publisher.noteSeq(jobId, current.lastSeq);
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
@@ -98,7 +113,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
       if (typeof ack !== 'function') return;
       const answer = await (async (): Promise<CommandAnswer> => {
         try {
-          if (!socketTokenValid(socket, context.now())) throw new HttpError(401, 'token_expired', 'Your session needs renewing before you can act. Reconnecting…');
+          await checkSocketSession(context, socket);
           const parsed = commandPayloadSchema.safeParse(payload);
           if (!parsed.success) throw badRequest('The command is not valid.', fieldsFromZod(parsed.error));
           const user = await actorOf(socket);
@@ -118,6 +133,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
       try {
         const parsed = followSchema.safeParse(payload);
         if (!parsed.success) throw badRequest(`Follow at most ${FOLLOW_LIMIT} jobs by their ids.`, fieldsFromZod(parsed.error));
+        await checkSocketSession(context, socket);
         const user = await actorOf(socket);
         const ids = [...new Set(parsed.data.jobIds)];
         const jobs = ids.length ? await manager.findBy(Job, { id: In(ids) }) : [];

@@ -2,7 +2,8 @@ import type { PresenceEntry } from '../../shared/board/types.js';
 import type { JobEventDto } from '../../shared/events/log.js';
 import type { Publisher } from '../context.js';
 import { eventNeedsRedaction, redactEventFor } from '../presenters/board.js';
-import { userRoom, type HoldlineServer } from './auth.js';
+import type { LiveJobAccess } from '../policies/index.js';
+import { sessionRoom, userRoom, type HoldlineServer, type HoldlineSocket } from './auth.js';
 
 export const jobRoom = (jobId: string) => `job:${jobId}`;
 /** The job's planners (its supervisors, admins): they get events unredacted (server/presenters/board.ts). */
@@ -98,8 +99,50 @@ export class BoardPublisher implements Publisher {
     this.io.in(userRoom(userId)).disconnectSockets(true);
   }
 
+  endSession(sessionId: string, reason: string): void {
+    this.io.to(sessionRoom(sessionId)).emit('session:ended', { reason });
+    this.io.in(sessionRoom(sessionId)).disconnectSockets(true);
+  }
+
+  endSessionsExcept(userId: string, keepSessionId: string, reason: string): void {
+    this.io.to(userRoom(userId)).except(sessionRoom(keepSessionId)).emit('session:ended', { reason });
+    this.io.in(userRoom(userId)).except(sessionRoom(keepSessionId)).disconnectSockets(true);
+  }
+
   presenceOf(jobId: string): PresenceEntry[] {
     return this.presence.list(jobId);
+  }
+
+  /** This process's sockets of one person (one Node process, Socket.IO's in-memory adapter). */
+  private socketsOf(userId: string): HoldlineSocket[] {
+    const ids = this.io.of('/').adapter.rooms.get(userRoom(userId)) ?? new Set<string>();
+    return [...ids].flatMap((id) => this.io.of('/').sockets.get(id) ?? []);
+  }
+
+  jobsReachedBy(userId: string): string[] {
+    const jobs = new Set<string>();
+    for (const socket of this.socketsOf(userId)) {
+      for (const room of socket.rooms) {
+        const match = /^(?:job|summary):([^:]+)$/.exec(room);
+        if (match) jobs.add(match[1]);
+      }
+    }
+    return [...jobs];
+  }
+
+  // Synchronous, so it runs before any later event of the job is published.
+  limitJobAccess(jobId: string, userId: string, access: LiveJobAccess, reason: string): void {
+    for (const socket of this.socketsOf(userId)) {
+      if (!access.watch && socket.rooms.has(jobRoom(jobId))) {
+        void socket.leave(jobRoom(jobId));
+        void socket.leave(plannerRoom(jobId));
+        this.presence.leave(jobId, socket.id);
+        socket.emit('board:removed', { jobId, reason });
+      } else if (!access.planner) {
+        void socket.leave(plannerRoom(jobId));
+      }
+      if (!access.read) void socket.leave(summaryRoom(jobId));
+    }
   }
 
   /** Records a board's sequence number as read under the write queue (a join), never moving it back. */

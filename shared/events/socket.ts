@@ -12,6 +12,12 @@ export type Ack<T = Record<string, never>> =
 export interface ServerToClientEvents extends BoardServerEvents {
   /** The session behind this socket ended (deactivated, signed out); the socket is closed next. */
   'session:ended': (payload: { reason: string }) => void;
+  /**
+   * The server is shutting down to restart (SIGTERM): it refuses new commands (`server_restarting`),
+   * finishes those already queued, then closes. The board shows "Server restarting" and reconnects
+   * and catches up by itself.
+   */
+  'server:restarting': (payload: { at: string }) => void;
 }
 
 /** Events the client sends. */
@@ -53,6 +59,11 @@ export interface BoardServerEvents {
   'board:event': (event: JobEventDto) => void;
   'board:tick': (payload: { jobId: string; seq: number; at: string }) => void;
   'board:presence': (payload: { jobId: string; joined: PresenceEntry[]; left: string[] }) => void;
+  /**
+   * This socket no longer receives the job's board: the person was taken off its crew (or lost the
+   * right to watch it). `reason` says why, in words for them; rejoining is refused.
+   */
+  'board:removed': (payload: { jobId: string; reason: string }) => void;
   /** A followed job changed (see `jobs:follow`). */
   'jobs:summary': (payload: JobSummaryUpdate) => void;
 }

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 
-/** What the sign-in audit records; never a password or a token. */
+/** What the sign-in audit records (and every change an administrator makes to people and crews); never a password or a token. */
 export const signInAuditKinds = [
   'sign_in',
   'sign_in_failed',
@@ -11,6 +11,10 @@ export const signInAuditKinds = [
   'password_set',
   'deactivated',
   'reactivated',
+  // Administrators' changes: an account's details, rights or qualifications; an invitation; a crew.
+  'user_changed',
+  'user_invited',
+  'crew_changed',
 ] as const;
 export const signInAuditKindSchema = z.enum(signInAuditKinds);
 export type SignInAuditKind = z.infer<typeof signInAuditKindSchema>;

@@ -129,6 +129,14 @@ export const useBoardStore = defineStore('board', () => {
     const onPresence = (p: Parameters<BoardFollower['onPresence']>[0]) => f.onPresence(p);
     const onConnect = () => void join();
     const onDisconnect = () => f.onDisconnect();
+    // Taken off the crew while watching: the server stops sending this board and says why; the
+    // board closes with that sentence instead of going quiet as if the connection were lost.
+    const onRemoved = (p: { jobId: string; reason: string }) => {
+      if (p.jobId !== id) return;
+      close();
+      error.value = p.reason;
+    };
+    s.on('board:removed', onRemoved);
     s.on('disconnect', onDisconnect);
     s.on('board:event', onEvent);
     s.on('board:tick', onTick);
@@ -140,6 +148,7 @@ export const useBoardStore = defineStore('board', () => {
       s.off('board:presence', onPresence);
       s.off('connect', onConnect);
       s.off('disconnect', onDisconnect);
+      s.off('board:removed', onRemoved);
     });
     livenessTimer = setInterval(() => f.checkLiveness(), 250);
     if (s.connected) await join();

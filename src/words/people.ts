@@ -12,6 +12,9 @@ export const auditKindWords: Record<SignInAuditKind, string> = {
   password_set: 'Password set',
   deactivated: 'Account deactivated',
   reactivated: 'Account reactivated',
+  user_changed: 'Account changed by an administrator',
+  user_invited: 'Invited by an administrator',
+  crew_changed: 'Crew changed by an administrator',
 };
 
 /** Which audit entries deserve a second look; shown with a warning shape as well as colour. */
@@ -25,6 +28,9 @@ export const auditKindTone: Record<SignInAuditKind, 'normal' | 'warning'> = {
   password_set: 'normal',
   deactivated: 'warning',
   reactivated: 'normal',
+  user_changed: 'normal',
+  user_invited: 'normal',
+  crew_changed: 'normal',
 };
 
 /** The inspection flag on the people screen: Holdline records the admin's word, it does not judge anyone's qualification. */
@@ -35,6 +41,9 @@ export const INSPECT_WORDS = {
     'You confirm this qualification yourself. Licensed practice and the local codes decide who may inspect an assembled crane; Holdline only records what you set here.',
   chip: 'Inspector',
 } as const;
+
+/** Why an administrator's own account is read-only to them (the server answers `second_admin_needed`). */
+export const SELF_CHANGE_WORDS = 'Another administrator changes your own name, qualifications and rights, so that nobody gives themselves rights alone.';
 
 /** A status in words and the icon that goes with its colour. */
 export const statusWords: Record<PersonStatus, { label: string; icon: string }> = {

@@ -135,6 +135,22 @@ describe('stores that follow the open board', () => {
     expect(fetchMock.mock.calls.length).toBe(requestsBefore);
   });
 
+  it('closes the board with the server’s words when the person is taken off the crew, and ignores another job’s notice', async () => {
+    const board = useBoardStore();
+    await board.open(JOB_ID);
+    expect(board.board?.job.id).toBe(JOB_ID);
+    fake.deliver('board:removed', { jobId: 'another-job', reason: 'Not this board.' });
+    expect(board.board?.job.id).toBe(JOB_ID);
+    const reason = 'Maren Holt changed the crew of “Boom erection for the pump house”: you are no longer on its crew, so its live board is closed for you.';
+    fake.deliver('board:removed', { jobId: JOB_ID, reason });
+    expect(board.board).toBeNull();
+    expect(board.live).toBe(false);
+    expect(board.error).toBe(reason);
+    // Nothing more reaches the closed board.
+    fake.deliver('board:event', started(6));
+    expect(board.board).toBeNull();
+  });
+
   it('ignores an event the board already has, and reads the open job back once for a burst of changes the board does not carry', async () => {
     const jobs = useJobsStore();
     fetchMock.mockResolvedValueOnce(json(200, { items: [summary()] }));

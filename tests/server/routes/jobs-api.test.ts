@@ -94,7 +94,7 @@ describe('jobs, crews, configuration and the event log', () => {
     expect(arrangementDataSchema.parse(demoArrangement()).id).toBe('mhw-250l');
   });
 
-  it('a lift between the caution share and 100 % of the chart needs an override with a reason, approved by a second supervisor', async () => {
+  it('a lift between the caution share and 100 % of the chart needs an override with a reason, approved by a second supervisor of its crew', async () => {
     const job = await newJob();
     await crewUp(job.id);
     // 56 t + 0.8 t + the HB120 block (2.7 t) + 10 falls × 18.41 m × 3.8 kg/m of rope (0.70 t) at 10 m on the 18 m chart
@@ -121,7 +121,14 @@ describe('jobs, crews, configuration and the event log', () => {
     const overrideId = requested.overrides[0].id;
     expect((await overrides(supervisor, { action: 'approve', overrideId }).expect(409)).body.error.code).toBe('same_person');
     await overrides(operator, { action: 'approve', overrideId }).expect(403);
+    // A qualified supervisor on no crew of this job approves nothing on it (they did not plan it).
+    expect((await overrides(supervisor2, { action: 'approve', overrideId }).expect(403)).body.error.message).toMatch(/supervisor in this job’s crew/);
     expect(await figureReasons()).toHaveLength(1);
+    await request(server.app)
+      .put(`/api/jobs/${job.id}/crew`)
+      .set(as(supervisor))
+      .send({ members: [...requested.crew.map((m) => ({ userId: m.userId, role: m.role })), { userId: supervisor2.user.id, role: 'supervisor' }] })
+      .expect(200);
     await overrides(supervisor2, { action: 'approve', overrideId }).expect(200);
     expect(await figureReasons()).toEqual([]);
   });
