@@ -1,3 +1,5 @@
+// First: no schema may parse before zod is told not to compile with eval (the content security policy).
+import './boot/strict-policy';
 import { createApp } from 'vue';
 import { createPinia } from 'pinia';
 import { Dialog, Notify, Quasar } from 'quasar';

@@ -1,6 +1,7 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type Locator, type Page } from 'playwright-core';
+import { afterEach } from 'vitest';
 
 export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 /** Screenshots land here (git-ignored) so a person can look at them. */
@@ -17,6 +18,43 @@ export interface LaunchedBrowser {
   browser: Browser;
   close(): Promise<void>;
 }
+
+/**
+ * Content security policy violations seen by any page of any browser launched here. Every page
+ * reports them twice over: the document's `securitypolicyviolation` event (an init script turns it
+ * into a console error with a marker) and Chromium's own "Refused to ..." console error, which
+ * also covers workers. The `afterEach` below fails the test during which one happened, so every
+ * browser test also proves the built client runs under the server's policy.
+ */
+const cspViolations: string[] = [];
+const CSP_MARKER = '[holdline-csp-violation]';
+const watchedContexts = new WeakSet<BrowserContext>();
+
+async function watchForCspViolations(context: BrowserContext): Promise<BrowserContext> {
+  if (watchedContexts.has(context)) return context;
+  watchedContexts.add(context);
+  await context.addInitScript((marker: string) => {
+    document.addEventListener('securitypolicyviolation', (e) => {
+      console.error(`${marker} ${e.violatedDirective} blocked ${e.blockedURI || '(inline)'} at ${e.sourceFile}:${e.lineNumber}`);
+    });
+  }, CSP_MARKER);
+  context.on('console', (message) => {
+    const text = message.text();
+    if (text.includes(CSP_MARKER) || /Content Security Policy/i.test(text)) cspViolations.push(`${message.page()?.url() ?? '(no page)'}: ${text}`);
+  });
+  return context;
+}
+
+/** Throws (failing the test or hook that calls it) when a page broke the content security policy since the last call. */
+export function expectNoCspViolations(): void {
+  if (cspViolations.length === 0) return;
+  const seen = cspViolations.splice(0);
+  throw new Error(`The page broke the content security policy (${seen.length}):\n${seen.join('\n')}`);
+}
+
+afterEach(() => {
+  expectNoCspViolations();
+});
 
 /**
  * Launches Debian's Chromium with the flags this closed network needs. Playwright gives every
@@ -39,10 +77,21 @@ export async function launchBrowser(): Promise<LaunchedBrowser> {
       '--disable-sync',
     ],
   });
+  // Every context, made directly or through newPage, is watched for policy violations.
+  const newContext = browser.newContext.bind(browser);
+  browser.newContext = async (...args: Parameters<Browser['newContext']>) => watchForCspViolations(await newContext(...args));
+  const newPage = browser.newPage.bind(browser);
+  browser.newPage = async (...args: Parameters<Browser['newPage']>) => {
+    const page = await newPage(...args);
+    await watchForCspViolations(page.context());
+    return page;
+  };
   return {
     browser,
     async close() {
       await browser.close();
+      // A violation after the last test (in an afterAll) still fails the file.
+      expectNoCspViolations();
     },
   };
 }
