@@ -1,4 +1,4 @@
-import { mkdir, open, unlink, writeFile } from 'node:fs/promises';
+import { chmod, mkdir, open, stat, unlink, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { assertStoredName, type Storage, type StoredFile } from './index.js';
 
@@ -21,10 +21,24 @@ export class LocalDiskStorage implements Storage {
 
   async put(name: string, bytes: Buffer): Promise<void> {
     const file = this.pathOf(name);
-    // Created on first use so a fresh data folder needs no setup step.
-    await mkdir(this.folder, { recursive: true });
+    await this.ensureFolder();
     // 'wx': fail instead of overwriting; a uuid clash would otherwise replace someone's photo.
-    await writeFile(file, bytes, { flag: 'wx', mode: 0o640 });
+    // 0600: the photos are records, for the server's user only.
+    await writeFile(file, bytes, { flag: 'wx', mode: 0o600 });
+  }
+
+  private folderReady = false;
+
+  /**
+   * Created on first use so a fresh data folder needs no setup step, for the server's user only
+   * (0700); a folder an earlier version made readable to others is tightened on the first write.
+   */
+  private async ensureFolder(): Promise<void> {
+    await mkdir(this.folder, { recursive: true, mode: 0o700 });
+    if (this.folderReady) return;
+    const mode = (await stat(this.folder)).mode & 0o777;
+    if (mode & 0o077) await chmod(this.folder, mode & 0o700);
+    this.folderReady = true;
   }
 
   async get(name: string): Promise<StoredFile | null> {
