@@ -11,7 +11,9 @@ export default defineConfig({
   server: {
     port: 5173,
     proxy: {
-      '/api': `http://localhost:${serverPort}`,
+      // The browser's Host is kept (no changeOrigin) so the server sees the page's Origin naming
+      // the address the request came to and lets it through (server/middlewares/security.ts).
+      '/api': { target: `http://localhost:${serverPort}`, changeOrigin: false },
       '/socket.io': { target: `http://localhost:${serverPort}`, ws: true },
     },
   },
