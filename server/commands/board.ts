@@ -8,7 +8,7 @@ import { holdsNeedPeople, protectsMandatoryHold, revisionProblems } from '../../
 import { actingSupervisorCommands, commandsBeforeBriefing, commandsWhileMadeSafe, commandsWhileMakingSafe, commandsWhileStopped, type BoardCommand } from '../../shared/schemas/commands.js';
 import { briefingShift, handoverFacts, isActingSupervisor, isBriefed, makeSafeChecklist, shiftEndBlockers, shiftOf, shiftStartMissing } from '../../shared/board/shifts.js';
 import { JobOverride } from '../entities/JobOverride.js';
-import { siteDateTime } from '../../shared/time.js';
+import { siteDateTime, siteTime } from '../../shared/time.js';
 import { authorizeBoardCommand, boardCommandRoles } from '../policies/index.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
@@ -330,6 +330,11 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     const stage = stageOfHold(board, c.holdId);
     notBlocked(stage);
     const hold = stage.hold!;
+    // Two presses (two devices, a retry with a new id) race: the second is told who released it and when.
+    if (hold.state === 'released') {
+      const by = hold.releasedBy;
+      throw refuse(409, 'already_released', `“${hold.title}” is already released${by ? ` by ${by.name} at ${siteTime(by.at, job.timeZone)}` : ''}. Nothing more to do for this hold.`);
+    }
     if (hold.state !== 'acknowledged') {
       const missing: string[] = hold.requiredRoles.filter((r) => !hold.acknowledgments.some((a) => !a.inspector && a.role === r));
       if (hold.signOff && !hold.acknowledgments.some((a) => a.inspector)) missing.push('a qualified inspector');

@@ -16,8 +16,11 @@ import { findByIdOr404 } from './find.js';
 export async function loadJobFor(context: AppContext, req: Request, action: Action): Promise<{ job: Job; actor: User; crewRoles: CrewRole[] }> {
   const actor = req.actor ?? null;
   if (!actor) throw req.authProblem ?? unauthorized();
-  const job = await findByIdOr404(context.dataSource.manager, Job, String(req.params.jobId), 'That job');
-  const crewRoles = await crewRolesOf(context.dataSource.manager, job.id, actor.id);
+  // Read through the queue: a change still being written (which may yet fail) is never what a request sees or is allowed by.
+  const { job, crewRoles } = await context.queue.run(async () => {
+    const found = await findByIdOr404(context.dataSource.manager, Job, String(req.params.jobId), 'That job');
+    return { job: found, crewRoles: await crewRolesOf(context.dataSource.manager, found.id, actor.id) };
+  });
   authorize(actor, action, { crewRoles });
   return { job, actor, crewRoles };
 }

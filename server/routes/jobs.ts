@@ -25,11 +25,12 @@ const eventsQuerySchema = z.object({ after: z.coerce.number().int().min(0).defau
 export function jobsRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
-  const answerJob = async (jobId: string, actor: User) => jobFor(manager, await manager.findOneByOrFail(Job, { id: jobId }), actor);
+  // Reads of a job go through the queue (as GET /board does), so nobody is shown a change that is still being written and may yet fail.
+  const answerJob = (jobId: string, actor: User) => context.queue.run(async () => jobFor(manager, await manager.findOneByOrFail(Job, { id: jobId }), actor));
 
   router.get('/jobs', async (req, res) => {
     authorize(req.actor ?? null, 'jobs.list', {}, req.authProblem);
-    res.json({ items: await jobsVisibleTo(manager, req.actor!) });
+    res.json({ items: await context.queue.run(() => jobsVisibleTo(manager, req.actor!)) });
   });
 
   router.post('/jobs', async (req, res) => {
@@ -41,7 +42,7 @@ export function jobsRouter(context: AppContext): Router {
 
   router.get('/jobs/:jobId', async (req, res) => {
     const { job, actor } = await loadJobFor(context, req, 'jobs.read');
-    res.json({ job: await jobFor(manager, job, actor) });
+    res.json({ job: await answerJob(job.id, actor) });
   });
 
   router.patch('/jobs/:jobId', async (req, res) => {
@@ -87,7 +88,13 @@ export function jobsRouter(context: AppContext): Router {
     const { job, actor, crewRoles } = await loadJobFor(context, req, 'jobs.read');
     const { after } = parseOrThrow(eventsQuerySchema, req.query, 'query');
     const planner = can(actor, 'jobs.plan', { crewRoles });
-    res.json({ items: await eventsAfter(manager, job.id, after, { planner, limit: EVENTS_PAGE_LIMIT }), lastSeq: job.lastSeq });
+    // The page and the last seq from one queued read: never an event that is not committed, never a last seq older than the page.
+    res.json(
+      await context.queue.run(async () => ({
+        items: await eventsAfter(manager, job.id, after, { planner, limit: EVENTS_PAGE_LIMIT }),
+        lastSeq: (await manager.findOneByOrFail(Job, { id: job.id })).lastSeq,
+      })),
+    );
   });
 
   router.get('/jobs/:jobId/readiness', async (req, res) => {

@@ -198,6 +198,7 @@ export const refusalCodes = [
   'server_restarting',
   // The board's state and rules (server/commands/board.ts)
   'invalid_state',
+  'already_released',
   'job_stopped',
   'job_closed',
   'not_inspector',
