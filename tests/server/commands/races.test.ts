@@ -173,7 +173,17 @@ describe('races on one board', () => {
         expect(seen, `${key}'s socket`).toEqual(rows.slice(joinedAt).map((r) => r.seq));
       }
     }
+    checked = { seq: rows.length, board };
     return { log: rows.filter((e) => e.seq > fromSeq), board };
+  }
+
+  /** The last checked log and board, checked again only when something was committed since (a race starts where the last one ended). */
+  let checked: { seq: number; board: BoardState } | null = null;
+  async function settled(): Promise<{ seq: number; board: BoardState }> {
+    const lastSeq = await server.context.queue.run(async () => (await server.context.dataSource.manager.findOneByOrFail(Job, { id: jobId })).lastSeq);
+    if (checked?.seq === lastSeq) return checked;
+    await checkLog(jobId, 0);
+    return checked!;
   }
 
   /**
@@ -315,15 +325,17 @@ describe('races on one board', () => {
   it('acknowledgments and withdrawals of one hold from every transport at once end as some order of them would', async () => {
     const required = groundHold(await boardNow(jobId)).requiredRoles as CrewRole[];
     expect(required).toEqual(['supervisor', 'operator', 'signaller']);
-    const move = fc.record({ who: fc.constantFrom(...keys), kind: fc.constantFrom('ack', 'ack', 'withdraw', 'release'), via, delayMs: delay, resend: fc.option(via, { nil: undefined }) });
+    // 'turn': whoever has acknowledged withdraws, whoever has not acknowledges (as the hold stood before the race), so runs keep moving the hold.
+    const move = fc.record({ who: fc.constantFrom(...keys), kind: fc.constantFrom('turn', 'turn', 'ack', 'withdraw', 'release'), via, delayMs: delay, resend: fc.option(via, { nil: undefined }) });
     await fc.assert(
       fc.asyncProperty(fc.array(move, { minLength: 2, maxLength: 7 }), async (moves) => {
-        const before = await checkLog(jobId, 0);
+        const before = await settled();
         const attempts: Attempt[] = [];
         moves.forEach((m, i) => {
           // The acting supervisor's release would end the hold for the runs after; here only the second supervisor tries (and is refused).
           const who = m.kind === 'release' ? 'S2' : m.who;
-          const command: CommandBody = m.kind === 'release' ? { type: 'hold.release', holdId: 'er-ground.hold' } : { type: m.kind === 'ack' ? 'hold.acknowledge' : 'hold.withdraw', holdId: 'er-ground.hold', role: roleOf[who] };
+          const kind = m.kind === 'turn' ? (groundHold(before.board).acknowledgments.some((a) => a.userId === people[who].user.id) ? 'withdraw' : 'ack') : m.kind;
+          const command: CommandBody = kind === 'release' ? { type: 'hold.release', holdId: 'er-ground.hold' } : { type: kind === 'ack' ? 'hold.acknowledge' : 'hold.withdraw', holdId: 'er-ground.hold', role: roleOf[who] };
           const first: Attempt = { label: `#${i} ${who} ${command.type} via ${m.via}`, who, via: m.via, delayMs: m.delayMs, commandId: randomUUID(), command };
           attempts.push(first);
           // The same command id again on another transport at once (always for the first move): applied once.
@@ -331,7 +343,7 @@ describe('races on one board', () => {
           if (again && again !== m.via) attempts.push({ ...first, label: `${first.label}, again via ${again}`, via: again, delayMs: 0 });
         });
         const sent = await race(jobId, attempts);
-        const after = await checkLog(jobId, before.log.length);
+        const after = await checkLog(jobId, before.seq);
         const model = linearize(holdModelOf(before.board, 'er-ground'), decideHold(required), sent, after.log);
         expectHoldAsModel(after.board, 'er-ground', model, required);
       }),
@@ -348,7 +360,7 @@ describe('races on one board', () => {
       const who = (['S1', 'O', 'G'] as const).find((k) => roleOf[k] === role)!;
       await must(jobId, who, { type: 'hold.acknowledge', holdId: 'er-ground.hold', role });
     }
-    const before = await checkLog(jobId, 0);
+    const before = await settled();
     const release: CommandBody = { type: 'hold.release', holdId: 'er-ground.hold' };
     const twice = randomUUID();
     const attempts: Attempt[] = [
@@ -358,7 +370,7 @@ describe('races on one board', () => {
       ...(['socket', 'http'] as const).map((v) => ({ label: `S2 release via ${v}`, who: 'S2' as const, via: v, delayMs: 0, commandId: randomUUID(), command: release })),
     ];
     const sent = await race(jobId, attempts);
-    const after = await checkLog(jobId, before.log.length);
+    const after = await checkLog(jobId, before.seq);
     const model = linearize(holdModelOf(before.board, 'er-ground'), decideHold(required), sent, after.log);
     expectHoldAsModel(after.board, 'er-ground', model, required);
     expect(after.log.map((e) => e.type)).toEqual(['hold.released']);
@@ -376,16 +388,19 @@ describe('races on one board', () => {
     expect(stage.state).toBe('active');
     // People who may do a step, by role; either supervisor for a supervisor's step.
     const peopleFor = (roles: readonly CrewRole[]): Key[] => keys.filter((k) => roles.includes(roleOf[k]));
-    const move = fc.record({ pick: fc.nat(), person: fc.nat(), via, delayMs: delay, twin: fc.boolean() });
+    // Mostly steps whose predecessors are done (as the stage stood before the race), some that still wait.
+    const move = fc.record({ pick: fc.nat(), ready: fc.constantFrom(true, true, false), person: fc.nat(), via, delayMs: delay, twin: fc.boolean() });
     await fc.assert(
       fc.asyncProperty(fc.array(move, { minLength: 2, maxLength: 6 }), async (moves) => {
-        const before = await checkLog(jobId, 0);
+        const before = await settled();
         const now = before.board.stages.find((s) => s.id === 'er-upper')!;
         const open = now.steps.filter((st) => st.state !== 'done');
+        const ready = open.filter((st) => (st.after ?? []).every((id) => now.steps.find((x) => x.id === id)?.state === 'done'));
         const attempts: Attempt[] = [];
         moves.forEach((m, i) => {
           // Steps not yet done, whether or not the steps they wait for are: out of order is a refusal to see too.
-          const step = (open.length ? open : now.steps)[m.pick % (open.length || now.steps.length)];
+          const from = m.ready && ready.length ? ready : open.length ? open : now.steps;
+          const step = from[m.pick % from.length];
           const who = peopleFor(step.allowedRoles);
           const command: CommandBody = { type: 'step.complete', stepId: step.id, ...(step.records?.kind === 'reading' ? { value: readingWithinLimit(step) } : {}) };
           const first: Attempt = { label: `#${i} ${who[m.person % who.length]} completes ${step.id} via ${m.via}`, who: who[m.person % who.length], via: m.via, delayMs: m.delayMs, commandId: randomUUID(), command };
@@ -398,7 +413,7 @@ describe('races on one board', () => {
           }
         });
         const sent = await race(jobId, attempts);
-        const after = await checkLog(jobId, before.log.length);
+        const after = await checkLog(jobId, before.seq);
         const initial: StepModel = { done: Object.fromEntries(now.steps.filter((st) => st.doneBy).map((st) => [st.id, keyOf(st.doneBy!.userId)])) };
         const model = linearize(initial, decideStep(now), sent, after.log);
         const upper = after.board.stages.find((s) => s.id === 'er-upper')!;
@@ -416,7 +431,7 @@ describe('races on one board', () => {
     expect(required).toEqual(['operator', 'rigger']);
     await must(jobId, 'O', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'operator' });
     await must(jobId, 'R', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'rigger' });
-    const before = await checkLog(jobId, 0);
+    const before = await settled();
     const release: CommandBody = { type: 'hold.release', holdId: 'er-upper.hold' };
     const attempts: Attempt[] = [
       { label: 'S1 release via socket', who: 'S1', via: 'socket', delayMs: 1, commandId: randomUUID(), command: release },
@@ -426,7 +441,7 @@ describe('races on one board', () => {
       { label: 'S1 release via http', who: 'S1', via: 'http', delayMs: 0, commandId: randomUUID(), command: release },
     ];
     const sent = await race(jobId, attempts);
-    const after = await checkLog(jobId, before.log.length);
+    const after = await checkLog(jobId, before.seq);
     const model = linearize(holdModelOf(before.board, 'er-upper'), decideHold(required), sent, after.log);
     expectHoldAsModel(after.board, 'er-upper', model, required);
     expect(model.acting).toBe('S2');
@@ -435,8 +450,7 @@ describe('races on one board', () => {
   }, 60_000);
 
   it('a reader racing a write that fails never sees what the write did not commit', async () => {
-    const { log } = await checkLog(jobId, 0);
-    const lastSeq = log.length;
+    const lastSeq = (await settled()).seq;
     let fail!: () => void;
     const failing = new Promise<void>((resolve) => (fail = resolve));
     // A write that appends an event and moves the job row, as the command writer does, and then fails
