@@ -11,7 +11,7 @@ import type { Config } from './config.js';
 import type { AppContext } from './context.js';
 import { WriteQueue } from './db/write-queue.js';
 import { apiNotFound, errorHandler } from './errors.js';
-import type { Logger } from './logger.js';
+import { loggableUrl, type Logger } from './logger.js';
 import { resolveSecret } from './auth/secret.js';
 import { HoldReminders } from './mail/hold-reminders.js';
 import { createMailer, type Mailer } from './mail/mailer.js';
@@ -113,7 +113,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
       logger,
       autoLogging: { ignore: (req) => req.url === '/api/health' || !req.url?.startsWith('/api') },
       serializers: {
-        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: loggableUrl(req.url) }),
         res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
       },
       customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
@@ -126,6 +126,11 @@ export function createApp(deps: AppDeps): HoldlineApp {
   // Size (413 too_large), nesting (400 too_deep, counted before parsing), then lone surrogates and prototype keys.
   api.use(express.json({ limit: JSON_BODY_LIMIT, verify: refuseDeepJson }));
   api.use(inputGuard);
+  // Answers carry tokens and personal data: no browser or proxy keeps them (a route that wants caching, such as a photo, says so itself).
+  api.use((_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
   api.use(cookieParser());
   api.use(authenticate(context));
   api.use(healthRouter(dataSource, config.version, queue));
@@ -170,9 +175,12 @@ export function createApp(deps: AppDeps): HoldlineApp {
       await new Promise((resolve) => setImmediate(resolve));
       await queue.drain();
       await new Promise((resolve) => setImmediate(resolve));
-      // io.close() also closes the HTTP server, so no new requests or sockets are accepted.
-      await new Promise<void>((resolve) => io.close(() => resolve()));
+      // io.close() also closes the HTTP server, so no new requests or sockets are accepted. Its
+      // callback waits for every connection to end: a client that keeps a connection busy would
+      // hold the shutdown forever, so the connections are closed at once (their writes were answered above).
+      const closed = new Promise<void>((resolve) => io.close(() => resolve()));
       httpServer.closeAllConnections();
+      await closed;
       await queue.drain();
       await context.mailer.close();
       if (dataSource.isInitialized) await dataSource.destroy();

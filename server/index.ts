@@ -7,6 +7,9 @@ import { DEMO_PASSWORD, demoPeople } from './demo/people.js';
 import { seedDemoIfEmpty } from './demo/seed.js';
 import { createLogger } from './logger.js';
 
+/** How long a graceful shutdown may take before the process exits anyway. */
+const SHUTDOWN_LIMIT_MS = 20_000;
+
 /** Boots Holdline: configuration, database and migrations, demo seed, then listen. */
 async function main(): Promise<void> {
   let config;
@@ -32,11 +35,20 @@ async function main(): Promise<void> {
   });
   printBanner(config.publicUrl, config.port, config.demo);
 
+  // SIGTERM (a service manager's stop or restart) and SIGINT: no new commands (`server_restarting`),
+  // the queued ones commit and are answered, every board is told the server is restarting, then
+  // exit 0. Boards reconnect and catch up by themselves once the server is back.
   let stopping = false;
   const shutdown = (signal: string) => {
     if (stopping) return;
     stopping = true;
     logger.info({ signal }, 'shutting down');
+    // A shutdown that hangs would keep the port and the crew waiting: give up after a bound.
+    // Everything committed is already on disk (WAL, synchronous FULL), so exiting loses nothing acknowledged.
+    setTimeout(() => {
+      logger.error({ signal }, 'shutdown took too long; exiting');
+      process.exit(1);
+    }, SHUTDOWN_LIMIT_MS).unref();
     holdline.close().then(
       () => process.exit(0),
       (error: unknown) => {
