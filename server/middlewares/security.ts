@@ -104,7 +104,7 @@ export function refuseForeignOrigin(config: Config, logger: Logger): RequestHand
     const origin = req.get('origin');
     // config.publicUrl is read per request: the tests set it once the port is known.
     if (originAllowed(origin, req.get('host'), config.publicUrl)) return next();
-    logger.warn({ origin, method: req.method, url: req.originalUrl }, 'request from a foreign origin refused');
+    logger.warn({ origin, method: req.method, url: req.originalUrl, publicUrl: config.publicUrl }, 'request from a foreign origin refused (if this is your own address behind a proxy, set HOLDLINE_PUBLIC_URL to it)');
     next(originNotAllowed(config.publicUrl));
   };
 }
@@ -117,7 +117,7 @@ export function allowSocketOrigin(config: Config, logger: Logger) {
   return (req: IncomingMessage, callback: (err: string | null | undefined, success: boolean) => void): void => {
     const origin = req.headers.origin;
     if (originAllowed(origin, req.headers.host, config.publicUrl)) return callback(null, true);
-    logger.warn({ origin }, 'live board handshake from a foreign origin refused');
+    logger.warn({ origin, publicUrl: config.publicUrl }, 'live board handshake from a foreign origin refused (if this is your own address behind a proxy, set HOLDLINE_PUBLIC_URL to it)');
     callback(foreignOriginMessage(config.publicUrl), false);
   };
 }
