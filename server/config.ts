@@ -9,6 +9,8 @@ export const configSchema = z.object({
   HOLDLINE_DB: z.string().min(1).default('data/holdline.sqlite'),
   HOLDLINE_PUBLIC_URL: z.url().optional(),
   HOLDLINE_DEMO: z.enum(['0', '1']).default('1'),
+  /** The admin's test inbox (what the local fake mail server caught): off unless asked for (npm start and npm run dev ask). */
+  HOLDLINE_TEST_INBOX: z.enum(['0', '1']).optional(),
   HOLDLINE_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
   SMTP_URL: z.url().refine((u) => /^smtps?:/.test(u), 'must start with smtp:// or smtps://').optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
@@ -27,6 +29,8 @@ export interface Config {
   dataDir: string;
   publicUrl: string;
   demo: boolean;
+  /** Whether GET /api/dev/inbox shows the local fake mail server's messages to admins (demo and development only). */
+  testInbox: boolean;
   secret?: string;
   smtpUrl?: string;
   logLevel: string;
@@ -38,8 +42,11 @@ export interface Config {
 /** Thrown when a setting is invalid; the message names each bad variable. */
 export class ConfigError extends Error {}
 
+/** The command-line flag `npm start` and `npm run dev` pass to open the test inbox; HOLDLINE_TEST_INBOX, when set, wins. */
+export const TEST_INBOX_FLAG = '--test-inbox';
+
 /** Parses the environment; an empty string counts as unset so `VAR= npm start` means the default. */
-export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, argv: readonly string[] = process.argv): Config {
   const cleaned = Object.fromEntries(Object.entries(env).filter(([, v]) => v !== undefined && v !== ''));
   const parsed = configSchema.safeParse(cleaned);
   if (!parsed.success) {
@@ -54,6 +61,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     dataDir: path.dirname(databasePath),
     publicUrl: (c.HOLDLINE_PUBLIC_URL ?? `http://localhost:${c.PORT}`).replace(/\/$/, ''),
     demo: c.HOLDLINE_DEMO === '1',
+    testInbox: c.HOLDLINE_TEST_INBOX !== undefined ? c.HOLDLINE_TEST_INBOX === '1' : argv.includes(TEST_INBOX_FLAG),
     secret: c.HOLDLINE_SECRET,
     smtpUrl: c.SMTP_URL,
     logLevel: c.LOG_LEVEL,

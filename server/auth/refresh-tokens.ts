@@ -13,6 +13,8 @@ export const REFRESH_GRACE_MS = 10_000;
 export interface IssuedRefresh {
   token: string;
   userId: string;
+  /** The family's id: the session every access token issued from it names (`sid`). */
+  sessionId: string;
   /** When the cookie should expire: the idle limit, capped by the family's absolute limit. */
   cookieExpiresAt: Date;
 }
@@ -29,9 +31,10 @@ function cookieExpiry(now: Date, familyExpiresAt: string): Date {
 export async function issueRefreshToken(manager: EntityManager, userId: string, now: Date): Promise<IssuedRefresh> {
   const token = randomToken();
   const familyExpiresAt = new Date(now.getTime() + REFRESH_ABSOLUTE_MS).toISOString();
+  const familyId = randomUUID();
   await manager.insert(RefreshToken, {
     id: randomUUID(),
-    familyId: randomUUID(),
+    familyId,
     userId,
     tokenHash: sha256Hex(token),
     createdAt: now.toISOString(),
@@ -39,7 +42,7 @@ export async function issueRefreshToken(manager: EntityManager, userId: string, 
     rotatedAt: null,
     revokedAt: null,
   });
-  return { token, userId, cookieExpiresAt: cookieExpiry(now, familyExpiresAt) };
+  return { token, userId, sessionId: familyId, cookieExpiresAt: cookieExpiry(now, familyExpiresAt) };
 }
 
 /**
@@ -56,7 +59,7 @@ export async function rotateRefreshToken(manager: EntityManager, token: string, 
   const next = successorToken(token, secret);
   if (current.rotatedAt) {
     if (nowMs - Date.parse(current.rotatedAt) <= REFRESH_GRACE_MS) {
-      return { ok: true, issued: { token: next, userId: current.userId, cookieExpiresAt: cookieExpiry(now, current.familyExpiresAt) } };
+      return { ok: true, issued: { token: next, userId: current.userId, sessionId: current.familyId, cookieExpiresAt: cookieExpiry(now, current.familyExpiresAt) } };
     }
     await revokeFamily(manager, current.familyId, now);
     return { ok: false, reason: 'reused', userId: current.userId };
@@ -75,15 +78,39 @@ export async function rotateRefreshToken(manager: EntityManager, token: string, 
     rotatedAt: null,
     revokedAt: null,
   });
-  return { ok: true, issued: { token: next, userId: current.userId, cookieExpiresAt: cookieExpiry(now, current.familyExpiresAt) } };
+  return { ok: true, issued: { token: next, userId: current.userId, sessionId: current.familyId, cookieExpiresAt: cookieExpiry(now, current.familyExpiresAt) } };
 }
 
-/** Revokes the family a token belongs to (sign-out). */
-export async function revokeByToken(manager: EntityManager, token: string, now: Date): Promise<string | null> {
+/** Revokes the family a token belongs to (sign-out); the person and the session it ended, if any. */
+export async function revokeByToken(manager: EntityManager, token: string, now: Date): Promise<{ userId: string; sessionId: string } | null> {
   const row = await manager.findOneBy(RefreshToken, { tokenHash: sha256Hex(token) });
   if (!row) return null;
   await revokeFamily(manager, row.familyId, now);
-  return row.userId;
+  return { userId: row.userId, sessionId: row.familyId };
+}
+
+/**
+ * True while a session (a refresh-token family) of this person may still be used: not revoked
+ * (sign-out, deactivation, a stolen token's reuse) and within its absolute limit. Every access
+ * token is checked against it on every use.
+ */
+export async function sessionLive(manager: EntityManager, sessionId: string, userId: string, now: Date): Promise<boolean> {
+  const row = await manager
+    .createQueryBuilder(RefreshToken, 't')
+    .select(['t.id', 't.familyExpiresAt'])
+    .where('t.family_id = :sessionId AND t.user_id = :userId AND t.revoked_at IS NULL', { sessionId, userId })
+    .getOne();
+  return row !== null && now.getTime() < Date.parse(row.familyExpiresAt);
+}
+
+/** Ends every session of a person but one (a password set from an e-mailed link keeps the session it starts). */
+export async function revokeOthersForUser(manager: EntityManager, userId: string, keepSessionId: string, now: Date): Promise<void> {
+  await manager
+    .createQueryBuilder()
+    .update(RefreshToken)
+    .set({ revokedAt: now.toISOString() })
+    .where('user_id = :userId AND family_id <> :keepSessionId AND revoked_at IS NULL', { userId, keepSessionId })
+    .execute();
 }
 
 /** Ends every session of a person (deactivation). */

@@ -2,11 +2,11 @@ import type { EntityManager } from 'typeorm';
 import type { SessionDto } from '../../shared/schemas/auth.js';
 import { signAccessToken } from '../auth/access-token.js';
 import { hashPassword, verifyPassword } from '../auth/passwords.js';
-import { issueRefreshToken, revokeByToken, rotateRefreshToken, type IssuedRefresh } from '../auth/refresh-tokens.js';
+import { issueRefreshToken, revokeByToken, revokeOthersForUser, rotateRefreshToken, type IssuedRefresh } from '../auth/refresh-tokens.js';
 import { findUsableLink } from '../auth/sign-in-links.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { accountInactive, HttpError } from '../errors.js';
+import { accountInactive, HttpError, sessionEnded } from '../errors.js';
 import { presentUser } from '../presenters/user.js';
 import { recordSignInAudit } from './audit.js';
 
@@ -16,10 +16,13 @@ export interface SignedIn {
 }
 
 const badCredentials = () => new HttpError(401, 'bad_credentials', 'That e-mail and password do not match an account. Check both and try again.');
-const refreshRefused = () => new HttpError(401, 'session_ended', 'Your session has ended. Sign in again.');
+const refreshRefused = sessionEnded;
 
-function sessionFor(context: AppContext, user: User, now: Date): SessionDto {
-  const { token, expiresAt } = signAccessToken(user.id, context.secret, now);
+/** What a signed-out socket is told before it is closed. */
+export const SIGNED_OUT_REASON = 'You signed out on this device. Sign in again to continue.';
+
+function sessionFor(context: AppContext, user: User, refresh: IssuedRefresh, now: Date): SessionDto {
+  const { token, expiresAt } = signAccessToken({ userId: user.id, sessionId: refresh.sessionId }, context.secret, now);
   return { token, expiresAt, user: presentUser(user), timeZone: context.config.timeZone };
 }
 
@@ -40,7 +43,8 @@ export async function signIn(context: AppContext, email: string, password: strin
       return { error: accountInactive() };
     }
     await recordSignInAudit(manager, { kind: 'sign_in', email: normalized, userId: user.id, ip }, now);
-    return { signedIn: { session: sessionFor(context, user, now), refresh: await issueRefreshToken(manager, user.id, now) } };
+    const refresh = await issueRefreshToken(manager, user.id, now);
+    return { signedIn: { session: sessionFor(context, user, refresh, now), refresh } };
   });
   // Refusals are answered after the commit so that their audit line is kept.
   if ('error' in outcome) throw outcome.error;
@@ -63,33 +67,46 @@ export async function refreshSession(context: AppContext, token: string | undefi
       await recordSignInAudit(manager, { kind: 'refresh_refused', userId: rotated.issued.userId, ip, detail: 'inactive' }, now);
       return { error: refreshRefused() };
     }
-    return { signedIn: { session: sessionFor(context, user, now), refresh: rotated.issued } };
+    return { signedIn: { session: sessionFor(context, user, rotated.issued, now), refresh: rotated.issued } };
   });
   if ('error' in outcome) throw outcome.error;
   return outcome.signedIn;
 }
 
-/** Ends the session the refresh token belongs to. */
+/**
+ * Ends the session the refresh token belongs to: its refresh tokens at once, its access tokens on
+ * their next use (each names its session), and its open sockets now, told why.
+ */
 export async function signOut(context: AppContext, token: string | undefined, ip: string | null): Promise<void> {
   if (!token) return;
   const now = context.now();
-  await context.queue.transaction(async (manager) => {
-    const userId = await revokeByToken(manager, token, now);
-    if (userId) await recordSignInAudit(manager, { kind: 'sign_out', userId, ip }, now);
+  const ended = await context.queue.transaction(async (manager) => {
+    const revoked = await revokeByToken(manager, token, now);
+    if (revoked) await recordSignInAudit(manager, { kind: 'sign_out', userId: revoked.userId, ip }, now);
+    return revoked;
   });
+  // After the commit, as every broadcast: a socket is never told of a sign-out that did not happen.
+  if (ended) context.publisher.endSession(ended.sessionId, SIGNED_OUT_REASON);
 }
 
-/** Sets a password from an invitation or reset link, uses the link up and signs the person in. */
+/**
+ * Sets a password from an invitation or reset link, uses the link up and signs the person in.
+ * Every other session of the person ends: whoever knew the old password is signed out.
+ */
 export async function setPasswordFromLink(context: AppContext, token: string, password: string, ip: string | null): Promise<SignedIn> {
   const passwordHash = await hashPassword(password);
   const now = context.now();
-  return context.queue.transaction(async (manager: EntityManager) => {
+  const signedIn = await context.queue.transaction(async (manager: EntityManager) => {
     const { link, user } = await findUsableLink(manager, token, now);
     await manager.update(User, { id: user.id }, { passwordHash, updatedAt: now.toISOString() });
     link.usedAt = now.toISOString();
     await manager.save(link);
     await recordSignInAudit(manager, { kind: 'password_set', email: user.email, userId: user.id, ip, detail: link.kind }, now);
     user.passwordHash = passwordHash;
-    return { session: sessionFor(context, user, now), refresh: await issueRefreshToken(manager, user.id, now) };
+    const refresh = await issueRefreshToken(manager, user.id, now);
+    await revokeOthersForUser(manager, user.id, refresh.sessionId, now);
+    return { session: sessionFor(context, user, refresh, now), refresh };
   });
+  context.publisher.endSessionsExcept(signedIn.refresh.userId, signedIn.refresh.sessionId, 'Your password was changed. Sign in again with the new password.');
+  return signedIn;
 }

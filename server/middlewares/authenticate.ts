@@ -1,8 +1,9 @@
 import type { RequestHandler } from 'express';
 import { verifyAccessToken } from '../auth/access-token.js';
+import { sessionLive } from '../auth/refresh-tokens.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
-import { accountInactive, HttpError } from '../errors.js';
+import { accountInactive, HttpError, sessionEnded } from '../errors.js';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -31,6 +32,11 @@ export function authenticate(context: AppContext): RequestHandler {
     const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
     if (!user || !user.active) {
       req.authProblem = accountInactive();
+      return next();
+    }
+    // The token's session must still be live: signed out or deactivated ends it now, not at its expiry.
+    if (!(await sessionLive(context.dataSource.manager, claims.sessionId, user.id, context.now()))) {
+      req.authProblem = sessionEnded();
       return next();
     }
     req.actor = user;

@@ -4,12 +4,12 @@ import type { SignInAuditEntry } from '../../shared/schemas/audit.js';
 import type { AppContext } from '../context.js';
 import { SignInAudit } from '../entities/SignInAudit.js';
 import { User } from '../entities/User.js';
-import { notFound, parseOrThrow } from '../errors.js';
+import { parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
 
 const auditQuerySchema = z.object({ limit: z.coerce.number().int().min(1).max(1000).default(200) });
 
-/** The sign-in audit, and the local test inbox in demo mode. */
+/** The sign-in audit (the test inbox is in routes/mail.ts). */
 export function auditRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
@@ -22,13 +22,6 @@ export function auditRouter(context: AppContext): Router {
     const names = new Map((ids.length ? await manager.createQueryBuilder(User, 'u').where('u.id IN (:...ids)', { ids }).getMany() : []).map((u) => [u.id, u.displayName]));
     const items: SignInAuditEntry[] = rows.map((r) => ({ ...r, displayName: r.userId ? (names.get(r.userId) ?? null) : null }));
     res.json({ items });
-  });
-
-  router.get('/dev/inbox', (req, res) => {
-    authorize(req.actor ?? null, 'inbox.read', {}, req.authProblem);
-    const fake = context.mailer.fake;
-    if (!context.config.demo || !fake) throw notFound('The test inbox');
-    res.json({ items: fake.messages });
   });
 
   return router;

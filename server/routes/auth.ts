@@ -1,68 +1,87 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { loginRequestSchema, passwordResetRequestSchema, setPasswordSchema } from '../../shared/schemas/auth.js';
 import { clearRefreshCookie, readRefreshCookie, setRefreshCookie } from '../auth/cookies.js';
 import { findUsableLink } from '../auth/sign-in-links.js';
+import { ResetLimiter, SignInThrottle } from '../auth/throttle.js';
 import { refreshSession, setPasswordFromLink, signIn, signOut } from '../commands/sessions.js';
 import { requestPasswordReset } from '../commands/users.js';
 import type { AppContext } from '../context.js';
 import { HttpError, parseOrThrow } from '../errors.js';
 import { authorize } from '../policies/index.js';
 import { presentUser } from '../presenters/user.js';
-import { sha256Hex } from '../auth/hash.js';
 
-/** Failed sign-ins allowed per e-mail and per address within the window. */
-export const SIGN_IN_LIMIT = 10;
-export const SIGN_IN_WINDOW_MS = 15 * 60 * 1000;
+/** Failed password settings allowed per address within the window (link tokens are 256 bits: this only stops noise). */
+export const SET_PASSWORD_LIMIT = 10;
+export const SET_PASSWORD_WINDOW_MS = 15 * 60 * 1000;
 
-function limiter(keyOf: ((req: Request) => string) | undefined) {
-  return rateLimit({
-    windowMs: SIGN_IN_WINDOW_MS,
-    limit: SIGN_IN_LIMIT,
-    // Only failures count: a crew signing in on shared tablets must never lock itself out.
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-7',
-    legacyHeaders: false,
-    ...(keyOf ? { keyGenerator: keyOf } : {}),
-    handler: (_req, _res, next) =>
-      next(new HttpError(429, 'rate_limited', 'Too many failed sign-ins. Wait 15 minutes and try again, or reset your password.')),
-  });
+/** The one answer to a reset request, whether or not an e-mail went out. */
+export const RESET_ANSWER = 'If that e-mail belongs to an active account, a reset link is on its way. It works for 1 hour.';
+
+/** A wait in words: "12 seconds", "1 minute", "15 minutes". */
+export function waitWords(ms: number): string {
+  const seconds = Math.max(1, Math.ceil(ms / 1000));
+  if (seconds < 60) return seconds === 1 ? '1 second' : `${seconds} seconds`;
+  const minutes = Math.ceil(seconds / 60);
+  return minutes === 1 ? '1 minute' : `${minutes} minutes`;
+}
+
+/** 429 with Retry-After (whole seconds, rounded up) and a sentence saying how long to wait. */
+function tooManyFailures(res: Response, waitMs: number): HttpError {
+  res.set('Retry-After', String(Math.max(1, Math.ceil(waitMs / 1000))));
+  return new HttpError(429, 'rate_limited', `Too many failed sign-ins for this account from here. Wait ${waitWords(waitMs)} and try again, or reset your password.`);
 }
 
 /** Sign-in, refresh, sign-out, the current person, and the e-mailed links. */
 export function authRouter(context: AppContext): Router {
   const router = Router();
-  const secure = context.config.publicUrl.startsWith('https:');
+  // Secure cookies when the public address is https, or when the request came through an https proxy we trust.
+  const secureFor = (req: Request) => context.config.publicUrl.startsWith('https:') || req.secure;
   const ipOf = (req: Request) => req.ip ?? null;
-
-  // Keyed by e-mail (hashed, so the limiter's memory holds no addresses) and by client address.
-  const byEmail = limiter((req) => {
-    const email: unknown = (req.body as { email?: unknown } | undefined)?.email;
-    return 'email:' + sha256Hex(typeof email === 'string' ? email.trim().toLowerCase() : '');
+  const throttle = new SignInThrottle();
+  const resets = new ResetLimiter();
+  const setPasswordLimit = rateLimit({
+    windowMs: SET_PASSWORD_WINDOW_MS,
+    limit: SET_PASSWORD_LIMIT,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    handler: (_req, _res, next) => next(new HttpError(429, 'rate_limited', 'Too many tries with links that do not work. Wait 15 minutes and try again.')),
   });
-  const byAddress = limiter(undefined);
 
-  router.post('/auth/login', byAddress, byEmail, async (req, res) => {
+  router.post('/auth/login', async (req, res) => {
     const body = parseOrThrow(loginRequestSchema, req.body, 'sign-in');
-    const { session, refresh } = await signIn(context, body.email, body.password, ipOf(req));
-    setRefreshCookie(res, refresh, secure);
-    res.json(session);
+    const address = ipOf(req) ?? 'unknown';
+    const now = context.now();
+    const waitMs = throttle.waitMs(body.email, address, now);
+    if (waitMs > 0) throw tooManyFailures(res, waitMs);
+    const attempt = throttle.begin(body.email, address, now);
+    try {
+      const { session, refresh } = await signIn(context, body.email, body.password, ipOf(req));
+      attempt.succeeded();
+      setRefreshCookie(res, refresh, secureFor(req));
+      res.json(session);
+    } catch (error) {
+      // Only a wrong e-mail or password stays counted.
+      if (!(error instanceof HttpError && error.code === 'bad_credentials')) attempt.withdrawn();
+      throw error;
+    }
   });
 
   router.post('/auth/refresh', async (req, res) => {
     try {
       const { session, refresh } = await refreshSession(context, readRefreshCookie(req), ipOf(req));
-      setRefreshCookie(res, refresh, secure);
+      setRefreshCookie(res, refresh, secureFor(req));
       res.json(session);
     } catch (error) {
-      clearRefreshCookie(res, secure);
+      clearRefreshCookie(res, secureFor(req));
       throw error;
     }
   });
 
   router.post('/auth/logout', async (req, res) => {
     await signOut(context, readRefreshCookie(req), ipOf(req));
-    clearRefreshCookie(res, secure);
+    clearRefreshCookie(res, secureFor(req));
     res.status(204).end();
   });
 
@@ -71,10 +90,11 @@ export function authRouter(context: AppContext): Router {
     res.json({ user: presentUser(req.actor!) });
   });
 
-  router.post('/auth/password-reset', byAddress, async (req, res) => {
+  router.post('/auth/password-reset', async (req, res) => {
     const body = parseOrThrow(passwordResetRequestSchema, req.body, 'reset request');
-    await requestPasswordReset(context, body.email);
-    res.status(202).json({ message: 'If that e-mail belongs to an active account, a reset link is on its way. It works for 1 hour.' });
+    // Over the limit for the account or the address, nothing is sent and the answer is the same.
+    if (resets.allow(body.email, ipOf(req) ?? 'unknown', context.now())) await requestPasswordReset(context, body.email);
+    res.status(202).json({ message: RESET_ANSWER });
   });
 
   router.get('/auth/links/:token', async (req, res) => {
@@ -82,10 +102,10 @@ export function authRouter(context: AppContext): Router {
     res.json({ kind: link.kind, email: user.email, displayName: user.displayName, expiresAt: link.expiresAt });
   });
 
-  router.post('/auth/set-password', byAddress, async (req, res) => {
+  router.post('/auth/set-password', setPasswordLimit, async (req, res) => {
     const body = parseOrThrow(setPasswordSchema, req.body, 'new password');
     const { session, refresh } = await setPasswordFromLink(context, body.token, body.password, ipOf(req));
-    setRefreshCookie(res, refresh, secure);
+    setRefreshCookie(res, refresh, secureFor(req));
     res.json(session);
   });
 

@@ -1,10 +1,45 @@
 import { io, type Socket } from 'socket.io-client';
-import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/events/socket';
+import { handshakeErrors, type ClientToServerEvents, type ServerToClientEvents } from '../../shared/events/socket';
 
 export type HoldlineSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 
+/** What the session store lends the socket: a refresh, and what to do when the server ends the session. */
+export interface SocketSession {
+  /** Exchanges the refresh cookie for a new access token; true when one is available. */
+  refresh(): Promise<boolean>;
+  /** The server ended this sign-in (signed out on this device, deactivated): sign out here too. */
+  ended(reason: string): void;
+}
+
 let socket: HoldlineSocket | null = null;
 let tokenOf: () => string | null = () => null;
+let session: SocketSession | null = null;
+/** Set when the server said the session ended: no reconnection follows. */
+let endedByServer = false;
+/** When the last refresh-and-reconnect began, and the shortest gap between two. */
+let lastRetryAt = 0;
+const RETRY_GAP_MS = 3_000;
+
+/** The session store registers itself here, as it does with the API client. */
+export function setSocketSession(source: SocketSession): void {
+  session = source;
+}
+
+/**
+ * After the server closed the connection itself (the access token lapsed, another session's token)
+ * or refused the handshake's token: refresh, then connect again with the new token. Socket.IO does
+ * not reconnect by itself after either. A refused refresh signs the person out (the session store).
+ */
+async function refreshAndReconnect(s: HoldlineSocket): Promise<void> {
+  if (endedByServer || !session || socket !== s) return;
+  // At most one try every few seconds, so a refusal that keeps coming cannot spin.
+  const wait = lastRetryAt + RETRY_GAP_MS - Date.now();
+  lastRetryAt = Math.max(Date.now(), lastRetryAt + RETRY_GAP_MS);
+  if (wait > 0) await new Promise((resolve) => setTimeout(resolve, wait));
+  if (endedByServer || socket !== s || s.connected) return;
+  const refreshed = await session.refresh();
+  if (refreshed && socket === s && !s.connected && !endedByServer) s.connect();
+}
 
 /**
  * The one Socket.IO connection of this tab. `auth` is a function, so every (re)connection
@@ -13,7 +48,8 @@ let tokenOf: () => string | null = () => null;
 export function connectSocket(getToken: () => string | null): HoldlineSocket {
   tokenOf = getToken;
   if (socket) return socket;
-  socket = io({
+  endedByServer = false;
+  const s: HoldlineSocket = io({
     autoConnect: true,
     transports: ['websocket'],
     reconnectionDelay: 500,
@@ -22,7 +58,20 @@ export function connectSocket(getToken: () => string | null): HoldlineSocket {
     timeout: 5_000,
     auth: (cb) => cb({ token: tokenOf() }),
   });
-  return socket;
+  s.on('session:ended', ({ reason }) => {
+    endedByServer = true;
+    session?.ended(reason);
+  });
+  s.on('disconnect', (reason) => {
+    // 'io server disconnect': the server closed this connection on purpose (its token lapsed).
+    if (reason === 'io server disconnect') void refreshAndReconnect(s);
+  });
+  s.on('connect_error', (error) => {
+    // A handshake refused for its token is not retried by Socket.IO: refresh first, then retry once.
+    if (!s.active && error.message === handshakeErrors.unauthenticated) void refreshAndReconnect(s);
+  });
+  socket = s;
+  return s;
 }
 
 /** Hands a refreshed token to the live connection so it keeps its right to send commands. */

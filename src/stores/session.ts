@@ -3,7 +3,7 @@ import { computed, ref } from 'vue';
 import { sessionSchema, type SessionDto } from '../../shared/schemas/auth';
 import type { UserDto } from '../../shared/schemas/users';
 import { api, ApiRequestError, setTokenSource } from '../services/api';
-import { disconnectSocket, renewSocketToken } from '../services/socket';
+import { disconnectSocket, renewSocketToken, setSocketSession } from '../services/socket';
 
 /** Refresh this long before the access token expires, so a shift never sees it lapse. */
 const REFRESH_MARGIN_MS = 60_000;
@@ -14,6 +14,8 @@ export const useSessionStore = defineStore('session', () => {
   const token = ref<string | null>(null);
   const expiresAtMs = ref(0);
   const restored = ref(false);
+  /** Why the server ended this session while it was open (signed out on this device, deactivated); '' otherwise. */
+  const endedReason = ref('');
   /**
    * The server's IANA time zone, from every session answer: a new job's default site zone, and the
    * zone of times that belong to no job (fleet, people). Until a session arrives, the device's zone;
@@ -45,6 +47,7 @@ export const useSessionStore = defineStore('session', () => {
   }
 
   async function login(email: string, password: string) {
+    endedReason.value = '';
     accept(await api('/auth/login', { method: 'POST', body: { email, password }, schema: sessionSchema, anonymous: true }));
   }
 
@@ -96,5 +99,18 @@ export const useSessionStore = defineStore('session', () => {
     onUnauthorized: () => refresh(),
   });
 
-  return { user, token, expiresAtMs, restored, serverTimeZone, signedIn, isAdmin, login, refresh, restore, logout, adopt };
+  setSocketSession({
+    refresh: () => refresh(),
+    ended(reason) {
+      endedReason.value = reason;
+      clear();
+      // The router imports this store: loaded when needed, to send the person to the sign-in page.
+      void import('../router').then(({ router }) => {
+        const here = router.currentRoute.value;
+        if (!here.meta.public) void router.replace({ name: 'sign-in', query: here.fullPath !== '/' ? { next: here.fullPath } : {} });
+      });
+    },
+  });
+
+  return { user, token, expiresAtMs, restored, endedReason, serverTimeZone, signedIn, isAdmin, login, refresh, restore, logout, adopt };
 });

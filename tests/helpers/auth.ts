@@ -1,4 +1,6 @@
+import jwt from 'jsonwebtoken';
 import request from 'supertest';
+import { signAccessToken } from '../../server/auth/access-token.js';
 import type { Qualification } from '../../shared/schemas/users.js';
 import type { User } from '../../server/entities/User.js';
 import { insertUser, TEST_PASSWORD } from './factories.js';
@@ -24,4 +26,15 @@ export function refreshCookieOf(setCookie: string | string[] | undefined): strin
   const found = list.find((c) => c.startsWith('holdline_refresh='));
   if (!found) throw new Error('no refresh cookie set');
   return found.split(';')[0];
+}
+
+/**
+ * A new access token of the same sign-in, at the server's clock now, as the client's refresh would
+ * bring: for tests that move the clock past the token's 15 minutes. It names the same session, so
+ * it stops working when that session ends.
+ */
+export function freshToken(server: TestServer, who: { user: { id: string }; token: string }): string {
+  const sid = (jwt.decode(who.token) as { sid?: unknown } | null)?.sid;
+  if (typeof sid !== 'string') throw new Error('that token names no session');
+  return signAccessToken({ userId: who.user.id, sessionId: sid }, server.context.secret, server.context.now()).token;
 }

@@ -7,6 +7,7 @@ import { loadConfig, type Config } from '../../server/config.js';
 import { openDatabase } from '../../server/db/data-source.js';
 import { createLogger } from '../../server/logger.js';
 import type { OutboxOptions } from '../../server/mail/outbox.js';
+import type { DestinationStream } from 'pino';
 
 export interface TestServer extends HoldlineApp {
   url: string;
@@ -27,6 +28,8 @@ export interface TestServerOptions {
   outbox?: OutboxOptions;
   /** Start on the data folder of an earlier server (after its `close()`), as a restart does. */
   dataDir?: string;
+  /** Where the app's logs go (with `env: { LOG_LEVEL }`), for a test that reads them. */
+  logStream?: DestinationStream;
 }
 
 /** Boots the real app on an ephemeral port with its own SQLite file in a temporary folder. */
@@ -46,7 +49,7 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     outbox: options.outbox,
     config,
     dataSource,
-    logger: createLogger(config.logLevel),
+    logger: createLogger(config.logLevel, options.logStream),
     clientDir: options.withClient ? path.resolve(import.meta.dirname, '..', '..', process.env.HOLDLINE_TEST_CLIENT_DIR ?? 'dist') : undefined,
   });
   await new Promise<void>((resolve) => holdline.httpServer.listen(0, '127.0.0.1', resolve));

@@ -8,8 +8,7 @@ import { weatherVerdict } from '../../../shared/board/rules.js';
 import type { BoardState } from '../../../shared/board/types.js';
 import { isEventOf, jobEventListSchema, type JobEventDto } from '../../../shared/events/log.js';
 import type { Plan, PlanStep } from '../../../shared/schemas/plan.js';
-import { signAccessToken } from '../../../server/auth/access-token.js';
-import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { freshToken, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, advanceUntilActive, boardOf, briefEveryone, calmWeather, completeSteps, controllerValues18m, httpCommand, inStepOrder, readingWithinLimit, uploadPhoto, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
@@ -32,7 +31,7 @@ describe('board rules', () => {
   const auth = (who: SignedInUser) => ({ Authorization: `Bearer ${who.token}` });
   /** New access tokens after a test moves the server's clock past their 15 minutes. */
   const resign = () => {
-    for (const who of [...Object.values(crew), supervisor2, viewer]) who.token = signAccessToken(who.user.id, server.context.secret, server.context.now()).token;
+    for (const who of [...Object.values(crew), supervisor2, viewer]) who.token = freshToken(server, who);
   };
 
   /** A step added by a test, so the rules are tested whatever the templates hold. */

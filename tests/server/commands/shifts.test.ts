@@ -5,9 +5,8 @@ import { replay } from '../../../shared/board/apply.js';
 import type { BoardState } from '../../../shared/board/types.js';
 import { isEventOf, jobEventListSchema, type JobEventDto } from '../../../shared/events/log.js';
 import type { CrewRole } from '../../../shared/schemas/jobs.js';
-import { signAccessToken } from '../../../server/auth/access-token.js';
 import { JobOverride } from '../../../server/entities/JobOverride.js';
-import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { freshToken, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, advanceUntilActive, BoardClient, boardOf, briefEveryone, calmWeather, completeSteps, httpCommand, inStepOrder, readingWithinLimit, uploadPhoto, type CommandBody, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
@@ -41,7 +40,7 @@ describe('shifts', () => {
   const everyone = () => [...Object.values(crew), supervisor2, inspector];
   /** New access tokens after a test moves the server's clock past their 15 minutes. */
   const resign = () => {
-    for (const who of [...everyone(), viewer, admin]) who.token = signAccessToken(who.user.id, server.context.secret, server.context.now()).token;
+    for (const who of [...everyone(), viewer, admin]) who.token = freshToken(server, who);
   };
   const OLD = 31 * 60 * 1000;
   const send = (who: SignedInUser, jobId: string, command: CommandBody, commandId?: ReturnType<typeof randomUUID>) => httpCommand(server, who, jobId, command, commandId);

@@ -83,13 +83,13 @@ describe('the admin’s test inbox across a restart of the app', () => {
   });
 
   it('GET /api/dev/inbox still lists a message received before the restart', async () => {
-    server = await startTestServer({ env: { HOLDLINE_DEMO: '1' } });
+    server = await startTestServer({ env: { HOLDLINE_TEST_INBOX: '1' } });
     const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     await server.context.mailer.send({ to: 'site.office@example.test', subject: 'Kept over a restart', text: 'Body' });
     const dataDir = server.dataDir;
     await server.close();
 
-    server = await startTestServer({ env: { HOLDLINE_DEMO: '1' }, dataDir });
+    server = await startTestServer({ env: { HOLDLINE_TEST_INBOX: '1' }, dataDir });
     const res = await request(server.app).get('/api/dev/inbox').set('Authorization', `Bearer ${admin.token}`).expect(200);
     const items = inboxListSchema.parse(res.body).items;
     expect(items.map((m) => m.subject)).toContain('Kept over a restart');

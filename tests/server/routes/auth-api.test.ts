@@ -129,15 +129,12 @@ describe('sign-in and sessions', () => {
     await me(token).expect(401);
   });
 
-  it('after 10 failed sign-ins for one e-mail answers 429 with Retry-After, even with the right password', async () => {
+  it('ten wrong passwords from ten addresses do not lock the person out: the right password from their own address signs in', async () => {
     const { user } = await signedInUser(server);
-    // Each attempt from another address, so only the per-e-mail limit can trip.
     for (let i = 0; i < 10; i++) {
       await request(server.app).post('/api/auth/login').set('X-Forwarded-For', `192.0.2.${i + 1}`).send({ email: user.email, password: `wrong-password-${i}` }).expect(401);
     }
-    const limited = await request(server.app).post('/api/auth/login').set('X-Forwarded-For', '192.0.2.99').send({ email: user.email, password: TEST_PASSWORD }).expect(429);
-    expect(limited.body.error.code).toBe('rate_limited');
-    expect(Number(limited.headers['retry-after'])).toBeGreaterThan(0);
+    await request(server.app).post('/api/auth/login').set('X-Forwarded-For', '192.0.2.99').send({ email: user.email, password: TEST_PASSWORD }).expect(200);
   });
 
   it('refuses a deactivated person at sign-in, with an old access token and at refresh', async () => {
@@ -148,21 +145,5 @@ describe('sign-in and sessions', () => {
     // One answer to a deactivated account, whether it brings a password or a token.
     expect((await request(server.app).get('/api/auth/me').set('Authorization', `Bearer ${person.token}`).expect(401)).body).toEqual(login.body);
     await request(server.app).post('/api/auth/refresh').set('Cookie', person.cookie).expect(401);
-  });
-});
-
-describe('the rate limit by address', () => {
-  let server: TestServer;
-  beforeAll(async () => {
-    server = await startTestServer();
-  });
-  afterAll(() => server.stop());
-
-  it('after 10 failed sign-ins from one address, answers 429 for any e-mail', async () => {
-    for (let i = 0; i < 10; i++) {
-      await request(server.app).post('/api/auth/login').send({ email: `someone-${i}@example.test`, password: 'wrong-password' }).expect(401);
-    }
-    const res = await request(server.app).post('/api/auth/login').send({ email: 'fresh@example.test', password: 'wrong-password' }).expect(429);
-    expect(res.headers['retry-after']).toBeDefined();
   });
 });

@@ -1,0 +1,73 @@
+import { describe, expect, it } from 'vitest';
+import { ADDRESS_FREE_FAILURES, delayAfter, FORGET_AFTER_MS, MAX_DELAY_MS, PAIR_FREE_FAILURES, ResetLimiter, RESET_PER_ACCOUNT, RESET_PER_ADDRESS, RESET_WINDOW_MS, SignInThrottle } from '../../../server/auth/throttle.js';
+
+/** The throttle's bookkeeping on its own clock, with no bcrypt and no server. */
+describe('the sign-in throttle', () => {
+  const t0 = Date.parse('2026-12-03T08:00:00Z');
+  const at = (ms: number) => new Date(t0 + ms);
+
+  /** Fails `n` times at `ms`, each waiting first for whatever wait the throttle asks; returns the clock after. */
+  function failRepeatedly(throttle: SignInThrottle, email: string, address: string, n: number, ms = 0): number {
+    let clock = ms;
+    for (let i = 0; i < n; i++) {
+      clock += throttle.waitMs(email, address, at(clock));
+      throttle.begin(email, address, at(clock));
+    }
+    return clock;
+  }
+
+  it('lets the first failures through, then doubles the wait from 1 s up to 15 minutes', () => {
+    // The waits written out by hand: none for the free failures, then 1, 2, 4, 8 … seconds, capped.
+    const expected = [0, 0, 0, 0, 0, 1000, 2000, 4000, 8000, 16000, 32000, 64000, 128000, 256000, 512000, 900000, 900000];
+    expect(expected.map((_, n) => delayAfter(n, PAIR_FREE_FAILURES))).toEqual(expected);
+    expect(delayAfter(1000, PAIR_FREE_FAILURES)).toBe(MAX_DELAY_MS);
+
+    const throttle = new SignInThrottle();
+    failRepeatedly(throttle, 'a@example.test', '198.51.100.1', PAIR_FREE_FAILURES);
+    expect(throttle.waitMs('a@example.test', '198.51.100.1', at(0))).toBe(1000);
+    expect(throttle.waitMs('A@Example.test ', '198.51.100.1', at(0))).toBe(1000);
+    // The same person from another address, and another person from the same address, go ahead.
+    expect(throttle.waitMs('a@example.test', '198.51.100.2', at(0))).toBe(0);
+    expect(throttle.waitMs('b@example.test', '198.51.100.1', at(0))).toBe(0);
+  });
+
+  it('clears the account-and-address count on a success and takes back an attempt that was not a wrong password', () => {
+    const throttle = new SignInThrottle();
+    failRepeatedly(throttle, 'a@example.test', '198.51.100.1', PAIR_FREE_FAILURES - 1);
+    throttle.begin('a@example.test', '198.51.100.1', at(0)).withdrawn();
+    expect(throttle.waitMs('a@example.test', '198.51.100.1', at(0))).toBe(0);
+    throttle.begin('a@example.test', '198.51.100.1', at(0)).succeeded();
+    failRepeatedly(throttle, 'a@example.test', '198.51.100.1', PAIR_FREE_FAILURES - 1);
+    expect(throttle.waitMs('a@example.test', '198.51.100.1', at(0))).toBe(0);
+  });
+
+  it('slows one address trying many accounts after its own allowance, and forgets after an hour', () => {
+    const throttle = new SignInThrottle();
+    for (let i = 0; i < ADDRESS_FREE_FAILURES; i++) throttle.begin(`person-${i}@example.test`, '198.51.100.9', at(0));
+    expect(throttle.waitMs('someone-new@example.test', '198.51.100.9', at(0))).toBe(1000);
+    expect(throttle.waitMs('someone-new@example.test', '198.51.100.10', at(0))).toBe(0);
+    expect(throttle.waitMs('someone-new@example.test', '198.51.100.9', at(FORGET_AFTER_MS + 1))).toBe(0);
+  });
+
+  it('never asks a wait longer than 15 minutes, however many failures', () => {
+    const throttle = new SignInThrottle();
+    const clock = failRepeatedly(throttle, 'a@example.test', '198.51.100.1', 40);
+    expect(throttle.waitMs('a@example.test', '198.51.100.1', at(clock))).toBe(MAX_DELAY_MS);
+  });
+});
+
+describe('the reset limiter', () => {
+  const t0 = Date.parse('2026-12-03T08:00:00Z');
+  const at = (ms: number) => new Date(t0 + ms);
+
+  it('allows a few e-mails per account and per address in a sliding hour', () => {
+    const limiter = new ResetLimiter();
+    const allowed = Array.from({ length: 10 }, (_, i) => limiter.allow('a@example.test', `192.0.2.${i}`, at(i)));
+    expect(allowed.filter(Boolean)).toHaveLength(RESET_PER_ACCOUNT);
+    // An hour after the first requests the account may have one again, however much it was asked meanwhile.
+    expect(limiter.allow('a@example.test', '192.0.2.99', at(RESET_WINDOW_MS + 10))).toBe(true);
+
+    const fromOne = Array.from({ length: RESET_PER_ADDRESS + 5 }, (_, i) => limiter.allow(`p${i}@example.test`, '198.51.100.5', at(0)));
+    expect(fromOne.filter(Boolean)).toHaveLength(RESET_PER_ADDRESS);
+  });
+});
