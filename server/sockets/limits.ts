@@ -10,6 +10,10 @@ import type { HoldlineSocket } from './auth.js';
  * in its acknowledgment with the same error shape as HTTP and never reaches its handler; one sent
  * without an acknowledgment is dropped. Oversized messages never get here: Socket.IO closes the
  * transport (`SOCKET_MESSAGE_LIMIT_BYTES`).
+ *
+ * A stop is never held back by the rate: it still draws from the bucket, but is let through
+ * when the bucket is empty. Refusing the one command that halts the crane would be the unsafe
+ * side; a repeated stop is recorded as pressed again and changes nothing else.
  */
 export function guardSocketInput(context: AppContext, socket: HoldlineSocket): void {
   const bucket = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst);
@@ -18,7 +22,7 @@ export function guardSocketInput(context: AppContext, socket: HoldlineSocket): v
     const answer = (error: unknown) => {
       if (typeof ack === 'function') ack(refusalOf(error, context.logger, { event: packet[0], userId: socket.data.userId }));
     };
-    if (!bucket.take()) return answer(tooManyCommands());
+    if (!bucket.take() && !isStop(packet)) return answer(tooManyCommands());
     try {
       for (let i = 1; i < packet.length; i++) if (typeof packet[i] !== 'function') packet[i] = cleanInput(packet[i]);
     } catch (error) {
@@ -26,4 +30,13 @@ export function guardSocketInput(context: AppContext, socket: HoldlineSocket): v
     }
     next();
   });
+}
+
+/** A board command that stops the job (checked again by the schema; this only decides the rate). */
+function isStop(packet: unknown[]): boolean {
+  if (packet[0] !== 'board:command') return false;
+  const payload = packet[1];
+  if (typeof payload !== 'object' || payload === null || !('command' in payload)) return false;
+  const { command } = payload;
+  return typeof command === 'object' && command !== null && 'type' in command && command.type === 'job.stop';
 }

@@ -31,6 +31,13 @@ const COMMAND_TIMEOUT_MS = 8000;
 
 /** Plain words for a command that failed without an answer. */
 const NO_ANSWER = 'No answer from the server. Check the connection; the command was not confirmed.';
+/**
+ * Refusals that mean "not recorded, for now": the server is restarting or could not write
+ * (server/db/faults.ts). A stop refused so is kept and sent again with the same id, never dropped.
+ */
+const NOT_RECORDED_FOR_NOW = new Set(['no_answer', 'server_restarting', 'storage_full', 'storage_busy', 'storage_readonly', 'storage_failed', 'too_many_commands']);
+/** A kept stop is sent again at least this often while the board is live (a storage fault does not drop the connection). */
+const STOP_RETRY_MS = 5000;
 
 /**
  * The live board of one job for every view: joins through the socket, applies server events with
@@ -42,6 +49,8 @@ export const useBoardStore = defineStore('board', () => {
   const jobId = ref<string | null>(null);
   const board = shallowRef<BoardSnapshot | null>(null);
   const live = ref(false);
+  /** When the server said it is restarting (`server:restarting`, or a `server_restarting` refusal); null once the board is live again. */
+  const restartingSince = ref<number | null>(null);
   const lastSyncAt = ref(0);
   const loading = ref(false);
   const error = ref('');
@@ -63,6 +72,9 @@ export const useBoardStore = defineStore('board', () => {
   let follower: BoardFollower | null = null;
   let livenessTimer: ReturnType<typeof setInterval> | undefined;
   const detach: (() => void)[] = [];
+  /** A kept stop is being sent now; when it was last tried. */
+  let sendingStop = false;
+  let lastStopTryAt = 0;
 
   const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === session.user?.id).map((c) => c.role));
   /** Briefed for the plan version in force and the shift (while made safe: the next shift), by the shared rule. */
@@ -80,7 +92,7 @@ export const useBoardStore = defineStore('board', () => {
    * the briefing for this plan version and shift.
    */
   function blockReason(type: BoardCommand['type']): string {
-    if (!live.value) return BLOCKED_WORDS.notLive;
+    if (!live.value) return restartingSince.value !== null ? BLOCKED_WORDS.restarting : BLOCKED_WORDS.notLive;
     const b = board.value;
     if (stopped.value && !commandsWhileStopped.has(type)) return BLOCKED_WORDS.stopped;
     if (b?.job.state === 'made_safe' && !commandsWhileMadeSafe.has(type)) return BLOCKED_WORDS.madeSafe;
@@ -96,7 +108,14 @@ export const useBoardStore = defineStore('board', () => {
     const wasLive = live.value;
     live.value = follower.live;
     lastSyncAt.value = follower.lastSyncAt;
-    if (live.value && !wasLive) void sendQueuedStop();
+    if (live.value) restartingSince.value = null;
+    if (live.value && (!wasLive || Date.now() - lastStopTryAt >= STOP_RETRY_MS)) void sendQueuedStop();
+  }
+
+  /** The server is going down to restart: not live at once (it takes no command now), and the cover says why. */
+  function serverRestarting() {
+    restartingSince.value ??= Date.now();
+    follower?.onDisconnect();
   }
 
   /** Opens a job's board; opening another closes the first. */
@@ -129,6 +148,8 @@ export const useBoardStore = defineStore('board', () => {
     const onPresence = (p: Parameters<BoardFollower['onPresence']>[0]) => f.onPresence(p);
     const onConnect = () => void join();
     const onDisconnect = () => f.onDisconnect();
+    const onRestarting = () => serverRestarting();
+    s.on('server:restarting', onRestarting);
     // Taken off the crew while watching: the server stops sending this board and says why; the
     // board closes with that sentence instead of going quiet as if the connection were lost.
     const onRemoved = (p: { jobId: string; reason: string }) => {
@@ -148,6 +169,7 @@ export const useBoardStore = defineStore('board', () => {
       s.off('board:presence', onPresence);
       s.off('connect', onConnect);
       s.off('disconnect', onDisconnect);
+      s.off('server:restarting', onRestarting);
       s.off('board:removed', onRemoved);
     });
     livenessTimer = setInterval(() => f.checkLiveness(), 250);
@@ -175,6 +197,7 @@ export const useBoardStore = defineStore('board', () => {
     follower = null;
     board.value = null;
     live.value = false;
+    restartingSince.value = null;
     jobId.value = null;
   }
 
@@ -188,6 +211,8 @@ export const useBoardStore = defineStore('board', () => {
     try {
       const answer = await socket.timeout(COMMAND_TIMEOUT_MS).emitWithAck('board:command', { jobId: jobId.value, command: { ...command, commandId } as BoardCommand });
       if (answer.ok) follower?.onEvent(answer.event);
+      // The refusal may overtake the notice: either one tells this board the server is going down.
+      else if (answer.error.code === 'server_restarting') serverRestarting();
       return answer;
     } catch {
       return { ok: false, error: { code: 'no_answer', message: NO_ANSWER } };
@@ -205,11 +230,22 @@ export const useBoardStore = defineStore('board', () => {
   async function stop(reason?: string): Promise<CommandAnswer | null> {
     const pending: QueuedStop = { commandId: crypto.randomUUID(), pressedAt: new Date().toISOString(), ...(reason ? { reason } : {}) };
     if (!live.value) {
-      queuedStop.value = pending;
-      localStorage.setItem(QUEUED_STOP_KEY, JSON.stringify({ ...pending, jobId: jobId.value }));
+      keepStop(pending);
       return null;
     }
-    return send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(reason ? { reason } : {}) }, pending.commandId);
+    const answer = await send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(reason ? { reason } : {}) }, pending.commandId);
+    // Refused because the server is restarting or cannot write: kept and sent again, as when offline.
+    if (!answer.ok && answer.error.code !== 'no_answer' && NOT_RECORDED_FOR_NOW.has(answer.error.code)) {
+      keepStop(pending);
+      lastStopTryAt = Date.now();
+      return null;
+    }
+    return answer;
+  }
+
+  function keepStop(pending: QueuedStop) {
+    queuedStop.value = pending;
+    localStorage.setItem(QUEUED_STOP_KEY, JSON.stringify({ ...pending, jobId: jobId.value }));
   }
 
   /** A reason picked while the stop is still queued travels with it. */
@@ -221,11 +257,18 @@ export const useBoardStore = defineStore('board', () => {
 
   async function sendQueuedStop() {
     const pending = queuedStop.value;
-    if (!pending || !live.value) return;
-    const answer = await send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(pending.reason ? { reason: pending.reason } : {}) }, pending.commandId);
-    if (answer.ok || answer.error.code !== 'no_answer') {
-      queuedStop.value = null;
-      localStorage.removeItem(QUEUED_STOP_KEY);
+    if (!pending || !live.value || sendingStop) return;
+    sendingStop = true;
+    lastStopTryAt = Date.now();
+    try {
+      const answer = await send({ type: 'job.stop', pressedAt: pending.pressedAt, ...(pending.reason ? { reason: pending.reason } : {}) }, pending.commandId);
+      // Kept while the server answers "not recorded, for now"; any other answer settles it.
+      if ((answer.ok || !NOT_RECORDED_FOR_NOW.has(answer.error.code)) && queuedStop.value?.commandId === pending.commandId) {
+        queuedStop.value = null;
+        localStorage.removeItem(QUEUED_STOP_KEY);
+      }
+    } finally {
+      sendingStop = false;
     }
   }
 
@@ -233,7 +276,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, siteTimeZone, isActing, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
+  return { jobId, board, live, restartingSince, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, siteTimeZone, isActing, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

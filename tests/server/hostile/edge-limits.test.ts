@@ -205,11 +205,15 @@ describe('the edge against hostile input', () => {
       const refusal = answers.find((a) => (a as { error?: { code: string } }).error?.code === 'too_many_commands') as { error: { message: string } };
       expect(refusal.error.message).toMatch(/Wait/);
       expect(codes.filter((code) => code !== 'validation' && code !== 'too_many_commands')).toEqual([]);
+      // A stop is never held back by the rate, even from the socket that flooded.
+      const stop = await flooder.command(liveJobId, { type: 'job.stop', pressedAt: new Date().toISOString() });
+      expect(stop.ok, JSON.stringify(stop)).toBe(true);
       // Another socket of the same person is not held back.
       expect(await other.socket.emitWithAck('board:command', { jobId: liveJobId, command: { type: 'nonsense' } } as never)).toMatchObject({ ok: false, error: { code: 'validation' } });
       await new Promise((r) => setTimeout(r, 250));
       expect(await flooder.socket.emitWithAck('board:command', { jobId: liveJobId, command: { type: 'nonsense' } } as never)).toMatchObject({ ok: false, error: { code: 'validation' } });
-      expect(await headOf(liveJobId)).toEqual(before);
+      // Only the stop was recorded.
+      expect((await headOf(liveJobId)).lastSeq).toBe(before.lastSeq + 1);
       await expectHealthy();
     });
 
