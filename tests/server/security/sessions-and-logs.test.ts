@@ -1,6 +1,7 @@
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
 import { connect, type Socket } from 'socket.io-client';
+import { QueryFailedError } from 'typeorm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ClientToServerEvents, ServerToClientEvents } from '../../../shared/events/socket.js';
 import { sessionSchema } from '../../../shared/schemas/auth.js';
@@ -16,9 +17,19 @@ type ClientSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 /**
  * Sessions end when they are ended, not when their access token lapses: signing out, being
  * deactivated (and reactivated) and a token's expiry, over HTTP, board commands and sockets.
+ * The server's logs are captured throughout; the last but one test reads them for every
+ * password, token and link the file used.
  */
-describe('ending sessions', () => {
+describe('ending sessions, and what the logs keep of them', () => {
   let server: TestServer;
+  const logLines: string[] = [];
+  /** Every password, token, cookie and link token this file has handled. */
+  const secrets = new Set<string>([TEST_PASSWORD]);
+  const keep = <T extends { token: string; cookie?: string }>(who: T): T => {
+    secrets.add(who.token);
+    if (who.cookie) secrets.add(who.cookie.split('=')[1]);
+    return who;
+  };
   let crew: CrewByRole;
   let admin: SignedInUser;
   let jobId: string;
@@ -29,7 +40,7 @@ describe('ending sessions', () => {
   /** A second sign-in of the same person (another tablet): its own session. */
   async function signInAgain(who: SignedInUser): Promise<SignedInUser> {
     const res = await request(server.app).post('/api/auth/login').send({ email: who.user.email, password: TEST_PASSWORD }).expect(200);
-    return { user: who.user, token: sessionSchema.parse(res.body).token, cookie: refreshCookieOf(res.headers['set-cookie']) };
+    return keep({ user: who.user, token: sessionSchema.parse(res.body).token, cookie: refreshCookieOf(res.headers['set-cookie']) });
   }
   function socketOf(token: string): ClientSocket {
     const s: ClientSocket = connect(server.url, { transports: ['websocket'], auth: { token }, reconnection: false, forceNew: true });
@@ -49,9 +60,11 @@ describe('ending sessions', () => {
   const disconnection = (s: ClientSocket) => new Promise<string>((resolve) => s.once('disconnect', (reason) => resolve(reason)));
 
   beforeAll(async () => {
-    server = await startTestServer();
+    server = await startTestServer({ env: { LOG_LEVEL: 'trace' }, logStream: { write: (line: string) => void logLines.push(line) } });
     crew = await signedInCrew(server);
-    admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    for (const who of Object.values(crew)) keep(who);
+    admin = keep(await signedInUser(server, { isAdmin: true, qualifications: [] }));
+    secrets.add(server.context.secret);
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     await addParts18m(server, admin.token, model.id, unit.id, 'S');
     const job = await plannedJob(server, crew, unit.id, 'Session job');
@@ -101,7 +114,7 @@ describe('ending sessions', () => {
   });
 
   it('a reactivated person’s old tokens stay dead: HTTP, refresh and sockets', async () => {
-    const person = await signedInUser(server, { qualifications: ['rigger'] });
+    const person = keep(await signedInUser(server, { qualifications: ['rigger'] }));
     await request(server.app).patch(`/api/users/${person.user.id}`).set(asAdmin()).send({ active: false }).expect(200);
     await request(server.app).patch(`/api/users/${person.user.id}`).set(asAdmin()).send({ active: true }).expect(200);
 
@@ -114,18 +127,59 @@ describe('ending sessions', () => {
   });
 
   it('a password set from a reset link ends the person’s other sessions', async () => {
-    const person = await signedInUser(server, { qualifications: ['rigger'], email: 'reset.sessions@example.test' });
+    const person = keep(await signedInUser(server, { qualifications: ['rigger'], email: 'reset.sessions@example.test' }));
     const s = socketOf(person.token);
     await connected(s);
     const ended = new Promise<string>((resolve) => s.once('session:ended', ({ reason }) => resolve(reason)));
     await request(server.app).post('/api/auth/password-reset').send({ email: person.user.email }).expect(202);
     const mail = await server.context.mailer.fake!.waitFor(person.user.email);
     const token = new URL(/https?:\/\/\S+/.exec(mail.text)![0]).searchParams.get('token')!;
+    secrets.add(token).add('a-new-password-for-sure');
+    await request(server.app).get(`/api/auth/links/${token}`).expect(200);
     const set = await request(server.app).post('/api/auth/set-password').send({ token, password: 'a-new-password-for-sure' }).expect(200);
+    keep({ token: sessionSchema.parse(set.body).token, cookie: refreshCookieOf(set.headers['set-cookie']) });
 
     expect(await ended).toMatch(/password was changed/);
     await me(person.token).expect(401);
     await me(sessionSchema.parse(set.body).token).expect(200);
+  });
+
+  it('never logs a password, token, link or the secret, and answers an internal error without its SQL or stack', async () => {
+    // Bad requests that carry a password: a malformed sign-in, broken JSON, a made-up link.
+    await request(server.app).post('/api/auth/login').send({ email: 'not-an-email', password: 'password-in-a-bad-request' }).expect(400);
+    await request(server.app).post('/api/auth/login').set('Content-Type', 'application/json').send('{"email":"a@example.test","password":"password-in-broken-json"').expect(400);
+    await request(server.app).post('/api/auth/set-password').send({ token: 'made-up-link-token-made-up-link-token-0000', password: 'password-with-a-bad-link' }).expect(404);
+    await request(server.app).get('/api/auth/links/made-up-link-token-in-the-path-0000000000').expect(404);
+    for (const s of ['password-in-a-bad-request', 'password-in-broken-json', 'password-with-a-bad-link', 'made-up-link-token-made-up-link-token-0000', 'made-up-link-token-in-the-path-0000000000']) secrets.add(s);
+
+    // An internal error: the database fails a query whose parameters hold something secret.
+    const manager = server.context.dataSource.manager;
+    const original = manager.findOneBy.bind(manager);
+    manager.findOneBy = (() => {
+      throw new QueryFailedError('SELECT "password_hash" FROM "user" WHERE "id" = ?', ['parameter-that-is-secret'], new Error('SQLITE_ERROR: no such column: password_hashh'));
+    }) as typeof manager.findOneBy;
+    let failed: request.Response;
+    try {
+      failed = await request(server.app).get('/api/auth/me').set('Authorization', `Bearer ${freshToken(server, admin)}`);
+    } finally {
+      manager.findOneBy = original;
+    }
+    secrets.add('parameter-that-is-secret');
+    expect(failed.status).toBe(500);
+    expect(failed.body).toEqual({ error: { code: 'internal', message: 'Something went wrong on the server. Try again; if it keeps happening, tell your administrator.' } });
+    expect(failed.text).not.toMatch(/SELECT|SQLITE|password_hash|\bat \S+:\d+/);
+
+    const log = logLines.join('');
+    // The log did capture the work (so finding nothing in it means something): sign-ins, the board command, the error.
+    expect(log).toContain('"url":"/api/auth/login"');
+    expect(log).toContain('"url":"/api/auth/refresh"');
+    expect(log).toContain(`"url":"/api/jobs/${jobId}/commands"`);
+    expect(log).toContain('"url":"/api/auth/links/[redacted]"');
+    expect(log).toContain('unhandled error');
+    expect(log).toContain('no such column');
+    const found = [...secrets].filter((secret) => log.includes(secret));
+    expect(found).toEqual([]);
+    expect(log).not.toMatch(/\$2[aby]\$\d\d\$/);
   });
 
   it('closes a socket whose token lapsed and refuses its join; a fresh token connects again', async () => {
