@@ -37,13 +37,16 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
  * rules, not figures from a standard.
  */
 
-type Key = 'S1' | 'S2' | 'O' | 'G' | 'R';
+type Key = 'S1' | 'S2' | 'O' | 'G' | 'R' | 'O2';
 type Via = 'http' | 'socket' | 'socket2';
+/** Everyone on the crew from the start, each with two sockets on the board; O2 is the operator who takes over from O in a crew change. */
 const keys: readonly Key[] = ['S1', 'S2', 'O', 'G', 'R'];
 /** Each person's one crew role. S1 starts the job and is the acting supervisor; S2 is the second supervisor. */
-const roleOf: Record<Key, CrewRole> = { S1: 'supervisor', S2: 'supervisor', O: 'operator', G: 'signaller', R: 'rigger' };
+const roleOf: Record<Key, CrewRole> = { S1: 'supervisor', S2: 'supervisor', O: 'operator', G: 'signaller', R: 'rigger', O2: 'operator' };
 
 type Transfer = { type: 'acting.transfer'; to: Key };
+/** PUT /api/jobs/:id/crew by the supervisor: these people, each in their role. */
+type CrewChange = { type: 'crew.set'; members: Key[] };
 interface Attempt {
   label: string;
   /** Who sends it; the admin sends only the transfer, over HTTP. */
@@ -51,9 +54,10 @@ interface Attempt {
   via: Via;
   delayMs: number;
   commandId: ReturnType<typeof randomUUID>;
-  command: CommandBody | Transfer;
+  command: CommandBody | Transfer | CrewChange;
 }
-type Answer = { ok: true; seq: number } | { ok: false; code: string; message: string };
+/** An accepted command's seq (a crew change answers with the job: its seq is found in the log by its command id). */
+type Answer = { ok: true; seq?: number } | { ok: false; code: string; message: string };
 type Sent = Attempt & { answer: Answer };
 
 /** A model's verdict on one command in one state. */
@@ -71,6 +75,8 @@ describe('races on one board', () => {
   let people: Record<Key, SignedInUser>;
   /** Two sockets for each person, so one person can race themself. */
   const sockets = {} as Record<Key, [BoardClient, BoardClient]>;
+  /** People taken off the crew: the server takes their sockets off the board, so they are no longer checked. */
+  const offBoard = new Set<Key>();
   let unitId: string;
   const idOf = (who: Key | 'admin') => (who === 'admin' ? admin : people[who]).user.id;
 
@@ -78,7 +84,14 @@ describe('races on one board', () => {
     server = await startTestServer();
     admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
     crew = await signedInCrew(server);
-    people = { S1: crew.supervisor, S2: await signedInUser(server, { qualifications: ['supervisor'] }), O: crew.operator, G: crew.signaller, R: crew.rigger };
+    people = {
+      S1: crew.supervisor,
+      S2: await signedInUser(server, { qualifications: ['supervisor'] }),
+      O: crew.operator,
+      G: crew.signaller,
+      R: crew.rigger,
+      O2: await signedInUser(server, { qualifications: ['operator'] }),
+    };
     const { model, unit } = await seedModelAndUnit(server, admin.token);
     unitId = unit.id;
     await addParts18m(server, admin.token, model.id, unit.id, 'R');
@@ -103,7 +116,7 @@ describe('races on one board', () => {
   }
 
   function answerOf(status: number, body: { seq?: number; error?: { code: string; message: string } }): Answer {
-    if (status === 200 && typeof body.seq === 'number') return { ok: true, seq: body.seq };
+    if (status === 200) return { ok: true, seq: body.seq };
     expect(status, JSON.stringify(body)).toBeGreaterThanOrEqual(400);
     expect(status, JSON.stringify(body)).toBeLessThan(500);
     return { ok: false, code: body.error!.code, message: body.error!.message };
@@ -113,6 +126,11 @@ describe('races on one board', () => {
     if (a.delayMs) await sleep(a.delayMs);
     if (a.command.type === 'acting.transfer') {
       const res = await api(admin, 'POST', `/jobs/${jobId}/acting-supervisor`, { userId: idOf(a.command.to), reason: 'The acting supervisor cannot be reached on site.' }, { 'x-command-id': a.commandId });
+      return answerOf(res.status, res.body);
+    }
+    if (a.command.type === 'crew.set') {
+      const members = a.command.members.map((k) => ({ userId: idOf(k), role: roleOf[k] }));
+      const res = await api(people[a.who as Key], 'PUT', `/jobs/${jobId}/crew`, { members }, { 'x-command-id': a.commandId });
       return answerOf(res.status, res.body);
     }
     const who = a.who as Key;
@@ -166,7 +184,7 @@ describe('races on one board', () => {
     const replayed = replay(events);
     expect(replayed).toEqual(stored.board);
     expect(replayed).toEqual(board);
-    for (const key of keys) {
+    for (const key of keys.filter((k) => !offBoard.has(k))) {
       for (const socket of sockets[key]) {
         if (rows.length > joinedAt) await socket.waitForSeq(rows.length);
         const seen = socket.events.filter((e) => e.jobId === jobId).map((e) => e.seq);
@@ -194,7 +212,7 @@ describe('races on one board', () => {
   function linearize<S>(initial: S, decide: (state: S, a: Attempt) => Decision<S>, sent: Sent[], log: JobEvent[]): S {
     const accepted = sent.filter((a) => a.answer.ok);
     expect(log.map((e) => e.commandId).sort()).toEqual([...new Set(accepted.map((a) => a.commandId))].sort());
-    for (const a of accepted) expect((a.answer as { seq: number }).seq, a.label).toBe(log.find((e) => e.commandId === a.commandId)!.seq);
+    for (const a of accepted) if (a.answer.ok && a.answer.seq !== undefined) expect(a.answer.seq, a.label).toBe(log.find((e) => e.commandId === a.commandId)!.seq);
     const states = [initial];
     let state = initial;
     for (const event of log) {
@@ -222,11 +240,14 @@ describe('races on one board', () => {
     'hold.release': 'hold.released',
     'acting.transfer': 'acting.transferred',
     'step.complete': 'step.completed',
+    'crew.set': 'crew.set',
   };
   const no = (code: string) => ({ ok: false as const, code });
 
   interface HoldModel {
     acks: { who: Key; role: CrewRole }[];
+    /** Not on the crew: everything they send is refused before the rules (403 forbidden). */
+    offCrew: Key[];
     releasedBy: Key | null;
     acting: Key;
   }
@@ -238,6 +259,12 @@ describe('races on one board', () => {
       const c = a.command;
       if (c.type === 'acting.transfer') return s.acting === c.to ? no('already_acting') : { ok: true, next: { ...s, acting: c.to } };
       const who = a.who as Key;
+      if (s.offCrew.includes(who)) return no('forbidden');
+      // A crew change takes back the acknowledgments of whoever leaves (or leaves that role).
+      if (c.type === 'crew.set') {
+        const on = (k: Key) => c.members.includes(k);
+        return { ok: true, next: { ...s, offCrew: (Object.keys(roleOf) as Key[]).filter((k) => !on(k)), acks: s.acks.filter((x) => on(x.who)) } };
+      }
       const full = required.every((r) => s.acks.some((x) => x.role === r));
       if (c.type === 'hold.acknowledge') {
         if (roleOf[who] !== c.role || !required.includes(c.role)) return no('role_not_allowed');
@@ -259,11 +286,16 @@ describe('races on one board', () => {
       throw new Error(`no hold rule for ${c.type}`);
     };
 
-  const keyOf = (userId: string): Key => keys.find((k) => people[k].user.id === userId)!;
+  const keyOf = (userId: string): Key => (Object.keys(people) as Key[]).find((k) => people[k].user.id === userId)!;
 
   function holdModelOf(board: BoardState, stageId: string): HoldModel {
     const hold = board.stages.find((s) => s.id === stageId)!.hold!;
-    return { acks: hold.acknowledgments.map((a) => ({ who: keyOf(a.userId), role: a.role as CrewRole })), releasedBy: hold.releasedBy ? keyOf(hold.releasedBy.userId) : null, acting: keyOf(board.actingSupervisor!.userId) };
+    return {
+      acks: hold.acknowledgments.map((a) => ({ who: keyOf(a.userId), role: a.role as CrewRole })),
+      releasedBy: hold.releasedBy ? keyOf(hold.releasedBy.userId) : null,
+      acting: keyOf(board.actingSupervisor!.userId),
+      offCrew: (Object.keys(people) as Key[]).filter((k) => !board.crew.some((m) => m.userId === people[k].user.id)),
+    };
   }
 
   /** The model's hold is the board's hold. */
@@ -424,13 +456,36 @@ describe('races on one board', () => {
     );
   }, 90_000);
 
-  it('the acting supervisor, the second supervisor and an administrator naming the second acting, all at once: at most one release, by whoever was acting at that moment', async () => {
-    // The rest of the stage, one step at a time, then its hold (operator and rigger).
+  it('an operator acknowledging while the supervisor takes them off the crew: their acknowledgment never stands after the change', async () => {
+    // The rest of the stage, one step at a time; its hold is for the operator and the rigger.
     await completeSteps(server, crew, jobId, 'er-upper');
     const required = ((await boardNow(jobId)).stages.find((s) => s.id === 'er-upper')!.hold!.requiredRoles as CrewRole[]).slice().sort();
     expect(required).toEqual(['operator', 'rigger']);
-    await must(jobId, 'O', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'operator' });
-    await must(jobId, 'R', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'rigger' });
+    const before = await settled();
+    const ack = (who: Key): CommandBody => ({ type: 'hold.acknowledge', holdId: 'er-upper.hold', role: roleOf[who] });
+    const attempts: Attempt[] = [
+      { label: 'O acknowledges via socket', who: 'O', via: 'socket', delayMs: 0, commandId: randomUUID(), command: ack('O') },
+      { label: 'S1 puts O2 on the crew in place of O', who: 'S1', via: 'http', delayMs: 1, commandId: randomUUID(), command: { type: 'crew.set', members: ['S1', 'S2', 'O2', 'G', 'R'] } },
+      { label: 'O acknowledges via http', who: 'O', via: 'http', delayMs: 2, commandId: randomUUID(), command: ack('O') },
+      { label: 'R acknowledges via socket', who: 'R', via: 'socket2', delayMs: 1, commandId: randomUUID(), command: ack('R') },
+    ];
+    const sent = await race(jobId, attempts);
+    offBoard.add('O');
+    const after = await checkLog(jobId, before.seq);
+    const model = linearize(holdModelOf(before.board, 'er-upper'), decideHold(required), sent, after.log);
+    expectHoldAsModel(after.board, 'er-upper', model, required);
+    expect(model.offCrew).toContain('O');
+    expect(after.board.stages.find((s) => s.id === 'er-upper')!.hold!.acknowledgments.map((a) => a.userId)).not.toContain(people.O.user.id);
+    expect(after.board.crew.map((m) => m.userId)).not.toContain(people.O.user.id);
+  }, 60_000);
+
+  it('the acting supervisor, the second supervisor and an administrator naming the second acting, all at once: at most one release, by whoever was acting at that moment', async () => {
+    // The hold acknowledged by whoever holds its roles now: O2, briefed first, in place of O.
+    await must(jobId, 'O2', { type: 'briefing.acknowledge' });
+    const standing = holdModelOf(await boardNow(jobId), 'er-upper');
+    const required: CrewRole[] = ['operator', 'rigger'];
+    if (!standing.acks.some((a) => a.role === 'operator')) await must(jobId, 'O2', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'operator' });
+    if (!standing.acks.some((a) => a.role === 'rigger')) await must(jobId, 'R', { type: 'hold.acknowledge', holdId: 'er-upper.hold', role: 'rigger' });
     const before = await settled();
     const release: CommandBody = { type: 'hold.release', holdId: 'er-upper.hold' };
     const attempts: Attempt[] = [
