@@ -42,9 +42,12 @@ export const tooManyCommands = () =>
 
 /**
  * express.json's `verify` hook: counts the nesting of the raw body before it is parsed, so a body
- * of a million brackets is refused without being built. Brackets inside strings are text.
+ * of a million brackets is refused without being built. Brackets inside strings are text. Only
+ * for UTF-8 (every client of ours): in UTF-16 a bracket's byte can be half of another character,
+ * so such a body is left to `cleanInput`'s count after parsing.
  */
-export function refuseDeepJson(_req: IncomingMessage, _res: unknown, body: Buffer): void {
+export function refuseDeepJson(_req: IncomingMessage, _res: unknown, body: Buffer, encoding = 'utf-8'): void {
+  if (!/^utf-?8$/i.test(encoding)) return;
   let depth = 0;
   let inString = false;
   let escaped = false;

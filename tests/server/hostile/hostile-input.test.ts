@@ -262,6 +262,33 @@ describe('hostile input at every route and socket event', () => {
     );
   });
 
+  it('hostile Authorization and Cookie headers on any route get a 4xx with a message or an answer, never a 5xx', async () => {
+    const headerText = fc.oneof(
+      fc.string({ unit: fc.integer({ min: 0x20, max: 0x7e }).map((c) => String.fromCharCode(c)), maxLength: 200 }),
+      fc.constantFrom('Bearer', 'Bearer ', 'Bearer a.b.c', 'Bearer eyJhbGciOiJub25lIn0.eyJzdWIiOiJ4In0.', `Bearer ${'a'.repeat(8_000)}`, 'Basic YTpi', 'bearer x'),
+    );
+    const cookieText = fc.oneof(
+      fc.string({ unit: fc.integer({ min: 0x21, max: 0x7e }).map((c) => String.fromCharCode(c)), maxLength: 120 }).map((v) => `holdline_refresh=${v}`),
+      fc.constantFrom('holdline_refresh=%ZZ', 'holdline_refresh=j:{"__proto__":1}', 'holdline_refresh=', '=;=;;', `holdline_refresh=${'x'.repeat(4_000)}`),
+    );
+    await fc.assert(
+      fc.asyncProperty(fc.constantFrom(...routes.filter(({ route }) => !/\.(pdf|zip)$/.test(route))), fc.option(headerText), fc.option(cookieText), async ({ route }, authorization, cookie) => {
+        const before = await snapshot();
+        const [method, pattern] = route.split(' ') as [string, string];
+        let req = request(server.app)[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch'](fillPath(pattern));
+        if (authorization !== null) req = req.set('Authorization', authorization);
+        if (cookie !== null) req = req.set('Cookie', cookie);
+        const res = method === 'GET' ? await req : await req.send({});
+        expect(res.status, `${route} ${authorization?.slice(0, 80)} ${cookie?.slice(0, 80)}: ${res.text?.slice(0, 200)}`).toBeLessThan(500);
+        if (res.status >= 400) {
+          expectErrorShape(res.status, res.body, route);
+          expect(await snapshot()).toEqual(before);
+        }
+      }),
+      { numRuns: 40 },
+    );
+  });
+
   it('accepted hostile bodies only where a route reads no body or never tells', () => {
     // Printed for the reviewer: how often each such route said yes.
     console.info('2xx answers to hostile bodies:', Object.fromEntries(accepted));

@@ -107,3 +107,13 @@ describe('RateBucket', () => {
     expect(Array.from({ length: COMMAND_RATE.burst + 5 }, () => bucket.take()).filter(Boolean).length).toBe(COMMAND_RATE.burst);
   });
 });
+
+describe('refuseDeepJson in other encodings', () => {
+  it('leaves a UTF-16 body to the count after parsing, where a character’s byte can look like a bracket', () => {
+    // U+2200 and U+5B00 hold the bytes of a quote and a bracket in UTF-16LE.
+    const text = JSON.stringify({ a: `\u2200${'\u5B00'.repeat(40)}` });
+    expect(refusedCode(() => refuseDeepJson({} as never, {}, Buffer.from(text, 'utf16le'), 'utf-16le'))).toBeNull();
+    expect(refusedCode(() => refuseDeepJson({} as never, {}, Buffer.from(text, 'utf16le'), 'utf-8'))).toBe('too_deep');
+    expect(refusedCode(() => cleanInput(JSON.parse(text)))).toBeNull();
+  });
+});
