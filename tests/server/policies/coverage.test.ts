@@ -11,7 +11,7 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
 /**
  * Every route the real app registers and every event the socket modules listen to has a row in
  * the policy table (server/policies/index.ts), and every row names only routes and events that
- * exist. tests/server/policies/routes-by-role.test.ts then calls each row's routes as every kind of person.
+ * exist. tests/server/policies/access-matrix.test.ts then calls every route as every kind of person.
  */
 const rows: readonly PolicyRow[] = policyTable;
 
