@@ -34,7 +34,12 @@ export function refreshCookieOf(setCookie: string | string[] | undefined): strin
  * it stops working when that session ends.
  */
 export function freshToken(server: TestServer, who: { user: { id: string }; token: string }): string {
-  const sid = (jwt.decode(who.token) as { sid?: unknown } | null)?.sid;
+  return signAccessToken({ userId: who.user.id, sessionId: sessionIdOf(who.token) }, server.context.secret, server.context.now()).token;
+}
+
+/** The sign-in (refresh-token family) an access token names. */
+export function sessionIdOf(token: string): string {
+  const sid = (jwt.decode(token) as { sid?: unknown } | null)?.sid;
   if (typeof sid !== 'string') throw new Error('that token names no session');
-  return signAccessToken({ userId: who.user.id, sessionId: sid }, server.context.secret, server.context.now()).token;
+  return sid;
 }

@@ -7,7 +7,7 @@ import { User } from '../../../server/entities/User.js';
 import type { HoldlineServer, HoldlineSocket } from '../../../server/sockets/auth.js';
 import { createBoardHub } from '../../../server/sockets/board.js';
 import { BoardPublisher } from '../../../server/sockets/publisher.js';
-import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { sessionIdOf, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 /**
@@ -23,7 +23,7 @@ describe('board socket handlers (socket.io-mock)', () => {
 
   function mockSocketFor(who: SignedInUser, tokenExp = Math.floor(Date.now() / 1000) + 600) {
     const socket = new SocketMock() as unknown as HoldlineSocket & { socketClient: { emit(event: string, payload: unknown, ack: (answer: unknown) => void): void } };
-    (socket as unknown as { data: unknown }).data = { userId: who.user.id, tokenExp };
+    (socket as unknown as { data: unknown }).data = { userId: who.user.id, sessionId: sessionIdOf(who.token), tokenExp };
     (socket as unknown as { id: string }).id = randomUUID();
     hub.register(socket);
     return socket;
