@@ -99,8 +99,9 @@ export class FakeSmtpServer {
     const attachments = mail.attachments.map((a, i) => ({ filename: a.filename ?? `attachment-${i + 1}`, contentType: a.contentType, size: a.content.length }));
     if (this.folder) {
       const dir = path.join(this.folder, 'attachments', id);
-      if (mail.attachments.length) mkdirSync(dir, { recursive: true });
-      mail.attachments.forEach((a, i) => writeFileSync(path.join(dir, String(i)), a.content));
+      // For the server's user only: sign-in links and records pass through here.
+      if (mail.attachments.length) mkdirSync(dir, { recursive: true, mode: 0o700 });
+      mail.attachments.forEach((a, i) => writeFileSync(path.join(dir, String(i)), a.content, { mode: 0o600 }));
     }
     const message: InboxMessage = { id, at: new Date().toISOString(), to, subject: mail.subject ?? '', text: mail.text ?? '', attachments };
     this.messages.unshift(message);
@@ -110,7 +111,7 @@ export class FakeSmtpServer {
 
   /** Reads the kept messages back, newest first; a damaged line (a crash mid-write) is skipped. */
   private load(folder: string): void {
-    mkdirSync(folder, { recursive: true });
+    mkdirSync(folder, { recursive: true, mode: 0o700 });
     const file = path.join(folder, INBOX_FILE);
     if (!existsSync(file)) return;
     const kept: InboxMessage[] = [];
@@ -132,13 +133,13 @@ export class FakeSmtpServer {
     const dropped = this.messages.splice(INBOX_LIMIT);
     if (!this.folder) return;
     const file = path.join(this.folder, INBOX_FILE);
-    appendFileSync(file, `${JSON.stringify(message)}\n`);
+    appendFileSync(file, `${JSON.stringify(message)}\n`, { mode: 0o600 });
     this.appended += 1;
     for (const old of dropped) rmSync(path.join(this.folder, 'attachments', old.id), { recursive: true, force: true });
     if (this.appended < INBOX_LIMIT) return;
     this.appended = 0;
     const temporary = `${file}.${process.pid}.tmp`;
-    writeFileSync(temporary, [...this.messages].reverse().map((m) => `${JSON.stringify(m)}\n`).join(''));
+    writeFileSync(temporary, [...this.messages].reverse().map((m) => `${JSON.stringify(m)}\n`).join(''), { mode: 0o600 });
     renameSync(temporary, file);
   }
 }

@@ -116,10 +116,10 @@ export async function recordPdfFor(context: AppContext, reader: RecordReader): P
   if (!rendering) {
     rendering = (async () => {
       const pdf = await renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
-      await mkdir(path.dirname(cacheFile), { recursive: true });
+      await mkdir(path.dirname(cacheFile), { recursive: true, mode: 0o700 });
       // Written aside and renamed, so a reader never gets half a file.
       const partial = `${cacheFile}.${process.pid}.${Date.now()}.partial`;
-      await writeFile(partial, pdf);
+      await writeFile(partial, pdf, { mode: 0o600 });
       await rename(partial, cacheFile);
       return pdf;
     })().finally(() => renderingNow.delete(cacheFile));

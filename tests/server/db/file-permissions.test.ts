@@ -5,12 +5,15 @@ import path from 'node:path';
 import type { DataSource } from 'typeorm';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { openDatabase } from '../../../server/db/data-source.js';
+import { createLogger } from '../../../server/logger.js';
+import { createMailer } from '../../../server/mail/mailer.js';
 import { LocalDiskStorage } from '../../../server/storage/local-disk.js';
 
 /**
  * The database (password and refresh-token hashes, every record) and the photos are for the
  * server's user only (issue 18: the database file was world-readable): folders Holdline creates
- * are 0700, the database and its -wal and -shm files 0600, photos 0600 in a 0700 folder.
+ * are 0700, the database and its -wal and -shm files 0600, photos 0600 in a 0700 folder, and so
+ * the local test inbox.
  */
 describe('files on disk are for the server’s user only', () => {
   let dir: string;
@@ -60,5 +63,20 @@ describe('files on disk are for the server’s user only', () => {
     chmodSync(old, 0o755);
     await new LocalDiskStorage(old).put(`${randomUUID()}.png`, Buffer.from('photo'));
     expect(modeOf(old)).toBe(0o700);
+  });
+
+  it('keeps the local test inbox (sign-in links, records) for the server’s user only', async () => {
+    const folder = path.join(dir, 'data', 'mail');
+    const mailer = createMailer(undefined, createLogger('silent'), folder);
+    try {
+      await mailer.send({ to: 'crew@holdline.test', subject: 'Reset your password', text: 'A link', attachments: [{ filename: 'record.pdf', contentType: 'application/pdf', content: Buffer.from('%PDF-1.7') }] });
+      const [message] = mailer.fake!.messages;
+      expect(modeOf(folder)).toBe(0o700);
+      expect(modeOf(path.join(folder, 'inbox.jsonl'))).toBe(0o600);
+      expect(modeOf(path.join(folder, 'attachments', message!.id))).toBe(0o700);
+      expect(modeOf(path.join(folder, 'attachments', message!.id, '0'))).toBe(0o600);
+    } finally {
+      await mailer.close();
+    }
   });
 });
