@@ -3,7 +3,7 @@ import type { RequestHandler } from 'express';
 import helmet from 'helmet';
 import type { Config } from '../config.js';
 import { HttpError } from '../errors.js';
-import type { Logger } from '../logger.js';
+import { loggableUrl, type Logger } from '../logger.js';
 
 /**
  * The content security policy of every answer (the built client and the API alike). The client
@@ -104,7 +104,7 @@ export function refuseForeignOrigin(config: Config, logger: Logger): RequestHand
     const origin = req.get('origin');
     // config.publicUrl is read per request: the tests set it once the port is known.
     if (originAllowed(origin, req.get('host'), config.publicUrl)) return next();
-    logger.warn({ origin, method: req.method, url: req.originalUrl, publicUrl: config.publicUrl }, 'request from a foreign origin refused (if this is your own address behind a proxy, set HOLDLINE_PUBLIC_URL to it)');
+    logger.warn({ origin, method: req.method, url: loggableUrl(req.originalUrl), publicUrl: config.publicUrl }, 'request from a foreign origin refused (if this is your own address behind a proxy, set HOLDLINE_PUBLIC_URL to it)');
     next(originNotAllowed(config.publicUrl));
   };
 }
