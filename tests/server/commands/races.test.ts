@@ -241,6 +241,7 @@ describe('races on one board', () => {
     'acting.transfer': 'acting.transferred',
     'step.complete': 'step.completed',
     'crew.set': 'crew.set',
+    'job.stop': 'job.stopped',
   };
   const no = (code: string) => ({ ok: false as const, code });
 
@@ -250,6 +251,8 @@ describe('races on one board', () => {
     offCrew: Key[];
     releasedBy: Key | null;
     acting: Key;
+    /** The job is stopped: nothing on a hold is accepted until the resume. */
+    stopped: boolean;
   }
 
   /** One hold: acknowledged once per required role by different people, withdrawn by whoever acknowledged, released once by the acting supervisor. */
@@ -260,6 +263,9 @@ describe('races on one board', () => {
       if (c.type === 'acting.transfer') return s.acting === c.to ? no('already_acting') : { ok: true, next: { ...s, acting: c.to } };
       const who = a.who as Key;
       if (s.offCrew.includes(who)) return no('forbidden');
+      // Anyone on the crew may stop the job, live or already stopped (a second press is recorded too).
+      if (c.type === 'job.stop') return { ok: true, next: { ...s, stopped: true } };
+      if (s.stopped && c.type !== 'crew.set') return no('job_stopped');
       // A crew change takes back the acknowledgments of whoever leaves (or leaves that role).
       if (c.type === 'crew.set') {
         const on = (k: Key) => c.members.includes(k);
@@ -294,6 +300,7 @@ describe('races on one board', () => {
       acks: hold.acknowledgments.map((a) => ({ who: keyOf(a.userId), role: a.role as CrewRole })),
       releasedBy: hold.releasedBy ? keyOf(hold.releasedBy.userId) : null,
       acting: keyOf(board.actingSupervisor!.userId),
+      stopped: board.job.state === 'stopped',
       offCrew: (Object.keys(people) as Key[]).filter((k) => !board.crew.some((m) => m.userId === people[k].user.id)),
     };
   }
@@ -479,7 +486,7 @@ describe('races on one board', () => {
     expect(after.board.crew.map((m) => m.userId)).not.toContain(people.O.user.id);
   }, 60_000);
 
-  it('the acting supervisor, the second supervisor and an administrator naming the second acting, all at once: at most one release, by whoever was acting at that moment', async () => {
+  it('the acting supervisor, the second supervisor, an administrator naming the second acting and a signaller pressing stop, all at once: at most one release, by whoever was acting then, never after the stop', async () => {
     // The hold acknowledged by whoever holds its roles now: O2, briefed first, in place of O.
     await must(jobId, 'O2', { type: 'briefing.acknowledge' });
     const standing = holdModelOf(await boardNow(jobId), 'er-upper');
@@ -494,6 +501,7 @@ describe('races on one board', () => {
       { label: 'S2 release via http', who: 'S2', via: 'http', delayMs: 2, commandId: randomUUID(), command: release },
       { label: 'S2 release via socket', who: 'S2', via: 'socket', delayMs: 3, commandId: randomUUID(), command: release },
       { label: 'S1 release via http', who: 'S1', via: 'http', delayMs: 0, commandId: randomUUID(), command: release },
+      { label: 'G presses stop via socket', who: 'G', via: 'socket', delayMs: 2, commandId: randomUUID(), command: { type: 'job.stop', pressedAt: new Date().toISOString(), reason: 'Someone walked under the boom' } },
     ];
     const sent = await race(jobId, attempts);
     const after = await checkLog(jobId, before.seq);
@@ -502,10 +510,15 @@ describe('races on one board', () => {
     expect(model.acting).toBe('S2');
     const releases = after.log.filter((e) => e.type === 'hold.released');
     expect(releases.length).toBeLessThanOrEqual(1);
+    const stop = after.log.find((e) => e.type === 'job.stopped')!;
+    for (const released of releases) expect(released.seq).toBeLessThan(stop.seq);
+    expect(after.board.job.state).toBe('stopped');
   }, 60_000);
 
   it('a reader racing a write that fails never sees what the write did not commit', async () => {
-    const lastSeq = (await settled()).seq;
+    const { seq: lastSeq, board } = await settled();
+    // The race above left the job stopped: the failing write would have resumed it.
+    expect(board.job.state).toBe('stopped');
     let fail!: () => void;
     const failing = new Promise<void>((resolve) => (fail = resolve));
     // A write that appends an event and moves the job row, as the command writer does, and then fails
@@ -516,7 +529,7 @@ describe('races on one board', () => {
         const { id: _id, ...fields } = last;
         await manager.save(JobEvent, manager.create(JobEvent, { ...fields, seq: lastSeq + 1, commandId: randomUUID() }));
         const job = await manager.findOneByOrFail(Job, { id: jobId });
-        await manager.save(Job, { ...job, lastSeq: lastSeq + 1, state: 'stopped' });
+        await manager.save(Job, { ...job, lastSeq: lastSeq + 1, state: 'live' });
         await failing;
         throw new Error('the disk is full');
       })
@@ -533,8 +546,28 @@ describe('races on one board', () => {
     expect(await write).toBe('the disk is full');
     const [events, job, list] = await Promise.all(reads);
     expect(events.body).toMatchObject({ items: [], lastSeq });
-    expect(job.body).toMatchObject({ job: { id: jobId, state: 'live' } });
-    expect((list.body.items as { id: string; state: string }[]).find((j) => j.id === jobId)).toMatchObject({ state: 'live' });
+    expect(job.body).toMatchObject({ job: { id: jobId, state: 'stopped' } });
+    expect((list.body.items as { id: string; state: string }[]).find((j) => j.id === jobId)).toMatchObject({ state: 'stopped' });
     await checkLog(jobId, 0);
+  });
+
+  it('one command id sent with two different commands at once: one is applied, the other refused as a reused id', async () => {
+    const before = await settled();
+    const commandId = randomUUID();
+    // Two readings (a stopped job still takes them), one id: as a client bug or a replay with an edited body would send.
+    const attempts: Attempt[] = [
+      { label: 'R reads 3/5 m/s via socket', who: 'R', via: 'socket', delayMs: 0, commandId, command: calmWeather },
+      { label: 'R reads 4/6 m/s via http', who: 'R', via: 'http', delayMs: 0, commandId, command: { ...calmWeather, meanMs: 4, gustMs: 6 } },
+      { label: 'G reads 3/5 m/s via socket, its own id', who: 'G', via: 'socket2', delayMs: 1, commandId: randomUUID(), command: calmWeather },
+    ];
+    const sent = await race(jobId, attempts);
+    const after = await checkLog(jobId, before.seq);
+    expect(after.log.map((e) => e.type)).toEqual(['weather.recorded', 'weather.recorded']);
+    const mine = sent.filter((a) => a.commandId === commandId);
+    expect(mine.map((a) => (a.answer.ok ? 'ok' : a.answer.code)).sort()).toEqual(['command_id_reused', 'ok']);
+    const applied = mine.find((a) => a.answer.ok)!;
+    const event = after.log.find((e) => e.commandId === commandId)!;
+    expect(event.byUserId).toBe(people.R.user.id);
+    expect((event.data as { reading: { meanMs: number } }).reading.meanMs).toBe((applied.command as { meanMs: number }).meanMs);
   });
 });
