@@ -104,11 +104,26 @@ export function closedHeadline(board: BoardState, when: (iso: string) => string)
 /** Why a control cannot act now, said beside it (never a blue button that fails on tap). */
 export const BLOCKED_WORDS = {
   notLive: 'The board is not live: wait for it to reconnect.',
+  restarting: 'The server is restarting: wait for the board to come back live.',
   stopped: 'Job stopped: wait for the supervisor’s resume.',
   makingSafe: 'Shift ending: making safe. No work until the next shift is started.',
   madeSafe: 'Made safe: no work until the acting supervisor starts the next shift.',
   notBriefed: 'Acknowledge the briefing for this shift first (at the top of this screen).',
   notActing: (name: string) => `Only the acting supervisor, ${name}, does this. Take over by acknowledging their handover note.`,
+} as const;
+
+/**
+ * The cover over a board that is not live (NotLiveCover.vue): a connection that dropped, or the
+ * server saying it restarts (`server:restarting`, sent on SIGTERM before it closes). Both say the
+ * board cannot be relied on; the restart says why and that it comes back by itself.
+ */
+export const NOT_LIVE_WORDS = {
+  title: 'NOT LIVE',
+  restartingTitle: 'SERVER RESTARTING',
+  stale: 'This board is not up to date. Do not rely on it.',
+  restarting: 'The server said it is restarting. What it confirmed is kept; it takes no command until it is back.',
+  reconnecting: 'Reconnecting by itself… Use radio and signal meanwhile.',
+  restartReconnecting: 'The board reconnects and catches up by itself. Use radio and signal meanwhile.',
 } as const;
 
 /** The same rule in one line, for the fixed bar on a phone (the full rule is read out to screen readers). */
