@@ -39,10 +39,10 @@ export function sniffFormat(bytes: Buffer): PhotoFormat | null {
 }
 
 // What a file's name or declared type may say about a photo we take.
-const photoExtensions: Record<string, PhotoFormat> = { jpg: 'jpeg', jpeg: 'jpeg', jpe: 'jpeg', jfif: 'jpeg', png: 'png', webp: 'webp' };
+const photoExtensions = new Map<string, PhotoFormat>([['jpg', 'jpeg'], ['jpeg', 'jpeg'], ['jpe', 'jpeg'], ['jfif', 'jpeg'], ['png', 'png'], ['webp', 'webp']]);
 // Names that announce something other than a photo we take (a script-carrying SVG above all).
 const otherExtensions = new Set(['svg', 'svgz', 'gif', 'tif', 'tiff', 'bmp', 'heic', 'heif', 'avif', 'pdf', 'html', 'htm', 'xhtml', 'xml', 'js', 'mjs', 'exe']);
-const declaredTypes: Record<string, PhotoFormat> = { 'image/jpeg': 'jpeg', 'image/jpg': 'jpeg', 'image/pjpeg': 'jpeg', 'image/png': 'png', 'image/webp': 'webp' };
+const declaredTypes = new Map<string, PhotoFormat>([['image/jpeg', 'jpeg'], ['image/jpg', 'jpeg'], ['image/pjpeg', 'jpeg'], ['image/png', 'png'], ['image/webp', 'webp']]);
 const formatWords: Record<PhotoFormat, string> = { jpeg: 'a JPEG', png: 'a PNG', webp: 'a WebP' };
 
 /**
@@ -56,12 +56,13 @@ function assertNameAgrees(content: PhotoFormat, originalName: string | undefined
   if (extension && otherExtensions.has(extension)) {
     throw new HttpError(415, 'unsupported_image', `The file is named as a .${extension} file: Holdline takes JPEG, PNG and WebP photos only. ${fix}`);
   }
-  if (extension && photoExtensions[extension] && photoExtensions[extension] !== content) {
+  const named = extension ? photoExtensions.get(extension) : undefined;
+  if (named && named !== content) {
     throw new HttpError(415, 'image_mismatch', `The file is named .${extension} but holds ${formatWords[content]} image. ${fix}`);
   }
   const declared = (declaredType ?? '').split(';')[0]!.trim().toLowerCase();
   if (declared === '' || declared === 'application/octet-stream') return;
-  if (declaredTypes[declared] !== content) {
+  if (declaredTypes.get(declared) !== content) {
     throw new HttpError(415, 'image_mismatch', `The file was sent as another kind of file than the ${formatWords[content].slice(2)} image it holds. ${fix}`);
   }
 }
