@@ -26,9 +26,16 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
  *   board GET /board answers, and the model's end state (acknowledgments, steps, who released)
  *   equals that board;
  * - seqs run 1..n without a gap, no command id has two events, a command id sent on two transports
- *   at once is applied once and both senders get its seq, the hash chain verifies, and every socket
- *   on the board receives each event once, in seq order;
- * - exactly one release of a hold succeeds; the others are refused with a code that says why.
+ *   at once is applied once and both senders get its seq (sent with two different bodies, the
+ *   second is refused as reused), the hash chain verifies, every socket on the board receives each
+ *   event once, in seq order, and someone joining in the middle of a race misses nothing;
+ * - never more than one release of a hold succeeds (exactly one when nobody's role changes), never
+ *   after a stop pressed at the same moment; the others are refused with a code that says why;
+ * - an acknowledgment racing a crew change that takes its sender off never stands afterwards;
+ * - a read racing a write that then fails (a full disk) never shows what was not committed.
+ *
+ * All races run on one job, one after another (each starts from the board the last one left), so
+ * the file builds one board; fast-check does not shrink (a smaller case cannot be re-run alone).
  *
  * The rules the models encode are the board's own (DEVELOPERS.md, "The board's rules"): a hold
  * is acknowledged once per required role by different people, withdrawn only by whoever
@@ -430,7 +437,7 @@ describe('races on one board', () => {
     // Mostly steps whose predecessors are done (as the stage stood before the race), some that still wait.
     const move = fc.record({ pick: fc.nat(), ready: fc.constantFrom(true, true, false), person: fc.nat(), via, delayMs: delay, twin: fc.boolean() });
     await fc.assert(
-      fc.asyncProperty(fc.array(move, { minLength: 2, maxLength: 6 }), async (moves) => {
+      fc.asyncProperty(fc.array(move, { minLength: 2, maxLength: 6 }), delay, async (moves, joinDelayMs) => {
         const before = await settled();
         const now = before.board.stages.find((s) => s.id === 'er-upper')!;
         const open = now.steps.filter((st) => st.state !== 'done');
@@ -451,8 +458,20 @@ describe('races on one board', () => {
             attempts.push({ ...first, label: `#${i}' ${other} completes ${step.id} via ${otherVia}`, who: other, via: otherVia, delayMs: 0, commandId: randomUUID() });
           }
         });
+        // Someone opens the board in the middle of it, from the last seq they had: the events they are
+        // sent and the ones broadcast after their join leave no gap (a seq in both is dropped by seq).
+        const joiner = new BoardClient(server.url, people.G.token);
+        const joining = sleep(joinDelayMs).then(() => joiner.join(jobId, before.seq));
         const sent = await race(jobId, attempts);
+        const joined = await joining;
         const after = await checkLog(jobId, before.seq);
+        expect(joined).toMatchObject({ ok: true, mode: 'events' });
+        if (joined.ok && joined.mode === 'events') {
+          if (joined.seq < checked!.seq) await joiner.waitForSeq(checked!.seq);
+          const seen = new Set([...joined.events, ...joiner.events.filter((e) => e.jobId === jobId)].map((e) => e.seq));
+          expect([...seen].sort((x, y) => x - y)).toEqual(after.log.map((e) => e.seq));
+        }
+        joiner.close();
         const initial: StepModel = { done: Object.fromEntries(now.steps.filter((st) => st.doneBy).map((st) => [st.id, keyOf(st.doneBy!.userId)])) };
         const model = linearize(initial, decideStep(now), sent, after.log);
         const upper = after.board.stages.find((s) => s.id === 'er-upper')!;
