@@ -50,7 +50,7 @@ const fake = vi.hoisted(() => {
   };
 });
 
-vi.mock('../../../src/services/socket', () => ({ connectSocket: () => fake.socket }));
+vi.mock('../../../src/services/socket', async (importOriginal) => ({ ...(await importOriginal<object>()), connectSocket: () => fake.socket }));
 
 const by: JobEventDto['by'] = { userId: 'u-sup', name: 'Maren Holt', role: 'supervisor' };
 
