@@ -68,7 +68,7 @@ export function toHttpError(err: unknown, logger: Logger, where: Record<string, 
   // SQLite could not write (disk full, locked, read-only, I/O error): 503 with its own code, never the SQL.
   const fault = storageFaultOf(err);
   if (fault) {
-    logger.error({ sqliteCode: fault.sqliteCode, code: fault.code, ...where }, 'storage fault');
+    logger.error({ systemCode: fault.systemCode, code: fault.code, ...where }, 'storage fault');
     return new HttpError(503, fault.code, fault.message);
   }
   logger.error({ err, ...where }, 'unhandled error');

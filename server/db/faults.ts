@@ -14,8 +14,8 @@ export interface StorageFault {
   code: 'storage_full' | 'storage_busy' | 'storage_readonly' | 'storage_failed';
   /** Words for a crew member. */
   message: string;
-  /** SQLite's own (extended) result code, for the log and the administrator. */
-  sqliteCode: string;
+  /** SQLite's own (extended) result code, or the file system's error code (ENOSPC...), for the log and the administrator. */
+  systemCode: string;
 }
 
 /**
@@ -24,7 +24,7 @@ export interface StorageFault {
  * and a test proves no event and no job change remain. A failing disk (SQLITE_IOERR) can fail the
  * commit itself, when it is not certain what reached the disk: that answer says so, on the safe side.
  */
-export const storageFaultWords: Record<StorageFaultKind, Omit<StorageFault, 'sqliteCode' | 'kind'>> = {
+export const storageFaultWords: Record<StorageFaultKind, Omit<StorageFault, 'systemCode' | 'kind'>> = {
   full: { code: 'storage_full', message: "The server's disk is full: nothing was recorded. Tell the site administrator." },
   busy: { code: 'storage_busy', message: 'The database is busy with another task: nothing was recorded. Send it again in a moment.' },
   readonly: { code: 'storage_readonly', message: 'The server cannot write to its database (it is read-only): nothing was recorded. Tell the site administrator.' },
@@ -43,22 +43,20 @@ export function faultKindOfCode(code: string): StorageFaultKind | null {
   return null;
 }
 
+/** The file system's errors that are the same faults (a photo written to a full or read-only disk). */
+const fileSystemFaults: Record<string, StorageFaultKind> = { ENOSPC: 'full', EDQUOT: 'full', EROFS: 'readonly', EIO: 'failed' };
+
 /**
- * The storage fault behind an error thrown by better-sqlite3 (a SqliteError) or by TypeORM around
- * it (a QueryFailedError carrying the driver's error and its `code`), or null for anything else.
+ * The storage fault behind an error thrown by better-sqlite3 (a SqliteError), by TypeORM around it
+ * (a QueryFailedError carrying the driver's error and its `code`) or by the file system (ENOSPC,
+ * EROFS, EIO...), or null for anything else.
  */
 export function storageFaultOf(err: unknown): StorageFault | null {
-  const code = sqliteCodeOf(err);
-  if (!code) return null;
-  const kind = faultKindOfCode(code);
-  if (!kind) return null;
-  return { kind, ...storageFaultWords[kind], sqliteCode: code };
-}
-
-function sqliteCodeOf(err: unknown): string | null {
   for (const candidate of [err, (err as { driverError?: unknown } | null)?.driverError]) {
     const code = (candidate as { code?: unknown } | null | undefined)?.code;
-    if (typeof code === 'string' && code.startsWith('SQLITE_')) return code;
+    if (typeof code !== 'string') continue;
+    const kind = code.startsWith('SQLITE_') ? faultKindOfCode(code) : (fileSystemFaults[code] ?? null);
+    if (kind) return { kind, ...storageFaultWords[kind], systemCode: code };
   }
   return null;
 }
@@ -69,7 +67,7 @@ export interface StorageStatus {
   /** When the fault that stands began (the first failed write since the last good one); null when ok. */
   since: string | null;
   /** The latest fault, kept after it clears so an administrator can see what happened. */
-  lastFault: { code: StorageFault['code']; message: string; sqliteCode: string; at: string } | null;
+  lastFault: { code: StorageFault['code']; message: string; systemCode: string; at: string } | null;
   /** When a write last succeeded after a fault; null if none has cleared one yet. */
   clearedAt: string | null;
 }
@@ -85,7 +83,7 @@ export class StorageHealth {
     this.current = {
       ok: false,
       since: this.current.ok ? at : this.current.since,
-      lastFault: { code: fault.code, message: fault.message, sqliteCode: fault.sqliteCode, at },
+      lastFault: { code: fault.code, message: fault.message, systemCode: fault.systemCode, at },
       clearedAt: this.current.clearedAt,
     };
   }

@@ -10,7 +10,7 @@ export const storageStatusSchema = z.object({
     .object({
       code: z.enum(['storage_full', 'storage_busy', 'storage_readonly', 'storage_failed']),
       message: z.string(),
-      sqliteCode: z.string(),
+      systemCode: z.string(),
       at: z.string(),
     })
     .nullable(),

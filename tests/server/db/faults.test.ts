@@ -1,5 +1,5 @@
 import Database from 'better-sqlite3';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
@@ -195,6 +195,15 @@ describe('storage faults', () => {
     // A failed fsync can fail the commit itself: the words do not promise that nothing was recorded.
     expect(ioError.message).not.toMatch(/nothing was recorded/);
     expect(ioError.message).toMatch(/not confirmed. Check the board/);
+    // The same faults from the file system (a photo written to a full disk): /dev/full answers every write with ENOSPC.
+    let fileError: unknown;
+    try {
+      writeFileSync('/dev/full', 'photo bytes');
+    } catch (error) {
+      fileError = error;
+    }
+    expect(fileError).toMatchObject({ code: 'ENOSPC' });
+    expect(toHttpError(fileError, logger, {})).toMatchObject({ status: 503, code: 'storage_full' });
     // A constraint is a bug or a refusal of its own, never a storage fault.
     expect(storageFaultOf(new Database.SqliteError('UNIQUE constraint failed', 'SQLITE_CONSTRAINT_UNIQUE'))).toBeNull();
   });
@@ -218,7 +227,7 @@ describe('storage faults', () => {
           throw new Database.SqliteError('database or disk is full', 'SQLITE_FULL');
         }),
       ).rejects.toMatchObject({ code: 'SQLITE_FULL' });
-      expect(queue.storage.status).toMatchObject({ ok: false, lastFault: { code: 'storage_full', sqliteCode: 'SQLITE_FULL' } });
+      expect(queue.storage.status).toMatchObject({ ok: false, lastFault: { code: 'storage_full', systemCode: 'SQLITE_FULL' } });
       // A refusal after a write: rolled back, and the connection is not left inside a transaction.
       await expect(
         queue.transaction(async (m) => {
