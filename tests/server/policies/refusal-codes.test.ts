@@ -31,6 +31,7 @@ const notSentToTheBoard: Record<string, { file: string; why: string }> = {
   image_mismatch: { file: 'server/commands/uploads.ts', why: 'storing a photo is POST /api/uploads; the board only attaches stored ones' },
   no_plan: { file: 'server/queries/plans.ts', why: 'a readiness reason shown on the plan, not a refusal' },
   plan_stale: { file: 'server/queries/plans.ts', why: 'a readiness reason shown on the plan, not a refusal' },
+  second_admin_needed: { file: 'server/errors.ts', why: 'an administrator changing their own account or crew place (PATCH /api/users/:id, PUT /api/jobs/:id/crew), never a board command' },
 };
 
 const importPattern = /\bfrom\s+'(\.{1,2}\/[^']+)\.js'/g;
