@@ -217,6 +217,28 @@ describe('the edge against hostile input', () => {
       await expectHealthy();
     });
 
+    it('malformed Socket.IO frames written straight to the transport close or leave only that connection; everyone else carries on', async () => {
+      const watcher = client();
+      expect((await watcher.join(liveJobId)).ok).toBe(true);
+      const before = await headOf(liveJobId);
+      // Each is a Socket.IO packet as a hostile client could write it, past the client library's encoder.
+      const frames = ['2["board:command"', '2[42,{}]', '2[]', '2{}', '2/admin,["board:join",{}]', '2["__proto__",{}]', '299999999999999999999["board:join",{}]', '0{"token":"x"}', '51-["board:command",{"_placeholder":true,"num":7}]', '1'];
+      const closedBy: Record<string, string> = {};
+      for (const frame of frames) {
+        const c = client();
+        await c.connected();
+        c.socket.once('disconnect', (reason) => (closedBy[frame] = reason));
+        c.socket.io.engine.write(frame);
+        await new Promise((r) => setTimeout(r, 50));
+      }
+      // The frames reach the server: one it cannot parse closes that connection.
+      expect(closedBy['2["board:command"']).toBe('transport close');
+      await expectHealthy();
+      expect(watcher.socket.connected).toBe(true);
+      expect(await watcher.socket.emitWithAck('board:join', { jobId: liveJobId })).toMatchObject({ ok: true });
+      expect(await headOf(liveJobId)).toEqual(before);
+    });
+
     it('lets a crew member send a burst a real crew could, at a real pace, without refusal', async () => {
       const c = client();
       await c.connected();
