@@ -18,9 +18,14 @@ describe('HTTP basics', () => {
   });
   afterAll(() => server.stop());
 
-  it('answers the health check with status, version and database', async () => {
+  it('answers the health check with status, version, database and a storage that has had no fault', async () => {
     const res = await request(server.app).get('/api/health').expect(200);
-    expect(healthSchema.parse(res.body)).toEqual({ status: 'ok', version: expect.stringMatching(/^\d+\.\d+\.\d+/), database: 'ok' });
+    expect(healthSchema.parse(res.body)).toEqual({
+      status: 'ok',
+      version: expect.stringMatching(/^\d+\.\d+\.\d+/),
+      database: 'ok',
+      storage: { ok: true, since: null, lastFault: null, clearedAt: null },
+    });
   });
 
   it('answers an unknown API route with a 404 JSON error', async () => {
