@@ -178,7 +178,10 @@ describe('the board when the server restarts', () => {
     await board.open(JOB_ID);
     fake.answerWith(() => ({ ok: false, error: { code: 'storage_busy', message: 'The database is busy with another task: nothing was recorded.' } }));
     expect(await board.stop()).toBeNull();
+    // Nothing moved on the board: it waits for the server's event, which did not come.
     expect(board.live).toBe(true);
+    expect(board.board?.seq).toBe(5);
+    expect(board.stopped).toBe(false);
     const firstId = fake.commands[0]!.commandId;
 
     // A tick within the retry gap sends nothing; one after it sends the same stop again.
