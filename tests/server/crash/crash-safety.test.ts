@@ -20,7 +20,7 @@ import { startTestServer } from '../../helpers/server.js';
 import { openDatabase } from '../../../server/db/data-source.js';
 import { Job } from '../../../server/entities/Job.js';
 import { verifyJobChain } from '../../../server/events/chain.js';
-import { takeBackup } from '../../../scripts/backup.js';
+import { chainStates, takeBackup } from '../../../scripts/backup.js';
 
 /**
  * Issue 18, crash safety. The real server runs as a child process on a temporary SQLite file;
@@ -43,6 +43,8 @@ const PER_SOCKET_RATE = 18;
 type WeatherCommand = Extract<BoardCommand, { type: 'weather.record' }>;
 
 const root = path.resolve(import.meta.dirname, '..', '..', '..');
+/** Every client made, closed at the end even when a test fails half-way (a reconnecting socket would keep the worker alive). */
+const allClients: CrewClient[] = [];
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** One crew member's board connection: a real socket.io client that reconnects by itself, and the client's own follower. */
@@ -95,6 +97,7 @@ class CrewClient {
       },
       { onEvent: (event) => this.applied.push(event.seq) },
     );
+    allClients.push(this);
     this.socket.on('connect', () => void this.rejoin());
     this.socket.on('board:event', (event) => this.follower.onEvent(event));
     this.socket.on('board:tick', (tick) => this.follower.onTick(tick));
@@ -220,6 +223,7 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
   }, 60_000);
 
   afterAll(async () => {
+    for (const client of allClients) client.close();
     await server?.stop();
   });
 
@@ -342,6 +346,8 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
     const load = new Load(jobId, clients);
     const backupDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-backup-'));
     const copyPath = path.join(backupDir, 'copy.sqlite');
+    const tamperedPath = path.join(backupDir, 'tampered.sqlite');
+    const underLoadPath = path.join(backupDir, 'under-load.sqlite');
     let before: number;
     let during: number;
     let run: { code: number | null; out: string };
@@ -399,10 +405,26 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
     const size = statSync(copyPath).size;
     await expect(takeBackup({ source: server.databasePath, target: copyPath })).rejects.toThrow(/already exists.*--force/);
     expect(statSync(copyPath).size).toBe(size);
+    copyFileSync(copyPath, underLoadPath);
+    // With --force it is replaced by a new copy (the load has stopped: the same head as the live file now).
+    const forced = await takeBackup({ source: server.databasePath, target: copyPath, force: true });
+    expect(forced.jobs.find((j) => j.id === jobId)).toMatchObject({ lastSeq: live.length, check: { valid: true, checked: live.length } });
+    copyFileSync(copyPath, tamperedPath);
+    // The script's chain check catches a changed event in a copy: one reading's gust rewritten in place.
+    const tampered = new Database(tamperedPath);
+    try {
+      const row = tampered.prepare('SELECT data FROM job_event WHERE job_id = ? AND seq = ?').get(jobId, copiedSeq) as { data: string };
+      const data = JSON.parse(row.data) as { reading: { gustMs: number } };
+      data.reading.gustMs += 10;
+      tampered.prepare('UPDATE job_event SET data = ? WHERE job_id = ? AND seq = ?').run(JSON.stringify(data), jobId, copiedSeq);
+      expect(chainStates(tampered).find((j) => j.id === jobId)?.check).toMatchObject({ valid: false, firstBadSeq: copiedSeq, problem: 'content' });
+    } finally {
+      tampered.close();
+    }
 
-    // Restore as README.md says: stop the server, copy the backup over HOLDLINE_DB, remove the stale -wal and -shm, start.
+    // Restore the copy taken under load as README.md says: stop the server, copy the backup over HOLDLINE_DB, remove the stale -wal and -shm, start.
     await server.kill();
-    copyFileSync(copyPath, server.databasePath);
+    copyFileSync(underLoadPath, server.databasePath);
     rmSync(`${server.databasePath}-wal`, { force: true });
     rmSync(`${server.databasePath}-shm`, { force: true });
     await server.boot();
