@@ -121,7 +121,7 @@ export const NOT_LIVE_WORDS = {
   title: 'NOT LIVE',
   restartingTitle: 'SERVER RESTARTING',
   stale: 'This board is not up to date. Do not rely on it.',
-  restarting: 'The server said it is restarting. What it confirmed is kept; it takes no command until it is back.',
+  restarting: 'The server is restarting. Everything it confirmed is kept.',
   reconnecting: 'Reconnecting by itself… Use radio and signal meanwhile.',
   restartReconnecting: 'The board reconnects and catches up by itself. Use radio and signal meanwhile.',
 } as const;
