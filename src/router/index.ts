@@ -1,5 +1,5 @@
 import { createRouter, createWebHistory } from 'vue-router';
-import { useSessionStore } from '../stores/session';
+import { useSessionStore, whenSessionEnded } from '../stores/session';
 import { routes } from './routes';
 
 export const router = createRouter({ history: createWebHistory(), routes });
@@ -12,6 +12,12 @@ router.beforeEach(async (to) => {
   if (!session.signedIn) return { name: 'sign-in', query: to.fullPath !== '/' ? { next: to.fullPath } : {} };
   if (to.meta.admin && !session.isAdmin) return { name: 'jobs' };
   return true;
+});
+
+// The server ended the session while a screen was open (signed out on this device, deactivated): to the sign-in page, which says why.
+whenSessionEnded(() => {
+  const here = router.currentRoute.value;
+  if (!here.meta.public) void router.replace({ name: 'sign-in', query: here.fullPath !== '/' ? { next: here.fullPath } : {} });
 });
 
 router.afterEach((to) => {

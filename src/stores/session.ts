@@ -5,6 +5,14 @@ import type { UserDto } from '../../shared/schemas/users';
 import { api, ApiRequestError, setTokenSource } from '../services/api';
 import { disconnectSocket, renewSocketToken, setSocketSession } from '../services/socket';
 
+/** What the router does when the server ends the session while a screen is open (src/router/index.ts: the sign-in page). */
+let sessionEndedHandler: (() => void) | null = null;
+
+/** The router registers here: it imports this store, so the store cannot import it. */
+export function whenSessionEnded(handler: () => void): void {
+  sessionEndedHandler = handler;
+}
+
 /** Refresh this long before the access token expires, so a shift never sees it lapse. */
 const REFRESH_MARGIN_MS = 60_000;
 
@@ -104,11 +112,7 @@ export const useSessionStore = defineStore('session', () => {
     ended(reason) {
       endedReason.value = reason;
       clear();
-      // The router imports this store: loaded when needed, to send the person to the sign-in page.
-      void import('../router').then(({ router }) => {
-        const here = router.currentRoute.value;
-        if (!here.meta.public) void router.replace({ name: 'sign-in', query: here.fullPath !== '/' ? { next: here.fullPath } : {} });
-      });
+      sessionEndedHandler?.();
     },
   });
 
