@@ -306,6 +306,16 @@ describe('the access-control matrix', () => {
     expect(board.presence.map((p) => (p as { userId: string }).userId)).not.toContain(leaver.user.id);
     expect(await leaving.join(jobA)).toMatchObject({ ok: false, error: { code: 'forbidden' } });
     crewA.push({ userId: demoted.user.id, role: 'rigger' });
+
+    // An administrator watches any board; made no longer one, they leave the boards of crews they are not on.
+    const formerAdmin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+    const watching = client(formerAdmin);
+    expect((await watching.join(jobA)).ok).toBe(true);
+    const toldAdmin = new Promise<{ jobId: string; reason: string }>((resolve) => watching.socket.once('board:removed', resolve));
+    await request(server.app).patch(`/api/users/${formerAdmin.user.id}`).set(as(people.adm)).send({ isAdmin: false }).expect(200);
+    const adminNotice = await Promise.race([toldAdmin, new Promise<null>((resolve) => setTimeout(() => resolve(null), 1000))]);
+    expect(adminNotice).toEqual({ jobId: jobA, reason: expect.stringMatching(/no longer an administrator/) });
+    expect(await watching.join(jobA)).toMatchObject({ ok: false, error: { code: 'forbidden' } });
   });
 
   it('closes a deactivated person’s open sockets within a second, and refuses their refresh token', async () => {
