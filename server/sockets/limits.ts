@@ -17,12 +17,18 @@ import type { HoldlineSocket } from './auth.js';
  */
 export function guardSocketInput(context: AppContext, socket: HoldlineSocket): void {
   const bucket = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst);
+  // Said once per connection in the log, so an operator can find a stuck client or a script.
+  let warned = false;
   socket.use((packet, next) => {
     const ack: unknown = packet.at(-1);
     const answer = (error: unknown) => {
       if (typeof ack === 'function') ack(refusalOf(error, context.logger, { event: packet[0], userId: socket.data.userId }));
     };
-    if (!bucket.take() && !isStop(packet)) return answer(tooManyCommands());
+    if (!bucket.take() && !isStop(packet)) {
+      if (!warned) context.logger.warn({ userId: socket.data.userId, socketId: socket.id, event: packet[0] }, 'socket over its message rate');
+      warned = true;
+      return answer(tooManyCommands());
+    }
     try {
       for (let i = 1; i < packet.length; i++) if (typeof packet[i] !== 'function') packet[i] = cleanInput(packet[i]);
     } catch (error) {
