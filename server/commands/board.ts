@@ -29,6 +29,9 @@ import type { EventData, EventDraft } from '../../shared/events/log.js';
 import { runJobCommand, type CommandOutcome } from './job-writer.js';
 import { attachUploads } from './uploads.js';
 
+/** A resume is refused this long after a stop was pressed again (common practice, no source: the time to see a press on the board and ask why). */
+export const RESUME_AFTER_PRESS_MS = 10_000;
+
 const refuse = (status: number, code: string, message: string, fields?: { path: string; message: string }[]) => new HttpError(status, code, message, fields);
 const invalidState = (message: string) => refuse(409, 'invalid_state', message);
 
@@ -410,6 +413,14 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     // no known limit there is nothing to hold the wind to, so work does not go on until the
     // manufacturer's limit is known.
     requireWeather(board, now, 'Work cannot resume yet');
+    // A stop pressed again while the supervisor was resuming is never resumed over unseen: the board
+    // shows the press at once, so a resume sent within seconds of it was decided without it.
+    const again = board.job.stop.alsoPressedBy?.at(-1);
+    const since = again ? now.getTime() - Date.parse(again.at) : Infinity;
+    if (again && since < RESUME_AFTER_PRESS_MS) {
+      const seconds = Math.max(1, Math.round(since / 1000));
+      throw refuse(409, 'stop_pressed_again', `${again.name} pressed stop again ${seconds} second${seconds === 1 ? '' : 's'} ago. Find out why before work goes on, then resume.`);
+    }
     return { type: 'job.resumed', role: 'supervisor', data: { reason: c.reason } };
   },
 

@@ -214,6 +214,7 @@ export const refusalCodes = [
   'out_of_limit',
   'out_of_order',
   'stop_cause_required',
+  'stop_pressed_again',
   // Shifts (server/commands/board.ts, shared/board/shifts.ts)
   'not_acting_supervisor',
   'shift_busy',

@@ -11,6 +11,7 @@ import type { Plan, PlanStep } from '../../../shared/schemas/plan.js';
 import { freshToken, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, advanceUntilActive, boardOf, briefEveryone, calmWeather, completeSteps, controllerValues18m, httpCommand, inStepOrder, readingWithinLimit, uploadPhoto, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
+import { RESUME_AFTER_PRESS_MS } from '../../../server/commands/board.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
@@ -491,6 +492,9 @@ describe('board rules', () => {
       const board = await boardOf(server, crew.supervisor, jobId);
       expect(board.job.stop).toMatchObject({ reason: 'A walker came through the gate on the footpath side', raisedBy: { userId: viewer.user.id }, alsoPressedBy: [expect.objectContaining({ userId: crew.signaller.user.id })] });
       expect((await httpCommand(server, crew.operator, jobId, { type: 'job.resume', reason: 'All clear' })).body.error?.code).toBe('role_not_allowed');
+      // The signaller's second press came seconds ago: the resume waits until it can have been seen.
+      expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Gate closed and marshalled' })).body.error?.code).toBe('stop_pressed_again');
+      server.advance(RESUME_AFTER_PRESS_MS);
       expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Gate closed and marshalled' })).status).toBe(200);
     });
   });

@@ -9,6 +9,7 @@ import { Job } from '../../../server/entities/Job.js';
 import { JobEvent } from '../../../server/entities/JobEvent.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { BoardClient, calmWeather, completeSteps, readingWithinLimit, signedInCrew, type CommandBody, type CrewByRole } from '../../helpers/board.js';
+import { RESUME_AFTER_PRESS_MS } from '../../../server/commands/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
@@ -249,6 +250,7 @@ describe('races on one board', () => {
     'step.complete': 'step.completed',
     'crew.set': 'crew.set',
     'job.stop': 'job.stopped',
+    'job.resume': 'job.resumed',
   };
   const no = (code: string) => ({ ok: false as const, code });
 
@@ -588,5 +590,38 @@ describe('races on one board', () => {
     const event = after.log.find((e) => e.commandId === commandId)!;
     expect(event.byUserId).toBe(people.R.user.id);
     expect((event.data as { reading: { meanMs: number } }).reading.meanMs).toBe((applied.command as { meanMs: number }).meanMs);
+  });
+
+  it('a stop pressed again at the moment the supervisor resumes: the press is never lost, the job ends stopped either way', async () => {
+    const before = await settled();
+    expect(before.board.job.state).toBe('stopped');
+    expect(before.board.job.stop?.reason).toBeTruthy();
+    // Pressed long enough ago to have been seen: the resume would be accepted on its own.
+    server.advance(RESUME_AFTER_PRESS_MS);
+    await must(jobId, 'R', calmWeather);
+    const start = await settled();
+    const attempts: Attempt[] = [
+      { label: 'S2 resumes via socket', who: 'S2', via: 'socket', delayMs: 1, commandId: randomUUID(), command: { type: 'job.resume', reason: 'Wind eased and the area is clear' } },
+      { label: 'R presses stop via http', who: 'R', via: 'http', delayMs: 0, commandId: randomUUID(), command: { type: 'job.stop', pressedAt: new Date().toISOString(), reason: 'A sling caught on the lattice' } },
+    ];
+    const sent = await race(jobId, attempts);
+    const after = await checkLog(jobId, start.seq);
+    // Stopped with the cause recorded; a press while stopped is "pressed again" and blocks a resume for a while.
+    type StopModel = { stopped: boolean; pressedAgain: boolean };
+    const decide = (m: StopModel, a: Attempt): Decision<StopModel> => {
+      if (a.command.type === 'job.stop') return { ok: true, next: { stopped: true, pressedAgain: m.stopped } };
+      if (a.command.type !== 'job.resume') throw new Error(`no stop rule for ${a.command.type}`);
+      if (!m.stopped) return no('invalid_state');
+      if (m.pressedAgain) return no('stop_pressed_again');
+      return { ok: true, next: { stopped: false, pressedAgain: false } };
+    };
+    const model = linearize({ stopped: true, pressedAgain: false }, decide, sent, after.log);
+    expect(model.stopped).toBe(true);
+    expect(after.board.job.state).toBe('stopped');
+    const press = after.log.find((e) => e.type === 'job.stopped')!;
+    expect(press).toBeDefined();
+    const resumed = after.log.find((e) => e.type === 'job.resumed');
+    if (resumed) expect(resumed.seq).toBeLessThan(press.seq);
+    else expect(sent[0].answer).toMatchObject({ ok: false, code: 'stop_pressed_again', message: expect.stringContaining(`${people.R.user.displayName} pressed stop again`) });
   });
 });

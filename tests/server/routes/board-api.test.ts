@@ -6,6 +6,7 @@ import { jobEventListSchema } from '../../../shared/events/log.js';
 import { createApp } from '../../../server/app.js';
 import { openDatabase } from '../../../server/db/data-source.js';
 import { createLogger } from '../../../server/logger.js';
+import { RESUME_AFTER_PRESS_MS } from '../../../server/commands/board.js';
 import { freshToken, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, advanceUntilActive, BoardClient, boardOf, briefEveryone, completeSteps, controllerValues18m, httpCommand, uploadPhoto, type CrewByRole, signedInCrew } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
@@ -205,6 +206,9 @@ describe('the live board engine', () => {
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Cleared' })).body.error?.code).toBe('weather_required');
     await httpCommand(server, crew.rigger, jobId, { type: 'weather.record', meanMs: 4, gustMs: 7, heightM: 10 });
     expect((await httpCommand(server, crew.operator, jobId, { type: 'job.resume', reason: 'Cleared' })).body.error?.code).toBe('role_not_allowed');
+    // The signaller pressed stop again seconds ago: a resume now would be decided without that press.
+    expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Tag line freed and checked' })).body.error).toMatchObject({ code: 'stop_pressed_again', message: expect.stringContaining(`${crew.signaller.user.displayName} pressed stop again`) });
+    server.advance(RESUME_AFTER_PRESS_MS);
     expect((await httpCommand(server, crew.supervisor, jobId, { type: 'job.resume', reason: 'Tag line freed and checked' })).status).toBe(200);
     board = await boardOf(server, crew.supervisor, jobId);
     expect(board.job).toMatchObject({ state: 'live', lastResume: { reason: 'Tag line freed and checked' } });
