@@ -64,6 +64,18 @@ const hostileValue = (ids: string[]) =>
     array: fc.array(tie('value'), { maxLength: 5 }),
   })).value;
 
+/**
+ * What a Socket.IO client can send beyond JSON: binary (a Buffer or typed array, carried as an
+ * attachment), alone or in place of a field; NaN and Infinity still travel as null.
+ */
+const socketValue = (ids: string[]): fc.Arbitrary<unknown> =>
+  fc.oneof(
+    { arbitrary: hostileValue(ids), weight: 5 },
+    { arbitrary: fc.uint8Array({ maxLength: 64 }).map((bytes) => Buffer.from(bytes)), weight: 1 },
+    { arbitrary: fc.tuple(fc.constantFrom(...fieldNames), fc.uint8Array({ maxLength: 16 })).map(([key, bytes]) => ({ [key]: bytes, jobId: ids[0] })), weight: 1 },
+    { arbitrary: fc.constantFrom(NaN, Infinity, -Infinity).map((n) => ({ jobId: ids[0], afterSeq: n, jobIds: [n] })), weight: 1 },
+  );
+
 /** What goes on the wire as a request body: JSON of a hostile value, or text that is not JSON at all, or structure past every limit. */
 const hostileBody = (ids: string[]): fc.Arbitrary<string> =>
   fc.oneof(
@@ -328,7 +340,7 @@ describe('hostile input at every route and socket event', () => {
     it.each(answered)('%s: hostile payloads are answered ok:false with a message, never crash, and change nothing', async (event) => {
       const s = await socketOf(crew.supervisor);
       await fc.assert(
-        fc.asyncProperty(hostileValue(Object.values(ids)), fc.boolean(), async (payload, wrapInCommand) => {
+        fc.asyncProperty(socketValue(Object.values(ids)), fc.boolean(), async (payload, wrapInCommand) => {
           const before = await snapshot();
           // A board command's hostile part is as often the command inside a well-formed envelope.
           const sent = event === 'board:command' && wrapInCommand ? { jobId, command: payload } : payload;
