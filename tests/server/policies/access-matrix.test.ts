@@ -282,6 +282,10 @@ describe('the access-control matrix', () => {
     const planners = () => server.io.of('/').adapter.rooms.get(plannerRoom(jobA)) ?? new Set<string>();
     expect(planners().has(stepping.socket.id!)).toBe(true);
     const told = new Promise<{ jobId: string; reason: string }>((resolve) => leaving.socket.once('board:removed', resolve));
+    // The leaver's job list follows job A's line too.
+    const lines: number[] = [];
+    leaving.socket.on('jobs:summary', (line) => lines.push(line.lastSeq));
+    expect(await leaving.socket.emitWithAck('jobs:follow', { jobIds: [jobA] })).toEqual({ ok: true, following: [jobA] });
 
     // The leaver goes; the demoted supervisor stays as a rigger only.
     const changed = await request(server.app)
@@ -298,6 +302,7 @@ describe('the access-control matrix', () => {
     expect(planners().has(stepping.socket.id!)).toBe(false);
     expect(leaving.events.some((e) => e.seq === crewSeq)).toBe(true);
     expect(leaving.events.filter((e) => e.seq > crewSeq).map((e) => e.type)).toEqual([]);
+    expect(lines.filter((seq) => seq > crewSeq)).toEqual([]);
     // Told why, on the connection that stays open for the person's other boards.
     const notice = await Promise.race([told, new Promise<null>((resolve) => setTimeout(() => resolve(null), 1000))]);
     expect(notice).toEqual({ jobId: jobA, reason: expect.stringMatching(/no longer on its crew/) });
