@@ -15,6 +15,7 @@ import { valueCheckFieldLabels } from '../../shared/schemas/plan.js';
 import type { AppContext } from '../context.js';
 import { Component } from '../entities/Component.js';
 import { JobCrew } from '../entities/JobCrew.js';
+import { JobEvent } from '../entities/JobEvent.js';
 import type { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
 import { Upload } from '../entities/Upload.js';
@@ -404,7 +405,7 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'job.stop.noted', role: pressed ? roles[0] : 'supervisor', data: { reason: c.reason } };
   },
 
-  async 'job.resume'({ board, now }, c) {
+  async 'job.resume'({ manager, job, board, now }, c) {
     if (board.job.state !== 'stopped') throw invalidState('The job is not stopped.');
     if (!board.job.stop?.reason) {
       throw refuse(409, 'stop_cause_required', `Record why the job stopped first: ${board.job.stop?.raisedBy.name ?? 'whoever pressed stop'} or a supervisor adds the cause, then resume.`);
@@ -419,7 +420,10 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     const since = again ? now.getTime() - Date.parse(again.at) : Infinity;
     if (again && since < RESUME_AFTER_PRESS_MS) {
       const seconds = Math.max(1, Math.round(since / 1000));
-      throw refuse(409, 'stop_pressed_again', `${again.name} pressed stop again ${seconds} second${seconds === 1 ? '' : 's'} ago. Find out why before work goes on, then resume.`);
+      // The board keeps a second press without its words; the log has them.
+      const press = await manager.findOne(JobEvent, { where: { jobId: job.id, type: 'job.stopped' }, order: { seq: 'DESC' } });
+      const reason = typeof press?.data.reason === 'string' && press.data.reason ? ` (“${press.data.reason}”)` : '';
+      throw refuse(409, 'stop_pressed_again', `${again.name} pressed stop again ${seconds} second${seconds === 1 ? '' : 's'} ago${reason}. Find out why before work goes on, then resume.`);
     }
     return { type: 'job.resumed', role: 'supervisor', data: { reason: c.reason } };
   },
