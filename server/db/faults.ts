@@ -44,7 +44,12 @@ export function faultKindOfCode(code: string): StorageFaultKind | null {
 }
 
 /** The file system's errors that are the same faults (a photo written to a full or read-only disk). */
-const fileSystemFaults: Record<string, StorageFaultKind> = { ENOSPC: 'full', EDQUOT: 'full', EROFS: 'readonly', EIO: 'failed' };
+const fileSystemFaults = new Map<string, StorageFaultKind>([
+  ['ENOSPC', 'full'],
+  ['EDQUOT', 'full'],
+  ['EROFS', 'readonly'],
+  ['EIO', 'failed'],
+]);
 
 /**
  * The storage fault behind an error thrown by better-sqlite3 (a SqliteError), by TypeORM around it
@@ -55,7 +60,7 @@ export function storageFaultOf(err: unknown): StorageFault | null {
   for (const candidate of [err, (err as { driverError?: unknown } | null)?.driverError]) {
     const code = (candidate as { code?: unknown } | null | undefined)?.code;
     if (typeof code !== 'string') continue;
-    const kind = code.startsWith('SQLITE_') ? faultKindOfCode(code) : (fileSystemFaults[code] ?? null);
+    const kind = code.startsWith('SQLITE_') ? faultKindOfCode(code) : (fileSystemFaults.get(code) ?? null);
     if (kind) return { kind, ...storageFaultWords[kind], systemCode: code };
   }
   return null;
