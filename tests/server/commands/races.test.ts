@@ -41,8 +41,10 @@ import { startTestServer, type TestServer } from '../../helpers/server.js';
  * The rules the models encode are the board's own (DEVELOPERS.md, "The board's rules"): a hold
  * is acknowledged once per required role by different people, withdrawn only by whoever
  * acknowledged it, released once by the acting supervisor after every required role; a step is
- * done once, after the steps it waits for. Common practice, no source: these are the product's
- * rules, not figures from a standard.
+ * done once, after the steps it waits for; someone off the crew is refused before any rule, and a
+ * crew change takes back the acknowledgments of whoever leaves; a stopped job takes nothing on a
+ * hold, and a resume within RESUME_AFTER_PRESS_MS of a second stop press is refused. Common
+ * practice, no source: these are the product's rules, not figures from a standard.
  */
 
 type Key = 'S1' | 'S2' | 'O' | 'G' | 'R' | 'O2';
