@@ -7,6 +7,7 @@ import { boardCommandSchema } from '../../../shared/schemas/commands.js';
 import type { CrewRole } from '../../../shared/schemas/jobs.js';
 import { jobEventListSchema } from '../../../shared/events/log.js';
 import { signInAuditListSchema } from '../../../shared/schemas/audit.js';
+import { User } from '../../../server/entities/User.js';
 import { plannerRoom } from '../../../server/sockets/publisher.js';
 import { policyTable } from '../../../server/policies/index.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
@@ -130,6 +131,7 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   ['socket board:join',                                 'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['socket jobs:follow',                                'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
   ['socket board:command',                              '-   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['socket session:renew',                              'Y   Y   Y   Y   Y   Y   Y   Y   Y   -   -'],
   // Board commands (POST /api/jobs/:jobId/commands; the socket's board:command takes the same path).
   ['command job.start',                                 '-   Y   Y   -   -   -   -   -   -   -   -'],
   ['command job.complete',                              '-   Y   Y   -   -   -   -   -   -   -   -'],
@@ -421,8 +423,11 @@ describe('the access-control matrix', () => {
     expect(audit.filter((a) => a.userId === first.user.id && a.kind === 'user_changed')).toHaveLength(1);
   });
 
-  it('names every route of the policy table and every board command in the matrix, once', () => {
+  it('names every route and socket event of the policy table and every board command in the matrix, once', () => {
     const rows = matrix.map(([row]) => row.replace(/ \((own|other)\)$/, ''));
+    // `board:leave` only takes the socket out of a board it joined: nothing to refuse, nothing answered.
+    const events = policyTable.flatMap((r) => ('events' in r ? (r.events as readonly string[]) : [])).filter((e) => e !== 'board:leave');
+    expect(rows.filter((r) => r.startsWith('socket ')).map((r) => r.slice('socket '.length)).sort()).toEqual([...events].sort());
     const routes = policyTable.flatMap((r) => r.routes as readonly string[]);
     const commands = boardCommandSchema.options.map((o) => `command ${o.shape.type.value}`);
     expect([...new Set(rows.filter((r) => r.startsWith('GET ') || r.startsWith('POST ') || r.startsWith('PUT ') || r.startsWith('PATCH ') || r.startsWith('DELETE ')))].sort()).toEqual([...routes].sort());
@@ -432,6 +437,10 @@ describe('the access-control matrix', () => {
   });
 
   it('answers every cell as the table says', { timeout: 60_000 }, async () => {
+    // The deactivated column's person, should this test run alone.
+    if ((await server.context.dataSource.manager.findOneByOrFail(User, { id: people.dis.user.id })).active) {
+      await request(server.app).patch(`/api/users/${people.dis.user.id}`).set(as(people.adm)).send({ active: false }).expect(200);
+    }
     const plan = (await request(server.app).get(`/api/jobs/${jobA}/plan`).set(as(people.act)).expect(200)).body.plan as { kind: string };
     const crewRoleOf = (column: Column): CrewRole => (['opr', 'sig'].includes(column) ? (column === 'opr' ? 'operator' : 'signaller') : column === 'sup' || column === 'act' ? 'supervisor' : 'rigger');
     const bodies: { [T in BoardCommandType]: (column: Column) => CommandBody } = {
@@ -480,6 +489,10 @@ describe('the access-control matrix', () => {
         const socket = await socketOf(column);
         if (typeof socket === 'string') return { admitted: false, seen: `connect_error ${socket}` };
         if (row === 'socket connect') return { admitted: true, seen: 'connected' };
+        if (row === 'socket session:renew') {
+          const ack = await socket.socket.emitWithAck('session:renew', { token: who!.token });
+          return { admitted: ack.ok, seen: ack.ok ? 'ok' : `${ack.error.code}: ${ack.error.message}` };
+        }
         if (row === 'socket jobs:follow') {
           const ack = await socket.socket.emitWithAck('jobs:follow', { jobIds: [jobA] });
           return { admitted: ack.ok && ack.following.includes(jobA), seen: JSON.stringify(ack) };
