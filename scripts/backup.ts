@@ -3,12 +3,12 @@
  * SQLite's online backup (better-sqlite3's `db.backup`) while the server runs and crews keep
  * sending commands. The live file is opened read-only; the copy is written beside the target
  * under a temporary name, checked (SQLite's integrity check and every job's hash chain) and only
- * then moved into place. An existing file is never overwritten without `--force`.
+ * then moved into place, readable by its owner only. An existing file is never overwritten without `--force`.
  *
  * The live database is HOLDLINE_DB (as the server reads it; default data/holdline.sqlite).
  * Restoring is described in README.md ("Backups and restore").
  */
-import { existsSync, renameSync, rmSync, statSync } from 'node:fs';
+import { chmodSync, existsSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import Database from 'better-sqlite3';
@@ -49,19 +49,24 @@ export async function takeBackup(options: { source: string; target: string; forc
   if (!existsSync(path.dirname(target))) throw new BackupError(`The folder ${path.dirname(target)} does not exist.`);
 
   const partial = `${target}.partial-${process.pid}`;
-  const live = new Database(source, { readonly: true, fileMustExist: true });
+  // The copy holds password and token hashes: readable by its owner only, from the first byte on
+  // (SQLite gives its journal the file's own permissions).
+  writeFileSync(partial, '', { flag: 'wx', mode: 0o600 });
   let pages: number;
   try {
-    live.pragma('busy_timeout = 5000');
-    // After the first step has sized the copy, ask for every remaining page at once: one read
-    // transaction, one consistent state (a copy taken in slices restarts whenever the server writes).
-    const done = await live.backup(partial, { progress: () => 0x7fffffff });
-    pages = done.totalPages;
+    const live = new Database(source, { readonly: true, fileMustExist: true });
+    try {
+      live.pragma('busy_timeout = 5000');
+      // After the first step has sized the copy, ask for every remaining page at once: one read
+      // transaction, one consistent state (a copy taken in slices restarts whenever the server writes).
+      const done = await live.backup(partial, { progress: () => 0x7fffffff });
+      pages = done.totalPages;
+    } finally {
+      live.close();
+    }
   } catch (error) {
     removeWithCompanions(partial);
     throw error;
-  } finally {
-    live.close();
   }
 
   let jobs: JobChainState[];
@@ -80,6 +85,7 @@ export async function takeBackup(options: { source: string; target: string; forc
     // Stale companions of an older file of that name would be read as part of the new copy.
     rmSync(`${target}-wal`, { force: true });
     rmSync(`${target}-shm`, { force: true });
+    chmodSync(partial, 0o600);
     renameSync(partial, target);
   } catch (error) {
     removeWithCompanions(partial);

@@ -386,6 +386,8 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
     }
     expect(run.code, run.out).toBe(0);
     expect(run.out).toContain(`Wrote ${copyPath}`);
+    // Password and token hashes are in it: nobody but its owner reads the copy.
+    expect(statSync(copyPath).mode & 0o077).toBe(0);
     expect(run.out).toMatch(/Crash test job \(.*\): \d+ events, chain verified, head [0-9a-f]{64}/);
     expect(load.refused).toEqual([]);
     // Commands kept being acknowledged while the copy was taken: it was taken under load.
