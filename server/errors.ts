@@ -65,6 +65,9 @@ export function toHttpError(err: unknown, logger: Logger, where: Record<string, 
   if (err instanceof URIError && (err as URIError & { status?: unknown }).status === 400) {
     return new HttpError(400, 'malformed_path', 'The address has a malformed part (a “%” not followed by a valid encoded character). Check the link or open the page again from the app.');
   }
+  // Any other client error the body reader raises (http-errors marks them `expose`): a body whose
+  // bytes are not the gzip, deflate or brotli its Content-Encoding says, a stream cut short.
+  if (isExposedClientError(err)) return new HttpError(err.status, 'bad_request', 'The request could not be read. Send it again from the app.');
   // SQLite could not write (disk full, locked, read-only, I/O error): 503 with its own code, never the SQL.
   const fault = storageFaultOf(err);
   if (fault) {
@@ -92,6 +95,13 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
 }
 
 interface BodyParserError { type: string; status: number }
+
+/** An http-errors client error (4xx, `expose: true`), as body-parser and raw-body raise them. */
+function isExposedClientError(err: unknown): err is { status: number } {
+  if (typeof err !== 'object' || err === null) return false;
+  const { status, expose } = err as { status?: unknown; expose?: unknown };
+  return expose === true && typeof status === 'number' && status >= 400 && status < 500;
+}
 
 function isBodyParserError(err: unknown): err is BodyParserError {
   return typeof err === 'object' && err !== null && 'type' in err && typeof (err as BodyParserError).type === 'string' && 'status' in err;

@@ -1,3 +1,4 @@
+import { gzipSync } from 'node:zlib';
 import request from 'supertest';
 import { io as connect } from 'socket.io-client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -128,6 +129,25 @@ describe('the edge against hostile input', () => {
       expect(res.headers['content-type']).toMatch(/application\/json/);
       expect(res.body.error).toMatchObject({ code: 'too_large' });
       expect(res.body.error.message).toMatch(/too large/);
+    });
+
+    it('answers a gzip body that inflates past the limit with 413 too_large, without inflating it all', async () => {
+      // 64 MB of spaces inside a JSON string: about 64 KB on the wire. fetch sends the bytes as they are.
+      const bomb = gzipSync(Buffer.concat([Buffer.from('{"name":"'), Buffer.alloc(64 * 1024 * 1024, 0x20), Buffer.from('"}')]));
+      const started = Date.now();
+      const res = await fetch(`${server.url}/api/jobs`, { method: 'POST', headers: { ...auth(), 'Content-Type': 'application/json', 'Content-Encoding': 'gzip' }, body: bomb });
+      expect(res.status).toBe(413);
+      expect(((await res.json()) as { error: { code: string } }).error.code).toBe('too_large');
+      expect(Date.now() - started).toBeLessThan(3000);
+      await expectHealthy();
+    });
+
+    it.each(['gzip', 'deflate', 'br'])('answers a body whose bytes are not the %s it claims with 400 and our error shape, not a 500', async (encoding) => {
+      const res = await fetch(`${server.url}/api/jobs`, { method: 'POST', headers: { ...auth(), 'Content-Type': 'application/json', 'Content-Encoding': encoding }, body: '{"name":"plain text, not compressed"}' });
+      expect(res.status).toBe(400);
+      const body = (await res.json()) as { error: { code: string; message: string } };
+      expect(body.error.code).toBe('bad_request');
+      expect(body.error.message).toMatch(/could not be read/);
     });
 
     it(`refuses JSON nested deeper than ${MAX_JSON_DEPTH} levels with too_deep, and reads ${MAX_JSON_DEPTH} levels`, async () => {
