@@ -220,11 +220,12 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
   let crew: CrewByRole;
   let jobId: string;
   let setupSeq: number;
+  let dataDir: string | undefined;
 
   beforeAll(async () => {
     // The job is planned and made ready in-process on the file the child then serves, with the
     // child's secret so the crew's sign-ins carry over.
-    const dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-crash-'));
+    dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-crash-'));
     const setup = await startTestServer({ dataDir, env: { HOLDLINE_SECRET: CHILD_SECRET } });
     crew = await signedInCrew(setup);
     const admin = await signedInUser(setup, { isAdmin: true, qualifications: [] });
@@ -240,6 +241,8 @@ describe('crash safety: SIGKILL while four sockets send commands', () => {
   afterAll(async () => {
     for (const client of allClients) client.close();
     await server?.stop();
+    // When the setup failed before the server started, its folder is still there.
+    if (dataDir) rmSync(dataDir, { recursive: true, force: true });
   });
 
   /** The job's log as stored, read from the file read-only beside the running server. */
