@@ -272,7 +272,7 @@ describe('the edge against hostile input', () => {
     });
   });
 
-  it('a socket client with an open connection can still be made from scratch after all of the above', async () => {
+  it('a new socket still connects after all of the above', async () => {
     const s = connect(server.url, { transports: ['websocket'], auth: { token: crew.rigger.token }, reconnection: false, forceNew: true });
     await new Promise<void>((resolve, reject) => {
       s.once('connect', () => resolve());
