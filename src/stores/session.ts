@@ -68,8 +68,15 @@ export const useSessionStore = defineStore('session', () => {
       })
       .catch((error: unknown) => {
         // Only a refusal ends the session; a dropped network keeps the person signed in to retry.
-        if (error instanceof ApiRequestError && (error.status === 401 || error.status === 403)) clear();
-        else if (user.value) timer = setTimeout(() => void refresh(), 10_000);
+        if (error instanceof ApiRequestError && (error.status === 401 || error.status === 403)) {
+          const wasSignedIn = user.value !== null;
+          clear();
+          // Ended elsewhere (signed out in another tab of this browser, deactivated): to the sign-in page, saying so.
+          if (wasSignedIn) {
+            endedReason.value = error.message;
+            sessionEndedHandler?.();
+          }
+        } else if (user.value) timer = setTimeout(() => void refresh(), 10_000);
         return false;
       })
       .finally(() => {
