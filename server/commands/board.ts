@@ -25,7 +25,7 @@ import { redactPlan } from '../presenters/plan.js';
 import { crewRolesOf } from '../queries/crew.js';
 import { referencePlan, withFreshBriefing } from '../queries/plans.js';
 import { recordAsBuilt } from './as-built.js';
-import { recordInspection } from './fleet.js';
+import { identityKey, recordInspection } from './fleet.js';
 import type { EventData, EventDraft } from '../../shared/events/log.js';
 import { runJobCommand, type CommandOutcome } from './job-writer.js';
 import { attachUploads } from './uploads.js';
@@ -236,9 +236,12 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (step.requiresPhoto && !c.photoId) fields.push({ path: 'photoId', message: 'This step needs a photo' });
     if (step.records && !c.value) fields.push({ path: 'value', message: `Enter the ${step.records.label.toLowerCase()}` });
     if (fields.length) throw badRequest('This step needs more before it can be marked done.', fields);
+    let value = c.value ?? null;
     if (step.records?.kind === 'serial' && c.value) {
-      const component = await manager.findOneBy(Component, { serial: c.value });
+      const component = await componentBySerial(manager, c.value);
       if (!component) throw badRequest('No component has that serial number.', [{ path: 'value', message: `${c.value} is not in the fleet records` }]);
+      // Letter case does not make another part: the record keeps the serial as the fleet registers it.
+      value = component.serial;
       if (component.status !== 'serviceable') throw badRequest(`${c.value} is ${component.status}: it cannot be fitted.`, [{ path: 'value', message: `${c.value} is ${component.status}` }]);
       if (step.records.typeId && component.typeId !== step.records.typeId) {
         throw badRequest(`${c.value} is a ${component.typeId}, this position needs a ${step.records.typeId}.`, [{ path: 'value', message: 'Wrong component type for this position' }]);
@@ -246,8 +249,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     }
     if (c.photoId) await attachUploads(manager, [c.photoId], 'step', job.id, actor.id, 'photoId');
     // The comparison is written into the record for people reading it; the reducer works it out again.
-    const outOfLimit = readingOutOfLimit(step.records, c.value ?? null, board.windLimits);
-    return { type: 'step.completed', role, data: { stageId: stage.id, stepId: step.id, value: c.value ?? null, photoId: c.photoId ?? null, outOfLimit } };
+    const outOfLimit = readingOutOfLimit(step.records, value, board.windLimits);
+    return { type: 'step.completed', role, data: { stageId: stage.id, stepId: step.id, value, photoId: c.photoId ?? null, outOfLimit } };
   },
 
   async 'step.reopen'({ board, roles }, c) {
@@ -584,3 +587,13 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     return { type: 'shift.started', role: 'supervisor', data: { shift: shiftOf(board).number + 1 } };
   },
 };
+
+/** The registered part with this serial, letter case ignored as the fleet screens ignore it. */
+async function componentBySerial(manager: EntityManager, serial: string): Promise<Component | null> {
+  const exact = await manager.findOneBy(Component, { serial });
+  if (exact) return exact;
+  const key = identityKey(serial);
+  const all = await manager.find(Component, { select: { id: true, serial: true } });
+  const match = all.find((c) => identityKey(c.serial) === key);
+  return match ? manager.findOneBy(Component, { id: match.id }) : null;
+}

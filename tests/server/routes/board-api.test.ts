@@ -368,6 +368,19 @@ describe('the live board engine', () => {
     const unknown = await httpCommand(server, who, jobId, { type: 'step.complete', stepId: serialStep.id, value: 'NOT-A-SERIAL', ...(serialStep.requiresPhoto ? { photoId: await uploadPhoto(server, who) } : {}) });
     expect(unknown.status).toBe(400);
   });
+
+  it('takes a serial typed in another letter case as the registered part and records it as registered', async () => {
+    const jobId = await liveJob();
+    await advanceUntilActive(server, crew, jobId, 'er-check');
+    const stage = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-check')!;
+    const serialStep = stage.steps.find((s) => s.records?.kind === 'serial' && s.records.componentKind === 'section')!;
+    const registered = { base: 'B-B1', ins3: 'B-I3A', tip: 'B-T1' }[serialStep.records!.typeId as 'base' | 'ins3' | 'tip'];
+    const who = crew[serialStep.allowedRoles[0] as keyof CrewByRole];
+    const done = await httpCommand(server, who, jobId, { type: 'step.complete', stepId: serialStep.id, value: registered.toLowerCase(), ...(serialStep.requiresPhoto ? { photoId: await uploadPhoto(server, who) } : {}) });
+    expect(done.status).toBe(200);
+    const step = (await boardOf(server, crew.supervisor, jobId)).stages.find((s) => s.id === 'er-check')!.steps.find((s) => s.id === serialStep.id)!;
+    expect(step.doneBy?.value).toBe(registered);
+  });
 });
 
 describe('idempotency across a restart', () => {
