@@ -70,7 +70,9 @@ export async function checkSocketSession(context: AppContext, socket: HoldlineSo
     throw new HttpError(401, 'token_expired', 'Your session needs renewing before you can act. Reconnecting…');
   }
   if (!(await sessionLive(context.dataSource.manager, socket.data.sessionId, socket.data.userId, context.now()))) {
-    const ended = sessionEnded();
+    // A deactivated person gets the one answer to a deactivated account, as over HTTP.
+    const user = await context.dataSource.manager.findOneBy(User, { id: socket.data.userId });
+    const ended = user?.active ? sessionEnded() : accountInactive();
     socket.emit('session:ended', { reason: ended.message });
     setImmediate(() => socket.disconnect(true));
     throw ended;
