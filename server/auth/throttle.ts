@@ -1,3 +1,4 @@
+import { isIPv6 } from 'node:net';
 import { sha256Hex } from './hash.js';
 
 /**
@@ -90,14 +91,16 @@ export class SignInThrottle {
    * How long this account must wait at this address before another try, in ms (0: go ahead).
    * E-mails are hashed, so the table holds no addresses of people.
    */
-  waitMs(email: string, address: string, now: Date): number {
+  waitMs(email: string, ip: string, now: Date): number {
+    const address = addressKey(ip);
     const nowMs = now.getTime();
     const waits = [this.waitOf(this.pairs, pairKey(email, address), PAIR_FREE_FAILURES, nowMs), this.waitOf(this.addresses, address, ADDRESS_FREE_FAILURES, nowMs)];
     return Math.max(...waits);
   }
 
   /** Counts an attempt as a failure now; the route says later whether it was one. */
-  begin(email: string, address: string, now: Date): SignInAttempt {
+  begin(email: string, ip: string, now: Date): SignInAttempt {
+    const address = addressKey(ip);
     const key = pairKey(email, address);
     this.pairs.add(key, now.getTime());
     this.addresses.add(address, now.getTime());
@@ -132,6 +135,22 @@ function pairKey(email: string, address: string): string {
   return `${sha256Hex(email.trim().toLowerCase())}|${address}`;
 }
 
+/**
+ * The address a count is kept for: an IPv4 address as it is (also when written IPv4-mapped), an
+ * IPv6 address by its /64 network, since one subscriber is usually given a whole /64 and could
+ * otherwise take a fresh address for every guess.
+ */
+export function addressKey(ip: string): string {
+  const mapped = /^::ffff:(\d{1,3}(?:\.\d{1,3}){3})$/i.exec(ip);
+  if (mapped) return mapped[1];
+  if (!isIPv6(ip)) return ip;
+  const [head, tail = ''] = ip.toLowerCase().split('%')[0].split('::');
+  const left = head ? head.split(':') : [];
+  const right = ip.includes('::') ? (tail ? tail.split(':') : []) : [];
+  const groups = ip.includes('::') ? [...left, ...Array<string>(8 - left.length - right.length).fill('0'), ...right] : left;
+  return `${groups.slice(0, 4).map((g) => g.replace(/^0+(?=.)/, '')).join(':')}::/64`;
+}
+
 /** Password-reset e-mails to one account within `RESET_WINDOW_MS`. */
 export const RESET_PER_ACCOUNT = 3;
 /** Password-reset requests from one address within `RESET_WINDOW_MS`. */
@@ -150,12 +169,12 @@ export class ResetLimiter {
   allow(email: string, address: string, now: Date): boolean {
     const nowMs = now.getTime();
     const accountKey = `account:${sha256Hex(email.trim().toLowerCase())}`;
-    const addressKey = `address:${address}`;
+    const fromKey = `address:${addressKey(address)}`;
     const account = this.recent(accountKey, nowMs);
-    const fromAddress = this.recent(addressKey, nowMs);
+    const fromAddress = this.recent(fromKey, nowMs);
     // Every request counts, refused ones included: a flood keeps its own limit shut.
     this.times.set(accountKey, [...account, nowMs]);
-    this.times.set(addressKey, [...fromAddress, nowMs]);
+    this.times.set(fromKey, [...fromAddress, nowMs]);
     while (this.times.size > MAX_ENTRIES) this.times.delete(this.times.keys().next().value as string);
     return account.length < RESET_PER_ACCOUNT && fromAddress.length < RESET_PER_ADDRESS;
   }

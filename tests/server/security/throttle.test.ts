@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { ADDRESS_FREE_FAILURES, delayAfter, FORGET_AFTER_MS, MAX_DELAY_MS, PAIR_FREE_FAILURES, ResetLimiter, RESET_PER_ACCOUNT, RESET_PER_ADDRESS, RESET_WINDOW_MS, SignInThrottle } from '../../../server/auth/throttle.js';
+import { ADDRESS_FREE_FAILURES, addressKey, delayAfter, FORGET_AFTER_MS, MAX_DELAY_MS, PAIR_FREE_FAILURES, ResetLimiter, RESET_PER_ACCOUNT, RESET_PER_ADDRESS, RESET_WINDOW_MS, SignInThrottle } from '../../../server/auth/throttle.js';
 
 /** The throttle's bookkeeping on its own clock, with no bcrypt and no server. */
 describe('the sign-in throttle', () => {
@@ -47,6 +47,23 @@ describe('the sign-in throttle', () => {
     expect(throttle.waitMs('someone-new@example.test', '198.51.100.9', at(0))).toBe(1000);
     expect(throttle.waitMs('someone-new@example.test', '198.51.100.10', at(0))).toBe(0);
     expect(throttle.waitMs('someone-new@example.test', '198.51.100.9', at(FORGET_AFTER_MS + 1))).toBe(0);
+  });
+
+  it('counts an IPv6 address by its /64 network, and an IPv4-mapped one as IPv4', () => {
+    // Written out by hand from RFC 4291's text forms (section 2.2) and its IPv4-mapped form (2.5.5.2).
+    expect(addressKey('2001:db8:85a3:1:2:3:4:5')).toBe('2001:db8:85a3:1::/64');
+    expect(addressKey('2001:0db8:0000:0001::7')).toBe('2001:db8:0:1::/64');
+    expect(addressKey('2001:db8::1')).toBe('2001:db8:0:0::/64');
+    expect(addressKey('::1')).toBe('0:0:0:0::/64');
+    expect(addressKey('fe80::1%eth0')).toBe('fe80:0:0:0::/64');
+    expect(addressKey('::ffff:192.0.2.7')).toBe('192.0.2.7');
+    expect(addressKey('192.0.2.7')).toBe('192.0.2.7');
+
+    const throttle = new SignInThrottle();
+    for (let i = 0; i < PAIR_FREE_FAILURES; i++) throttle.begin('a@example.test', `2001:db8:1:2::${i + 1}`, at(0));
+    // Another address of the same /64 waits; another /64 does not.
+    expect(throttle.waitMs('a@example.test', '2001:db8:1:2::ffff', at(0))).toBe(1000);
+    expect(throttle.waitMs('a@example.test', '2001:db8:1:3::1', at(0))).toBe(0);
   });
 
   it('never asks a wait longer than 15 minutes, however many failures', () => {
