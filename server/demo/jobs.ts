@@ -172,7 +172,9 @@ export async function seedDemoJobs(context: AppContext, p: DemoPeople, fleet: De
   const past = pastContext(context, new Date(context.now().getTime() - 3 * 86_400_000), 90_000);
   const trial = await createJob(past, p.supervisor, { name: 'Depot trial erection, 21 m', site: 'Fenwold depot, yard 2', craneUnitId: fleet.secondUnitId, kind: 'erection' });
   const trialId = trial.job.id;
-  await setCrew(past, p.supervisor, trialId, crewOf(p).filter((m) => m.userId !== p.supervisor2.id));
+  // Marta Lindqvist watches the trial of the crane she takes over at the pumping station: on its crew as a
+  // viewer, so she reads its record (a job's data is its crew's and the administrators').
+  await setCrew(past, p.supervisor, trialId, [...crewOf(p).filter((m) => m.userId !== p.supervisor2.id), { userId: p.supervisor2.id, role: 'viewer' as const }]);
   const depotComms = comms(p, 'Depot channel 2');
   await updateJob(past, p.supervisor, trialId, {
     commsPlan: {

@@ -7,7 +7,8 @@ export const DEMO_PASSWORD = 'holdline-demo';
 export const demoPeople: { email: string; displayName: string; qualifications: Qualification[]; isAdmin?: boolean; canInspect?: boolean; note: string }[] = [
   { email: 'admin@holdline.test', displayName: 'Ines Okafor', qualifications: ['viewer'], isAdmin: true, note: 'admin' },
   { email: 'supervisor@holdline.test', displayName: 'Rhys Calloway', qualifications: ['supervisor', 'rigger', 'signaller'], note: 'assembly supervisor' },
-  { email: 'supervisor2@holdline.test', displayName: 'Marta Lindqvist', qualifications: ['supervisor', 'signaller'], note: 'second supervisor' },
+  // A viewer too: she watches the depot trial of the crane she takes over (a job's data is its crew's).
+  { email: 'supervisor2@holdline.test', displayName: 'Marta Lindqvist', qualifications: ['supervisor', 'signaller', 'viewer'], note: 'second supervisor' },
   { email: 'operator@holdline.test', displayName: 'Tomasz Wierzba', qualifications: ['operator'], note: 'crane operator' },
   { email: 'signaller@holdline.test', displayName: 'Aisha Ndlovu', qualifications: ['signaller', 'rigger'], note: 'signaller' },
   { email: 'rigger@holdline.test', displayName: 'Callum Frey', qualifications: ['rigger'], note: 'rigger' },

@@ -107,15 +107,19 @@ export const policyTable = [
     allow: ['admin', 'qualification:supervisor', 'qualification:operator', 'qualification:signaller', 'qualification:rigger'],
     routes: ['POST /api/uploads'],
   },
+  // Each person's list holds only the jobs they may read by the `jobs.read` row (`seesAllJobs`).
   { action: 'jobs.list', allow: ['signed_in'], routes: ['GET /api/jobs'] },
-  // Each person's list holds only the jobs they may read (`seesAllJobs`, as GET /api/jobs).
+  // The same jobs as GET /api/jobs, filtered by `seesAllJobs` in the same way.
   { action: 'records.list', allow: ['signed_in'], routes: ['GET /api/records'] },
   // Supervisors pick their crews from the active people and their qualifications (no e-mails).
   { action: 'people.candidates', allow: ['admin', 'qualification:supervisor'], routes: ['GET /api/crew-candidates'] },
+  // A supervisor who creates a job joins its crew as its supervisor (createJob), and so reads it.
   { action: 'jobs.create', allow: ['admin', 'qualification:supervisor'], routes: ['POST /api/jobs'] },
   {
+    // A job's data is its crew's (any role, viewers too) and the administrators', nobody else's: a
+    // supervisor of another job reads nothing of this one, whatever id they ask for.
     action: 'jobs.read',
-    allow: ['admin', 'qualification:supervisor', 'crew:any'],
+    allow: ['admin', 'crew:any'],
     routes: [
       'GET /api/jobs/:jobId',
       'GET /api/jobs/:jobId/events',
@@ -231,8 +235,9 @@ export function canSeeUpload(actor: User | null, upload: Pick<Upload, 'uploadedB
     case 'step':
     case 'hold':
     case 'defect':
-      // Board photos belong to a job (their owner id is the job's): its crew and watchers see them.
-      return can(actor, 'board.watch', { crewRoles: jobCrewRoles });
+      // Board photos belong to a job (their owner id is the job's): whoever reads the job sees them
+      // (`jobs.read`: its crew in any role, and administrators), nobody else by changing an id.
+      return can(actor, 'jobs.read', { crewRoles: jobCrewRoles });
   }
 }
 

@@ -33,19 +33,24 @@ export async function jobFor(manager: EntityManager, job: Job, viewer: User): Pr
   });
 }
 
-/** Whether a person sees every job (admins and supervisors); everyone else sees the jobs they are crew on. */
+/**
+ * Whether a person reads every job without being on its crew: the `jobs.read` row asked with no
+ * crew roles, so only administrators. Everyone else, supervisors included, reads the jobs whose
+ * crew they are on (in any role).
+ */
 export function seesAllJobs(viewer: User): boolean {
-  return viewer.isAdmin || viewer.qualifications.includes('supervisor');
+  return can(viewer, 'jobs.read', { crewRoles: [] });
 }
 
-/** The jobs a person may see: all for admins and supervisors, otherwise those they are crew on. */
+/** The jobs a person may read (the `jobs.read` row): all for admins, otherwise those whose crew they are on. */
 export async function jobsVisibleTo(manager: EntityManager, viewer: User): Promise<JobSummary[]> {
   const seesAll = seesAllJobs(viewer);
   const rolesByJob = await crewRolesByJob(manager, viewer.id);
+  const onCrew = [...rolesByJob.entries()].filter(([, roles]) => can(viewer, 'jobs.read', { crewRoles: roles })).map(([jobId]) => jobId);
   const jobs = seesAll
     ? await manager.find(Job, { order: { updatedAt: 'DESC' } })
-    : rolesByJob.size
-      ? await manager.find(Job, { where: { id: In([...rolesByJob.keys()]) }, order: { updatedAt: 'DESC' } })
+    : onCrew.length
+      ? await manager.find(Job, { where: { id: In(onCrew) }, order: { updatedAt: 'DESC' } })
       : [];
   const units = new Map((await manager.findBy(CraneUnit, { id: In([...new Set(jobs.map((j) => j.craneUnitId))]) })).map((u) => [u.id, u.fleetNumber]));
   return jobs.map((j) => ({

@@ -31,8 +31,8 @@ export interface RecordReader {
 
 /** What a reader sees of the record: it names the cached file, so one audience never gets another's copy. */
 function audienceOf(reader: RecordReader): string {
-  // Board photos are for the crew and watchers (canSeeUpload); a supervisor outside the crew reads the job without them.
-  const photos = can(reader.actor, 'board.watch', { crewRoles: reader.crewRoles });
+  // Board photos are for whoever reads the job: canSeeUpload asks the same `jobs.read` row.
+  const photos = can(reader.actor, 'jobs.read', { crewRoles: reader.crewRoles });
   return `${reader.planner ? 'planners' : 'crew'}${photos ? '' : '-no-photos'}`;
 }
 

@@ -22,7 +22,10 @@ const ENDED_AT = `(SELECT MAX(e.at) FROM job_event e WHERE e.job_id = j.id AND (
 /** LIKE's own wildcards typed in a site name are matched as themselves. */
 const likeEscaped = (text: string) => text.replace(/[\\%_]/g, (c) => `\\${c}`);
 
-/** One page of the jobs this person may see, filtered; the visibility rule is `seesAllJobs`, as for GET /api/jobs. */
+/**
+ * One page of the jobs this person may read, filtered: an administrator's list holds every job
+ * (`seesAllJobs`), anyone else's, supervisors included, the jobs whose crew they are on, as GET /api/jobs.
+ */
 async function recordPage(context: AppContext, viewer: User, query: RecordsQuery) {
   const { manager } = context.dataSource;
   const qb = manager.createQueryBuilder(Job, 'j').select('j.id', 'id').addSelect(ENDED_AT, 'endedAt').setParameters({ endingTypes: ENDING_TYPES, endingStates: ENDING_STATES });

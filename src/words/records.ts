@@ -51,7 +51,7 @@ export const recordsWords = {
   rowsPerPage: 'Jobs per page',
   loading: 'Loading records and checking each chain…',
   notLoaded: 'Nothing to show until the records load.',
-  empty: 'No records to show you yet. Supervisors and admins see every job; everyone else sees the jobs whose crew they are in. A job appears here as soon as it is created.',
+  empty: 'No records to show you yet. You see the jobs whose crew you are in (admins see every job); a job appears here as soon as you create it or are put in its crew.',
   noMatch: 'No job matches these filters. Clear a filter or widen the dates.',
   updated: 'Last change',
   ended: 'Ended',

@@ -39,7 +39,8 @@ vi.mock('../../../server/pdf/pool.js', () => ({ renderPdf: async (task: { kind: 
  *   act  job A's acting supervisor (made it ready and started it)
  *   opr, sig, rig, vwr   job A's operator, signaller, rigger and viewer, each qualified for that role only
  *   out  a qualified rigger, signed in, in job B's crew and not in job A's
- *   osp  a qualified supervisor who supervises job B and is on no crew of job A
+ *   osp  a qualified supervisor who created and supervises job B and is on no crew of job A: reads
+ *        nothing of job A (a job's data is its crew's and the administrators')
  *   dis  job A's second rigger, deactivated after signing in (the access token still in hand)
  *   non  nobody: no token
  *
@@ -104,18 +105,18 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   ['POST /api/jobs',                                    'Y   Y   Y   -   -   -   -   -   Y   -   -'],
   // A qualified supervisor reads every job's planning and record (they plan across the fleet); its
   // board and its board photos stay with its crew (see "board photos" below).
-  ['GET /api/jobs/:jobId',                              'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/events',                       'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/readiness',                    'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/record/verify',                'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/events.jsonl',                 'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/events.csv',                   'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/site-file.zip',                'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/record.pdf',                   'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/configuration.pdf',            'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/plan',                         'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/plan/versions',                'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
-  ['GET /api/jobs/:jobId/plan.pdf',                     'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
+  ['GET /api/jobs/:jobId',                              'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/events',                       'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/readiness',                    'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/record/verify',                'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/events.jsonl',                 'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/events.csv',                   'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/site-file.zip',                'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/record.pdf',                   'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/configuration.pdf',            'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/plan',                         'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/plan/versions',                'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/plan.pdf',                     'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['PATCH /api/jobs/:jobId',                            'Y   Y   Y   -   -   -   -   -   -   -   -'],
   ['PUT /api/jobs/:jobId/crew',                         'Y   Y   Y   -   -   -   -   -   -   -   -'],
   ['PUT /api/jobs/:jobId/configuration',                'Y   Y   Y   -   -   -   -   -   -   -   -'],
@@ -129,7 +130,7 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   // The live connection.
   ['socket connect',                                    'Y   Y   Y   Y   Y   Y   Y   Y   Y   -   -'],
   ['socket board:join',                                 'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
-  ['socket jobs:follow',                                'Y   Y   Y   Y   Y   Y   Y   -   Y   -   -'],
+  ['socket jobs:follow',                                'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['socket board:command',                              '-   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['socket session:renew',                              'Y   Y   Y   Y   Y   Y   Y   Y   Y   -   -'],
   // Board commands (POST /api/jobs/:jobId/commands; the socket's board:command takes the same path).
@@ -231,6 +232,8 @@ describe('the access-control matrix', () => {
     // Job B: supervised by osp, with out as its rigger.
     const b = await request(server.app).post('/api/jobs').set(as(people.osp)).send({ name: 'Matrix job B', site: 'South yard', craneUnitId: unitId, kind: 'erection' }).expect(201);
     jobB = b.body.job.id as string;
+    // Its creator is on its crew as its supervisor, so reads it.
+    expect(b.body.job.crew).toEqual([expect.objectContaining({ userId: people.osp.user.id, role: 'supervisor' })]);
     await request(server.app)
       .put(`/api/jobs/${jobB}/crew`)
       .set(as(people.osp))
@@ -361,22 +364,35 @@ describe('the access-control matrix', () => {
       expect((await get(people.out, path)).status, path).toBe(403);
       expect((await get(people.osp, path)).status, path).toBe(403);
     }
-    // A supervisor outside the crew reads job A's site file (see the table) without its photos.
+    // Job A's crew takes its site file with the photo in it.
     const zipOf = async (who: SignedInUser) => (await get(who, `/api/jobs/${jobA}/site-file.zip`).buffer(true).parse((res, done) => {
       const chunks: Buffer[] = [];
       res.on('data', (c: Buffer) => chunks.push(c));
       res.on('end', () => done(null, Buffer.concat(chunks)));
     })).body as Buffer;
     expect((await zipOf(people.vwr)).includes('photos/')).toBe(true);
-    expect((await zipOf(people.osp)).includes('photos/')).toBe(false);
-    // Job B's crew asking job A's board, log and list line by its id.
-    expect((await get(people.out, `/api/jobs/${jobA}/events?after=0`)).status).toBe(403);
-    expect((await get(people.out, `/api/jobs/${jobA}/board`)).status).toBe(403);
-    const jobs = await get(people.out, '/api/jobs').expect(200);
-    expect((jobs.body.items as { id: string }[]).map((j) => j.id)).toEqual([jobB]);
-    const follower = client(people.out);
-    await follower.connected();
-    expect(await follower.socket.emitWithAck('jobs:follow', { jobIds: [jobA, jobB] })).toEqual({ ok: true, following: [jobB] });
+    // Job B's supervisor and rigger ask for job A's record, log, exports, site file, plan and board by
+    // its id: each refused as forbidden. A qualified supervisor reads only the jobs whose crew they are on.
+    const jobAData = ['', '/events?after=0', '/events.jsonl', '/events.csv', '/record.pdf', '/configuration.pdf', '/site-file.zip', '/plan', '/plan/versions', '/plan.pdf', '/readiness', '/record/verify', '/board'];
+    for (const who of [people.osp, people.out]) {
+      for (const tail of jobAData) {
+        const res = await get(who, `/api/jobs/${jobA}${tail}`);
+        expect([res.status, res.body?.error?.code], `${tail || '/'} as ${who.user.email}`).toEqual([403, 'forbidden']);
+      }
+    }
+    // Their job list, records list and followed list lines hold job B alone; job A's crew sees job A
+    // alone; an administrator sees both.
+    const ids = (body: { items: { id: string }[] }) => body.items.map((j) => j.id).sort();
+    for (const [who, expected] of [[people.osp, [jobB]], [people.out, [jobB]], [people.vwr, [jobA]], [people.sup, [jobA]], [people.adm, [jobA, jobB].sort()]] as const) {
+      expect(ids((await get(who, '/api/jobs').expect(200)).body), `GET /api/jobs as ${who.user.email}`).toEqual(expected);
+      const records = (await get(who, '/api/records').expect(200)).body;
+      expect([ids(records), records.total], `GET /api/records as ${who.user.email}`).toEqual([expected, expected.length]);
+    }
+    for (const who of [people.osp, people.out]) {
+      const follower = client(who);
+      await follower.connected();
+      expect(await follower.socket.emitWithAck('jobs:follow', { jobIds: [jobA, jobB] })).toEqual({ ok: true, following: [jobB] });
+    }
     // Job B's log holds job B's events alone.
     const logB = jobEventListSchema.parse((await get(people.osp, `/api/jobs/${jobB}/events?after=0`).expect(200)).body);
     expect(logB.items.every((e) => e.jobId === jobB)).toBe(true);

@@ -15,6 +15,7 @@ import { jobEnvelopeSchema, verifySchema } from '../../../shared/schemas/jobs.js
 import { DEMO_PASSWORD } from '../../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../../server/demo/seed.js';
 import { Upload } from '../../../server/entities/Upload.js';
+import { signedInUser } from '../../helpers/auth.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 const run = promisify(execFile);
@@ -194,12 +195,14 @@ describe('the record leaving the server: events.jsonl, events.csv and the site f
   }, 180_000);
 
   it('only people who may read the job download its log; a malformed expected hash is refused', async () => {
-    const outsider = (await request(server.app).post('/api/auth/login').send({ email: 'supervisor2@holdline.test', password: DEMO_PASSWORD }).expect(200)).body.token as string;
-    // A supervisor outside the crew may read jobs (jobs.read) but sees no board photos; nobody signed out gets anything.
-    await request(server.app).get(`/api/jobs/${jobId}/events.csv`).expect(401);
-    await request(server.app).get(`/api/jobs/${jobId}/site-file.zip`).expect(401);
-    const files = await unzip((await request(server.app).get(`/api/jobs/${jobId}/site-file.zip`).set({ Authorization: `Bearer ${outsider}` }).buffer(true).parse(bytes).expect(200)).body as Buffer);
-    expect([...files.keys()].some((n) => n.startsWith('photos/'))).toBe(false);
+    // A qualified supervisor on no crew of the job reads none of it (a job's data is its crew's and the
+    // administrators'); nobody signed out gets anything.
+    const outsider = (await signedInUser(server, { qualifications: ['supervisor'] })).token;
+    for (const file of ['events.csv', 'events.jsonl', 'site-file.zip']) {
+      await request(server.app).get(`/api/jobs/${jobId}/${file}`).expect(401);
+      const refused = await request(server.app).get(`/api/jobs/${jobId}/${file}`).set({ Authorization: `Bearer ${outsider}` });
+      expect([refused.status, refused.body.error?.code], file).toEqual([403, 'forbidden']);
+    }
     await request(server.app).get(`/api/jobs/${jobId}/record/verify?expect=1234`).set(as('supervisor')).expect(400);
   }, 180_000);
 });

@@ -35,7 +35,7 @@ describe('GET /api/records: the Records screen’s list', () => {
   beforeAll(async () => {
     server = await startTestServer();
     await seedDemoIfEmpty(server.context);
-    for (const who of ['admin', 'supervisor', 'rigger', 'viewer']) {
+    for (const who of ['admin', 'supervisor', 'supervisor2', 'rigger', 'viewer']) {
       const res = await request(server.app).post('/api/auth/login').send({ email: `${who}@holdline.test`, password: DEMO_PASSWORD }).expect(200);
       tokens[who] = res.body.token as string;
       ids[who] = (res.body.user as { id: string }).id;
@@ -60,9 +60,10 @@ describe('GET /api/records: the Records screen’s list', () => {
     await server?.stop();
   });
 
-  it('a supervisor sees every job, newest first, each with its chain verified and its final hash', async () => {
+  it('a supervisor sees every job whose crew they are in, newest first, each with its chain verified and its final hash', async () => {
     const { rows, total } = await allRows(tokens.supervisor);
-    // The demo's four jobs and the three made here.
+    // The demo's four jobs and the three made here: the demo supervisor is on every one of their crews.
+    expect(new Set(rows.map((r) => r.id))).toEqual(new Set((await server.context.dataSource.manager.findBy(JobCrew, { userId: ids.supervisor })).map((c) => c.jobId)));
     expect(total).toBe(7);
     expect(rows.map((r) => r.id).slice(0, 3)).toEqual(extraJobs.map((j) => j.id).reverse());
     const updated = rows.map((r) => r.updatedAt);
@@ -90,14 +91,22 @@ describe('GET /api/records: the Records screen’s list', () => {
     await request(server.app).get('/api/records').query({ page: 0 }).set('Authorization', `Bearer ${tokens.admin}`).expect(400);
   });
 
-  it('a rigger sees exactly the jobs whose crew they are in; a person in no crew sees none; nobody signed in is refused', async () => {
-    const crewJobs = (await server.context.dataSource.manager.findBy(JobCrew, { userId: ids.rigger })).map((c) => c.jobId);
-    const { rows, total } = await allRows(tokens.rigger);
-    expect(total).toBe(new Set(crewJobs).size);
-    expect(total).toBeGreaterThan(0);
-    expect(new Set(rows.map((r) => r.id))).toEqual(new Set(crewJobs));
-    expect(rows.some((r) => extraJobs.some((j) => j.id === r.id))).toBe(false);
-    expect(await list(outsider.token)).toMatchObject({ items: [], total: 0 });
+  it('a rigger, and a supervisor too, sees exactly the jobs whose crew they are in; a person in no crew sees none; nobody signed in is refused', async () => {
+    // The second demo supervisor is on the demo jobs' crews, not on the three made here.
+    for (const who of ['rigger', 'supervisor2']) {
+      const crewJobs = (await server.context.dataSource.manager.findBy(JobCrew, { userId: ids[who] })).map((c) => c.jobId);
+      const { rows, total } = await allRows(tokens[who]);
+      expect(total, who).toBe(new Set(crewJobs).size);
+      expect(total, who).toBeGreaterThan(0);
+      expect(new Set(rows.map((r) => r.id)), who).toEqual(new Set(crewJobs));
+      expect(rows.some((r) => extraJobs.some((j) => j.id === r.id)), who).toBe(false);
+    }
+    // A qualified supervisor reads no job by that alone: on no crew, their list is empty, as GET /api/jobs is.
+    const idleSupervisor = await signedInUser(server, { qualifications: ['supervisor'] });
+    for (const token of [outsider.token, idleSupervisor.token]) {
+      expect(await list(token)).toMatchObject({ items: [], total: 0 });
+      expect((await request(server.app).get('/api/jobs').set('Authorization', `Bearer ${token}`).expect(200)).body.items).toEqual([]);
+    }
     await request(server.app).get('/api/records').expect(401);
   });
 
