@@ -202,7 +202,8 @@ describe('configuration planner', () => {
     await request(server.app)
       .put(`/api/jobs/${otherJobId}/crew`)
       .set(auth)
-      .send({ members: [{ userId: supervisor.user.id, role: 'supervisor' }, { userId: rigger.user.id, role: 'rigger' }] })
+      // The second supervisor is on the crew: only a supervisor of the job's own crew (or an administrator) reads it and approves its overrides.
+      .send({ members: [{ userId: supervisor.user.id, role: 'supervisor' }, { userId: second.user.id, role: 'supervisor' }, { userId: rigger.user.id, role: 'rigger' }] })
       .expect(200);
 
     const page = await signIn(chromium.browser, server.url, viewports.tablet, supervisor.user.email, `/jobs/${otherJobId}?tab=planner`);
