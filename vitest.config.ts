@@ -1,8 +1,9 @@
 import { defineConfig } from 'vitest/config';
 import vue from '@vitejs/plugin-vue';
 
-// One Vitest run, four projects mirroring the source tree. The browser tests run one file at a
-// time because each launches its own Chromium and server on a two-core machine.
+// Four projects mirroring the source tree. The browser tests run one file at a time because each
+// launches its own Chromium and server on a two-core machine; `npm run test:all` runs them in a
+// second Vitest process beside the other three projects.
 export default defineConfig({
   test: {
     projects: [
@@ -19,8 +20,10 @@ export default defineConfig({
           include: ['tests/server/**/*.test.ts'],
           environment: 'node',
           setupFiles: ['tests/setup-server.ts'],
-          testTimeout: 20_000,
-          hookTimeout: 30_000,
+          // These walk real jobs through the real server while the browser tests run beside them
+          // on two cores: a limit is there to catch a hang, not to time the machine.
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
         },
       },
       {
