@@ -78,7 +78,9 @@ async function findReplay(manager: EntityManager, jobId: string, command: JobCom
   if (!command.commandId) return null;
   const earlier = await manager.findOneBy(JobEvent, { jobId, commandId: command.commandId });
   if (!earlier) return null;
-  if (earlier.commandHash !== commandHash(command.body)) {
+  // A command id is in every export of the log: someone else's id answers nothing of theirs, so a
+  // replay can never carry a person past the policy that would refuse them.
+  if (earlier.commandHash !== commandHash(command.body) || earlier.byUserId !== command.actor.id) {
     throw conflict('command_id_reused', 'This command id was already used for a different command. Send it again with a new id.');
   }
   return earlier;

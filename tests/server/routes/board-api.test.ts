@@ -406,6 +406,10 @@ describe('idempotency across a restart', () => {
       expect(repeated.body).toEqual(first.body);
       const events = (await request(again.app).get(`/api/jobs/${job.id}/events?after=0`).set('Authorization', `Bearer ${crew.supervisor.token}`)).body.items as { type: string }[];
       expect(events.filter((e) => e.type === 'job.stopped')).toHaveLength(1);
+      // The same id and body from another person (ids are in every export of the log) answer nothing of the rigger's.
+      const borrowed = await request(again.app).post(`/api/jobs/${job.id}/commands`).set('Authorization', `Bearer ${crew.operator.token}`).send({ type: 'job.stop', pressedAt, commandId });
+      expect(borrowed.status).toBe(409);
+      expect(borrowed.body.error.code).toBe('command_id_reused');
     } finally {
       await again.close();
     }
