@@ -54,7 +54,7 @@ export async function uploadPhoto(file: File): Promise<{ photo: UploadDto } | { 
     return { photo: await api('/uploads', { method: 'POST', body: form, schema: uploadSchema }) };
   } catch (error) {
     if (error instanceof ApiRequestError && error.code === 'too_large') return { problem: `${photoName(file)} is larger than 10 MB. Take it again at a lower resolution.` };
-    if (error instanceof ApiRequestError && error.code === 'unsupported_image') return { problem: `${photoName(file)} is not a JPEG, PNG or WebP photo.` };
+    if (error instanceof ApiRequestError && error.code === 'unsupported_image') return { problem: `${file.name ? `The file ${file.name}` : 'That file'} is not a photo (JPEG, PNG or WebP). Take the photo again with the camera.` };
     return { problem: describeError(error) };
   }
 }

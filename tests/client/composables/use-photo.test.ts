@@ -32,7 +32,9 @@ describe('the one photo upload', () => {
     fetchMock.mockResolvedValueOnce(json(413, { error: { code: 'too_large', message: 'File too large' } }));
     expect(await uploadPhoto(photo('pin-3.jpg'))).toEqual({ problem: 'The photo pin-3.jpg is larger than 10 MB. Take it again at a lower resolution.' });
     fetchMock.mockResolvedValueOnce(json(415, { error: { code: 'unsupported_image', message: 'Unsupported' } }));
-    expect(await uploadPhoto(photo(''))).toEqual({ problem: 'The photo is not a JPEG, PNG or WebP photo.' });
+    expect(await uploadPhoto(photo(''))).toEqual({ problem: 'That file is not a photo (JPEG, PNG or WebP). Take the photo again with the camera.' });
+    fetchMock.mockResolvedValueOnce(json(415, { error: { code: 'unsupported_image', message: 'Unsupported' } }));
+    expect(await uploadPhoto(photo('notes.jpg'))).toEqual({ problem: 'The file notes.jpg is not a photo (JPEG, PNG or WebP). Take the photo again with the camera.' });
   });
 
   it('keeps a form’s photo and its problem from that one answer', async () => {
