@@ -89,6 +89,17 @@ export async function revokeByToken(manager: EntityManager, token: string, now: 
   return { userId: row.userId, sessionId: row.familyId };
 }
 
+/** Revokes a session by the id an access token names, when it is this person's and still live (sign-out with the access token alone). */
+export async function revokeSession(manager: EntityManager, sessionId: string, userId: string, now: Date): Promise<{ userId: string; sessionId: string } | null> {
+  const result = await manager
+    .createQueryBuilder()
+    .update(RefreshToken)
+    .set({ revokedAt: now.toISOString() })
+    .where('family_id = :sessionId AND user_id = :userId AND revoked_at IS NULL', { sessionId, userId })
+    .execute();
+  return (result.affected ?? 0) > 0 ? { userId, sessionId } : null;
+}
+
 /**
  * True while a session (a refresh-token family) of this person may still be used: not revoked
  * (sign-out, deactivation, a stolen token's reuse) and within its absolute limit. Every access

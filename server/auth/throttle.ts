@@ -157,26 +157,50 @@ export const RESET_PER_ACCOUNT = 3;
 export const RESET_PER_ADDRESS = 10;
 export const RESET_WINDOW_MS = 60 * 60 * 1000;
 
+/** A reset request let through: its e-mail is counted against the account until it turns out none went out. */
+export interface ResetTicket {
+  /** No e-mail went out (no such active account): the account's count is given back. */
+  notSent(): void;
+}
+
 /**
  * Password-reset requests per account and per address in a sliding hour. Over either limit the
  * request is answered with the same neutral words and nothing is sent, so the limit reveals
  * nothing about which e-mails have accounts and nobody's inbox is flooded.
+ *
+ * The address counts every request it makes (a flood keeps its own limit shut). The account counts
+ * only the e-mails that actually go out: were refused requests counted too, anyone asking for a
+ * person's reset a few times an hour would keep that person from ever getting one. A request let
+ * through is counted at once (a burst in parallel cannot slip past the limit) and given back when
+ * no e-mail went out for it.
  */
 export class ResetLimiter {
   private readonly times = new Map<string, number[]>();
 
-  /** Records the request and says whether an e-mail may go out for it. */
-  allow(email: string, address: string, now: Date): boolean {
+  /** Records the request; a ticket when an e-mail may go out for it, null when it may not. */
+  allow(email: string, address: string, now: Date): ResetTicket | null {
     const nowMs = now.getTime();
     const accountKey = `account:${sha256Hex(email.trim().toLowerCase())}`;
     const fromKey = `address:${addressKey(address)}`;
     const account = this.recent(accountKey, nowMs);
     const fromAddress = this.recent(fromKey, nowMs);
-    // Every request counts, refused ones included: a flood keeps its own limit shut.
-    this.times.set(accountKey, [...account, nowMs]);
     this.times.set(fromKey, [...fromAddress, nowMs]);
+    const allowed = account.length < RESET_PER_ACCOUNT && fromAddress.length < RESET_PER_ADDRESS;
+    this.times.set(accountKey, allowed ? [...account, nowMs] : account);
     while (this.times.size > MAX_ENTRIES) this.times.delete(this.times.keys().next().value as string);
-    return account.length < RESET_PER_ACCOUNT && fromAddress.length < RESET_PER_ADDRESS;
+    if (!allowed) return null;
+    let given = false;
+    return {
+      notSent: () => {
+        if (given) return;
+        given = true;
+        const kept = this.times.get(accountKey);
+        if (!kept) return;
+        const at = kept.lastIndexOf(nowMs);
+        if (at >= 0) kept.splice(at, 1);
+        if (kept.length === 0) this.times.delete(accountKey);
+      },
+    };
   }
 
   private recent(key: string, nowMs: number): number[] {

@@ -1,8 +1,8 @@
 import type { EntityManager } from 'typeorm';
 import type { SessionDto } from '../../shared/schemas/auth.js';
-import { signAccessToken } from '../auth/access-token.js';
+import { signAccessToken, type AccessClaims } from '../auth/access-token.js';
 import { hashPassword, verifyPassword } from '../auth/passwords.js';
-import { issueRefreshToken, revokeByToken, revokeOthersForUser, rotateRefreshToken, type IssuedRefresh } from '../auth/refresh-tokens.js';
+import { issueRefreshToken, revokeByToken, revokeOthersForUser, revokeSession, rotateRefreshToken, type IssuedRefresh } from '../auth/refresh-tokens.js';
 import { findUsableLink } from '../auth/sign-in-links.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
@@ -74,19 +74,26 @@ export async function refreshSession(context: AppContext, token: string | undefi
 }
 
 /**
- * Ends the session the refresh token belongs to: its refresh tokens at once, its access tokens on
- * their next use (each names its session), and its open sockets now, told why.
+ * Ends the session the refresh token belongs to, and the one the access token names (a client
+ * that signs out with only its access token, no cookie): their refresh tokens at once, their
+ * access tokens on their next use (each names its session), and their open sockets now, told why.
+ * The access token must be valid (signed by us, not expired); it can only end its own session.
  */
-export async function signOut(context: AppContext, token: string | undefined, ip: string | null): Promise<void> {
-  if (!token) return;
+export async function signOut(context: AppContext, presented: { refreshToken?: string; access?: AccessClaims | null }, ip: string | null): Promise<void> {
+  const { refreshToken, access } = presented;
+  if (!refreshToken && !access) return;
   const now = context.now();
   const ended = await context.queue.transaction(async (manager) => {
-    const revoked = await revokeByToken(manager, token, now);
-    if (revoked) await recordSignInAudit(manager, { kind: 'sign_out', userId: revoked.userId, ip }, now);
-    return revoked;
+    const sessions: { userId: string; sessionId: string }[] = [];
+    const byCookie = refreshToken ? await revokeByToken(manager, refreshToken, now) : null;
+    if (byCookie) sessions.push(byCookie);
+    const byAccess = access ? await revokeSession(manager, access.sessionId, access.userId, now) : null;
+    if (byAccess && byAccess.sessionId !== byCookie?.sessionId) sessions.push(byAccess);
+    for (const session of sessions) await recordSignInAudit(manager, { kind: 'sign_out', userId: session.userId, ip }, now);
+    return sessions;
   });
   // After the commit, as every broadcast: a socket is never told of a sign-out that did not happen.
-  if (ended) context.publisher.endSession(ended.sessionId, SIGNED_OUT_REASON);
+  for (const session of ended) context.publisher.endSession(session.sessionId, SIGNED_OUT_REASON);
 }
 
 /**

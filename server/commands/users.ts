@@ -78,8 +78,8 @@ export async function resendInvitation(context: AppContext, userId: string, invi
   await context.mailer.send(invitationMail(user.email, user.displayName, linkUrl(context, token), invitedBy.displayName));
 }
 
-/** E-mails a reset link when the address belongs to an active person; silent otherwise. */
-export async function requestPasswordReset(context: AppContext, email: string): Promise<void> {
+/** E-mails a reset link when the address belongs to an active person; silent otherwise. True when an e-mail went out. */
+export async function requestPasswordReset(context: AppContext, email: string): Promise<boolean> {
   const now = context.now();
   const found = await context.queue.transaction(async (manager) => {
     const user = await manager.findOneBy(User, { email: email.trim().toLowerCase() });
@@ -87,7 +87,9 @@ export async function requestPasswordReset(context: AppContext, email: string): 
     const link = await createSignInLink(manager, user.id, 'reset', now);
     return { user, token: link.token };
   });
-  if (found) await context.mailer.send(resetMail(found.user.email, found.user.displayName, linkUrl(context, found.token)));
+  if (!found) return false;
+  await context.mailer.send(resetMail(found.user.email, found.user.displayName, linkUrl(context, found.token)));
+  return true;
 }
 
 /** Each field a change really changes, in words for the audit ("qualifications rigger → rigger, operator"). */

@@ -44,7 +44,7 @@ export const policyTable = [
     routes: ['POST /api/auth/login', 'POST /api/auth/refresh', 'POST /api/auth/set-password', 'GET /api/auth/links/:token'],
     proof: 'a password, the refresh cookie or an e-mailed sign-in link',
   },
-  // Signing out revokes whichever refresh cookie is sent, if any; it answers the same either way.
+  // Signing out ends the session of the refresh cookie or access token sent, if any; it answers the same either way.
   { action: 'session.end', allow: ['anyone'], routes: ['POST /api/auth/logout'] },
   // Anyone may ask; the answer never says whether the address has an account.
   { action: 'password.reset', allow: ['anyone'], routes: ['POST /api/auth/password-reset'] },

@@ -1,6 +1,7 @@
 import { Router, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { loginRequestSchema, passwordResetRequestSchema, setPasswordSchema } from '../../shared/schemas/auth.js';
+import { verifyAccessToken } from '../auth/access-token.js';
 import { clearRefreshCookie, readRefreshCookie, setRefreshCookie } from '../auth/cookies.js';
 import { findUsableLink } from '../auth/sign-in-links.js';
 import { ResetLimiter, SignInThrottle } from '../auth/throttle.js';
@@ -80,7 +81,10 @@ export function authRouter(context: AppContext): Router {
   });
 
   router.post('/auth/logout', async (req, res) => {
-    await signOut(context, readRefreshCookie(req), ipOf(req));
+    // The access token alone signs out too: the session it names ends (a revoked refresh row, checked on every use).
+    const bearer = /^Bearer (.+)$/.exec(req.get('authorization') ?? '');
+    const access = bearer ? verifyAccessToken(bearer[1], context.secret, context.now()) : null;
+    await signOut(context, { refreshToken: readRefreshCookie(req), access }, ipOf(req));
     clearRefreshCookie(res, secureFor(req));
     res.status(204).end();
   });
@@ -93,7 +97,9 @@ export function authRouter(context: AppContext): Router {
   router.post('/auth/password-reset', async (req, res) => {
     const body = parseOrThrow(passwordResetRequestSchema, req.body, 'reset request');
     // Over the limit for the account or the address, nothing is sent and the answer is the same.
-    if (resets.allow(body.email, ipOf(req) ?? 'unknown', context.now())) await requestPasswordReset(context, body.email);
+    // Only an e-mail that goes out counts against the account (see ResetLimiter).
+    const ticket = resets.allow(body.email, ipOf(req) ?? 'unknown', context.now());
+    if (ticket && !(await requestPasswordReset(context, body.email))) ticket.notSent();
     res.status(202).json({ message: RESET_ANSWER });
   });
 

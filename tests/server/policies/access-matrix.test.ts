@@ -159,7 +159,7 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   ['command shift.end',                                 '-   -   Y   -   -   -   -   -   -   -   -'],
   ['command job.stop',                                  '-   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['command job.cancel',                                '-   Y   Y   -   -   -   -   -   -   -   -'],
-  // Anyone may sign out; it ends only the session whose cookie is sent, so it runs last.
+  // Anyone may sign out; it ends the session whose cookie or access token is sent, so it runs last.
   ['POST /api/auth/logout',                             'Y   Y   Y   Y   Y   Y   Y   Y   Y   Y   Y'],
 ];
 

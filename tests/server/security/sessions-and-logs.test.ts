@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ClientToServerEvents, ServerToClientEvents } from '../../../shared/events/socket.js';
 import { sessionSchema } from '../../../shared/schemas/auth.js';
 import { TEST_PASSWORD } from '../../helpers/factories.js';
-import { freshToken, refreshCookieOf, signedInUser, type SignedInUser } from '../../helpers/auth.js';
+import { freshToken, refreshCookieOf, sessionIdOf, signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { BoardClient, httpCommand, signedInCrew, type CrewByRole } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
@@ -101,6 +101,27 @@ describe('ending sessions, and what the logs keep of them', () => {
     const other = socketOf(office.token);
     await connected(other);
     expect(await other.emitWithAck('board:command', { jobId, command: { commandId: crypto.randomUUID(), type: 'weather.record', meanMs: 3, gustMs: 5, heightM: 10 } })).toMatchObject({ ok: true });
+  });
+
+  it('signs out with the access token alone (no refresh cookie): that session ends, its renewal too, the others go on', async () => {
+    const tablet = await signInAgain(crew.operator);
+    const office = await signInAgain(crew.operator);
+    const board = new BoardClient(server.url, tablet.token);
+    sockets.push(board.socket as ClientSocket);
+    expect((await board.join(jobId)).ok).toBe(true);
+    const gone = disconnection(board.socket as ClientSocket);
+
+    await request(server.app).post('/api/auth/logout').set('Authorization', `Bearer ${tablet.token}`).expect(204);
+
+    expect((await me(tablet.token).expect(401)).body.error.code).toBe('session_ended');
+    expect(await gone).toBe('io server disconnect');
+    // The session's refresh cookie, kept elsewhere, cannot bring it back.
+    await request(server.app).post('/api/auth/refresh').set('Cookie', tablet.cookie).expect(401);
+    await me(office.token).expect(200);
+    // A token from nobody's session, or a forged one, ends nothing and is answered the same way.
+    const forged = jwt.sign({ sub: crew.operator.user.id, sid: sessionIdOf(office.token), iss: 'holdline' }, 'not-the-secret', { algorithm: 'HS256', expiresIn: 900 });
+    await request(server.app).post('/api/auth/logout').set('Authorization', `Bearer ${forged}`).expect(204);
+    await me(office.token).expect(200);
   });
 
   it('refuses a token that names no session, and a renewal with another sign-in’s token', async () => {

@@ -82,9 +82,29 @@ describe('the reset limiter', () => {
     const allowed = Array.from({ length: 10 }, (_, i) => limiter.allow('a@example.test', `192.0.2.${i}`, at(i)));
     expect(allowed.filter(Boolean)).toHaveLength(RESET_PER_ACCOUNT);
     // An hour after the first requests the account may have one again, however much it was asked meanwhile.
-    expect(limiter.allow('a@example.test', '192.0.2.99', at(RESET_WINDOW_MS + 10))).toBe(true);
+    expect(limiter.allow('a@example.test', '192.0.2.99', at(RESET_WINDOW_MS + 10))).not.toBeNull();
 
     const fromOne = Array.from({ length: RESET_PER_ADDRESS + 5 }, (_, i) => limiter.allow(`p${i}@example.test`, '198.51.100.5', at(0)));
     expect(fromOne.filter(Boolean)).toHaveLength(RESET_PER_ADDRESS);
+  });
+
+  it('counts against the account only the e-mails that go out: refused requests cannot keep a person from ever getting one', () => {
+    const limiter = new ResetLimiter();
+    const minute = 60_000;
+    for (let i = 0; i < RESET_PER_ACCOUNT; i++) expect(limiter.allow('b@example.test', `192.0.2.${i}`, at(0))).not.toBeNull();
+    // Someone keeps asking for the same person from elsewhere just before the hour runs out: refused, and not counted.
+    for (const m of [20, 40, 59]) expect(limiter.allow('b@example.test', `203.0.113.${m}`, at(m * minute))).toBeNull();
+    // An hour after the e-mails that went out, the person's own request sends one.
+    expect(limiter.allow('b@example.test', '198.51.100.77', at(RESET_WINDOW_MS))).not.toBeNull();
+  });
+
+  it('gives a request back to the account when no e-mail went out for it (no such active account)', () => {
+    const limiter = new ResetLimiter();
+    for (let i = 0; i < RESET_PER_ACCOUNT + 2; i++) limiter.allow('nobody@example.test', `192.0.2.${i}`, at(i))!.notSent();
+    expect(limiter.allow('nobody@example.test', '192.0.2.50', at(10))).not.toBeNull();
+    // The address still counts every request, sent or not.
+    const limiter2 = new ResetLimiter();
+    for (let i = 0; i < RESET_PER_ADDRESS; i++) limiter2.allow(`q${i}@example.test`, '198.51.100.9', at(i))?.notSent();
+    expect(limiter2.allow('someone@example.test', '198.51.100.9', at(20))).toBeNull();
   });
 });
