@@ -283,6 +283,8 @@ const handlers: { [T in BoardCommand['type']]: Handler<T> } = {
     if (hold.state !== 'open') throw invalidState(`“${hold.title}” is already ${hold.state}.`);
     const slot = c.asInspector ? 'the inspector' : c.role;
     const mine = hold.acknowledgments.find((a) => a.userId === actor.id);
+    // The same press from two of one person's screens is one acknowledgment, not a second role.
+    if (mine && (c.asInspector ? mine.inspector : !mine.inspector && mine.role === c.role)) throw refuse(409, 'already_acknowledged', `You have already acknowledged this hold as ${slot}.`);
     if (mine) throw refuse(409, 'one_person_two_roles', `You have already acknowledged this hold as ${mine.inspector ? 'the inspector' : mine.role}; another person must acknowledge as ${slot}.`);
     const taken = hold.acknowledgments.find((a) => (c.asInspector ? a.inspector : !a.inspector && a.role === c.role));
     if (taken) throw invalidState(`${taken.name} has already acknowledged as ${slot}.`);

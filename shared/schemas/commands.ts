@@ -199,6 +199,7 @@ export const refusalCodes = [
   // The board's state and rules (server/commands/board.ts)
   'invalid_state',
   'already_released',
+  'already_acknowledged',
   'job_stopped',
   'job_closed',
   'not_inspector',

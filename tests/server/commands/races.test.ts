@@ -286,7 +286,7 @@ describe('races on one board', () => {
       if (c.type === 'hold.acknowledge') {
         if (roleOf[who] !== c.role || !required.includes(c.role)) return no('role_not_allowed');
         if (s.releasedBy || full) return no('invalid_state');
-        if (s.acks.some((x) => x.who === who)) return no('one_person_two_roles');
+        if (s.acks.some((x) => x.who === who)) return no(s.acks.some((x) => x.who === who && x.role === c.role) ? 'already_acknowledged' : 'one_person_two_roles');
         if (s.acks.some((x) => x.role === c.role)) return no('invalid_state');
         return { ok: true, next: { ...s, acks: [...s.acks, { who, role: c.role }] } };
       }

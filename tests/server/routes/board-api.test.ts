@@ -132,6 +132,9 @@ describe('the live board engine', () => {
     expect((await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'operator' })).status).toBe(200);
     const twice = await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'signaller' });
     expect(twice).toMatchObject({ status: 409, body: { error: { code: 'one_person_two_roles' } } });
+    // The same role again (a second screen of the same person) is no second role: it says so.
+    const again = await httpCommand(server, crew.operator, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'operator' });
+    expect(again).toMatchObject({ status: 409, body: { error: { code: 'already_acknowledged' } } });
     const wrongRole = await httpCommand(server, crew.rigger, jobId, { type: 'hold.acknowledge', holdId: hold.id, role: 'signaller' });
     expect(wrongRole).toMatchObject({ status: 403, body: { error: { code: 'role_not_allowed' } } });
   });
