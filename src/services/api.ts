@@ -8,6 +8,8 @@ export class ApiRequestError extends Error {
     readonly code: string,
     message: string,
     readonly fields: FieldError[] = [],
+    /** A 429's Retry-After in whole seconds, when the server sent one. */
+    readonly retryAfterS: number | null = null,
   ) {
     super(message);
   }
@@ -58,7 +60,9 @@ async function fetchWithToken(path: string, init: { method: string; body?: BodyI
 /** The server's refusal as an ApiRequestError, read from its JSON body when it sent one. */
 function refusal(response: Response, data: unknown): ApiRequestError {
   const error = (data as { error?: ApiError } | undefined)?.error;
-  return new ApiRequestError(response.status, error?.code ?? 'http_' + response.status, error?.message ?? `The server answered ${response.status}.`, error?.fields ?? []);
+  const retryAfter = Number(response.headers.get('Retry-After') ?? '');
+  const retryAfterS = response.status === 429 && Number.isFinite(retryAfter) && retryAfter > 0 ? Math.ceil(retryAfter) : null;
+  return new ApiRequestError(response.status, error?.code ?? 'http_' + response.status, error?.message ?? `The server answered ${response.status}.`, error?.fields ?? [], retryAfterS);
 }
 
 /** The one way the client talks to /api. Errors become ApiRequestError with a readable message. */
