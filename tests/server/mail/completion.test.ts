@@ -95,7 +95,8 @@ function pdfText(pdf: Buffer): string {
   }
 }
 
-async function waitUntil(what: string, test: () => Promise<boolean>, timeoutMs = 8_000): Promise<void> {
+// The record PDF renders in a worker before the e-mail goes; on a busy two-core machine that takes a while, and these waits only catch a hang.
+async function waitUntil(what: string, test: () => Promise<boolean>, timeoutMs = 30_000): Promise<void> {
   const until = Date.now() + timeoutMs;
   while (!(await test())) {
     if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
@@ -119,7 +120,7 @@ describe('the completion e-mail', () => {
     const job = await complete(server, setup, jobId);
     const fake = server.context.mailer.fake!;
     for (const address of DISTRIBUTION) {
-      const mail = await fake.waitFor(address, 8_000, (m) => m.subject.includes('Completion job'));
+      const mail = await fake.waitFor(address, 30_000, (m) => m.subject.includes('Completion job'));
       // The head hash the API reports after completion is the hash of the completing event.
       expect(mail.text).toContain(`Final hash of the job's record: ${job.headHash}`);
       expect(mail.text).toContain('The record PDF is attached.');
@@ -210,7 +211,7 @@ describe('a mail server that answers 550 and then recovers', () => {
     }
     refusing.refuseEverything = false;
     for (const address of DISTRIBUTION) {
-      const mail = await refusing.waitFor(address, 8_000);
+      const mail = await refusing.waitFor(address, 30_000);
       expect(mail.text).toContain('Final hash');
       // No record PDF source here: nothing is attached, and the e-mail says where the record is.
       expect(mail.attachments).toEqual([]);
