@@ -27,6 +27,14 @@ export const SOCKET_MESSAGE_LIMIT_BYTES = 1_000_000;
  * hundreds a second is slowed down before it reaches the write queue the whole crew shares.
  */
 export const COMMAND_RATE = { perSecond: 20, burst: 40 } as const;
+/**
+ * Stops have their own small bucket, apart from `COMMAND_RATE`: a flood of other messages never
+ * holds a stop back, and the first press always gets through unless the same sender pressed stop
+ * `burst` times in the last few seconds (the job is already stopped then). Each stop the server
+ * takes is a hash-chained event written under the queue the whole crew shares, so a flood of
+ * stops is held to a few recorded presses; one refused is kept by the board and sent again.
+ */
+export const STOP_RATE = { perSecond: 1, burst: 3 } as const;
 
 /** Keys that reach a JavaScript object's prototype when copied; no schema of ours has them. */
 const FORBIDDEN_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
@@ -37,8 +45,15 @@ export const tooDeep = () =>
 export const forbiddenField = (key: string) =>
   new HttpError(400, 'forbidden_field', `The request carries a field named “${key}”, which Holdline never accepts. Send it again from the app; if it keeps happening, tell your administrator.`);
 
-export const tooManyCommands = () =>
-  new HttpError(429, 'too_many_commands', `Too many messages from this device at once (more than ${COMMAND_RATE.perSecond} a second). Wait a second and try again; nothing of the refused ones was done.`);
+/** Who the rate is counted for, in the refusal's words: one socket is one device; over HTTP, one person. */
+export type RateSender = 'device' | 'person';
+const senderWords = (sender: RateSender) => (sender === 'device' ? 'this device' : 'you');
+
+export const tooManyCommands = (sender: RateSender = 'device') =>
+  new HttpError(429, 'too_many_commands', `Too many messages from ${senderWords(sender)} at once (more than ${COMMAND_RATE.perSecond} a second). Wait a second and try again; nothing of the refused ones was done.`);
+
+export const tooManyStops = (sender: RateSender = 'device') =>
+  new HttpError(429, 'too_many_commands', `Stop was sent more than ${STOP_RATE.burst} times within a few seconds from ${senderWords(sender)}; the earlier presses are recorded. Wait a second and press stop again if the job is not shown as stopped; the refused presses were not recorded.`);
 
 /**
  * express.json's `verify` hook: counts the nesting of the raw body before it is parsed, so a body
@@ -131,11 +146,76 @@ export class RateBucket {
   }
 
   take(): boolean {
-    const now = this.clock();
-    this.tokens = Math.min(this.burst, this.tokens + ((now - this.last) / 1000) * this.perSecond);
-    this.last = now;
+    this.refill();
     if (this.tokens < 1) return false;
     this.tokens -= 1;
     return true;
   }
+
+  /** How long until `take()` would be true again (0 when it is now). */
+  waitMs(): number {
+    this.refill();
+    return this.tokens >= 1 ? 0 : ((1 - this.tokens) / this.perSecond) * 1000;
+  }
+
+  /** True when the bucket has refilled to its burst: it is then the same as a new one. */
+  isFull(): boolean {
+    this.refill();
+    return this.tokens >= this.burst;
+  }
+
+  private refill(): void {
+    const now = this.clock();
+    this.tokens = Math.min(this.burst, this.tokens + ((now - this.last) / 1000) * this.perSecond);
+    this.last = now;
+  }
+}
+
+/**
+ * One sender's board-command rate: every message draws from `COMMAND_RATE`, except a stop, which
+ * is decided by its own `STOP_RATE` bucket alone. So a flood of other messages never holds a stop
+ * back, and a flood of stops never writes more than a few events.
+ */
+export class CommandRate {
+  private readonly messages: RateBucket;
+  private readonly stops: RateBucket;
+
+  constructor(clock?: () => number) {
+    this.messages = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst, clock);
+    this.stops = new RateBucket(STOP_RATE.perSecond, STOP_RATE.burst, clock);
+  }
+
+  /** Null when the message may go on; otherwise the refusal and how long to wait. */
+  take(isStop: boolean, sender: RateSender): { error: HttpError; waitMs: number } | null {
+    const bucket = isStop ? this.stops : this.messages;
+    if (bucket.take()) return null;
+    return { error: isStop ? tooManyStops(sender) : tooManyCommands(sender), waitMs: bucket.waitMs() };
+  }
+
+  isIdle(): boolean {
+    return this.messages.isFull() && this.stops.isFull();
+  }
+}
+
+/**
+ * `CommandRate` per person, for board commands over HTTP (keyed by the user id, whatever device or
+ * address they come from). A person whose buckets have refilled is forgotten, so the map holds only
+ * people who sent commands in the last few seconds.
+ */
+export class PersonCommandRates {
+  private readonly rates = new Map<string, CommandRate>();
+
+  constructor(private readonly clock?: () => number) {}
+
+  take(userId: string, isStop: boolean): { error: HttpError; waitMs: number } | null {
+    if (this.rates.size >= 256) for (const [id, rate] of this.rates) if (rate.isIdle()) this.rates.delete(id);
+    let rate = this.rates.get(userId);
+    if (!rate) this.rates.set(userId, (rate = new CommandRate(this.clock)));
+    return rate.take(isStop, 'person');
+  }
+}
+
+/** A board command that stops the job, by its type alone (the schema checks the rest later; this only decides the rate). */
+export function isStopCommand(command: unknown): boolean {
+  return typeof command === 'object' && command !== null && 'type' in command && command.type === 'job.stop';
 }

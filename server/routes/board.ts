@@ -4,6 +4,7 @@ import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
 import { Job } from '../entities/Job.js';
 import { HttpError, parseOrThrow } from '../errors.js';
+import { isStopCommand, PersonCommandRates } from '../middlewares/input-guard.js';
 import { can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
 import { loadJobFor } from './job-access.js';
@@ -12,10 +13,18 @@ import { loadJobFor } from './job-access.js';
 export function boardRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
+  // The same rate as one socket's, per person (input-guard.ts): 429 too_many_commands with Retry-After.
+  const rates = new PersonCommandRates();
 
   // `board.command` is asked before the body is read, so someone outside the crew learns nothing
   // from a validation answer; runBoardCommand then asks the policy again with the command's type.
   router.post('/jobs/:jobId/commands', async (req, res) => {
+    // Before the job is read: a flood costs no database read. Without sign-in, loadJobFor answers 401.
+    const refused = req.actor ? rates.take(req.actor.id, isStopCommand(req.body)) : null;
+    if (refused) {
+      res.set('Retry-After', String(Math.max(1, Math.ceil(refused.waitMs / 1000))));
+      throw refused.error;
+    }
     const { job, actor } = await loadJobFor(context, req, 'board.command');
     const command = parseOrThrow(boardCommandSchema, req.body, 'command');
     const { event } = await runBoardCommand(context, actor, job.id, command);

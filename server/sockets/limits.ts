@@ -1,6 +1,6 @@
 import type { AppContext } from '../context.js';
 import { refusalOf } from '../errors.js';
-import { cleanInput, COMMAND_RATE, RateBucket, tooManyCommands } from '../middlewares/input-guard.js';
+import { cleanInput, CommandRate, isStopCommand } from '../middlewares/input-guard.js';
 import type { HoldlineSocket } from './auth.js';
 
 /**
@@ -11,12 +11,14 @@ import type { HoldlineSocket } from './auth.js';
  * without an acknowledgment is dropped. Oversized messages never get here: Socket.IO closes the
  * transport (`SOCKET_MESSAGE_LIMIT_BYTES`).
  *
- * A stop is never held back by the rate: it still draws from the bucket, but is let through
- * when the bucket is empty. Refusing the one command that halts the crane would be the unsafe
- * side; a repeated stop is recorded as pressed again and changes nothing else.
+ * A stop is never held back by other messages: it is decided by its own small bucket
+ * (`STOP_RATE`, burst 3 then one a second), so the first press always gets through however many
+ * other messages the socket sent. Every stop taken is a hash-chained event written under the
+ * queue the whole crew shares, so a flood of stops is held to a few recorded presses; one refused
+ * is answered `too_many_commands`, and the board store keeps it and sends it again.
  */
 export function guardSocketInput(context: AppContext, socket: HoldlineSocket): void {
-  const bucket = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst);
+  const rate = new CommandRate();
   // Said once per connection in the log, so an operator can find a stuck client or a script.
   let warned = false;
   socket.use((packet, next) => {
@@ -24,10 +26,11 @@ export function guardSocketInput(context: AppContext, socket: HoldlineSocket): v
     const answer = (error: unknown) => {
       if (typeof ack === 'function') ack(refusalOf(error, context.logger, { event: packet[0], userId: socket.data.userId }));
     };
-    if (!bucket.take() && !isStop(packet)) {
+    const refused = rate.take(isStop(packet), 'device');
+    if (refused) {
       if (!warned) context.logger.warn({ userId: socket.data.userId, socketId: socket.id, event: packet[0] }, 'socket over its message rate');
       warned = true;
-      return answer(tooManyCommands());
+      return answer(refused.error);
     }
     try {
       for (let i = 1; i < packet.length; i++) if (typeof packet[i] !== 'function') packet[i] = cleanInput(packet[i]);
@@ -43,6 +46,5 @@ function isStop(packet: unknown[]): boolean {
   if (packet[0] !== 'board:command') return false;
   const payload = packet[1];
   if (typeof payload !== 'object' || payload === null || !('command' in payload)) return false;
-  const { command } = payload;
-  return typeof command === 'object' && command !== null && 'type' in command && command.type === 'job.stop';
+  return isStopCommand(payload.command);
 }

@@ -206,11 +206,23 @@ describe('the board when the server restarts', () => {
     expect(board.queuedStop).toBeNull();
   });
 
-  it('keeps a stop refused for this device’s message rate (the server lets stops through; this is the second guard) and sends it again', async () => {
+  it('keeps a stop refused for this device’s stop rate (the server takes 3 stops at once, then one a second) and sends it again', async () => {
     const board = useBoardStore();
     await board.open(JOB_ID);
-    fake.answerWith(() => ({ ok: false, error: { code: 'too_many_commands', message: 'Too many messages from this device at once. Wait a second and try again.' } }));
+    fake.answerWith(() => ({ ok: false, error: { code: 'too_many_commands', message: 'Stop was sent more than 3 times within a few seconds from this device; the earlier presses are recorded. Wait a second and press stop again if the job is not shown as stopped; the refused presses were not recorded.' } }));
     expect(await board.stop()).toBeNull();
-    expect(board.queuedStop).toMatchObject({ commandId: fake.commands[0]!.commandId });
+    const firstId = fake.commands[0]!.commandId;
+    expect(board.queuedStop).toMatchObject({ commandId: firstId });
+    // The next tick after the retry gap sends the same stop again; recorded, it is no longer kept.
+    fake.answerWith(stopRecorded);
+    const clock = vi.spyOn(Date, 'now').mockReturnValue(Date.now() + 6000);
+    fake.deliver('board:tick', { jobId: JOB_ID, seq: 5 });
+    await flush();
+    clock.mockRestore();
+    expect(fake.commands.map((c) => [c.type, c.commandId])).toEqual([
+      ['job.stop', firstId],
+      ['job.stop', firstId],
+    ]);
+    expect(board.queuedStop).toBeNull();
   });
 });

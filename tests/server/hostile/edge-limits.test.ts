@@ -1,10 +1,10 @@
 import { gzipSync } from 'node:zlib';
 import request from 'supertest';
 import { io as connect } from 'socket.io-client';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { Job } from '../../../server/entities/Job.js';
 import { JobEvent } from '../../../server/entities/JobEvent.js';
-import { COMMAND_RATE, MAX_JSON_DEPTH, SOCKET_MESSAGE_LIMIT_BYTES } from '../../../server/middlewares/input-guard.js';
+import { COMMAND_RATE, MAX_JSON_DEPTH, PersonCommandRates, SOCKET_MESSAGE_LIMIT_BYTES, STOP_RATE } from '../../../server/middlewares/input-guard.js';
 import { signedInUser } from '../../helpers/auth.js';
 import { BoardClient, briefEveryone, httpCommand, signedInCrew, type CrewByRole } from '../../helpers/board.js';
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
@@ -270,6 +270,112 @@ describe('the edge against hostile input', () => {
       }
       expect(codes.every((code) => code === 'validation')).toBe(true);
     });
+
+    it(`holds a flood of 200 stops from one socket to a few recorded presses (stops: burst ${STOP_RATE.burst}, ${STOP_RATE.perSecond} a second); the health route answers at once during it`, async () => {
+      const flooder = new BoardClient(server.url, crew.rigger.token);
+      clients.push(flooder);
+      await flooder.connected();
+      const before = await headOf(liveJobId);
+      const sent = performance.now();
+      const stops = Array.from({ length: 200 }, () => flooder.command(liveJobId, { type: 'job.stop', pressedAt: new Date().toISOString() }));
+      // The first press is answered; whatever the flood left in the write queue is still behind it.
+      const first = await stops[0]!;
+      expect(first.ok, JSON.stringify(first)).toBe(true);
+      const started = performance.now();
+      await expectHealthy();
+      const healthMs = performance.now() - started;
+      const answers = await Promise.all(stops);
+      const seconds = (performance.now() - sent) / 1000;
+      const written = (await headOf(liveJobId)).lastSeq - before.lastSeq;
+      expect(written).toBe(answers.filter((a) => a.ok).length);
+      // The burst, and the refill for the time the flood took (well under a second here).
+      expect(written).toBeLessThanOrEqual(STOP_RATE.burst + Math.ceil(seconds * STOP_RATE.perSecond));
+      const refused = answers.filter((a) => !a.ok);
+      expect(refused.length).toBeGreaterThanOrEqual(200 - written);
+      for (const a of refused) if (!a.ok) expect(a.error.code).toBe('too_many_commands');
+      expect(healthMs).toBeLessThan(1000);
+      expect((await verified(liveJobId)).valid).toBe(true);
+      // That a flood of other messages never holds a stop back is the flood test's above.
+    });
+  });
+
+  describe('board commands over HTTP, per person', () => {
+    type Answer = { status: number; retryAfter: string | null; body: { ok?: boolean; error?: { code: string; message: string } } };
+    const post = async (who: { token: string }, body: unknown): Promise<Answer> => {
+      const res = await fetch(`${server.url}/api/jobs/${liveJobId}/commands`, { method: 'POST', headers: { Authorization: `Bearer ${who.token}`, 'Content-Type': 'application/json' }, body: JSON.stringify(body) });
+      return { status: res.status, retryAfter: res.headers.get('retry-after'), body: (await res.json()) as Answer['body'] };
+    };
+    const nonsense = () => ({ type: 'nonsense', commandId: crypto.randomUUID() });
+    const stop = () => ({ type: 'job.stop', commandId: crypto.randomUUID(), pressedAt: new Date().toISOString() });
+    /**
+     * Holds the rate buckets' clock (performance.now) still while `run` floods: a hundred HTTP
+     * requests can take seconds on a busy machine, and the refill meanwhile would blur the counts.
+     */
+    const withClockStill = async <T,>(run: () => Promise<T>): Promise<T> => {
+      const spy = vi.spyOn(performance, 'now').mockReturnValue(performance.now());
+      try {
+        return await run();
+      } finally {
+        spy.mockRestore();
+      }
+    };
+
+    it(`answers a flood from one person with 429 too_many_commands and Retry-After (${COMMAND_RATE.perSecond}/s, burst ${COMMAND_RATE.burst}); another person is not held back, and the first is served again after a pause`, async () => {
+      const before = await headOf(liveJobId);
+      const { answers, other } = await withClockStill(async () => ({
+        answers: await Promise.all(Array.from({ length: COMMAND_RATE.burst + 10 }, () => post(crew.signaller, nonsense()))),
+        other: await post(crew.operator, nonsense()),
+      }));
+      const codes = answers.map((a) => a.body.error?.code);
+      // The burst reaches the route (and the schema refuses the nonsense); the rest is refused at the door.
+      expect(codes.filter((code) => code === 'validation').length).toBe(COMMAND_RATE.burst);
+      expect(codes.filter((code) => code === 'too_many_commands').length).toBe(10);
+      const refusal = answers.find((a) => a.body.error?.code === 'too_many_commands')!;
+      expect(refusal.status).toBe(429);
+      expect(refusal.retryAfter).toBe('1');
+      expect(refusal.body).toMatchObject({ error: { code: 'too_many_commands', message: expect.stringMatching(/Wait/) } });
+      // Another person of the same crew is not held back.
+      expect(other.body.error?.code).toBe('validation');
+      await new Promise((r) => setTimeout(r, 250));
+      expect((await post(crew.signaller, nonsense())).body.error?.code).toBe('validation');
+      expect(await headOf(liveJobId)).toEqual(before);
+    });
+
+    it(`holds a flood of 60 stops from one person to ${STOP_RATE.burst} recorded presses, the first let through right after a flood of other commands`, async () => {
+      const before = await headOf(liveJobId);
+      const { drained, first, answers } = await withClockStill(async () => ({
+        drained: await Promise.all(Array.from({ length: COMMAND_RATE.burst + 5 }, () => post(crew.signaller, nonsense()))),
+        first: await post(crew.signaller, stop()),
+        answers: await Promise.all(Array.from({ length: 60 }, () => post(crew.signaller, stop()))),
+      }));
+      // Some refused: this person's message bucket is empty (the clock is still, nothing refills).
+      expect(drained.filter((a) => a.body.error?.code === 'too_many_commands').length).toBeGreaterThanOrEqual(5);
+      expect(first.status, JSON.stringify(first.body)).toBe(200);
+      const written = (await headOf(liveJobId)).lastSeq - before.lastSeq;
+      expect(written).toBe(STOP_RATE.burst);
+      expect(answers.filter((a) => a.status === 200).length).toBe(STOP_RATE.burst - 1);
+      const refused = answers.filter((a) => a.status !== 200);
+      for (const a of refused) expect(a).toMatchObject({ status: 429, retryAfter: '1', body: { error: { code: 'too_many_commands' } } });
+      expect(refused[0]!.body.error!.message).toMatch(/press stop again/);
+      await expectHealthy();
+      expect((await verified(liveJobId)).valid).toBe(true);
+    });
+  });
+
+  it('a person’s HTTP buckets are never forgotten while not refilled, however many other people send (a forgotten bucket would start full again)', () => {
+    let now = 0;
+    const rates = new PersonCommandRates(() => now);
+    for (let i = 0; i < COMMAND_RATE.burst; i++) expect(rates.take('drained', false)).toBeNull();
+    for (let i = 0; i < STOP_RATE.burst; i++) expect(rates.take('drained', true)).toBeNull();
+    // Enough other people to make the map forget the idle ones, several times over.
+    for (let i = 0; i < 1000; i++) rates.take(`person-${i}`, i % 2 === 0);
+    expect(rates.take('drained', false)?.error.code).toBe('too_many_commands');
+    const stopRefused = rates.take('drained', true);
+    expect(stopRefused?.error.code).toBe('too_many_commands');
+    expect(stopRefused?.waitMs).toBe(1000 / STOP_RATE.perSecond);
+    now += 1000 / STOP_RATE.perSecond;
+    expect(rates.take('drained', true)).toBeNull();
+    expect(rates.take('drained', false)).toBeNull();
   });
 
   it('a new socket still connects after all of the above', async () => {
