@@ -10,6 +10,8 @@ import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { JobEventDto } from '../../shared/events/log.js';
 import { Component } from '../../server/entities/Component.js';
 import { signedInUser, type SignedInUser } from './auth.js';
+import { addParts18m, seedModelAndUnit } from './fleet.js';
+import { plannedJob } from './jobs.js';
 import type { TestServer } from './server.js';
 
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
@@ -205,4 +207,17 @@ export async function briefEveryone(server: TestServer, crew: CrewByRole, jobId:
     const answer = await httpCommand(server, who, jobId, { type: 'briefing.acknowledge' });
     if (answer.status !== 200 && answer.body.error?.code !== 'already_briefed') throw new Error(JSON.stringify(answer.body));
   }
+}
+
+/** A started job on an 18 m boom with its whole crew briefed: where most board tests begin. */
+export async function startedJob(server: TestServer): Promise<{ crew: CrewByRole; jobId: string }> {
+  const crew = await signedInCrew(server);
+  const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
+  const { model, unit } = await seedModelAndUnit(server, admin.token);
+  await addParts18m(server, admin.token, model.id, unit.id, 'F');
+  const jobId = (await plannedJob(server, crew, unit.id)).id;
+  await request(server.app).post(`/api/jobs/${jobId}/ready`).set('Authorization', `Bearer ${crew.supervisor.token}`).expect(200);
+  await httpCommand(server, crew.supervisor, jobId, { type: 'job.start' });
+  await briefEveryone(server, crew, jobId);
+  return { crew, jobId };
 }

@@ -1,6 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
-import { createServer } from 'node:net';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { io as connect, type Socket } from 'socket.io-client';
@@ -15,26 +14,14 @@ import { createApp, type HoldlineApp } from '../../server/app.js';
 import { loadConfig } from '../../server/config.js';
 import { openDatabase } from '../../server/db/data-source.js';
 import { createLogger } from '../../server/logger.js';
-import { signedInUser } from '../helpers/auth.js';
-import { BoardClient, briefEveryone, calmWeather, httpCommand, signedInCrew, type CrewByRole } from '../helpers/board.js';
-import { addParts18m, seedModelAndUnit } from '../helpers/fleet.js';
-import { plannedJob } from '../helpers/jobs.js';
+import { BoardClient, calmWeather, httpCommand, startedJob, type CrewByRole } from '../helpers/board.js';
+import { freePort } from '../helpers/child-server.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
 /** The secret of the in-process server that prepared the job: the child signs and checks tokens with it too. */
 const SECRET = 'test-secret-test-secret-test-secret-0123456789';
 
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once('error', reject);
-    probe.listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as { port: number };
-      probe.close(() => resolve(port));
-    });
-  });
-}
 
 /** The real server (`node --import tsx server/index.ts`) as a child process on the prepared file. */
 async function bootChild(dataDir: string, port: number): Promise<{ child: ChildProcess; exited: Promise<number | null>; output: () => string }> {
@@ -95,14 +82,7 @@ describe('graceful shutdown', () => {
 
   beforeAll(async () => {
     server = await startTestServer({ env: { HOLDLINE_SECRET: SECRET } });
-    crew = await signedInCrew(server);
-    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    const { model, unit } = await seedModelAndUnit(server, admin.token);
-    await addParts18m(server, admin.token, model.id, unit.id, 'F');
-    jobId = (await plannedJob(server, crew, unit.id)).id;
-    await request(server.app).post(`/api/jobs/${jobId}/ready`).set('Authorization', `Bearer ${crew.supervisor.token}`).expect(200);
-    await httpCommand(server, crew.supervisor, jobId, { type: 'job.start' });
-    await briefEveryone(server, crew, jobId);
+    ({ crew, jobId } = await startedJob(server));
   }, 60_000);
   afterAll(() => server.stop());
 

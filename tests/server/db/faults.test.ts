@@ -10,10 +10,7 @@ import { WriteQueue } from '../../../server/db/write-queue.js';
 import { toHttpError } from '../../../server/errors.js';
 import { createLogger } from '../../../server/logger.js';
 import { healthSchema } from '../../../shared/schemas/health.js';
-import { signedInUser } from '../../helpers/auth.js';
-import { BoardClient, briefEveryone, calmWeather, httpCommand, signedInCrew, type CrewByRole } from '../../helpers/board.js';
-import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
-import { plannedJob } from '../../helpers/jobs.js';
+import { BoardClient, calmWeather, httpCommand, startedJob, type CrewByRole } from '../../helpers/board.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 /**
@@ -33,14 +30,7 @@ describe('storage faults', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = await signedInCrew(server);
-    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    const { model, unit } = await seedModelAndUnit(server, admin.token);
-    await addParts18m(server, admin.token, model.id, unit.id, 'F');
-    jobId = (await plannedJob(server, crew, unit.id)).id;
-    await request(server.app).post(`/api/jobs/${jobId}/ready`).set('Authorization', `Bearer ${crew.supervisor.token}`).expect(200);
-    await httpCommand(server, crew.supervisor, jobId, { type: 'job.start' });
-    await briefEveryone(server, crew, jobId);
+    ({ crew, jobId } = await startedJob(server));
     rigger = new BoardClient(server.url, crew.rigger.token);
     watcher = new BoardClient(server.url, crew.operator.token);
     expect(await rigger.join(jobId)).toMatchObject({ ok: true });

@@ -2,10 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BoardFollower } from '../../../shared/board/follower.js';
 import { jobEventListSchema } from '../../../shared/events/log.js';
-import { signedInUser } from '../../helpers/auth.js';
-import { BoardClient, briefEveryone, completeSteps, httpCommand, type CrewByRole, signedInCrew } from '../../helpers/board.js';
-import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
-import { plannedJob } from '../../helpers/jobs.js';
+import { BoardClient, completeSteps, startedJob, type CrewByRole } from '../../helpers/board.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 /** The client's follower against the real server: a dropped connection shows within 3 s and resync is exact. */
@@ -16,14 +13,7 @@ describe('the board follower on a real connection', () => {
 
   beforeAll(async () => {
     server = await startTestServer();
-    crew = await signedInCrew(server);
-    const admin = await signedInUser(server, { isAdmin: true, qualifications: [] });
-    const { model, unit } = await seedModelAndUnit(server, admin.token);
-    await addParts18m(server, admin.token, model.id, unit.id, 'F');
-    jobId = (await plannedJob(server, crew, unit.id)).id;
-    await request(server.app).post(`/api/jobs/${jobId}/ready`).set('Authorization', `Bearer ${crew.supervisor.token}`).expect(200);
-    await httpCommand(server, crew.supervisor, jobId, { type: 'job.start' });
-    await briefEveryone(server, crew, jobId);
+    ({ crew, jobId } = await startedJob(server));
   });
   afterAll(() => server.stop());
 
