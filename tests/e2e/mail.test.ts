@@ -1,4 +1,3 @@
-import { createServer } from 'node:net';
 import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -7,15 +6,8 @@ import { insertUser, TEST_PASSWORD } from '../helpers/factories.js';
 import { seedModelAndUnit } from '../helpers/fleet.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
 import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { REFUSING_SMTP_URL } from '../helpers/mail.js';
 
-async function closedPort(): Promise<number> {
-  const probe = createServer();
-  await new Promise<void>((resolve) => probe.listen(0, '127.0.0.1', resolve));
-  const address = probe.address();
-  await new Promise<void>((resolve) => probe.close(() => resolve()));
-  if (typeof address !== 'object' || !address) throw new Error('no port');
-  return address.port;
-}
 
 /** The e-mail settings on the job page, and the admin's list of e-mails not delivered. */
 describe('e-mail on screen', () => {
@@ -36,7 +28,7 @@ describe('e-mail on screen', () => {
   }
 
   beforeAll(async () => {
-    server = await startTestServer({ withClient: true, env: { SMTP_URL: `smtp://127.0.0.1:${await closedPort()}` }, outbox: { retryDelaysMs: [0, 20, 40] } });
+    server = await startTestServer({ withClient: true, env: { SMTP_URL: REFUSING_SMTP_URL }, outbox: { retryDelaysMs: [0, 20, 40] } });
     chromium = await launchBrowser();
     await server.context.queue.transaction(async (m) => {
       await insertUser(m, { email: 'ilse.brandvold@crew.test', displayName: 'Ilse Brandvold', qualifications: [], isAdmin: true });

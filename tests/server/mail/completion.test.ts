@@ -1,4 +1,3 @@
-import { createServer } from 'node:net';
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
@@ -16,6 +15,7 @@ import { acknowledgeAndRelease, boardOf, briefEveryone, completeSteps, httpComma
 import { addParts18m, seedModelAndUnit } from '../../helpers/fleet.js';
 import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
+import { REFUSING_SMTP_URL } from '../../helpers/mail.js';
 
 const DISTRIBUTION = ['records@example.test', 'site.office@example.test'];
 
@@ -141,21 +141,11 @@ describe('the completion e-mail', () => {
   }, 120_000);
 });
 
-/** A port nothing listens on: taken from the system, then released. */
-async function closedPort(): Promise<number> {
-  const probe = createServer();
-  await new Promise<void>((resolve) => probe.listen(0, '127.0.0.1', resolve));
-  const address = probe.address();
-  await new Promise<void>((resolve) => probe.close(() => resolve()));
-  if (typeof address !== 'object' || !address) throw new Error('no port');
-  return address.port;
-}
-
 describe('a mail server that cannot be reached', () => {
   let server: TestServer;
   let setup: Setup;
   beforeAll(async () => {
-    server = await startTestServer({ env: { SMTP_URL: `smtp://127.0.0.1:${await closedPort()}` }, outbox: { retryDelaysMs: [0, 40, 80] } });
+    server = await startTestServer({ env: { SMTP_URL: REFUSING_SMTP_URL }, outbox: { retryDelaysMs: [0, 40, 80] } });
     setup = await setUp(server);
   });
   afterAll(() => server.stop());
