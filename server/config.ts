@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { z } from 'zod';
+import { COMMAND_RATE, type CommandRateSetting } from './middlewares/input-guard.js';
 import { isTimeZone, tidyTimeZone } from '../shared/time.js';
 
 /** The server's settings, read from the environment once at start. */
@@ -20,6 +21,11 @@ export const configSchema = z.object({
     .refine(isTimeZone, 'must be an IANA time zone name this runtime knows, e.g. Europe/Warsaw or UTC')
     .transform(tidyTimeZone)
     .optional(),
+  /**
+   * Messages a second one socket (and one person over HTTP) may send, after a burst of twice as
+   * many. Only the benchmark raises it, to measure the command path rather than the limit.
+   */
+  HOLDLINE_COMMAND_RATE: z.coerce.number().int().min(1).max(1_000_000).optional(),
 });
 
 export interface Config {
@@ -36,6 +42,8 @@ export interface Config {
   logLevel: string;
   /** The server's IANA time zone: the default for a new job's site (HOLDLINE_TIME_ZONE, else the process's). */
   timeZone: string;
+  /** Board messages a second per socket and per person (server/middlewares/input-guard.ts). */
+  commandRate: CommandRateSetting;
   version: string;
 }
 
@@ -66,6 +74,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, argv: readonly 
     smtpUrl: c.SMTP_URL,
     logLevel: c.LOG_LEVEL,
     timeZone: c.HOLDLINE_TIME_ZONE ?? processTimeZone(),
+    commandRate: c.HOLDLINE_COMMAND_RATE ? { perSecond: c.HOLDLINE_COMMAND_RATE, burst: 2 * c.HOLDLINE_COMMAND_RATE } : COMMAND_RATE,
     version: packageVersion(),
   };
 }

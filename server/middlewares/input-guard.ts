@@ -27,6 +27,11 @@ export const SOCKET_MESSAGE_LIMIT_BYTES = 1_000_000;
  * hundreds a second is slowed down before it reaches the write queue the whole crew shares.
  */
 export const COMMAND_RATE = { perSecond: 20, burst: 40 } as const;
+/** A sender's message rate: so many a second, after a first burst of so many. */
+export interface CommandRateSetting {
+  perSecond: number;
+  burst: number;
+}
 /**
  * Stops have their own small bucket, apart from `COMMAND_RATE`: a flood of other messages never
  * holds a stop back, and the first press always gets through unless the same sender pressed stop
@@ -180,8 +185,8 @@ export class CommandRate {
   private readonly messages: RateBucket;
   private readonly stops: RateBucket;
 
-  constructor(clock?: () => number) {
-    this.messages = new RateBucket(COMMAND_RATE.perSecond, COMMAND_RATE.burst, clock);
+  constructor(clock?: () => number, rate: CommandRateSetting = COMMAND_RATE) {
+    this.messages = new RateBucket(rate.perSecond, rate.burst, clock);
     this.stops = new RateBucket(STOP_RATE.perSecond, STOP_RATE.burst, clock);
   }
 
@@ -205,12 +210,15 @@ export class CommandRate {
 export class PersonCommandRates {
   private readonly rates = new Map<string, CommandRate>();
 
-  constructor(private readonly clock?: () => number) {}
+  constructor(
+    private readonly clock?: () => number,
+    private readonly rate: CommandRateSetting = COMMAND_RATE,
+  ) {}
 
   take(userId: string, isStop: boolean): { error: HttpError; waitMs: number } | null {
     if (this.rates.size >= 256) for (const [id, rate] of this.rates) if (rate.isIdle()) this.rates.delete(id);
     let rate = this.rates.get(userId);
-    if (!rate) this.rates.set(userId, (rate = new CommandRate(this.clock)));
+    if (!rate) this.rates.set(userId, (rate = new CommandRate(this.clock, this.rate)));
     return rate.take(isStop, 'person');
   }
 }

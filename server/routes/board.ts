@@ -14,7 +14,7 @@ export function boardRouter(context: AppContext): Router {
   const router = Router();
   const { manager } = context.dataSource;
   // The same rate as one socket's, per person (input-guard.ts): 429 too_many_commands with Retry-After.
-  const rates = new PersonCommandRates();
+  const rates = new PersonCommandRates(undefined, context.config.commandRate);
 
   // `board.command` is asked before the body is read, so someone outside the crew learns nothing
   // from a validation answer; runBoardCommand then asks the policy again with the command's type.

@@ -18,7 +18,7 @@ import type { HoldlineSocket } from './auth.js';
  * is answered `too_many_commands`, and the board store keeps it and sends it again.
  */
 export function guardSocketInput(context: AppContext, socket: HoldlineSocket): void {
-  const rate = new CommandRate();
+  const rate = new CommandRate(undefined, context.config.commandRate);
   // Said once per connection in the log, so an operator can find a stuck client or a script.
   let warned = false;
   socket.use((packet, next) => {
