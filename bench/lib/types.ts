@@ -74,3 +74,36 @@ export interface ScenarioOptions {
 }
 
 export type Scenario = (options: ScenarioOptions) => Promise<ScenarioResult>;
+
+/** A legal board command for one job, ready to send as the payload of `board:command`. */
+export interface CommandPayload {
+  jobId: string;
+  command: Record<string, unknown> & { type: string; commandId: string };
+}
+
+/**
+ * One system under test, running in its own process, as every scenario sees it: Holdline
+ * (bench/lib/holdline.ts) or a relay (bench/lib/servers.ts). The swarm talks to each with the
+ * same Socket.IO calls: handshake `auth: { token }`, `board:join` `{ jobId, afterSeq? }` →
+ * ack `{ ok, mode: 'events' | 'snapshot', seq, ... }`, `board:command` `{ jobId, command }` → ack
+ * `{ ok, seq, event }`, and `board:event` `{ jobId, seq, ... }` to everyone on the job.
+ */
+export interface BenchServer {
+  system: System;
+  url: string;
+  /** The server process (for CPU time and resident memory from /proc). */
+  pid(): number;
+  /** The board every scenario drives, and the nine idle ones beside it. */
+  boardJobId: string;
+  idleJobIds: string[];
+  /** Tokens for sockets that send commands (each may send from several sockets). */
+  commanderTokens: string[];
+  /** Tokens for viewer sockets; many sockets may share one token. */
+  viewerTokens: string[];
+  /** The i-th legal command for the board (each with a fresh command id). */
+  command(i: number): CommandPayload;
+  /** SIGKILL and start again on the same data and port (tokens stay valid). */
+  restart(): Promise<void>;
+  /** Kills the process and removes its data. */
+  stop(): Promise<void>;
+}
