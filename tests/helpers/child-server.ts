@@ -30,6 +30,8 @@ export interface ChildServerOptions {
   nodeArgs?: string[];
   /** How long to wait for /api/health to answer after a start. */
   bootTimeoutMs?: number;
+  /** Checkout to run `server/index.ts` from (default: this repository), e.g. an older one for before/after numbers. */
+  root?: string;
 }
 
 /**
@@ -83,7 +85,7 @@ export class ChildServer {
     // `node --import tsx`, not the tsx binary: tsx's launcher would leave the server alive as a
     // grandchild when the launcher alone is killed.
     const child = spawn(process.execPath, [...(this.options.nodeArgs ?? []), '--import', 'tsx', 'server/index.ts'], {
-      cwd: root,
+      cwd: this.options.root ?? root,
       env: {
         ...process.env,
         PORT: String(this.port),
