@@ -1,0 +1,100 @@
+/**
+ * `npm run bench [-- --quick] [--only a,b]`: runs the scenarios in order, prints each one's table
+ * and correctness counts, writes bench/results/latest.json and, after a full run of every
+ * scenario, the generated section of bench/README.md. Exits non-zero when a scenario failed or a
+ * correctness count is not zero. Every process it started is killed on the way out, Ctrl-C too.
+ */
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import { killTracked } from './lib/proc.js';
+import { correctnessLine, hasErrors, machine, machineLine, runSection, scenarioSection, updateReadme, writeLatest, type RunReport } from './lib/report.js';
+import type { Scenario, ScenarioResult } from './lib/types.js';
+
+const SCENARIOS = ['latency', 'throughput', 'resync', 'memory', 'client', 'documents'] as const;
+const benchDir = import.meta.dirname;
+
+const log = (line: string) => process.stdout.write(`[${new Date().toISOString().slice(11, 19)}] ${line}\n`);
+
+/** The scenario function of a module: its default export, the export named after it, or `scenario`. */
+function scenarioOf(module: Record<string, unknown>, id: string): Scenario {
+  const found = [module.default, module[id], module.scenario].find((value) => typeof value === 'function');
+  if (!found) throw new Error(`bench/scenarios/${id}.ts exports no scenario (a default export, \`${id}\` or \`scenario\`)`);
+  return found as Scenario;
+}
+
+async function main(): Promise<number> {
+  const { values } = parseArgs({ options: { quick: { type: 'boolean', default: false }, only: { type: 'string' } } });
+  const only = values.only ? values.only.split(',').map((s) => s.trim()).filter(Boolean) : null;
+  const unknown = (only ?? []).filter((id) => !(SCENARIOS as readonly string[]).includes(id));
+  if (unknown.length > 0) {
+    process.stderr.write(`unknown scenario(s): ${unknown.join(', ')}; known: ${SCENARIOS.join(', ')}\n`);
+    return 2;
+  }
+  const quick = values.quick;
+  const started = performance.now();
+  const report: RunReport = { machine: machine(), date: new Date().toISOString(), quick, only, results: [], failures: [], missing: [], durationSeconds: 0 };
+  log(`bench${quick ? ' (quick)' : ''} on ${machineLine(report.machine, report.date)}`);
+
+  for (const id of SCENARIOS) {
+    if (only && !only.includes(id)) continue;
+    if (!existsSync(path.join(benchDir, 'scenarios', `${id}.ts`))) {
+      log(`${id}: not in bench/scenarios yet, skipped`);
+      report.missing.push(id);
+      continue;
+    }
+    const begun = performance.now();
+    log(`${id}: start`);
+    try {
+      const scenario = scenarioOf((await import(`./scenarios/${id}.js`)) as Record<string, unknown>, id);
+      const result: ScenarioResult = await scenario({ quick, log: (line) => log(`  ${line}`) });
+      report.results.push(result);
+      log(`${id}: done in ${((performance.now() - begun) / 1000).toFixed(1)} s; ${correctnessLine(result.correctness)}`);
+    } catch (error) {
+      const message = error instanceof Error ? (error.stack ?? error.message) : String(error);
+      report.failures.push({ id, error: message });
+      log(`${id}: FAILED after ${((performance.now() - begun) / 1000).toFixed(1)} s: ${message}`);
+    }
+    // A scenario that left a process behind must not weigh on the next one's numbers.
+    killTracked();
+  }
+
+  report.durationSeconds = (performance.now() - started) / 1000;
+  process.stdout.write('\n');
+  for (const result of report.results) process.stdout.write(`${scenarioSection(result).join('\n')}\n\n`);
+  for (const failure of report.failures) process.stdout.write(`Scenario ${failure.id} FAILED: ${failure.error.split('\n')[0]}\n`);
+  if (report.missing.length > 0) process.stdout.write(`Not in bench/scenarios yet: ${report.missing.join(', ')}\n`);
+
+  const latest = path.join(benchDir, 'results', 'latest.json');
+  writeLatest(latest, report);
+  log(`wrote ${path.relative(process.cwd(), latest)}`);
+  if (!quick && !only) {
+    updateReadme(path.join(benchDir, 'README.md'), runSection(report));
+    log('wrote the latest table into bench/README.md');
+  }
+  const wrong = report.results.filter((r) => hasErrors(r.correctness)).map((r) => r.id);
+  if (wrong.length > 0) log(`correctness counts are NOT zero in: ${wrong.join(', ')}`);
+  log(`total ${report.durationSeconds.toFixed(1)} s`);
+  return wrong.length > 0 || report.failures.length > 0 ? 1 : 0;
+}
+
+process.on('exit', () => killTracked());
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.once(signal, () => {
+    log(`${signal}: stopping every process the bench started`);
+    killTracked();
+    process.exit(signal === 'SIGINT' ? 130 : 143);
+  });
+}
+
+main().then(
+  (code) => {
+    killTracked();
+    process.exit(code);
+  },
+  (error: unknown) => {
+    process.stderr.write(`${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+    killTracked();
+    process.exit(1);
+  },
+);
