@@ -8,6 +8,12 @@ import type { BenchServer, CommandPayload } from './types.js';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
 
+/** Data folders of relays still running: removed on the way out even after Ctrl-C or a failed scenario. */
+const liveDirs = new Set<string>();
+process.once('exit', () => {
+  for (const dir of liveDirs) rmSync(dir, { recursive: true, force: true });
+});
+
 /**
  * A wind reading as a crew member records it (`weather.record`): legal for Holdline (speeds and
  * height to one decimal, under every demo wind limit, so no reading stops the job) and the same
@@ -52,6 +58,7 @@ function killAndWait(child: ChildProcess): Promise<void> {
 /** A baseline (the bare relay or the SQLite relay) in its own process, as a `BenchServer`. */
 export async function startRelay(system: 'relay' | 'sqlite-relay'): Promise<BenchServer> {
   const dir = mkdtempSync(path.join(os.tmpdir(), `holdline-bench-${system}-`));
+  liveDirs.add(dir);
   const db = path.join(dir, 'relay.sqlite');
   let { child, port } = await spawnRelay(system, 0, db);
   const boardJobId = randomUUID();
@@ -75,6 +82,7 @@ export async function startRelay(system: 'relay' | 'sqlite-relay'): Promise<Benc
     async stop() {
       await killAndWait(child);
       rmSync(dir, { recursive: true, force: true });
+      liveDirs.delete(dir);
     },
   };
 }
