@@ -21,7 +21,7 @@ import type {
 } from '../swarm/protocol.js';
 import { now } from '../swarm/protocol.js';
 import { startHoldline } from './holdline.js';
-import { track } from './proc.js';
+import { cpuMs, track } from './proc.js';
 import { startRelay } from './servers.js';
 import { percentile, ratioOf, spreadOf } from './stats.js';
 import type { BenchServer, CommandPayload, Correctness, Figure, ScenarioOptions, System } from './types.js';
@@ -281,7 +281,8 @@ export interface Rounds {
 
 export const zeroCorrectness = (): Correctness => ({ gaps: 0, duplicates: 0, lostAcks: 0, rejected: 0 });
 
-function addCorrectness(into: Correctness, more: Correctness): void {
+/** Adds one run's counts to a total. */
+export function addCorrectness(into: Correctness, more: Correctness): void {
   into.gaps += more.gaps;
   into.duplicates += more.duplicates;
   into.lostAcks += more.lostAcks;
@@ -342,8 +343,8 @@ export interface FigureSpec {
   key?: string;
   /** Compare Holdline's median with this system's. */
   against?: System;
-  /** The target in words and when it is met, given the ratio against `against` (or Holdline's median when there is no baseline). */
-  target?: { text: string; met: (value: number) => boolean };
+  /** The target in words and when it is met, given the ratio against `against` (or Holdline's median when there is no baseline) and every system's spread. */
+  target?: { text: string; met: (value: number, values: Figure['values']) => boolean };
 }
 
 /** A figure from the rounds: each system's spread, the ratio and whether the target was met. */
@@ -358,10 +359,10 @@ export function figureOf(rounds: Rounds, spec: FigureSpec): Figure {
   if (spec.against) {
     const ratio = ratioOf(values.holdline, values[spec.against]);
     if (ratio !== undefined) figure.ratio = { against: spec.against, value: ratio };
-    if (spec.target) figure.target = { text: spec.target.text, met: ratio === undefined ? null : spec.target.met(ratio) };
+    if (spec.target) figure.target = { text: spec.target.text, met: ratio === undefined ? null : spec.target.met(ratio, values) };
   } else if (spec.target) {
     const holdline = values.holdline?.median;
-    figure.target = { text: spec.target.text, met: holdline === undefined ? null : spec.target.met(holdline) };
+    figure.target = { text: spec.target.text, met: holdline === undefined ? null : spec.target.met(holdline, values) };
   }
   return figure;
 }
@@ -446,3 +447,72 @@ async function loggedSeqs(server: BenchServer, after: number, upTo: number): Pro
 
 /** Milliseconds as seconds with one decimal, for progress lines. */
 export const secs = (ms: number) => `${(ms / 1000).toFixed(1)} s`;
+
+/** What one burst of commands measured, and what went wrong in it. */
+export interface Burst {
+  sent: SentCommand[];
+  from: number;
+  to: number;
+  latencies: Latencies;
+  committedPerSecond: number;
+  /** Server CPU (user + system) from just before the first send until every viewer held the last event, per acknowledged command. */
+  cpuMsPerCommand: number;
+  /** From the first send until every viewer held the last event, ms. */
+  settledMs: number;
+  correctness: Correctness;
+  notes: string[];
+}
+
+/**
+ * Sends `count` legal commands at `ratePerSecond`, waits until every viewer holds the last one
+ * acknowledged (at most `settleTimeoutMs` after the last answer), then reads the arrivals, the
+ * server's CPU time and the log: latency, throughput, CPU per command and the correctness counts.
+ */
+export async function burst(server: BenchServer, swarm: Swarm, count: number, ratePerSecond: number, settleTimeoutMs = 30_000): Promise<Burst> {
+  const cpuBefore = cpuMs(server.pid());
+  const started = now();
+  const sent = await swarm.send(count, ratePerSecond);
+  const { from, to } = seqRange(sent);
+  const correctness = zeroCorrectness();
+  const notes: string[] = [];
+  const empty: Latencies = { toFirst: [], toLast: [], undelivered: 0 };
+  if (Number.isNaN(from)) {
+    const acks = await checkAcks(server, sent);
+    return {
+      sent,
+      from,
+      to,
+      latencies: empty,
+      committedPerSecond: 0,
+      cpuMsPerCommand: Number.NaN,
+      settledMs: Number.NaN,
+      correctness: { ...correctness, lostAcks: acks.lostAcks, rejected: acks.rejected },
+      notes: [`no command was acknowledged ok (${acks.codes.join(', ')})`],
+    };
+  }
+  const sync = await swarm.awaitSync(to, 0, settleTimeoutMs);
+  const settledAt = Number.isNaN(sync.lastSyncedAt) ? now() : sync.lastSyncedAt;
+  const cpuAfter = cpuMs(server.pid());
+  const arrivals = await swarm.arrivals(from, to);
+  const latencies = latenciesOf(sent, arrivals, from);
+  const acks = await checkAcks(server, sent);
+  const ok = sent.filter((c) => c.ok).length;
+  correctness.gaps += arrivals.gaps;
+  correctness.lostAcks += acks.lostAcks + latencies.undelivered;
+  correctness.rejected += acks.rejected;
+  if (acks.codes.length) notes.push(`refusals and losses: ${acks.codes.join(', ')}`);
+  if (sync.notSynced) notes.push(`${sync.notSynced} viewers did not hold seq ${to} within ${secs(settleTimeoutMs)}`);
+  // Other events than the bench's (none expected) would show as seqs nobody sent.
+  if (to - from + 1 !== ok) notes.push(`acknowledged seqs ${from}-${to} span ${to - from + 1} for ${ok} commands`);
+  return {
+    sent,
+    from,
+    to,
+    latencies,
+    committedPerSecond: committedPerSecond(sent),
+    cpuMsPerCommand: ok ? (cpuAfter - cpuBefore) / ok : Number.NaN,
+    settledMs: settledAt - started,
+    correctness,
+    notes,
+  };
+}
