@@ -11,6 +11,7 @@
  * itself at rest (`holdline-at-rest`): the relays have no documents to render.
  */
 import { randomUUID } from 'node:crypto';
+import { readFileSync } from 'node:fs';
 import os from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { io, type Socket } from 'socket.io-client';
@@ -19,6 +20,7 @@ import type { ClientToServerEvents, ServerToClientEvents } from '../../shared/ev
 import type { BoardCommand } from '../../shared/schemas/commands.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { startHoldline } from '../lib/holdline.js';
+import { clockTicks, cpuMs } from '../lib/proc.js';
 import { percentile, ratioOf, spreadOf } from '../lib/stats.js';
 import type { Correctness, Figure, Scenario, ScenarioResult } from '../lib/types.js';
 
@@ -52,6 +54,19 @@ interface Render {
   ok: boolean;
   status: number;
   bytes: number;
+}
+
+/** CPU time (user + system, ms) of a process's main thread alone, the one that runs the event loop: its task id is the pid. */
+function mainThreadCpuMs(pid: number): number {
+  const text = readFileSync(`/proc/${pid}/task/${pid}/stat`, 'utf8');
+  const fields = text.slice(text.lastIndexOf(')') + 2).split(' ');
+  // After "pid (comm) " the state is field 3; utime and stime are fields 14 and 15.
+  return ((Number(fields[14 - 3]) + Number(fields[15 - 3])) * 1000) / clockTicks();
+}
+
+/** The server's CPU so far, all threads and the event loop's thread alone. */
+function cpuOf(pid: number): { total: number; main: number } {
+  return { total: cpuMs(pid), main: mainThreadCpuMs(pid) };
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -131,6 +146,11 @@ interface Round {
   render: number[];
   pdfAllMs: number;
   pdfs: Render[];
+  /**
+   * Server CPU per record PDF (ms): the render phase's CPU less what its commands cost at rest
+   * (the rest phase's CPU per command times the commands sent), over the three PDFs.
+   */
+  pdfCpu: { total: number; main: number };
 }
 
 function answered(samples: Sample[]): number[] {
@@ -187,24 +207,32 @@ export const documents: Scenario = async ({ quick, log }) => {
     for (let r = 0; r < rounds; r++) {
       await sleep(200);
       const restUntil = performance.now() + restMs;
+      const restCpuStart = cpuOf(server.pid());
       const rest = await paced(board, boardJob.id, () => performance.now() < restUntil);
+      const restCpuEnd = cpuOf(server.pid());
       await sleep(200);
+      const renderCpuStart = cpuOf(server.pid());
       let rendering = true;
       const renders = Promise.all(RECORD_READERS.map((email) => renderRecord(server.url, tokens.get(email)!, recordJob.id))).finally(() => {
         rendering = false;
       });
       const during = await paced(board, boardJob.id, () => rendering);
       const pdfs = await renders;
+      const renderCpuEnd = cpuOf(server.pid());
       const pdfAllMs = Math.max(...pdfs.map((p) => p.ms));
       all.push(...rest, ...during);
-      const round: Round = { rest: answered(rest), render: answered(during), pdfAllMs, pdfs };
+      const pdfCpuOf = (k: 'total' | 'main') => {
+        const perCommandAtRest = (restCpuEnd[k] - restCpuStart[k]) / rest.length;
+        return (renderCpuEnd[k] - renderCpuStart[k] - perCommandAtRest * during.length) / pdfs.length;
+      };
+      const round: Round = { rest: answered(rest), render: answered(during), pdfAllMs, pdfs, pdfCpu: { total: pdfCpuOf('total'), main: pdfCpuOf('main') } };
       measured.push(round);
       const failed = pdfs.filter((p) => !p.ok);
       if (failed.length) notes.push(`Round ${r + 1}: ${failed.length} of 3 record PDFs failed (status ${failed.map((p) => p.status).join(', ')}).`);
       log(
         `documents: round ${r + 1}/${rounds}: at rest p50 ${percentile(round.rest, 50).toFixed(1)} ms p99 ${percentile(round.rest, 99).toFixed(1)} ms (n=${round.rest.length}); ` +
           `rendering p50 ${round.render.length ? percentile(round.render, 50).toFixed(1) : '-'} ms p99 ${round.render.length ? percentile(round.render, 99).toFixed(1) : '-'} ms (n=${round.render.length}); ` +
-          `three PDFs ${(pdfAllMs / 1000).toFixed(2)} s (each ${pdfs.map((p) => (p.ms / 1000).toFixed(2)).join(' / ')} s, ${pdfs.map((p) => Math.round(p.bytes / 1024)).join(' / ')} KiB)`,
+          `server CPU per PDF ${round.pdfCpu.total.toFixed(0)} ms, ${round.pdfCpu.main.toFixed(0)} ms of it on the event loop's thread; three PDFs ${(pdfAllMs / 1000).toFixed(2)} s (each ${pdfs.map((p) => (p.ms / 1000).toFixed(2)).join(' / ')} s, ${pdfs.map((p) => Math.round(p.bytes / 1024)).join(' / ')} KiB)`,
       );
     }
 
@@ -272,6 +300,20 @@ export const documents: Scenario = async ({ quick, log }) => {
           unit: 'ms',
           better: 'lower',
           values: { holdline: spreadOf(measured.map((m) => m.pdfAllMs)) },
+        },
+        {
+          id: 'documents.pdf.cpu',
+          label: 'server CPU per record PDF, all threads (render phase less its commands at the rest rate)',
+          unit: 'ms',
+          better: 'lower',
+          values: { holdline: spreadOf(measured.map((m) => m.pdfCpu.total)) },
+        },
+        {
+          id: 'documents.pdf.cpu.main',
+          label: 'of which on the event loop’s thread, where it delays commands',
+          unit: 'ms',
+          better: 'lower',
+          values: { holdline: spreadOf(measured.map((m) => m.pdfCpu.main)) },
         },
       ],
       correctness,
