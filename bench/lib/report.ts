@@ -106,7 +106,7 @@ export function scenarioSection(result: ScenarioResult): string[] {
 
 /** The whole run as markdown: the machine line, every scenario, and what failed or is missing. */
 export function runSection(report: RunReport): string {
-  const lines = [`Run of ${report.date}${report.quick ? ' (quick)' : ''} in ${Math.round(report.durationSeconds)} s on ${machineLine(report.machine, report.date)}.`, ''];
+  const lines = [`Machine: ${machineLine(report.machine, report.date)}. ${report.quick ? 'Quick run' : 'Full run'}, ${Math.round(report.durationSeconds)} s.`, ''];
   lines.push('Values are medians of the rounds with [min–max]; a ratio is Holdline’s median over the baseline’s.', '');
   for (const result of report.results) lines.push(...scenarioSection(result), '');
   for (const failure of report.failures) lines.push(`- Scenario \`${failure.id}\` FAILED: ${failure.error.split('\n')[0]}`);
