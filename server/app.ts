@@ -10,6 +10,7 @@ import type { DataSource } from 'typeorm';
 import type { Config } from './config.js';
 import type { AppContext } from './context.js';
 import { WriteQueue } from './db/write-queue.js';
+import { CommittedJobs } from './db/committed-jobs.js';
 import { apiNotFound, errorHandler } from './errors.js';
 import { loggableUrl, type Logger } from './logger.js';
 import { resolveSecret } from './auth/secret.js';
@@ -91,6 +92,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
     config,
     dataSource,
     queue,
+    jobs: new CommittedJobs(dataSource),
     logger,
     mailer,
     outbox,

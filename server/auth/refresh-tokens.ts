@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { statement } from '../db/statements.js';
 import { RefreshToken } from '../entities/RefreshToken.js';
 import { randomToken, sha256Hex, successorToken } from './hash.js';
 
@@ -106,12 +107,11 @@ export async function revokeSession(manager: EntityManager, sessionId: string, u
  * token is checked against it on every use.
  */
 export async function sessionLive(manager: EntityManager, sessionId: string, userId: string, now: Date): Promise<boolean> {
-  const row = await manager
-    .createQueryBuilder(RefreshToken, 't')
-    .select(['t.id', 't.familyExpiresAt'])
-    .where('t.family_id = :sessionId AND t.user_id = :userId AND t.revoked_at IS NULL', { sessionId, userId })
-    .getOne();
-  return row !== null && now.getTime() < Date.parse(row.familyExpiresAt);
+  // Asked on every request, join and board command: a prepared statement (server/db/statements.ts).
+  const row = statement(manager.connection, 'SELECT family_expires_at FROM refresh_token WHERE family_id = ? AND user_id = ? AND revoked_at IS NULL LIMIT 1').get(sessionId, userId) as
+    | { family_expires_at: string }
+    | undefined;
+  return row !== undefined && now.getTime() < Date.parse(row.family_expires_at);
 }
 
 /** Ends every session of a person but one (a password set from an e-mailed link keeps the session it starts). */

@@ -10,6 +10,7 @@ import { commandHash, eventHash, GENESIS_HASH } from '../../shared/events/chain.
 import { presentJobEvent } from '../presenters/job-event.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import { boardEffects } from '../../shared/board/effects.js';
+import { loadOne, statement } from '../db/statements.js';
 
 
 export interface CommandOutcome {
@@ -39,21 +40,34 @@ export async function runJobCommand(
   command: JobCommand,
   handler: (manager: EntityManager, job: Job) => Promise<EventDraft>,
 ): Promise<CommandOutcome> {
-  const outcome = await context.queue.transaction(async (manager) => {
-    const job = await manager.findOneBy(Job, { id: jobId });
-    if (!job) throw notFound('That job');
-    const replay = await findReplay(manager, jobId, command);
-    if (replay) return { event: presentJobEvent(replay), job, replayed: true };
-    const draft = await handler(manager, job);
-    const event = await appendEvent(manager, job, command, draft, context.now());
-    return { event: presentJobEvent(event), job, replayed: false };
-  });
-  if (!outcome.replayed) {
+  return context.queue.transaction(
+    async (manager) => {
+      const job = context.jobs.read(jobId);
+      if (!job) throw notFound('That job');
+      const replay = findReplay(context, jobId, command);
+      if (replay) return { event: presentJobEvent(replay), job, replayed: true };
+      const draft = await handler(manager, job);
+      const event = appendEvent(context, job, command, draft, context.now());
+      return { event: presentJobEvent(event), job, replayed: false };
+    },
+    (outcome) => committed(context, outcome),
+  );
+}
+
+/**
+ * After the commit, in commit order: the job's row is kept as committed, the event goes to the
+ * job's live board, and e-mail for the record is queued (it can never hold up or fail the command).
+ */
+function committed(context: AppContext, outcome: CommandOutcome): void {
+  if (outcome.replayed) return;
+  context.jobs.committed(outcome.job);
+  try {
     context.publisher.publishJobEvent(outcome.event, outcome.job);
-    // E-mail for the record goes out after the commit and can never hold up or fail the command.
     context.outbox.jobEventCommitted(outcome.event);
+  } catch (error) {
+    // Committed all the same: clients that missed the broadcast get the event on their next tick's resync.
+    context.logger.error({ err: error, jobId: outcome.job.id, seq: outcome.event.seq }, 'could not announce a committed event');
   }
-  return outcome;
 }
 
 /** Creates a job and its first event in one transaction. */
@@ -62,21 +76,24 @@ export async function createJobWithEvent(
   command: JobCommand,
   build: (manager: EntityManager) => Promise<{ job: Job; draft: EventDraft; after?: (manager: EntityManager) => Promise<void> }>,
 ): Promise<CommandOutcome> {
-  return context.queue.transaction(async (manager) => {
-    const { job, draft, after } = await build(manager);
-    job.lastSeq = 0;
-    job.headHash = GENESIS_HASH;
-    await manager.save(Job, job);
-    // Rows that refer to the job (its first crew member) go in after it, before the event.
-    if (after) await after(manager);
-    const event = await appendEvent(manager, job, command, draft, context.now());
-    return { event: presentJobEvent(event), job, replayed: false };
-  });
+  return context.queue.transaction(
+    async (manager) => {
+      const { job, draft, after } = await build(manager);
+      job.lastSeq = 0;
+      job.headHash = GENESIS_HASH;
+      await manager.save(Job, job);
+      // Rows that refer to the job (its first crew member) go in after it, before the event.
+      if (after) await after(manager);
+      const event = appendEvent(context, job, command, draft, context.now());
+      return { event: presentJobEvent(event), job, replayed: false };
+    },
+    (outcome) => context.jobs.committed(outcome.job),
+  );
 }
 
-async function findReplay(manager: EntityManager, jobId: string, command: JobCommand): Promise<JobEvent | null> {
+function findReplay(context: AppContext, jobId: string, command: JobCommand): JobEvent | null {
   if (!command.commandId) return null;
-  const earlier = await manager.findOneBy(JobEvent, { jobId, commandId: command.commandId });
+  const earlier = loadOne(context.dataSource, JobEvent, 'SELECT * FROM job_event WHERE job_id = ? AND command_id = ?', jobId, command.commandId);
   if (!earlier) return null;
   // A command id is in every export of the log: someone else's id answers nothing of theirs, so a
   // replay can never carry a person past the policy that would refuse them.
@@ -86,7 +103,7 @@ async function findReplay(manager: EntityManager, jobId: string, command: JobCom
   return earlier;
 }
 
-async function appendEvent(manager: EntityManager, job: Job, command: JobCommand, draft: EventDraft, now: Date): Promise<JobEvent> {
+function appendEvent(context: AppContext, job: Job, command: JobCommand, draft: EventDraft, now: Date): JobEvent {
   // A handler that writes what the log's schema does not declare is a bug: refuse it before anything is hashed.
   checkNewEventData(draft);
   const base = {
@@ -107,13 +124,17 @@ async function appendEvent(manager: EntityManager, job: Job, command: JobCommand
   const effects = boardEffects(job.board, board);
   const fields = { ...base, data: effects ? { ...base.data, effects } : base.data };
   const hash = eventHash(job.headHash, fields);
-  const event = manager.create(JobEvent, { ...fields, commandHash: commandHash(command.body), prevHash: job.headHash, hash });
-  await manager.save(JobEvent, event);
+  const event = Object.assign(new JobEvent(), { ...fields, commandHash: commandHash(command.body), prevHash: job.headHash, hash });
+  const { lastInsertRowid } = statement(
+    context.dataSource,
+    'INSERT INTO job_event (job_id, seq, command_id, command_hash, type, by_user_id, by_name, role, at, data, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  ).run(event.jobId, event.seq, event.commandId, event.commandHash, event.type, event.byUserId, event.byName, event.role, event.at, JSON.stringify(event.data), event.prevHash, event.hash);
+  event.id = Number(lastInsertRowid);
   job.lastSeq = fields.seq;
   job.headHash = hash;
   job.board = board;
   job.state = board.job.state;
   job.updatedAt = fields.at;
-  await manager.save(job);
+  context.jobs.write(job);
   return event;
 }

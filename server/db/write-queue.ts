@@ -41,23 +41,29 @@ export class WriteQueue {
     return result;
   }
 
-  /** Runs `work` inside one transaction, in turn; refused once shutdown has begun. */
-  transaction<T>(work: (manager: EntityManager) => Promise<T>): Promise<T> {
+  /**
+   * Runs `work` inside one transaction, in turn; refused once shutdown has begun. `committed`
+   * runs after the commit and before anything queued later, so what it tells others (a kept
+   * row, a broadcast) is in commit order; it must not throw (the transaction is already committed).
+   */
+  transaction<T>(work: (manager: EntityManager) => Promise<T>, committed?: (result: T) => void): Promise<T> {
     if (!this.accepting) return Promise.reject(serverRestarting());
     return this.run(async () => {
       const db = rawConnection(this.dataSource);
       const before = totalChanges(db);
+      let result: T;
       try {
-        const result = await this.dataSource.transaction(work);
-        // Only a transaction that changed rows proves that writing works again.
-        if (before !== null && (totalChanges(db) ?? before) > before) this.storage.wrote();
-        return result;
+        result = await this.dataSource.transaction(work);
       } catch (error) {
         settleAfterFailure(this.dataSource);
         const fault = storageFaultOf(error);
         if (fault) this.storage.fault(fault);
         throw error;
       }
+      // Only a transaction that changed rows proves that writing works again.
+      if (before !== null && (totalChanges(db) ?? before) > before) this.storage.wrote();
+      committed?.(result);
+      return result;
     });
   }
 

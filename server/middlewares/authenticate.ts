@@ -2,7 +2,8 @@ import type { RequestHandler } from 'express';
 import { verifyAccessToken } from '../auth/access-token.js';
 import { sessionLive } from '../auth/refresh-tokens.js';
 import type { AppContext } from '../context.js';
-import { User } from '../entities/User.js';
+import type { User } from '../entities/User.js';
+import { userById } from '../queries/users.js';
 import { accountInactive, HttpError, sessionEnded } from '../errors.js';
 
 declare global {
@@ -29,7 +30,7 @@ export function authenticate(context: AppContext): RequestHandler {
       req.authProblem = new HttpError(401, 'token_invalid', 'Your session has expired or is not valid. Sign in again.');
       return next();
     }
-    const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
+    const user = userById(context.dataSource, claims.userId);
     if (!user || !user.active) {
       req.authProblem = accountInactive();
       return next();

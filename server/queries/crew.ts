@@ -1,10 +1,13 @@
 import { In, type EntityManager } from 'typeorm';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import { JobCrew } from '../entities/JobCrew.js';
+import { statement } from '../db/statements.js';
 
 /** The roles a person holds on a job (none when they are not in its crew). */
 export async function crewRolesOf(manager: EntityManager, jobId: string, userId: string): Promise<CrewRole[]> {
-  return (await manager.findBy(JobCrew, { jobId, userId })).map((c) => c.role);
+  // Asked on every board command and join: a prepared statement (server/db/statements.ts).
+  const rows = statement(manager.connection, 'SELECT role FROM job_crew WHERE job_id = ? AND user_id = ?').all(jobId, userId) as { role: CrewRole }[];
+  return rows.map((row) => row.role);
 }
 
 /** The roles a person holds on each job they are crew on, optionally only among `jobIds`. */

@@ -2,8 +2,7 @@ import { Router } from 'express';
 import { boardCommandSchema } from '../../shared/schemas/commands.js';
 import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
-import { Job } from '../entities/Job.js';
-import { HttpError, parseOrThrow } from '../errors.js';
+import { HttpError, notFound, parseOrThrow } from '../errors.js';
 import { isStopCommand, PersonCommandRates } from '../middlewares/input-guard.js';
 import { can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
@@ -12,7 +11,6 @@ import { loadJobFor } from './job-access.js';
 /** The board over HTTP: the same command path as the socket, and the snapshot. */
 export function boardRouter(context: AppContext): Router {
   const router = Router();
-  const { manager } = context.dataSource;
   // The same rate as one socket's, per person (input-guard.ts): 429 too_many_commands with Retry-After.
   const rates = new PersonCommandRates(undefined, context.config.commandRate);
 
@@ -34,7 +32,8 @@ export function boardRouter(context: AppContext): Router {
   // Read through the queue so the snapshot never shows a half-applied command.
   router.get('/jobs/:jobId/board', async (req, res) => {
     const { job, actor, crewRoles } = await loadJobFor(context, req, 'board.watch');
-    const current = await context.queue.run(() => manager.findOneByOrFail(Job, { id: job.id }));
+    const current = await context.queue.run(async () => context.jobs.read(job.id));
+    if (!current) throw notFound('That job');
     if (!current.board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
     res.json({ ...redactBoardFor(current.board, can(actor, 'jobs.plan', { crewRoles })), presence: context.publisher.presenceOf(job.id) });
   });

@@ -3,7 +3,7 @@ import { handshakeErrors, type ClientToServerEvents, type ServerToClientEvents }
 import { verifyAccessToken } from '../auth/access-token.js';
 import { sessionLive } from '../auth/refresh-tokens.js';
 import type { AppContext } from '../context.js';
-import { User } from '../entities/User.js';
+import { userById } from '../queries/users.js';
 import { accountInactive, HttpError, refusalOf, sessionEnded } from '../errors.js';
 import { can } from '../policies/index.js';
 
@@ -40,7 +40,7 @@ export function handshakeAuth(context: AppContext) {
     const token: unknown = socket.handshake.auth?.token;
     const claims = typeof token === 'string' ? verifyAccessToken(token, context.secret, context.now()) : null;
     if (!claims) return next(new HandshakeError(handshakeErrors.unauthenticated, 'Sign in to connect to the live board.'));
-    const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
+    const user = userById(context.dataSource, claims.userId);
     if (!user || !can(user, 'socket.connect')) return next(new HandshakeError(handshakeErrors.inactive, accountInactive().message));
     socket.data.userId = user.id;
     socket.data.sessionId = claims.sessionId;
@@ -71,7 +71,7 @@ export async function checkSocketSession(context: AppContext, socket: HoldlineSo
   }
   if (!(await sessionLive(context.dataSource.manager, socket.data.sessionId, socket.data.userId, context.now()))) {
     // A deactivated person gets the one answer to a deactivated account, as over HTTP.
-    const user = await context.dataSource.manager.findOneBy(User, { id: socket.data.userId });
+    const user = userById(context.dataSource, socket.data.userId);
     const ended = user?.active ? sessionEnded() : accountInactive();
     socket.emit('session:ended', { reason: ended.message });
     setImmediate(() => socket.disconnect(true));
@@ -106,7 +106,7 @@ export function registerSessionHandlers(context: AppContext, socket: HoldlineSoc
       if (!claims || claims.userId !== socket.data.userId || claims.sessionId !== socket.data.sessionId) {
         throw new HttpError(401, 'token_invalid', 'That session token is not valid for this connection.');
       }
-      const user = await context.dataSource.manager.findOneBy(User, { id: claims.userId });
+      const user = userById(context.dataSource, claims.userId);
       // The same row as the handshake: a person deactivated since connecting is let go.
       if (!user || !can(user, 'socket.connect')) {
         ack(refusalOf(accountInactive(), context.logger, { event: 'session:renew' }));

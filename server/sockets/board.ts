@@ -4,10 +4,10 @@ import { FOLLOW_LIMIT, type CommandAnswer, type JoinAnswer } from '../../shared/
 import { boardCommandSchema } from '../../shared/schemas/commands.js';
 import { runBoardCommand } from '../commands/board.js';
 import type { AppContext } from '../context.js';
-import { In } from 'typeorm';
 import { fieldsFromZod } from '../../shared/schemas/errors.js';
-import { Job } from '../entities/Job.js';
-import { User } from '../entities/User.js';
+import type { User } from '../entities/User.js';
+import { userById } from '../queries/users.js';
+import { jobExists } from '../queries/jobs.js';
 import { accountInactive, badRequest, HttpError, notFound, refusalOf } from '../errors.js';
 import { authorize, can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
@@ -35,15 +35,15 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
   const { presence } = publisher;
 
   /** The snapshot: the projection the reducer keeps on the job row, plus who is connected. */
-  async function snapshotOf(jobId: string, planner: boolean): Promise<BoardSnapshot | null> {
-    const job = await manager.findOneBy(Job, { id: jobId });
+  function snapshotOf(jobId: string, planner: boolean): BoardSnapshot | null {
+    const job = context.jobs.read(jobId);
     if (!job?.board) return null;
     return { ...redactBoardFor(job.board, planner), presence: presence.list(jobId) };
   }
 
   /** The person behind a socket, read fresh each time: a deactivated account gets the same answer as over HTTP. */
-  async function actorOf(socket: HoldlineSocket): Promise<User> {
-    const user = await manager.findOneBy(User, { id: socket.data.userId });
+  function actorOf(socket: HoldlineSocket): User {
+    const user = userById(context.dataSource, socket.data.userId);
     if (!user?.active) throw accountInactive();
     return user;
   }
@@ -59,9 +59,8 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           if (!parsed.success) throw badRequest('Say which job to join.', fieldsFromZod(parsed.error));
           const { jobId, afterSeq } = parsed.data;
           await checkSocketSession(context, socket);
-          const user = await actorOf(socket);
-          const job = await manager.findOneBy(Job, { id: jobId });
-          if (!job) throw notFound('That job');
+          const user = actorOf(socket);
+          if (!jobExists(context.dataSource, jobId)) throw notFound('That job');
           const roles = await crewRolesOf(manager, jobId, user.id);
           authorize(user, 'board.watch', { crewRoles: roles });
           // Join the room before reading, so nothing committed in between is missed: the client drops duplicates by seq.
@@ -84,12 +83,13 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
               planner = false;
               await socket.leave(plannerRoom(jobId));
             }
-            const current = await manager.findOneByOrFail(Job, { id: jobId });
+            const current = context.jobs.read(jobId);
+            if (!current) throw notFound('That job');
             publisher.noteSeq(jobId, current.lastSeq);
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
               return { ok: true, mode: 'events', events: await eventsAfter(manager, jobId, afterSeq, { planner }), seq: current.lastSeq };
             }
-            const snapshot = await snapshotOf(jobId, planner);
+            const snapshot = snapshotOf(jobId, planner);
             if (!snapshot) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
             return { ok: true, mode: 'snapshot', snapshot, seq: current.lastSeq };
           });
@@ -116,7 +116,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           await checkSocketSession(context, socket);
           const parsed = commandPayloadSchema.safeParse(payload);
           if (!parsed.success) throw badRequest('The command is not valid.', fieldsFromZod(parsed.error));
-          const user = await actorOf(socket);
+          const user = actorOf(socket);
           const outcome = await runBoardCommand(context, user, parsed.data.jobId, parsed.data.command);
           return { ok: true, seq: outcome.event.seq, event: outcome.event };
         } catch (error) {
@@ -134,11 +134,10 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
         const parsed = followSchema.safeParse(payload);
         if (!parsed.success) throw badRequest(`Follow at most ${FOLLOW_LIMIT} jobs by their ids.`, fieldsFromZod(parsed.error));
         await checkSocketSession(context, socket);
-        const user = await actorOf(socket);
+        const user = actorOf(socket);
         const ids = [...new Set(parsed.data.jobIds)];
-        const jobs = ids.length ? await manager.findBy(Job, { id: In(ids) }) : [];
         const rolesByJob = await crewRolesByJob(manager, user.id, ids);
-        const readable = jobs.map((j) => j.id).filter((jobId) => can(user, 'jobs.read', { crewRoles: rolesByJob.get(jobId) ?? [] }));
+        const readable = ids.filter((jobId) => jobExists(context.dataSource, jobId)).filter((jobId) => can(user, 'jobs.read', { crewRoles: rolesByJob.get(jobId) ?? [] }));
         for (const jobId of followed) if (!readable.includes(jobId)) void socket.leave(summaryRoom(jobId));
         followed.clear();
         for (const jobId of readable) followed.add(jobId);

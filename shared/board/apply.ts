@@ -15,7 +15,7 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
   if (event.type === 'job.created') return created(event);
   if (!state) throw new Error(`event ${event.seq} (${event.type}) before job.created`);
   if (event.seq !== state.seq + 1) throw new Error(`event ${event.seq} does not follow ${state.seq}`);
-  const next: BoardState = structuredClone(state);
+  const next = clonePlain(state);
   next.seq = event.seq;
   const by = { userId: event.by.userId, name: event.by.name, role: event.by.role, at: event.at };
 
@@ -255,6 +255,19 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
     }
   }
   return next;
+}
+
+/**
+ * A deep copy of plain JSON-like data (the board is nothing else), for the reducer to change
+ * freely. Several times faster than structuredClone, which also handles types the board never
+ * holds: this copy runs for every event on the server and on every screen.
+ */
+function clonePlain<T>(value: T): T {
+  if (Array.isArray(value)) return value.map(clonePlain) as T;
+  if (value === null || typeof value !== 'object') return value;
+  const copy: Record<string, unknown> = {};
+  for (const key of Object.keys(value)) copy[key] = clonePlain((value as Record<string, unknown>)[key]);
+  return copy as T;
 }
 
 function created(event: JobEventOf<'job.created'>): BoardState {
