@@ -297,6 +297,8 @@ export async function alternate(
   options: ScenarioOptions,
   swarm: Swarm,
   run: (server: BenchServer, round: number) => Promise<{ values: RunValues; correctness: Correctness; notes?: string[] }>,
+  /** `attach: false`: the run points the swarm at the server itself (to measure the server before any socket). */
+  how: { attach?: boolean } = {},
 ): Promise<Rounds> {
   const rounds: Rounds = { values: {}, correctness: {}, notes: [] };
   for (let round = 1; round <= roundsOf(options); round++) {
@@ -305,14 +307,15 @@ export async function alternate(
       let server: BenchServer | null = null;
       try {
         server = await startSystem(system);
-        await swarm.attach(server);
+        if (how.attach !== false) await swarm.attach(server);
         const result = await run(server, round);
         (rounds.values[system] ??= []).push(result.values);
         addCorrectness((rounds.correctness[system] ??= zeroCorrectness()), result.correctness);
         for (const note of result.notes ?? []) rounds.notes.push(`${system}, round ${round}: ${note}`);
         options.log(`  ${system} round ${round} done in ${((now() - started) / 1000).toFixed(1)} s`);
       } catch (error) {
-        const message = error instanceof Error ? error.message.split('\n')[0] : String(error);
+        // The first lines say why (a server that would not start prints its own reason after the first).
+        const message = (error instanceof Error ? error.message : String(error)).split('\n').filter((l) => l.trim()).slice(0, 3).join(' / ').slice(0, 400);
         rounds.notes.push(`${system}, round ${round} failed: ${message}`);
         options.log(`  ${system} round ${round} FAILED: ${message}`);
       } finally {
