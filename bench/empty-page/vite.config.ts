@@ -9,7 +9,7 @@ import { quasar, transformAssetUrls } from '@quasar/vite-plugin';
  */
 export default defineConfig({
   root: import.meta.dirname,
-  // Quasar's plugin scans the project root for its own config; the repo's node_modules are one level up, which Vite finds by itself.
+  // This folder is the root (its index.html is the entry); packages still come from the repository's node_modules.
   plugins: [vue({ template: { transformAssetUrls } }), quasar({ sassVariables: false })],
   logLevel: 'warn',
   build: { emptyOutDir: true, chunkSizeWarningLimit: 900 },

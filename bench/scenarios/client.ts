@@ -11,11 +11,14 @@ import os from 'node:os';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { chromium, type Browser, type BrowserContext, type Page, type Response } from 'playwright-core';
+import { REFRESH_COOKIE } from '../../server/auth/cookies.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { focusStage } from '../../shared/board/status.js';
 import type { BoardSnapshot } from '../../shared/board/types.js';
 import { ChildServer } from '../../tests/helpers/child-server.js';
 import { contentTypeOf, fileIn, serveFolder, type StaticServer } from '../empty-page/serve.js';
+import { track } from '../lib/proc.js';
+import { spreadOf } from '../lib/stats.js';
 import type { Correctness, Figure, Scenario, ScenarioResult, Spread, System } from '../lib/types.js';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
@@ -56,6 +59,8 @@ interface LoadOutcome {
   /** Every response before then by kind: bytes over the wire (as encoded) and unpacked, for the notes. */
   bytesByKind: Record<string, { wire: number; body: number }>;
   requests: number;
+  /** The refresh cookie the page holds at the end (it turns over on every refresh), to start the next load signed in. */
+  refreshCookie: { name: string; value: string } | null;
 }
 
 /** What every page load watched for: requests to other hosts, policy violations, uncaught errors. */
@@ -63,13 +68,6 @@ interface PageTrouble {
   foreignRequests: string[];
   cspViolations: string[];
   pageErrors: string[];
-}
-
-function spreadOf(runs: number[]): Spread {
-  const sorted = [...runs].sort((a, b) => a - b);
-  const mid = Math.floor(sorted.length / 2);
-  const median = sorted.length % 2 === 1 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-  return { median, min: sorted[0], max: sorted[sorted.length - 1], runs };
 }
 
 const kib = (bytes: number) => Math.round((bytes / 1024) * 10) / 10;
@@ -90,6 +88,7 @@ function newestMtime(paths: string[]): number {
 function run(command: string, args: string[]): Promise<void> {
   return new Promise((resolve, reject) => {
     const child = spawn(command, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+    track(child);
     let output = '';
     child.stdout.on('data', (d: Buffer) => (output += d.toString()));
     child.stderr.on('data', (d: Buffer) => (output += d.toString()));
@@ -120,7 +119,12 @@ async function build(name: string, sources: string[], extraArgs: string[], reuse
 const clientSources = ['src', 'shared', 'public', 'index.html', 'vite.config.ts', 'package-lock.json'].map((p) => path.join(root, p));
 const emptySources = [path.join(root, 'bench', 'empty-page'), path.join(root, 'package-lock.json')];
 
-const serverSources = ['server', 'shared', 'package-lock.json'].map((p) => path.join(root, p));
+/**
+ * What a template must be newer than: the schema (migrations, entities) and the seed itself. Other
+ * server changes leave the data as a server migrates and reads any older database of a real site;
+ * the page load measured here does not depend on how the demo's events were produced.
+ */
+const schemaSources = ['server/db/migrations', 'server/entities', 'server/demo', 'package-lock.json'].map((p) => path.join(root, p));
 /** A data folder seeded with the demo by an earlier run, copied for each run: seeding takes 7 s on a quiet machine and three times that on a busy one. */
 const DEMO_TEMPLATE = path.join(BUILD_BASE, 'demo-data');
 /** The demo is seeded relative to the day it was made ("started this morning"): a template older than this is seeded again. */
@@ -128,11 +132,11 @@ const TEMPLATE_MAX_AGE_MS = 6 * 60 * 60 * 1000;
 
 /**
  * The Holdline server on the demo, its client build named in HOLDLINE_TEST_CLIENT_DIR. From a copy
- * of the demo template when one newer than the server's sources exists; otherwise it seeds, stops
- * cleanly (SIGTERM: the WAL is checkpointed), keeps a copy of its data as the template, and starts
- * again on it.
+ * of the demo template when one newer than the schema and the seed exists; otherwise it seeds,
+ * stops cleanly (SIGTERM: the WAL is checkpointed), keeps a copy of its data as the template, and
+ * starts again on it.
  */
-async function startHoldline(clientDir: string): Promise<{ server: ChildServer; seeded: boolean }> {
+async function startHoldline(clientDir: string, log: (line: string) => void): Promise<{ server: ChildServer; seeded: boolean }> {
   const options = {
     env: { HOLDLINE_DEMO: '1', HOLDLINE_TEST_CLIENT_DIR: clientDir, HOLDLINE_COMMAND_RATE: '100000', LOG_LEVEL: 'warn' },
     bootTimeoutMs: 120_000,
@@ -140,10 +144,15 @@ async function startHoldline(clientDir: string): Promise<{ server: ChildServer; 
   const marker = path.join(DEMO_TEMPLATE, BUILT_MARKER);
   if (existsSync(marker)) {
     const madeAt = statSync(marker).mtimeMs;
-    if (madeAt > newestMtime(serverSources) && Date.now() - madeAt < TEMPLATE_MAX_AGE_MS) {
+    if (madeAt > newestMtime(schemaSources) && Date.now() - madeAt < TEMPLATE_MAX_AGE_MS) {
       const dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-bench-client-data-'));
       cpSync(DEMO_TEMPLATE, dataDir, { recursive: true });
-      return { server: await ChildServer.start({ ...options, dataDir }), seeded: false };
+      try {
+        return { server: await ChildServer.start({ ...options, dataDir }), seeded: false };
+      } catch (error) {
+        rmSync(dataDir, { recursive: true, force: true });
+        log(`client: the server did not start on the demo template, seeding afresh (${error instanceof Error ? error.message.split('\n')[0] : String(error)})`);
+      }
     }
   }
   const server = await ChildServer.start(options);
@@ -305,6 +314,16 @@ function watchForContent(proof: ContentProof): string {
 })();`;
 }
 
+interface LoadOptions {
+  /** The slow phone's network and CPU; the HTTP cache is off either way. */
+  slow: boolean;
+  /** A refresh cookie to start signed in with. */
+  cookie?: { name: string; value: string };
+  trouble: PageTrouble;
+  /** Read, gzip and weigh the responses: only for the loads whose sizes are reported, as it takes a second on a busy machine. */
+  sizes: boolean;
+}
+
 /**
  * Opens `url` in a fresh context and resolves when the proof is shown. `slow` applies the slow
  * phone through CDP; the HTTP cache is off either way.
@@ -313,7 +332,7 @@ async function loadPage(
   browser: Browser,
   url: string,
   proof: ContentProof,
-  options: { slow: boolean; cookie?: { name: string; value: string }; trouble: PageTrouble },
+  options: LoadOptions,
 ): Promise<LoadOutcome> {
   const context: BrowserContext = await browser.newContext({ viewport: PHONE_VIEWPORT });
   try {
@@ -364,7 +383,7 @@ async function loadPage(
     ]).finally(() => clearTimeout(timer));
     const assets: LoadOutcome['assets'] = [];
     const bytesByKind: LoadOutcome['bytesByKind'] = {};
-    for (const r of responses) {
+    for (const r of options.sizes ? responses : []) {
       const pathname = new URL(r.url()).pathname;
       const kind = pathname.endsWith('.js') ? 'js' : pathname.endsWith('.css') ? 'css' : null;
       let body: Buffer;
@@ -381,7 +400,8 @@ async function loadPage(
       seen.body += body.length;
       if (kind) assets.push({ url: r.url(), kind, bytes: body.length, gzipBytes: gzipSync(body, { level: GZIP_LEVEL }).length });
     }
-    return { firstContentMs, assets, bytesByKind, requests: responses.length };
+    const kept = (await context.cookies()).find((c) => c.name === REFRESH_COOKIE);
+    return { firstContentMs, assets, bytesByKind, requests: responses.length, refreshCookie: kept ? { name: kept.name, value: kept.value } : null };
   } finally {
     await context.close();
   }
@@ -414,7 +434,7 @@ export const client: Scenario = async ({ quick, log }): Promise<ScenarioResult> 
         const empty = await build('empty-page', emptySources, ['--config', path.join(root, 'bench', 'empty-page', 'vite.config.ts')], quick);
         return { holdline, empty };
       })(),
-      startHoldline(clientDir),
+      startHoldline(clientDir, log),
     ]);
     if (started.status === 'fulfilled') server = started.value.server;
     if (built.status === 'rejected') throw built.reason;
@@ -428,7 +448,7 @@ export const client: Scenario = async ({ quick, log }): Promise<ScenarioResult> 
     front = await frontFor(server, builds.holdline.dir);
     if (!front.direct) {
       notes.push(
-        'The server did not serve this run\'s client build (server/index.ts ignores HOLDLINE_TEST_CLIENT_DIR), so a front on another port served the build\'s files with the server\'s own headers and passed /api and /socket.io through; the figures are of this run\'s build.',
+        'The server did not serve this run\'s client build (server/index.ts serves the repository\'s dist/ and does not read HOLDLINE_TEST_CLIENT_DIR), so a front on another port served the build\'s files with the server\'s own headers and passed /api and /socket.io through; the figures are of this run\'s build.',
       );
     }
     emptyServer = await serveFolder(builds.empty.dir);
@@ -447,7 +467,7 @@ export const client: Scenario = async ({ quick, log }): Promise<ScenarioResult> 
 
     // The sign-in page's size from a load at full speed (the bytes do not depend on the speed);
     // the cab view's and the empty page's from their first loads on the slow phone below.
-    const signIn = await loadPage(browser, `${front.url}/sign-in`, signInProof, { slow: false, trouble });
+    const signIn = await loadPage(browser, `${front.url}/sign-in`, signInProof, { slow: false, trouble, sizes: true });
 
     // The first board on the slow phone, alternating with the empty page, as many rounds as the
     // time allows between the minimum and the maximum.
@@ -455,14 +475,17 @@ export const client: Scenario = async ({ quick, log }): Promise<ScenarioResult> 
     const emptyRuns: number[] = [];
     let cab: LoadOutcome | null = null;
     let empty: LoadOutcome | null = null;
+    let refreshCookie: { name: string; value: string } | null = first.refreshCookie;
     for (let i = 0; i < rounds.max; i++) {
       const roundStart = performance.now();
-      // A fresh sign-in each time: the refresh token turns over on every use.
-      const session = await operatorSession(front.url);
-      const board = await loadPage(browser, cabUrl, cabProof, { slow: true, cookie: session.refreshCookie, trouble });
+      // The refresh token turns over on every use: each load starts from the cookie the last one
+      // ended with (a sign-in costs a bcrypt on a busy machine), or from a fresh sign-in.
+      const cookie = refreshCookie ?? (await operatorSession(front.url)).refreshCookie;
+      const board = await loadPage(browser, cabUrl, cabProof, { slow: true, cookie, trouble, sizes: cab === null });
+      refreshCookie = board.refreshCookie;
       cab ??= board;
       boardRuns.push(Math.round(board.firstContentMs));
-      const baseline = await loadPage(browser, `${emptyServer.url}/`, emptyProof, { slow: true, trouble });
+      const baseline = await loadPage(browser, `${emptyServer.url}/`, emptyProof, { slow: true, trouble, sizes: empty === null });
       empty ??= baseline;
       emptyRuns.push(Math.round(baseline.firstContentMs));
       log(`client: round ${i + 1}: first board ${Math.round(board.firstContentMs)} ms, empty page ${Math.round(baseline.firstContentMs)} ms`);
@@ -520,8 +543,9 @@ export const client: Scenario = async ({ quick, log }): Promise<ScenarioResult> 
     notes.push(
       `First board: in headless Chromium, cache off, CDP network ${SLOW_PHONE.latencyMs} ms latency and ${SLOW_PHONE.bytesPerSecond} B/s down and up, CPU slowed ${SLOW_PHONE.cpuSlowdown}×; from the start of navigating to the cab view (operator signed in beforehand: the refresh cookie of an API sign-in) to the frame after "${target.stageTitle}" appeared; ${boardRuns.length} round(s) alternating with the empty page${boardRuns.length < 5 ? ` (fewer than five: the scenario's ${rounds.budgetMs / 1000} s budget)` : ''}.`,
     );
+    const troubles = trouble.foreignRequests.length + trouble.cspViolations.length + trouble.pageErrors.length;
     notes.push(
-      `Requests to other hosts: ${trouble.foreignRequests.length}; content security policy violations: ${trouble.cspViolations.length}; uncaught page errors: ${trouble.pageErrors.length}.` +
+      `${troubles > 0 ? 'PROBLEM: ' : ''}Requests to other hosts: ${trouble.foreignRequests.length}; content security policy violations: ${trouble.cspViolations.length}; uncaught page errors: ${trouble.pageErrors.length}.` +
         [...trouble.foreignRequests, ...trouble.cspViolations, ...trouble.pageErrors].slice(0, 5).map((t) => ` ${t}`).join(''),
     );
     notes.push('No board commands are sent here: the correctness counts are zero by construction.');
