@@ -1,8 +1,8 @@
 /**
  * `npm run bench [-- --quick] [--only a,b]`: runs the scenarios in order, prints each one's table
  * and correctness counts, writes bench/results/latest.json and, after a full run of every
- * scenario, the generated section of bench/README.md. Exits non-zero when a scenario failed or a
- * correctness count is not zero. Every process it started is killed on the way out, Ctrl-C too.
+ * scenario, the generated section of bench/README.md. Exits non-zero when a scenario failed,
+ * measured no Holdline figure, or a correctness count is not zero. Every process it started is killed on the way out, Ctrl-C too.
  */
 import { existsSync } from 'node:fs';
 import path from 'node:path';
@@ -74,8 +74,11 @@ async function main(): Promise<number> {
   }
   const wrong = report.results.filter((r) => hasErrors(r.correctness)).map((r) => r.id);
   if (wrong.length > 0) log(`correctness counts are NOT zero in: ${wrong.join(', ')}`);
+  // A scenario that measured its baselines but never Holdline (it did not start, every round failed) is no pass.
+  const noHoldline = report.results.filter((r) => r.figures.length > 0 && !r.figures.some((f) => f.values.holdline)).map((r) => r.id);
+  if (noHoldline.length > 0) log(`Holdline was NOT measured in: ${noHoldline.join(', ')}`);
   log(`total ${report.durationSeconds.toFixed(1)} s`);
-  return wrong.length > 0 || report.failures.length > 0 ? 1 : 0;
+  return wrong.length > 0 || noHoldline.length > 0 || report.failures.length > 0 ? 1 : 0;
 }
 
 process.on('exit', () => killTracked());

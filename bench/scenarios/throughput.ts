@@ -307,8 +307,14 @@ export const throughput: Scenario = async ({ quick, log }: ScenarioOptions) => {
     // Started side by side (nothing is measured yet); if one fails, those that did start are stopped below.
     const started = await Promise.allSettled(starters.map(([, start]) => start()));
     for (const outcome of started) if (outcome.status === 'fulfilled') servers.push(outcome.value);
-    const failed = started.find((outcome) => outcome.status === 'rejected');
-    if (failed) throw failed.reason;
+    for (const [k, outcome] of started.entries()) {
+      if (outcome.status === 'fulfilled') continue;
+      const message = outcome.reason instanceof Error ? outcome.reason.message : String(outcome.reason);
+      // The baselines still say what this machine does; the runner fails a run that measured no Holdline.
+      if (starters[k][0] !== 'holdline') throw outcome.reason;
+      notes.push(`Holdline FAILED to start, not measured: ${message.split('\n').slice(0, 2).join(' ')}`);
+      log(`throughput: Holdline failed to start: ${message}`);
+    }
     const rates = new Map<string, number[]>();
     const cpu = new Map<string, number[]>();
     const push = (map: Map<string, number[]>, key: string, value: number) => map.set(key, [...(map.get(key) ?? []), value]);
