@@ -33,7 +33,7 @@ async function main(): Promise<number> {
   }
   const quick = values.quick;
   const started = performance.now();
-  const report: RunReport = { machine: machine(), date: new Date().toISOString(), quick, only, results: [], failures: [], missing: [], durationSeconds: 0 };
+  const report: RunReport = { machine: machine(), date: new Date().toISOString(), quick, only, results: [], failures: [], missing: [], durationSeconds: 0, scenarioSeconds: {} };
   log(`bench${quick ? ' (quick)' : ''} on ${machineLine(report.machine, report.date)}`);
 
   for (const id of SCENARIOS) {
@@ -55,6 +55,7 @@ async function main(): Promise<number> {
       report.failures.push({ id, error: message });
       log(`${id}: FAILED after ${((performance.now() - begun) / 1000).toFixed(1)} s: ${message}`);
     }
+    report.scenarioSeconds[id] = (performance.now() - begun) / 1000;
     // A scenario that left a process behind must not weigh on the next one's numbers.
     killTracked();
   }
@@ -64,6 +65,7 @@ async function main(): Promise<number> {
   for (const result of report.results) process.stdout.write(`${scenarioSection(result).join('\n')}\n\n`);
   for (const failure of report.failures) process.stdout.write(`Scenario ${failure.id} FAILED: ${failure.error.split('\n')[0]}\n`);
   if (report.missing.length > 0) process.stdout.write(`Not in bench/scenarios yet: ${report.missing.join(', ')}\n`);
+  process.stdout.write(`Time per scenario: ${Object.entries(report.scenarioSeconds).map(([id, s]) => `${id} ${s.toFixed(1)} s`).join(', ')}\n`);
 
   const latest = path.join(benchDir, 'results', 'latest.json');
   writeLatest(latest, report);

@@ -25,6 +25,8 @@ export interface RunReport {
   /** Scenarios whose module is not in bench/scenarios yet. */
   missing: string[];
   durationSeconds: number;
+  /** Wall time of each scenario run, in seconds (the quick run must fit in two minutes, the full one in ten). */
+  scenarioSeconds: Record<string, number>;
 }
 
 export const START_MARKER = '<!-- latest:start -->';
@@ -111,6 +113,8 @@ export function runSection(report: RunReport): string {
   for (const result of report.results) lines.push(...scenarioSection(result), '');
   for (const failure of report.failures) lines.push(`- Scenario \`${failure.id}\` FAILED: ${failure.error.split('\n')[0]}`);
   for (const id of report.missing) lines.push(`- Scenario \`${id}\` is not in bench/scenarios yet.`);
+  const times = Object.entries(report.scenarioSeconds ?? {}).map(([id, seconds]) => `${id} ${Math.round(seconds)} s`);
+  if (times.length > 0) lines.push('', `Time per scenario: ${times.join(', ')}.`);
   return `${lines.join('\n').trimEnd()}\n`;
 }
 
