@@ -85,6 +85,7 @@ function newestMtime(paths: string[]): number {
   return newest;
 }
 
+/** Runs a command in the repository, rejecting with the end of its output when it fails. */
 function run(command: string, args: string[]): Promise<void> {
   return new Promise((resolve, reject) => {
     const child = spawn(command, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
@@ -109,7 +110,12 @@ async function build(name: string, sources: string[], extraArgs: string[], reuse
   const fresh = `${dir}.tmp-${process.pid}`;
   rmSync(fresh, { recursive: true, force: true });
   const started = performance.now();
-  await run(path.join(root, 'node_modules', '.bin', 'vite'), ['build', ...extraArgs, '--outDir', fresh, '--emptyOutDir', '--logLevel', 'warn']);
+  try {
+    await run(path.join(root, 'node_modules', '.bin', 'vite'), ['build', ...extraArgs, '--outDir', fresh, '--emptyOutDir', '--logLevel', 'warn']);
+  } catch (error) {
+    rmSync(fresh, { recursive: true, force: true });
+    throw error;
+  }
   writeFileSync(path.join(fresh, BUILT_MARKER), new Date().toISOString());
   rmSync(dir, { recursive: true, force: true });
   renameSync(fresh, dir);
@@ -155,7 +161,15 @@ async function startHoldline(clientDir: string, log: (line: string) => void): Pr
       }
     }
   }
-  const server = await ChildServer.start(options);
+  const seedDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-bench-client-data-'));
+  let server: ChildServer;
+  try {
+    server = await ChildServer.start({ ...options, dataDir: seedDir });
+  } catch (error) {
+    // A server that dies while seeding leaves its folder behind otherwise.
+    rmSync(seedDir, { recursive: true, force: true });
+    throw error;
+  }
   await server.terminate();
   mkdirSync(BUILD_BASE, { recursive: true });
   const fresh = `${DEMO_TEMPLATE}.tmp-${process.pid}`;
