@@ -139,8 +139,8 @@ export async function startHoldline(options: HoldlineOptions = {}): Promise<Benc
   cpSync(template.dir, dataDir, { recursive: true });
   const server = await ChildServer.start({ dataDir, root, env: { HOLDLINE_COMMAND_RATE: BENCH_COMMAND_RATE, ...options.env } });
   try {
-    const tokens = new Map<string, string>();
-    for (const email of new Set([...COMMANDERS, ...WATCHERS])) tokens.set(email, await signIn(server.url, email));
+    const emails = [...new Set([...COMMANDERS, ...WATCHERS])];
+    const tokens = new Map((await Promise.all(emails.map((email) => signIn(server.url, email)))).map((token, i) => [emails[i], token]));
     const commanderTokens = COMMANDERS.map((e) => tokens.get(e)!);
     const viewerTokens = WATCHERS.map((e) => tokens.get(e)!);
     return {
