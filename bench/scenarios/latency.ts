@@ -27,7 +27,7 @@ const SMALL = 100;
 const RATES = [20, 100] as const;
 
 /** How many seconds each rate is sent for. */
-const seconds = (quick: boolean, rate: number) => (quick ? 1.5 : rate === 20 ? 4 : 3);
+const seconds = (quick: boolean, rate: number) => (quick ? 1.5 : rate === 20 ? 3 : 2);
 
 const key = (viewers: number, rate: number, what: string) => `latency.${viewers}v.${rate}hz.${what}`;
 const many = (n: number) => n.toLocaleString('en-GB');
