@@ -26,6 +26,11 @@ export const configSchema = z.object({
    * many. Only the benchmark raises it, to measure the command path rather than the limit.
    */
   HOLDLINE_COMMAND_RATE: z.coerce.number().int().min(1).max(1_000_000).optional(),
+  /**
+   * The built client the server sends to browsers: dist/ beside the project unless set (a path
+   * relative to the working folder). The benchmark points it at a client it built elsewhere.
+   */
+  HOLDLINE_CLIENT_DIR: z.string().min(1).optional(),
 });
 
 export interface Config {
@@ -44,6 +49,8 @@ export interface Config {
   timeZone: string;
   /** Board messages a second per socket and per person (server/middlewares/input-guard.ts). */
   commandRate: CommandRateSetting;
+  /** Folder of the built client (HOLDLINE_CLIENT_DIR, else dist/ beside the project). */
+  clientDir: string;
   version: string;
 }
 
@@ -75,6 +82,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, argv: readonly 
     logLevel: c.LOG_LEVEL,
     timeZone: c.HOLDLINE_TIME_ZONE ?? processTimeZone(),
     commandRate: c.HOLDLINE_COMMAND_RATE ? { perSecond: c.HOLDLINE_COMMAND_RATE, burst: 2 * c.HOLDLINE_COMMAND_RATE } : COMMAND_RATE,
+    clientDir: c.HOLDLINE_CLIENT_DIR ? path.resolve(c.HOLDLINE_CLIENT_DIR) : path.resolve(import.meta.dirname, '..', 'dist'),
     version: packageVersion(),
   };
 }

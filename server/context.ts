@@ -4,7 +4,6 @@ import type { JobEventDto } from '../shared/events/log.js';
 import type { Config } from './config.js';
 import type { Job } from './entities/Job.js';
 import type { WriteQueue } from './db/write-queue.js';
-import type { CommittedJobs } from './db/committed-jobs.js';
 import type { Logger } from './logger.js';
 import type { LiveJobAccess } from './policies/index.js';
 import type { Mailer } from './mail/mailer.js';
@@ -40,8 +39,6 @@ export interface AppContext {
   config: Config;
   dataSource: DataSource;
   queue: WriteQueue;
-  /** Job rows as last committed (read and written under the queue): the board's command path reads no row twice. */
-  jobs: CommittedJobs;
   logger: Logger;
   mailer: Mailer;
   /** Every e-mail sent for the record goes through it, after the commit (server/mail/outbox.ts). */

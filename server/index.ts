@@ -1,5 +1,4 @@
 import 'reflect-metadata';
-import path from 'node:path';
 import { createApp } from './app.js';
 import { ConfigError, loadConfig } from './config.js';
 import { openDatabase } from './db/data-source.js';
@@ -24,8 +23,7 @@ async function main(): Promise<void> {
   }
   const logger = createLogger(config.logLevel);
   const dataSource = await openDatabase(config.databasePath);
-  const clientDir = path.resolve(import.meta.dirname, '..', 'dist');
-  const holdline = createApp({ config, dataSource, logger, clientDir });
+  const holdline = createApp({ config, dataSource, logger, clientDir: config.clientDir });
 
   if (config.demo && (await seedDemoIfEmpty(holdline.context))) logger.info('demo scenario seeded');
 

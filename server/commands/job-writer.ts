@@ -11,6 +11,7 @@ import { presentJobEvent } from '../presenters/job-event.js';
 import { applyEvent } from '../../shared/board/apply.js';
 import { boardEffects } from '../../shared/board/effects.js';
 import { loadOne, statement } from '../db/statements.js';
+import { committedJobs } from '../db/committed-jobs.js';
 
 
 export interface CommandOutcome {
@@ -42,7 +43,7 @@ export async function runJobCommand(
 ): Promise<CommandOutcome> {
   return context.queue.transaction(
     async (manager) => {
-      const job = context.jobs.read(jobId);
+      const job = committedJobs(context.dataSource).read(jobId);
       if (!job) throw notFound('That job');
       const replay = findReplay(context, jobId, command);
       if (replay) return { event: presentJobEvent(replay), job, replayed: true };
@@ -60,7 +61,7 @@ export async function runJobCommand(
  */
 function committed(context: AppContext, outcome: CommandOutcome): void {
   if (outcome.replayed) return;
-  context.jobs.committed(outcome.job);
+  committedJobs(context.dataSource).committed(outcome.job);
   try {
     context.publisher.publishJobEvent(outcome.event, outcome.job);
     context.outbox.jobEventCommitted(outcome.event);
@@ -87,7 +88,7 @@ export async function createJobWithEvent(
       const event = appendEvent(context, job, command, draft, context.now());
       return { event: presentJobEvent(event), job, replayed: false };
     },
-    (outcome) => context.jobs.committed(outcome.job),
+    (outcome) => committedJobs(context.dataSource).committed(outcome.job),
   );
 }
 
@@ -135,6 +136,6 @@ function appendEvent(context: AppContext, job: Job, command: JobCommand, draft: 
   job.board = board;
   job.state = board.job.state;
   job.updatedAt = fields.at;
-  context.jobs.write(job);
+  committedJobs(context.dataSource).write(job);
   return event;
 }

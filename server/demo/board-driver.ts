@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import { committedJobs } from '../db/committed-jobs.js';
 import { holdGatesBoomMovement, holdGatesCraneMovement, stepNeedsFreshWeather, weatherVerdict } from '../../shared/board/rules.js';
 import type { BoardStep } from '../../shared/board/types.js';
 import type { BoardCommand } from '../../shared/schemas/commands.js';
@@ -8,7 +9,6 @@ import type { AppContext } from '../context.js';
 import { runBoardCommand } from '../commands/board.js';
 import { storeUpload } from '../commands/uploads.js';
 import { Component } from '../entities/Component.js';
-import { Job } from '../entities/Job.js';
 import { JobPlan } from '../entities/JobPlan.js';
 import type { User } from '../entities/User.js';
 import { demoPhoto } from './photos.js';
@@ -65,7 +65,7 @@ export class DemoBoardDriver {
   }
 
   private async board() {
-    const job = await this.context.dataSource.manager.findOneByOrFail(Job, { id: this.jobId });
+    const job = committedJobs(this.context.dataSource).read(this.jobId)!;
     return { job, board: job.board! };
   }
 

@@ -60,8 +60,11 @@ export class Job {
   @Column('integer', { name: 'hold_reminder_minutes', default: 10 })
   holdReminderMinutes!: number;
 
-  /** The board as the shared reducer builds it from the log; the snapshot clients start from. */
-  @Column('simple-json', { nullable: true })
+  /**
+   * The board as the shared reducer builds it from the log; the snapshot clients start from. Not
+   * a column: it is kept in `job_board` every so many events and brought up to `lastSeq` by
+   * `CommittedJobs.read` (server/db/committed-jobs.ts), the only way a job with its board is read.
+   */
   board!: BoardState | null;
 
   @Column('simple-json', { name: 'comms_plan' })

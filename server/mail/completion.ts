@@ -1,8 +1,8 @@
 import type { EntityManager } from 'typeorm';
+import { committedJobs } from '../db/committed-jobs.js';
 import { describeEvent, namesFromLog } from '../../shared/events/sentences.js';
 import type { JobEventDto } from '../../shared/events/log.js';
 import { roleLabel } from '../../shared/schemas/users.js';
-import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { presentJobEvent } from '../presenters/job-event.js';
 import type { QueuedMail } from './outbox.js';
@@ -16,7 +16,7 @@ import { siteWords, zoneLine } from './templates.js';
  * it reads the same for any ending.
  */
 export async function completionMail(manager: EntityManager, publicUrl: string, jobId: string, seq: number): Promise<QueuedMail[]> {
-  const job = await manager.findOneBy(Job, { id: jobId });
+  const job = committedJobs(manager.connection).read(jobId);
   if (!job || job.distribution.length === 0) return [];
   const rows = await manager.find(JobEvent, { where: { jobId }, order: { seq: 'ASC' } });
   const completed = rows.find((r) => r.seq === seq);

@@ -1,4 +1,5 @@
 import { In } from 'typeorm';
+import { committedJobs } from '../db/committed-jobs.js';
 import { roleLabel } from '../../shared/schemas/users.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { AppContext } from '../context.js';
@@ -58,7 +59,7 @@ export class HoldReminders {
     const jobs = await manager.find(Job, { where: { state: 'live' } });
     const mails: QueuedMail[] = [];
     for (const job of jobs) {
-      const board = job.board;
+      const board = committedJobs(manager.connection).read(job.id)?.board;
       if (!board) continue;
       const connected = new Set(this.context.publisher.presenceOf(job.id).map((p) => p.userId));
       for (const stage of board.stages) {

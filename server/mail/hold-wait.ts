@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
+import { committedJobs } from '../db/committed-jobs.js';
 import type { BoardHold, BoardState } from '../../shared/board/types.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
-import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import type { OutboxHoldWait } from '../entities/MailOutbox.js';
 
@@ -59,7 +59,7 @@ export function openHold(board: BoardState | null, holdId: string): BoardHold | 
  * version) and still waits for one of the roles the reminder named.
  */
 export async function holdStillWaiting(manager: EntityManager, wait: OutboxHoldWait): Promise<boolean> {
-  const job = await manager.findOneBy(Job, { id: wait.jobId });
+  const job = committedJobs(manager.connection).read(wait.jobId);
   if (!job || (job.state !== 'live' && job.state !== 'stopped')) return false;
   const hold = openHold(job.board, wait.holdId);
   if (!hold) return false;

@@ -1,4 +1,4 @@
-import { In, type DataSource, type EntityManager } from 'typeorm';
+import { In, type EntityManager } from 'typeorm';
 import { commsProblems } from '../../shared/plan/comms.js';
 import { crewEditStates, missingCrewRoles, type JobDto, type JobSummary, type Readiness } from '../../shared/schemas/jobs.js';
 import { Job } from '../entities/Job.js';
@@ -10,7 +10,6 @@ import { can } from '../policies/index.js';
 import { presentJob } from '../presenters/job.js';
 import { crewRolesByJob } from './crew.js';
 import { planReadinessReasons } from './plans.js';
-import { statement } from '../db/statements.js';
 
 /** A job with its crew, overrides and the names they need, presented for one person. */
 export async function jobFor(manager: EntityManager, job: Job, viewer: User): Promise<JobDto> {
@@ -94,9 +93,4 @@ export async function readinessOf(manager: EntityManager, job: Job): Promise<Rea
   if (job.configuration) reasons.push(...commsProblems(job.configuration, job.commsPlan, crew));
   reasons.push(...(await planReadinessReasons(manager, job)));
   return { ready: reasons.length === 0, reasons };
-}
-
-/** Whether a job of this id exists, without reading its row (asked on every join and follow). */
-export function jobExists(dataSource: DataSource, jobId: string): boolean {
-  return statement(dataSource, 'SELECT 1 FROM job WHERE id = ?').get(jobId) !== undefined;
 }

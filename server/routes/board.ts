@@ -7,6 +7,7 @@ import { isStopCommand, PersonCommandRates } from '../middlewares/input-guard.js
 import { can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
 import { loadJobFor } from './job-access.js';
+import { committedJobs } from '../db/committed-jobs.js';
 
 /** The board over HTTP: the same command path as the socket, and the snapshot. */
 export function boardRouter(context: AppContext): Router {
@@ -32,7 +33,7 @@ export function boardRouter(context: AppContext): Router {
   // Read through the queue so the snapshot never shows a half-applied command.
   router.get('/jobs/:jobId/board', async (req, res) => {
     const { job, actor, crewRoles } = await loadJobFor(context, req, 'board.watch');
-    const current = await context.queue.run(async () => context.jobs.read(job.id));
+    const current = await context.queue.run(async () => committedJobs(context.dataSource).read(job.id));
     if (!current) throw notFound('That job');
     if (!current.board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
     res.json({ ...redactBoardFor(current.board, can(actor, 'jobs.plan', { crewRoles })), presence: context.publisher.presenceOf(job.id) });

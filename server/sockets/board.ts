@@ -7,7 +7,6 @@ import type { AppContext } from '../context.js';
 import { fieldsFromZod } from '../../shared/schemas/errors.js';
 import type { User } from '../entities/User.js';
 import { userById } from '../queries/users.js';
-import { jobExists } from '../queries/jobs.js';
 import { accountInactive, badRequest, HttpError, notFound, refusalOf } from '../errors.js';
 import { authorize, can } from '../policies/index.js';
 import { redactBoardFor } from '../presenters/board.js';
@@ -15,6 +14,7 @@ import { crewRolesByJob, crewRolesOf } from '../queries/crew.js';
 import { eventsAfter } from '../queries/events.js';
 import { checkSocketSession, type HoldlineSocket } from './auth.js';
 import { jobRoom, plannerRoom, summaryRoom, type BoardPublisher } from './publisher.js';
+import { committedJobs } from '../db/committed-jobs.js';
 
 /** A rejoining client gets at most this many missed events; beyond it, a fresh snapshot. */
 export const JOIN_REPLAY_LIMIT = 500;
@@ -36,7 +36,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
 
   /** The snapshot: the projection the reducer keeps on the job row, plus who is connected. */
   function snapshotOf(jobId: string, planner: boolean): BoardSnapshot | null {
-    const job = context.jobs.read(jobId);
+    const job = committedJobs(context.dataSource).read(jobId);
     if (!job?.board) return null;
     return { ...redactBoardFor(job.board, planner), presence: presence.list(jobId) };
   }
@@ -60,7 +60,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
           const { jobId, afterSeq } = parsed.data;
           await checkSocketSession(context, socket);
           const user = actorOf(socket);
-          if (!jobExists(context.dataSource, jobId)) throw notFound('That job');
+          if (!committedJobs(context.dataSource).exists(jobId)) throw notFound('That job');
           const roles = await crewRolesOf(manager, jobId, user.id);
           authorize(user, 'board.watch', { crewRoles: roles });
           // Join the room before reading, so nothing committed in between is missed: the client drops duplicates by seq.
@@ -83,7 +83,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
               planner = false;
               await socket.leave(plannerRoom(jobId));
             }
-            const current = context.jobs.read(jobId);
+            const current = committedJobs(context.dataSource).read(jobId);
             if (!current) throw notFound('That job');
             publisher.noteSeq(jobId, current.lastSeq);
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
@@ -137,7 +137,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
         const user = actorOf(socket);
         const ids = [...new Set(parsed.data.jobIds)];
         const rolesByJob = await crewRolesByJob(manager, user.id, ids);
-        const readable = ids.filter((jobId) => jobExists(context.dataSource, jobId)).filter((jobId) => can(user, 'jobs.read', { crewRoles: rolesByJob.get(jobId) ?? [] }));
+        const readable = ids.filter((jobId) => committedJobs(context.dataSource).exists(jobId)).filter((jobId) => can(user, 'jobs.read', { crewRoles: rolesByJob.get(jobId) ?? [] }));
         for (const jobId of followed) if (!readable.includes(jobId)) void socket.leave(summaryRoom(jobId));
         followed.clear();
         for (const jobId of readable) followed.add(jobId);

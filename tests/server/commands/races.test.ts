@@ -6,6 +6,7 @@ import type { BoardStage, BoardState } from '../../../shared/board/types.js';
 import { jobEventListSchema } from '../../../shared/events/log.js';
 import type { CrewRole } from '../../../shared/schemas/jobs.js';
 import { Job } from '../../../server/entities/Job.js';
+import { CommittedJobs } from '../../../server/db/committed-jobs.js';
 import { JobEvent } from '../../../server/entities/JobEvent.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { BoardClient, calmWeather, completeSteps, readingWithinLimit, signedInCrew, type CommandBody, type CrewByRole } from '../../helpers/board.js';
@@ -182,7 +183,8 @@ describe('races on one board', () => {
   async function checkLog(jobId: string, fromSeq: number): Promise<{ log: JobEvent[]; board: BoardState }> {
     const { rows, stored } = await server.context.queue.run(async () => ({
       rows: await server.context.dataSource.manager.find(JobEvent, { where: { jobId }, order: { seq: 'ASC', id: 'ASC' } }),
-      stored: await server.context.dataSource.manager.findOneByOrFail(Job, { id: jobId }),
+      // A cold read, as after a restart: the stored board snapshot and the events after it.
+      stored: new CommittedJobs(server.context.dataSource).read(jobId)!,
     }));
     expect(rows.map((r) => r.seq)).toEqual(rows.map((_, i) => i + 1));
     expect(stored.lastSeq).toBe(rows.length);

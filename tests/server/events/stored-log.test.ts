@@ -42,9 +42,13 @@ describe('events stored before the log was typed', () => {
       // The old server stored no shifts and no acting supervisor (issue 17): the replay adds them
       // (a started job is in its first shift, run by whoever started it); the rest is as stored.
       const { shift, actingSupervisor, ...asBefore } = replay(events)!;
-      expect(asBefore).toEqual(job.board);
-      expect(job.board).not.toHaveProperty('shift');
-      expect(job.board).not.toHaveProperty('actingSupervisor');
+      // The board the old server kept on the job row, moved as it was into job_board by the migration BoardSnapshots.
+      const [snapshot] = (await dataSource.query('SELECT seq, board FROM job_board WHERE job_id = ?', [job.id])) as { seq: number; board: string }[];
+      const stored: unknown = JSON.parse(snapshot.board);
+      expect(snapshot.seq).toBe(job.lastSeq);
+      expect(asBefore).toEqual(stored);
+      expect(stored).not.toHaveProperty('shift');
+      expect(stored).not.toHaveProperty('actingSupervisor');
       const started = events.find((e) => e.type === 'job.started');
       if (started) {
         expect(shift).toMatchObject({ number: 1, startedAt: started.at });
@@ -56,5 +60,31 @@ describe('events stored before the log was typed', () => {
       expect(await verifyJobChain(dataSource.manager, job.id)).toMatchObject({ valid: true, checked: rows.length, firstBadSeq: null });
     }
     expect(count).toBe(287);
+  });
+
+  it('undoing the migration BoardSnapshots puts each board back on its job row, brought up to the last event', async () => {
+    const jobs = await dataSource.manager.find(Job);
+    const expected = new Map<string, unknown>();
+    for (const job of jobs) {
+      const [snapshot] = (await dataSource.query('SELECT board FROM job_board WHERE job_id = ?', [job.id])) as { board: string }[];
+      expected.set(job.id, JSON.parse(snapshot.board));
+    }
+    // One job's snapshot ten events behind its log, as a running server leaves it: undoing must apply those ten.
+    const behind = jobs.find((j) => j.lastSeq > 20)!;
+    const events = (await dataSource.manager.find(JobEvent, { where: { jobId: behind.id }, order: { seq: 'ASC' } })).map((r) => presentJobEvent(r));
+    await dataSource.query('UPDATE job_board SET seq = ?, board = ? WHERE job_id = ?', [behind.lastSeq - 10, JSON.stringify(replay(events.slice(0, -10))), behind.id]);
+    expected.set(behind.id, replay(events));
+    // As runMigrations does (TypeORM's beforeMigration): rebuilding the job table to add a column must not check the rows that refer to it.
+    await dataSource.query('PRAGMA foreign_keys = OFF');
+    await dataSource.undoLastMigration({ transaction: 'each' });
+    await dataSource.query('PRAGMA foreign_keys = ON');
+    try {
+      for (const job of jobs) {
+        const [row] = (await dataSource.query('SELECT board FROM job WHERE id = ?', [job.id])) as { board: string }[];
+        expect(JSON.parse(row.board)).toEqual(expected.get(job.id));
+      }
+    } finally {
+      await dataSource.runMigrations({ transaction: 'each' });
+    }
   });
 });

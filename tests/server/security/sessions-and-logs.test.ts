@@ -181,7 +181,7 @@ describe('ending sessions, and what the logs keep of them', () => {
     }) as typeof manager.findOneBy;
     let failed: request.Response;
     try {
-      failed = await request(server.app).get('/api/auth/me').set('Authorization', `Bearer ${freshToken(server, admin)}`);
+      failed = await request(server.app).get(`/api/users/${admin.user.id}`).set('Authorization', `Bearer ${freshToken(server, admin)}`);
     } finally {
       manager.findOneBy = original;
     }
