@@ -15,7 +15,9 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
   if (event.type === 'job.created') return created(event);
   if (!state) throw new Error(`event ${event.seq} (${event.type}) before job.created`);
   if (event.seq !== state.seq + 1) throw new Error(`event ${event.seq} does not follow ${state.seq}`);
-  const next = clonePlain(state);
+  // The stages are most of a board (tens of kilobytes of plan text): an event that never changes
+  // a stage shares them with the board before it instead of copying them.
+  const next = leavesStages.has(event.type) ? { ...clonePlain({ ...state, stages: [] }), stages: state.stages } : clonePlain(state);
   next.seq = event.seq;
   const by = { userId: event.by.userId, name: event.by.name, role: event.by.role, at: event.at };
 
@@ -256,6 +258,33 @@ export function applyEvent(state: BoardState | null, event: JobEventDto): BoardS
   }
   return next;
 }
+
+/**
+ * Event types whose case below changes nothing inside `stages` (a new plan replaces the array
+ * whole). tests/shared/board/apply.test.ts applies each to a board whose stages are frozen.
+ */
+export const leavesStages: ReadonlySet<JobEventDto['type']> = new Set<JobEventDto['type']>([
+  'job.updated',
+  'configuration.set',
+  'job.ready',
+  'briefing.acknowledged',
+  'shift.ending',
+  'shift.item.done',
+  'handover.written',
+  'handover.acknowledged',
+  'acting.transferred',
+  'shift.inspected',
+  'shift.start.acknowledged',
+  'job.stopped',
+  'job.stop.noted',
+  'weather.recorded',
+  'job.completed',
+  'job.cancelled',
+  'override.requested',
+  'override.approved',
+  'plan.generated',
+  'plan.edited',
+]);
 
 /**
  * A deep copy of plain JSON-like data (the board is nothing else), for the reducer to change
