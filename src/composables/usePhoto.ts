@@ -1,5 +1,5 @@
 import { onBeforeUnmount, ref, watch, type Ref } from 'vue';
-import { uploadSchema, type UploadDto } from '../../shared/schemas/fleet';
+import type { UploadDto } from '../../shared/schemas/fleet';
 import { api, ApiRequestError, describeError, fetchBlob } from '../services/api';
 
 /**
@@ -51,6 +51,8 @@ export async function uploadPhoto(file: File): Promise<{ photo: UploadDto } | { 
   const form = new FormData();
   form.append('file', file);
   try {
+    // Fetched on the first upload: the fleet schemas it lives with are no part of a board's first screen.
+    const { uploadSchema } = await import('../../shared/schemas/fleet');
     return { photo: await api('/uploads', { method: 'POST', body: form, schema: uploadSchema }) };
   } catch (error) {
     if (error instanceof ApiRequestError && error.code === 'too_large') return { problem: `${photoName(file)} is larger than 10 MB. Take it again at a lower resolution.` };
