@@ -7,7 +7,7 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
-import { killTracked } from './lib/proc.js';
+import { descendantsOf, killTracked } from './lib/proc.js';
 import { correctnessLine, hasErrors, machine, machineLine, runSection, scenarioSection, updateReadme, writeLatest, type RunReport } from './lib/report.js';
 import type { Scenario, ScenarioResult } from './lib/types.js';
 
@@ -36,6 +36,8 @@ async function main(): Promise<number> {
   const report: RunReport = { machine: machine(), date: new Date().toISOString(), quick, only, results: [], failures: [], missing: [], durationSeconds: 0, scenarioSeconds: {} };
   log(`bench${quick ? ' (quick)' : ''} on ${machineLine(report.machine, report.date)}`);
 
+  // Processes below the runner before any scenario (tsx's esbuild service) outlive every scenario.
+  const beforeScenarios = new Set(descendantsOf(process.pid));
   for (const id of SCENARIOS) {
     if (only && !only.includes(id)) continue;
     if (!existsSync(path.join(benchDir, 'scenarios', `${id}.ts`))) {
@@ -57,7 +59,7 @@ async function main(): Promise<number> {
     }
     report.scenarioSeconds[id] = (performance.now() - begun) / 1000;
     // A scenario that left a process behind must not weigh on the next one's numbers.
-    killTracked();
+    killTracked(beforeScenarios);
   }
 
   report.durationSeconds = (performance.now() - started) / 1000;

@@ -67,12 +67,17 @@ export function track(child: ChildProcess): ChildProcess {
   return child;
 }
 
-/** SIGKILLs every tracked child and every process still below this one; synchronous, so it works in an 'exit' handler. */
-export function killTracked(): void {
+/**
+ * SIGKILLs every tracked child and every process still below this one but those in `spare`;
+ * synchronous, so it works in an 'exit' handler. Between scenarios the runner spares what ran
+ * before the first one: tsx's esbuild service, which compiles every module imported later.
+ */
+export function killTracked(spare: ReadonlySet<number> = new Set()): void {
   for (const child of tracked) if (child.pid !== undefined && child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
   tracked.clear();
   // Children a scenario started without tracking them, and their own children (a tsx launcher's server).
   for (const pid of descendantsOf(process.pid).reverse()) {
+    if (spare.has(pid)) continue;
     try {
       process.kill(pid, 'SIGKILL');
     } catch {
