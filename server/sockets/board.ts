@@ -1,5 +1,4 @@
 import { z } from 'zod';
-import type { BoardSnapshot } from '../../shared/board/types.js';
 import { FOLLOW_LIMIT, type CommandAnswer, type JoinAnswer } from '../../shared/events/socket.js';
 import { boardCommandSchema } from '../../shared/schemas/commands.js';
 import { runBoardCommand } from '../commands/board.js';
@@ -34,11 +33,18 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
   const { manager } = context.dataSource;
   const { presence } = publisher;
 
-  /** The snapshot: the projection the reducer keeps on the job row, plus who is connected. */
-  function snapshotOf(jobId: string, planner: boolean): BoardSnapshot | null {
+  /**
+   * The board's JSON text as one audience may see it, written once per seq: a crowd of screens
+   * joining after a restart all get the same text (server/sockets/board.ts answers with it as it is).
+   */
+  const boardTexts = new Map<string, { seq: number; planner?: string; crew?: string }>();
+  function boardTextOf(jobId: string, planner: boolean): string | null {
     const job = committedJobs(context.dataSource).read(jobId);
     if (!job?.board) return null;
-    return { ...redactBoardFor(job.board, planner), presence: presence.list(jobId) };
+    let texts = boardTexts.get(jobId);
+    if (texts?.seq !== job.lastSeq) boardTexts.set(jobId, (texts = { seq: job.lastSeq }));
+    const audience = planner ? 'planner' : 'crew';
+    return (texts[audience] ??= JSON.stringify(redactBoardFor(job.board, planner)));
   }
 
   /** The person behind a socket, read fresh each time: a deactivated account gets the same answer as over HTTP. */
@@ -89,9 +95,9 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
               return { ok: true, mode: 'events', events: await eventsAfter(manager, jobId, afterSeq, { planner }), seq: current.lastSeq };
             }
-            const snapshot = snapshotOf(jobId, planner);
-            if (!snapshot) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
-            return { ok: true, mode: 'snapshot', snapshot, seq: current.lastSeq };
+            const board = boardTextOf(jobId, planner);
+            if (!board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');
+            return { ok: true, mode: 'snapshot', board, presence: presence.list(jobId), seq: current.lastSeq };
           });
         } catch (error) {
           return refusalOf(error, context.logger, { event: 'board:join', userId: socket.data.userId });

@@ -1,7 +1,7 @@
 import type { JoinAnswer } from '../events/socket.js';
 import type { JobEventDto } from '../events/log.js';
 import { applyEvent } from './apply.js';
-import type { BoardSnapshot, PresenceEntry } from './types.js';
+import type { BoardSnapshot, BoardState, PresenceEntry } from './types.js';
 
 /** A board that has not heard a tick for this long is not live. */
 export const STALE_AFTER_MS = 3000;
@@ -58,7 +58,7 @@ export class BoardFollower {
     if (!answer.ok) throw new Error(answer.error.message);
     this.lastTickAt = this.now();
     if (answer.mode === 'snapshot') {
-      this.board = answer.snapshot;
+      this.board = { ...(JSON.parse(answer.board) as BoardState), presence: answer.presence };
       this.pending.clear();
     } else {
       for (const event of answer.events) this.accept(event);

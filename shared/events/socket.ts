@@ -1,4 +1,4 @@
-import type { BoardSnapshot, PresenceEntry } from '../board/types.js';
+import type { PresenceEntry } from '../board/types.js';
 import type { BoardCommand } from '../schemas/commands.js';
 import type { JobState } from '../schemas/jobs.js';
 import type { JobEventDto } from './log.js';
@@ -51,8 +51,13 @@ export const FOLLOW_LIMIT = 200;
 /** Answer to a board command. */
 export type CommandAnswer = Ack<{ seq: number; event: JobEventDto }>;
 
-/** Answer to `board:join`: the missed events, or a snapshot when too many were missed. */
-export type JoinAnswer = Ack<{ mode: 'events'; events: JobEventDto[]; seq: number } | { mode: 'snapshot'; snapshot: BoardSnapshot; seq: number }>;
+/**
+ * Answer to `board:join`: the missed events, or a snapshot when too many were missed. A snapshot's
+ * board (`BoardState`, tens of kilobytes) comes as its JSON text: the server writes it once per
+ * seq and audience and hands each of a crowd of joining screens the same text, instead of
+ * encoding the board again for every one of them.
+ */
+export type JoinAnswer = Ack<{ mode: 'events'; events: JobEventDto[]; seq: number } | { mode: 'snapshot'; board: string; presence: PresenceEntry[]; seq: number }>;
 
 /** Board events from the server. */
 export interface BoardServerEvents {

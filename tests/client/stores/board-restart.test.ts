@@ -40,7 +40,8 @@ const fake = vi.hoisted(() => {
             commands.push(payload.command!);
             return answerCommand(payload.command!);
           }
-          return { ok: true, mode: 'snapshot', snapshot: structuredClone(snapshot), seq: (snapshot as { seq: number }).seq };
+          const { presence, ...board } = snapshot as { seq: number; presence: unknown[] };
+          return { ok: true, mode: 'snapshot', board: JSON.stringify(board), presence, seq: board.seq };
         },
       };
     },

@@ -33,7 +33,8 @@ const fake = vi.hoisted(() => {
       return socket;
     },
     timeout() {
-      return { emitWithAck: async () => ({ ok: true, mode: 'snapshot', snapshot, seq: (snapshot as { seq: number }).seq }) };
+      const { presence, ...board } = snapshot as { seq: number; presence: unknown[] };
+      return { emitWithAck: async () => ({ ok: true, mode: 'snapshot', board: JSON.stringify(board), presence, seq: board.seq }) };
     },
   };
   return {

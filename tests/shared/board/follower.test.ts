@@ -31,7 +31,8 @@ function fakeTransport(events: JobEventDto[], snapshotSeq: number): FollowerTran
     async join(_jobId: string, afterSeq?: number) {
       t.joins.push(afterSeq);
       if (afterSeq !== undefined) return { ok: true as const, mode: 'events' as const, events: events.filter((e) => e.seq > afterSeq), seq: events.length };
-      return { ok: true as const, mode: 'snapshot' as const, snapshot: snapshotAt(events, snapshotSeq), seq: snapshotSeq };
+      const { presence, ...board } = snapshotAt(events, snapshotSeq);
+      return { ok: true as const, mode: 'snapshot' as const, board: JSON.stringify(board), presence, seq: snapshotSeq };
     },
     async fetchEvents(_jobId: string, afterSeq: number) {
       t.fetches.push(afterSeq);
