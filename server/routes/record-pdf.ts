@@ -2,22 +2,19 @@ import { mkdir, readFile, rename, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import type { Readable } from 'node:stream';
 import { Router } from 'express';
-import sharp from 'sharp';
 import { In } from 'typeorm';
-import { buildRecord } from '../../shared/record/record.js';
 import type { CrewRole } from '../../shared/schemas/jobs.js';
 import type { AppContext } from '../context.js';
 import { CraneModel } from '../entities/CraneModel.js';
 import { CraneUnit } from '../entities/CraneUnit.js';
 import { Job } from '../entities/Job.js';
-import { JobEvent } from '../entities/JobEvent.js';
 import { Upload } from '../entities/Upload.js';
 import { User } from '../entities/User.js';
+import { statement } from '../db/statements.js';
 import { renderPdf } from '../pdf/pool.js';
 import type { RecordPdfInput } from '../pdf/record.js';
+import { recordInputFromLog, type RecordLogTask, type StoredEventRow } from '../pdf/record-input.js';
 import { can, canSeeUpload } from '../policies/index.js';
-import { redactEventFor } from '../presenters/board.js';
-import { presentJobEvent } from '../presenters/job-event.js';
 import { loadJobFor } from './job-access.js';
 
 /** Who asks for the record, and so what of the log they may see. */
@@ -36,9 +33,6 @@ function audienceOf(reader: RecordReader): string {
   return `${reader.planner ? 'planners' : 'crew'}${photos ? '' : '-no-photos'}`;
 }
 
-/** Longest side of a photo in the record, in pixels: about 300 dpi at the printed thumbnail's width. */
-const THUMBNAIL_PX = 640;
-
 const finished = (state: string) => state === 'complete' || state === 'cancelled';
 
 async function bytesOf(stream: Readable): Promise<Buffer> {
@@ -52,51 +46,80 @@ export function cachedRecordPath(context: AppContext, jobId: string, finalHash: 
   return path.join(context.config.dataDir, 'records', `${jobId}-${finalHash}-${audience}.pdf`);
 }
 
+/** A job's log as the record needs it: the rows, and the crew and photos they name. */
+interface StoredLog {
+  job: Job;
+  rows: StoredEventRow[];
+  /** Everyone a `job.created` or `crew.set` event put on the crew. */
+  crewIds: string[];
+  /** Every photo id an event's data names (the record's photos are among them). */
+  photoIds: string[];
+}
+
+// Read through prepared statements with the data left as JSON text: TypeORM's hydration of the
+// whole log (and the JSON parsing) cost the event loop 10-15 ms per record; the worker parses it.
+// The crew and photo ids are picked out by SQLite's JSON functions, so the event loop never
+// builds the events at all.
+const LOG_ROWS = 'SELECT job_id AS jobId, seq, type, at, by_user_id AS byUserId, by_name AS byName, role, data FROM job_event WHERE job_id = ? AND seq <= ? ORDER BY seq';
+const LOG_CREW =
+  "SELECT DISTINCT json_extract(c.value, '$.userId') AS id FROM job_event e, json_each(e.data, '$.crew') c WHERE e.job_id = ? AND e.seq <= ? AND e.type IN ('job.created', 'crew.set')";
+const LOG_PHOTOS = "SELECT DISTINCT json_extract(data, '$.photoId') AS id FROM job_event WHERE job_id = ? AND seq <= ? AND json_extract(data, '$.photoId') IS NOT NULL";
+
 /** The job row and its events up to its head, read in turn with the writers: the events and the head hash belong together. */
-async function readLog(context: AppContext, jobId: string): Promise<{ job: Job; rows: JobEvent[] }> {
-  const { manager } = context.dataSource;
+async function readLog(context: AppContext, jobId: string): Promise<StoredLog> {
+  const { dataSource } = context;
   return context.queue.run(async () => {
-    const job = await manager.findOneByOrFail(Job, { id: jobId });
-    const stored = await manager.find(JobEvent, { where: { jobId }, order: { seq: 'ASC' } });
-    return { job, rows: stored.filter((r) => r.seq <= job.lastSeq) };
+    const job = await dataSource.manager.findOneByOrFail(Job, { id: jobId });
+    const ids = (sql: string) => (statement(dataSource, sql).all(jobId, job.lastSeq) as { id: unknown }[]).flatMap((r) => (typeof r.id === 'string' ? [r.id] : []));
+    return {
+      job,
+      rows: statement(dataSource, LOG_ROWS).all(jobId, job.lastSeq) as StoredEventRow[],
+      crewIds: ids(LOG_CREW),
+      photoIds: ids(LOG_PHOTOS),
+    };
   });
 }
 
-/** What the record PDF of a job is drawn from, for one reader (exported for the benchmark that renders it in the main thread for contrast). */
-export async function recordPdfInputFor(context: AppContext, reader: RecordReader, log?: { job: Job; rows: JobEvent[] }): Promise<RecordPdfInput> {
+/**
+ * The record PDF's task for one reader: what only the server's thread can read (the log, the
+ * crane, the people, the photo files this reader may see), for the PDF worker to build the record
+ * from and draw.
+ */
+export async function recordTaskFor(context: AppContext, reader: RecordReader, log?: StoredLog): Promise<RecordLogTask> {
   const { manager } = context.dataSource;
-  const { job, rows } = log ?? (await readLog(context, reader.job.id));
-  const events = rows.map((r) => redactEventFor(presentJobEvent(r), reader.planner));
+  const { job, rows, crewIds, photoIds } = log ?? (await readLog(context, reader.job.id));
   const unit = await manager.findOneByOrFail(CraneUnit, { id: job.craneUnitId });
   const model = await manager.findOneByOrFail(CraneModel, { id: unit.modelId });
-  const crewIds = [...new Set(events.flatMap((e) => (e.type === 'crew.set' || e.type === 'job.created' ? e.data.crew.map((c) => c.userId) : [])))];
   const people = crewIds.length ? await manager.findBy(User, { id: In(crewIds) }) : [];
-  const qualificationsOf = Object.fromEntries(people.map((p) => [p.id, p.qualifications]));
-  const record = buildRecord(events, {
-    finalHash: job.headHash,
-    crane: `${unit.fleetNumber} — ${model.arrangement.manufacturer} ${model.arrangement.model}`,
-    qualificationsOf,
-    inspectors: people.filter((p) => p.canInspect).map((p) => p.id),
-    figures: job.results?.figures ?? null,
-    defaultTimeZone: context.config.timeZone,
-  });
-
-  const uploads = record.photoIds.length ? await manager.findBy(Upload, { id: In(record.photoIds) }) : [];
-  const photos: { id: string; jpeg: Uint8Array }[] = [];
-  for (const upload of uploads) {
-    if (!canSeeUpload(reader.actor, upload, reader.crewRoles)) continue;
-    const stored = await context.storage.get(upload.thumbnailName);
-    if (!stored) continue;
-    // pdfkit draws JPEG and PNG only; thumbnails are stored as WebP. sharp works off the event loop.
-    const jpeg = await sharp(await bytesOf(stored.stream)).resize(THUMBNAIL_PX, THUMBNAIL_PX, { fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 75 }).toBuffer();
-    photos.push({ id: upload.id, jpeg: new Uint8Array(jpeg) });
-  }
+  const uploads = photoIds.length ? await manager.findBy(Upload, { id: In(photoIds) }) : [];
+  const visible = uploads.filter((upload) => canSeeUpload(reader.actor, upload, reader.crewRoles));
+  const thumbnails = await Promise.all(
+    visible.map(async (upload) => {
+      const stored = await context.storage.get(upload.thumbnailName);
+      return stored ? [{ id: upload.id, bytes: new Uint8Array(await bytesOf(stored.stream)) }] : [];
+    }),
+  );
   return {
-    record,
+    kind: 'record-log',
+    rows,
+    planner: reader.planner,
+    context: {
+      finalHash: job.headHash,
+      crane: `${unit.fleetNumber} — ${model.arrangement.manufacturer} ${model.arrangement.model}`,
+      qualificationsOf: Object.fromEntries(people.map((p) => [p.id, p.qualifications])),
+      inspectors: people.filter((p) => p.canInspect).map((p) => p.id),
+      figures: job.results?.figures ?? null,
+      defaultTimeZone: context.config.timeZone,
+    },
     drawings: job.configuration && job.results ? { configuration: job.configuration, results: job.results, arrangement: model.arrangement } : null,
-    photos,
+    thumbnails: thumbnails.flat(),
     printedAt: context.now().toISOString(),
   };
+}
+
+/** What the record PDF of a job is drawn from, for one reader, built in the calling thread (for the test that draws it on the event loop for contrast). */
+export async function recordPdfInputFor(context: AppContext, reader: RecordReader): Promise<RecordPdfInput> {
+  return recordInputFromLog(await recordTaskFor(context, reader));
 }
 
 /**
@@ -108,14 +131,14 @@ export async function recordPdfFor(context: AppContext, reader: RecordReader): P
   const log = await readLog(context, reader.job.id);
   const { job } = log;
   const cacheFile = finished(job.state) ? cachedRecordPath(context, job.id, job.headHash, audienceOf(reader)) : null;
-  if (!cacheFile) return renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
+  if (!cacheFile) return renderPdf(await recordTaskFor(context, reader, log));
   const cached = await readFile(cacheFile).catch(() => null);
   if (cached) return cached;
   // Asked for twice before the first is written (a download and the completion e-mail): rendered once.
   let rendering = renderingNow.get(cacheFile);
   if (!rendering) {
     rendering = (async () => {
-      const pdf = await renderPdf({ kind: 'record', ...(await recordPdfInputFor(context, reader, log)) });
+      const pdf = await renderPdf(await recordTaskFor(context, reader, log));
       await mkdir(path.dirname(cacheFile), { recursive: true, mode: 0o700 });
       // Written aside and renamed, so a reader never gets half a file.
       const partial = `${cacheFile}.${process.pid}.${Date.now()}.partial`;
