@@ -113,8 +113,12 @@ export function rawConnection(dataSource: DataSource): BetterSqlite3.Database | 
 /** Rows changed on the connection since it opened: a transaction that changed nothing is not proof that writing works. */
 export function totalChanges(db: BetterSqlite3.Database | null): number | null {
   if (!db?.open) return null;
-  return (db.prepare('SELECT total_changes() AS n').get() as { n: number }).n;
+  // Asked twice per transaction: prepared once per connection.
+  let count = changeCounters.get(db);
+  if (!count) changeCounters.set(db, (count = db.prepare('SELECT total_changes() AS n')));
+  return (count.get() as { n: number }).n;
 }
+const changeCounters = new WeakMap<BetterSqlite3.Database, BetterSqlite3.Statement>();
 
 /**
  * After a transaction failed, leaves the one shared connection as a new transaction expects it.
