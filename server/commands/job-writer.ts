@@ -61,7 +61,7 @@ export async function runJobCommand(
  */
 function committed(context: AppContext, outcome: CommandOutcome): void {
   if (outcome.replayed) return;
-  committedJobs(context.dataSource).committed(outcome.job);
+  committedJobs(context.dataSource).committed(outcome.job, outcome.event);
   try {
     context.publisher.publishJobEvent(outcome.event, outcome.job);
     context.outbox.jobEventCommitted(outcome.event);
@@ -88,7 +88,7 @@ export async function createJobWithEvent(
       const event = appendEvent(context, job, command, draft, context.now());
       return { event: presentJobEvent(event), job, replayed: false };
     },
-    (outcome) => committedJobs(context.dataSource).committed(outcome.job),
+    (outcome) => committedJobs(context.dataSource).committed(outcome.job, outcome.event),
   );
 }
 

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { applyEvent } from '../../shared/board/apply.js';
 import type { BoardState } from '../../shared/board/types.js';
+import type { JobEventDto } from '../../shared/events/log.js';
 import { Job } from '../entities/Job.js';
 import { JobEvent } from '../entities/JobEvent.js';
 import { presentJobEvent } from '../presenters/job-event.js';
@@ -16,10 +17,15 @@ const KEPT_JOBS = 500;
  */
 export const BOARD_SNAPSHOT_EVERY = 50;
 
+/** Events kept per job for rejoining screens: as many as a rejoin is answered with (sockets/board.ts JOIN_REPLAY_LIMIT). */
+export const RECENT_EVENTS = 500;
+
 interface Kept {
   job: Job;
   /** The seq of the board snapshot stored in `job_board` (0: none). */
   snapshotSeq: number;
+  /** The job's latest events as committed, unredacted, in seq order and ending at `job.lastSeq` (or none). */
+  recent: JobEventDto[];
 }
 
 /**
@@ -86,10 +92,31 @@ export class CommittedJobs {
     }
   }
 
-  /** After the commit: `job` (written through `write`) is now the committed row. */
-  committed(job: Job): void {
+  /** After the commit: `job` (written through `write`) is now the committed row, and `event` its last event. */
+  committed(job: Job, event: JobEventDto): void {
     const before = this.rows.get(job.id);
-    this.keep({ job: copyOf(job), snapshotSeq: snapshotDue(job, before) ? job.lastSeq : (before?.snapshotSeq ?? 0) });
+    // Kept only while they run on without a hole up to the row's head.
+    const recent = before && before.job.lastSeq === event.seq - 1 ? before.recent : [];
+    recent.push(event);
+    if (recent.length > RECENT_EVENTS) recent.splice(0, recent.length - RECENT_EVENTS);
+    this.keep({ job: copyOf(job), snapshotSeq: snapshotDue(job, before) ? job.lastSeq : (before?.snapshotSeq ?? 0), recent });
+  }
+
+  /**
+   * The events after `afterSeq` up to the head of the row last read, unredacted, when they are all
+   * kept; null when the database must be asked. Call right after `read` of the same job.
+   */
+  recentAfter(jobId: string, afterSeq: number): JobEventDto[] | null {
+    const recent = this.rows.get(jobId)?.recent;
+    if (!recent?.length || afterSeq + 1 < recent[0].seq) return null;
+    return recent.slice(afterSeq + 1 - recent[0].seq);
+  }
+
+  /** Events read from the database after a `read`, running up to the row's head: kept for the next rejoin. */
+  remember(jobId: string, events: JobEventDto[]): void {
+    const kept = this.rows.get(jobId);
+    if (!kept || events.at(-1)?.seq !== kept.job.lastSeq || (kept.recent.length && kept.recent[0].seq <= events[0].seq)) return;
+    kept.recent = events.slice(-RECENT_EVENTS);
   }
 
   private load(jobId: string): Kept {
@@ -100,7 +127,7 @@ export class CommittedJobs {
     const after = statement(this.dataSource, 'SELECT * FROM job_event WHERE job_id = ? AND seq > ? ORDER BY seq').all(jobId, snapshot?.seq ?? 0) as Record<string, unknown>[];
     for (const event of after) board = applyEvent(board, presentJobEvent(hydrate(this.dataSource, JobEvent, event)));
     job.board = board;
-    return { job, snapshotSeq: snapshot?.seq ?? 0 };
+    return { job, snapshotSeq: snapshot?.seq ?? 0, recent: [] };
   }
 
   private keep(kept: Kept): void {

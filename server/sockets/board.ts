@@ -8,7 +8,7 @@ import type { User } from '../entities/User.js';
 import { userById } from '../queries/users.js';
 import { accountInactive, badRequest, HttpError, notFound, refusalOf } from '../errors.js';
 import { authorize, can } from '../policies/index.js';
-import { redactBoardFor } from '../presenters/board.js';
+import { redactBoardFor, redactEventFor } from '../presenters/board.js';
 import { crewRolesByJob, crewRolesOf } from '../queries/crew.js';
 import { eventsAfter } from '../queries/events.js';
 import { checkSocketSession, type HoldlineSocket } from './auth.js';
@@ -45,6 +45,21 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
     if (texts?.seq !== job.lastSeq) boardTexts.set(jobId, (texts = { seq: job.lastSeq }));
     const audience = planner ? 'planner' : 'crew';
     return (texts[audience] ??= JSON.stringify(redactBoardFor(job.board, planner)));
+  }
+
+  /**
+   * What a rejoining screen missed, under the queue right after the job's row was read: from the
+   * events kept in memory when they reach back far enough, else from the log (and then kept, so a
+   * crowd rejoining after a restart reads the log once).
+   */
+  async function missedEvents(jobId: string, afterSeq: number, planner: boolean) {
+    const jobs = committedJobs(context.dataSource);
+    let events = jobs.recentAfter(jobId, afterSeq);
+    if (!events) {
+      events = await eventsAfter(manager, jobId, afterSeq, { planner: true });
+      jobs.remember(jobId, events);
+    }
+    return planner ? events : events.map((event) => redactEventFor(event, false));
   }
 
   /** The person behind a socket, read fresh each time: a deactivated account gets the same answer as over HTTP. */
@@ -93,7 +108,7 @@ export function createBoardHub(context: AppContext, publisher: BoardPublisher): 
             if (!current) throw notFound('That job');
             publisher.noteSeq(jobId, current.lastSeq);
             if (afterSeq !== undefined && afterSeq <= current.lastSeq && current.lastSeq - afterSeq <= JOIN_REPLAY_LIMIT) {
-              return { ok: true, mode: 'events', events: await eventsAfter(manager, jobId, afterSeq, { planner }), seq: current.lastSeq };
+              return { ok: true, mode: 'events', events: await missedEvents(jobId, afterSeq, planner), seq: current.lastSeq };
             }
             const board = boardTextOf(jobId, planner);
             if (!board) throw new HttpError(409, 'invalid_state', 'This job has no board yet.');

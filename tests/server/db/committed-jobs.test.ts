@@ -77,4 +77,17 @@ describe('committed job rows', () => {
     copy.name = 'Changed on a copy';
     expect((await server.context.queue.run(async () => jobs.read(jobId)!)).name).toBe(name);
   });
+
+  it('keeps the latest events for rejoining screens: the same as the log, none after a cold read until remembered', async () => {
+    for (let i = 0; i < 3; i++) expect((await httpCommand(server, crew.signaller, jobId, { type: 'weather.record', meanMs: 2, gustMs: 4, heightM: 10 })).status).toBe(200);
+    const log = await logOf();
+    const jobs = committedJobs(server.context.dataSource);
+    const kept = await server.context.queue.run(async () => (jobs.read(jobId), jobs.recentAfter(jobId, log.length - 3)));
+    expect(kept).toEqual(log.slice(-3));
+    const cold = new CommittedJobs(server.context.dataSource);
+    expect(await server.context.queue.run(async () => (cold.read(jobId), cold.recentAfter(jobId, log.length - 3)))).toBeNull();
+    cold.remember(jobId, log.slice(-5));
+    expect(cold.recentAfter(jobId, log.length - 3)).toEqual(log.slice(-3));
+    expect(cold.recentAfter(jobId, log.length - 6)).toBeNull();
+  });
 });
