@@ -12,7 +12,7 @@ import { holdReminderMail } from './templates.js';
 /** How often the server looks for holds waiting on someone who is not on the board. */
 export const HOLD_REMINDER_CHECK_MS = 60_000;
 
-type ReminderContext = Pick<AppContext, 'config' | 'dataSource' | 'logger' | 'now' | 'publisher'>;
+type ReminderContext = Pick<AppContext, 'config' | 'dataSource' | 'queue' | 'logger' | 'now' | 'publisher'>;
 
 /**
  * E-mails a crew member once when a hold of a live job has waited longer than the job's
@@ -57,9 +57,11 @@ export class HoldReminders {
     const { manager } = this.context.dataSource;
     const now = this.context.now().getTime();
     const jobs = await manager.find(Job, { where: { state: 'live' } });
+    // Boards are read under the queue, as every read of a job's state is: never a write's uncommitted rows.
+    const boards = await this.context.queue.run(async () => new Map(jobs.map((job) => [job.id, committedJobs(this.context.dataSource).read(job.id)?.board])));
     const mails: QueuedMail[] = [];
     for (const job of jobs) {
-      const board = committedJobs(manager.connection).read(job.id)?.board;
+      const board = boards.get(job.id);
       if (!board) continue;
       const connected = new Set(this.context.publisher.presenceOf(job.id).map((p) => p.userId));
       for (const stage of board.stages) {

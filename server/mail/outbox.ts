@@ -232,7 +232,8 @@ export class MailOutboxService {
 
   private async attempt(row: MailOutbox): Promise<void> {
     const { logger, mailer } = this.deps;
-    if (row.holdWait && !(await holdStillWaiting(this.deps.dataSource.manager, row.holdWait))) {
+    const holdWait = row.holdWait;
+    if (holdWait && !(await this.deps.queue.run(() => holdStillWaiting(this.deps.dataSource.manager, holdWait)))) {
       await this.update(row.id, { state: 'cancelled', nextAttemptAt: null, lastError: 'The hold moved on before this reminder went out.' });
       return;
     }
@@ -270,7 +271,7 @@ export class MailOutboxService {
   }
 
   private async queueCompletion(jobId: string, seq: number): Promise<void> {
-    const mails = await completionMail(this.deps.dataSource.manager, this.deps.config.publicUrl, jobId, seq);
+    const mails = await this.deps.queue.run(() => completionMail(this.deps.dataSource.manager, this.deps.config.publicUrl, jobId, seq));
     await this.enqueue(mails);
   }
 
