@@ -1,6 +1,7 @@
 // The PDF worker threads load their TypeScript both ways the code runs: under Vitest (this file)
 // and under tsx, as `npm start` and `npm run server` run the server (a child process).
 import { execFileSync } from 'node:child_process';
+import { readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { threadId } from 'node:worker_threads';
 import { describe, expect, it } from 'vitest';
@@ -22,6 +23,25 @@ describe('PDF worker threads', { timeout: 120_000 }, () => {
       await expect(pool.render({ kind: 'plan', job, plan: broken, version: 1, printedAt: '2026-03-02T10:00:00.000Z' })).rejects.toThrow(/PDF rendering failed in its worker/);
       const again = await pool.render({ kind: 'plan', job, plan: smallPlan(), version: 2, printedAt: '2026-03-02T10:00:00.000Z' });
       expect(again.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    } finally {
+      await pool.close();
+    }
+  });
+
+  it.runIf(process.platform === 'linux')('run at a lower CPU priority than the event loop (nice 10 on the worker thread alone)', async () => {
+    const niceOf = (tid: string) => {
+      const stat = readFileSync(`/proc/self/task/${tid}/stat`, 'utf8');
+      // After "pid (comm) " the state is field 3; nice is field 19.
+      return Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[19 - 3]);
+    };
+    const before = new Set(readdirSync('/proc/self/task'));
+    const pool = new PdfWorkerPool(1);
+    try {
+      await pool.render({ kind: 'plan', job, plan: smallPlan(), version: 1, printedAt: '2026-03-02T10:00:00.000Z' });
+      const mine = niceOf(String(process.pid));
+      const lowered = readdirSync('/proc/self/task').filter((tid) => !before.has(tid) && niceOf(tid) === Math.min(19, mine + 10));
+      expect(niceOf(String(process.pid))).toBe(mine);
+      expect(lowered.length).toBeGreaterThan(0);
     } finally {
       await pool.close();
     }
