@@ -1,8 +1,9 @@
 import { randomUUID } from 'node:crypto';
-import { cpSync, mkdtempSync, rmSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { ChildServer } from '../../tests/helpers/child-server.js';
+import { cachedDir, hashOf } from './cache.js';
 import type { BenchServer, CommandPayload } from './types.js';
 
 /** Every demo account's password (server/demo/people.ts). */
@@ -31,13 +32,26 @@ export interface HoldlineOptions {
   env?: Record<string, string>;
 }
 
-interface Template {
+/** A seeded data folder to copy for each start, and the boards the bench uses in it. */
+export interface Template {
   dir: string;
   boardJobId: string;
   idleJobIds: string[];
+  /** Seconds the seeding took in this run; null when an earlier run's template was reused. */
+  seededSeconds: number | null;
 }
 
-/** One seeded database per checkout per bench run: the demo seed takes seconds, a copy milliseconds. */
+const TEMPLATE_META = 'bench-template.json';
+/** What the seeded data depends on: the server (schema, seed, the routes the fixture calls), the shared code, the packages. */
+const TEMPLATE_INPUTS = ['server', 'shared', 'package-lock.json'];
+/**
+ * The demo is seeded relative to the moment it was made ("started this morning", shifts of
+ * today): a template is kept for the day it was made on and at most this long.
+ */
+const TEMPLATE_MAX_AGE_MS = 6 * 60 * 60 * 1000;
+const repoRoot = path.resolve(import.meta.dirname, '..', '..');
+
+/** One seeded database per checkout and inputs, kept between runs: the demo seed takes seconds, a copy milliseconds. */
 const templates = new Map<string, Promise<Template>>();
 const madeDirs: string[] = [];
 process.once('exit', () => {
@@ -79,13 +93,11 @@ interface JobLine {
 }
 
 /**
- * Seeds the demo into a fresh data folder, picks its live board that the demo's read-only viewer
- * watches, and adds nine more started boards with the same crew, configuration and radio plan
- * that nobody sends to. The server is stopped with SIGTERM so the file is checkpointed and whole.
+ * Seeds the demo into `dir`, picks its live board that the demo's read-only viewer watches, and
+ * adds nine more started boards with the same crew, configuration and radio plan that nobody
+ * sends to. The server is stopped with SIGTERM so the file is checkpointed and whole.
  */
-async function makeTemplate(root: string | undefined): Promise<Template> {
-  const dir = mkdtempSync(path.join(os.tmpdir(), 'holdline-bench-template-'));
-  madeDirs.push(dir);
+async function seedTemplate(dir: string, root: string | undefined): Promise<void> {
   const server = await ChildServer.start({ dataDir: dir, root, env: { HOLDLINE_DEMO: '1', HOLDLINE_COMMAND_RATE: BENCH_COMMAND_RATE }, bootTimeoutMs: 180_000 });
   try {
     const { url } = server;
@@ -109,13 +121,23 @@ async function makeTemplate(root: string | undefined): Promise<Template> {
       await must(call(url, 'POST', `/api/jobs/${id}/commands`, supervisor, { type: 'job.start', commandId: randomUUID() }), 'starting it');
       idleJobIds.push(id);
     }
-    return { dir, boardJobId: board.id, idleJobIds };
+    writeFileSync(path.join(dir, TEMPLATE_META), JSON.stringify({ boardJobId: board.id, idleJobIds }));
   } finally {
     await server.terminate();
   }
 }
 
-function templateFor(root: string | undefined): Promise<Template> {
+/** The cached template for a checkout, seeded when its server, shared code or packages changed, or on a new day. */
+async function makeTemplate(root: string | undefined): Promise<Template> {
+  const checkout = root ?? repoRoot;
+  const key = `${hashOf(checkout, TEMPLATE_INPUTS)}-${new Date().toISOString().slice(0, 10)}`;
+  const entry = await cachedDir('template', key, (dir) => seedTemplate(dir, root), TEMPLATE_MAX_AGE_MS);
+  const meta = JSON.parse(readFileSync(path.join(entry.dir, TEMPLATE_META), 'utf8')) as { boardJobId: string; idleJobIds: string[] };
+  return { dir: entry.dir, boardJobId: meta.boardJobId, idleJobIds: meta.idleJobIds, seededSeconds: entry.seconds };
+}
+
+/** The seeded template this run uses for `root` (made once per run at most; reused between runs while its inputs are unchanged). */
+export function templateFor(root: string | undefined = process.env.BENCH_HOLDLINE_ROOT ?? undefined): Promise<Template> {
   const key = root ?? '';
   let template = templates.get(key);
   if (!template) {
@@ -136,6 +158,7 @@ export async function startHoldline(options: HoldlineOptions = {}): Promise<Benc
   const template = await templateFor(root);
   const dataDir = mkdtempSync(path.join(os.tmpdir(), 'holdline-bench-'));
   madeDirs.push(dataDir);
+  // The whole folder: the demo's uploads (photos, plans) live beside the database.
   cpSync(template.dir, dataDir, { recursive: true });
   const server = await ChildServer.start({ dataDir, root, env: { HOLDLINE_COMMAND_RATE: BENCH_COMMAND_RATE, ...options.env } });
   try {

@@ -269,6 +269,11 @@ export function roundsOf(options: ScenarioOptions): number {
   return options.quick ? 1 : 3;
 }
 
+/** The crowd of viewers on the board: 1,000 in a full run, 300 in a quick one (connecting 1,000 five times over would not fit in two minutes). */
+export function crowdOf(options: ScenarioOptions): number {
+  return options.quick ? 300 : 1000;
+}
+
 /** Numbers one run of one system measured, by figure id. */
 export type RunValues = Record<string, number>;
 
@@ -289,9 +294,16 @@ export function addCorrectness(into: Correctness, more: Correctness): void {
   into.rejected += more.rejected;
 }
 
+/** The first lines of an error, for a note (a server that would not start prints its own reason after the first). */
+function reasonOf(error: unknown): string {
+  return (error instanceof Error ? error.message : String(error)).split('\n').filter((l) => l.trim()).slice(0, 3).join(' / ').slice(0, 400);
+}
+
 /**
  * Runs `run` on holdline, relay, sqlite-relay, holdline, ... for the scenario's rounds, each on a
- * fresh server and the same swarm. A run that fails is noted and the next goes on.
+ * fresh server and the same swarm. The three servers of a round are started side by side before
+ * its first run (each boots while nothing is measured; the ones waiting sit idle) and each is
+ * stopped as soon as its run is over. A run that fails is noted and the next goes on.
  */
 export async function alternate(
   options: ScenarioOptions,
@@ -302,11 +314,17 @@ export async function alternate(
 ): Promise<Rounds> {
   const rounds: Rounds = { values: {}, correctness: {}, notes: [] };
   for (let round = 1; round <= roundsOf(options); round++) {
-    for (const system of SWARM_SYSTEMS) {
+    const booting = now();
+    const starting = SWARM_SYSTEMS.map((system) => startSystem(system));
+    // Every start is awaited below; a failed one must not surface as an unhandled rejection meanwhile.
+    for (const start of starting) start.catch(() => undefined);
+    await Promise.allSettled(starting);
+    options.log(`  round ${round}: the three systems started in ${secs(now() - booting)}`);
+    for (const [k, system] of SWARM_SYSTEMS.entries()) {
       const started = now();
       let server: BenchServer | null = null;
       try {
-        server = await startSystem(system);
+        server = await starting[k];
         if (how.attach !== false) await swarm.attach(server);
         const result = await run(server, round);
         (rounds.values[system] ??= []).push(result.values);
@@ -314,8 +332,7 @@ export async function alternate(
         for (const note of result.notes ?? []) rounds.notes.push(`${system}, round ${round}: ${note}`);
         options.log(`  ${system} round ${round} done in ${((now() - started) / 1000).toFixed(1)} s`);
       } catch (error) {
-        // The first lines say why (a server that would not start prints its own reason after the first).
-        const message = (error instanceof Error ? error.message : String(error)).split('\n').filter((l) => l.trim()).slice(0, 3).join(' / ').slice(0, 400);
+        const message = reasonOf(error);
         rounds.notes.push(`${system}, round ${round} failed: ${message}`);
         options.log(`  ${system} round ${round} FAILED: ${message}`);
       } finally {

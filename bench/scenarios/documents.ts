@@ -160,9 +160,10 @@ function answered(samples: Sample[]): number[] {
 /** Scenario 6: a board command's answer time while three record PDFs render, against at rest. */
 export const documents: Scenario = async ({ quick, log }) => {
   const rounds = quick ? 1 : 3;
-  const restMs = quick ? 1500 : 3000;
+  const restMs = quick ? 1500 : 2000;
   const correctness: Correctness = { gaps: 0, duplicates: 0, lostAcks: 0, rejected: 0 };
   const notes: string[] = [];
+  if (quick) notes.push(`quick: one round (full: three), ${restMs / 1000} s at rest per round`);
 
   const bootStarted = performance.now();
   // A copy of the bench's seeded demo (seeded once per bench run, on the first start), with the

@@ -6,10 +6,12 @@
  * viewers take to connect and join at once. Holdline, the bare relay and the SQLite relay
  * alternate, each on a fresh server and the same swarm.
  */
+import { CROWD_SETTLE_MS, IDLE_SETTLE_MS, recordCrowdMemory, settledRss } from '../lib/crowd-memory.js';
 import {
   addCorrectness,
   alternate,
   burst,
+  crowdOf,
   figureOf,
   percentiles,
   roundsOf,
@@ -22,31 +24,41 @@ import {
 } from '../lib/swarm.js';
 import type { Correctness, Figure, Scenario, ScenarioResult } from '../lib/types.js';
 
-const CROWD = 1000;
 const SMALL = 100;
 const RATES = [20, 100] as const;
 
 /** How many seconds each rate is sent for. */
-const seconds = (quick: boolean, rate: number) => (quick ? 1.5 : rate === 20 ? 3 : 2);
+const seconds = (quick: boolean, rate: number) => (quick ? (rate === 20 ? 1.5 : 1) : rate === 20 ? 2.5 : 1.5);
 
-/** The pause before each measured rate. */
-const QUIET_MS = 1000;
+/** The pause before each measured rate: longer after sockets were closed (the crowd shrinking to 100) than after a rate. */
+const QUIET_AFTER_SHRINK_MS = 1000;
+const QUIET_MS = 500;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 const key = (viewers: number, rate: number, what: string) => `latency.${viewers}v.${rate}hz.${what}`;
 const many = (n: number) => n.toLocaleString('en-GB');
 
 export const latency: Scenario = async (options) => {
+  const CROWD = crowdOf(options);
+  const joinKey = `latency.${CROWD}v.join`;
   const swarm = Swarm.start(CROWD);
   try {
-    const rounds = await alternate(options, swarm, async (server) => {
+    const rounds = await alternate(
+      options,
+      swarm,
+      async (server, round) => {
       const values: RunValues = {};
       const correctness: Correctness = zeroCorrectness();
       const notes: string[] = [];
+      // Scenario 4's memory figures are read here, on this server and this crowd (bench/lib/crowd-memory.ts).
+      const idle = await settledRss(server, IDLE_SETTLE_MS);
+      await swarm.attach(server);
       const joined = await swarm.connect(CROWD);
-      values['latency.1000v.join'] = joined.allJoinedMs;
+      values[joinKey] = joined.allJoinedMs;
       options.log(`    ${server.system}: ${joined.joined} viewers joined in ${secs(joined.allJoinedMs)}${joined.failed ? `, ${joined.failed} failed (${joined.reasons.join(', ')})` : ''}`);
       if (joined.failed) notes.push(`${joined.failed} of ${CROWD} viewers did not join (${joined.reasons.join(', ')})`);
+      const crowd = await settledRss(server, CROWD_SETTLE_MS);
+      if (joined.joined > 0) recordCrowdMemory(options.quick, server.system, { idle, crowd, joined: joined.joined, round });
       // A short warm-up at the slow rate, not counted: the first commands of a fresh process compile code.
       const warm = await burst(server, swarm, options.quick ? 10 : 20, 20);
       addCorrectness(correctness, warm.correctness);
@@ -55,7 +67,7 @@ export const latency: Scenario = async (options) => {
         for (const rate of RATES) {
           // A quiet second first: the server and the swarm are still busy with 900 sockets closing (or
           // the previous rate's backlog), which would land on this rate's first commands.
-          await sleep(QUIET_MS);
+          await sleep(rate === RATES[0] && viewers === SMALL ? QUIET_AFTER_SHRINK_MS : QUIET_MS);
           const b = await burst(server, swarm, rate * seconds(options.quick, rate), rate);
           addCorrectness(correctness, b.correctness);
           notes.push(...b.notes.map((n) => `${many(viewers)} viewers at ${rate}/s: ${n}`));
@@ -83,12 +95,14 @@ export const latency: Scenario = async (options) => {
       if (counters.unexpectedDisconnects) notes.push(`${counters.unexpectedDisconnects} viewer connections dropped unasked`);
       if (counters.refusedJoins) notes.push(`${counters.refusedJoins} joins refused (${counters.refusalCodes.join(', ')})`);
       return { values, correctness, notes };
-    });
+      },
+      { attach: false },
+    );
 
     const figures: Figure[] = [
       figureOf(rounds, {
-        id: 'latency.1000v.join',
-        label: '1,000 viewers connect and join at once, until the last is answered',
+        id: joinKey,
+        label: `${many(CROWD)} viewers connect and join at once, until the last is answered`,
         unit: 'ms',
         better: 'lower',
         against: 'relay',
@@ -129,11 +143,12 @@ export const latency: Scenario = async (options) => {
     const correctness = totalCorrectness(rounds);
     const result: ScenarioResult = {
       id: 'latency',
-      title: 'Command to the last viewer (one board, nine idle; 1,000 then 100 viewers; 20 and 100 commands a second)',
+      title: `Command to the last viewer (one board, nine idle; ${many(CROWD)} then 100 viewers; 20 and 100 commands a second)`,
       figures,
       correctness,
       notes: [
-        `${roundsOf(options)} round(s); each rate sent for ${seconds(options.quick, 20)} s (20/s) and ${seconds(options.quick, 100)} s (100/s) after ${options.quick ? 10 : 20} warm-up commands, each after a quiet second; send and arrival times on one clock across processes; CPU from /proc of the server process, from the first send until every viewer held the last event`,
+        `${roundsOf(options)} round(s); each rate sent for ${seconds(options.quick, 20)} s (20/s) and ${seconds(options.quick, 100)} s (100/s) after ${options.quick ? 10 : 20} warm-up commands, each after ${QUIET_MS / 1000} s without traffic (${QUIET_AFTER_SHRINK_MS / 1000} s after the crowd shrank to 100); send and arrival times on one clock across processes; CPU from /proc of the server process, from the first send until every viewer held the last event; the three systems of a round start side by side before its first run; scenario 4's idle and crowd memory is read here, ${IDLE_SETTLE_MS / 1000} s after boot and ${CROWD_SETTLE_MS / 1000} s after the last join`,
+        ...(options.quick ? [`quick: ${many(CROWD)} viewers instead of 1,000 (figure ids carry the crowd's size; the targets the issue sets for 1,000 viewers are applied to it), one round, shorter windows`] : []),
         ...rounds.notes,
       ],
     };

@@ -12,6 +12,7 @@ import {
   addCorrectness,
   alternate,
   burst,
+  crowdOf,
   figureOf,
   now,
   roundsOf,
@@ -24,14 +25,15 @@ import {
 import { median } from '../lib/stats.js';
 import type { Correctness, Scenario, ScenarioResult } from '../lib/types.js';
 
-const VIEWERS = 1000;
-const DROPPED = 500;
 const MISSED = 200;
 /** The rate the missed commands are sent at while half the viewers are away. */
 const MISSED_RATE = 100;
 const AFTER_STORM = 20;
 
 export const resync: Scenario = async (options) => {
+  const VIEWERS = crowdOf(options);
+  const DROPPED = VIEWERS / 2;
+  const many = (n: number) => n.toLocaleString('en-GB');
   const swarm = Swarm.start(VIEWERS);
   try {
     const rounds = await alternate(options, swarm, async (server) => {
@@ -92,11 +94,11 @@ export const resync: Scenario = async (options) => {
 
     const result: ScenarioResult = {
       id: 'resync',
-      title: 'Resync (500 of 1,000 viewers drop while 200 commands commit; restart storm under 1,000 viewers)',
+      title: `Resync (${many(DROPPED)} of ${many(VIEWERS)} viewers drop while 200 commands commit; restart storm under ${many(VIEWERS)} viewers)`,
       figures: [
         figureOf(rounds, {
           id: 'resync.halfdrop.ms',
-          label: '500 returning viewers: rejoin until every one holds every event',
+          label: `${many(DROPPED)} returning viewers: rejoin until every one holds every event`,
           unit: 'ms',
           better: 'lower',
           against: 'relay',
@@ -111,12 +113,13 @@ export const resync: Scenario = async (options) => {
           better: 'lower',
           target: { text: '≤ 2× the events missed', met: (v) => v <= 2 },
         }),
-        figureOf(rounds, { id: 'resync.restart.ms', label: 'restart storm: from the kill until all 1,000 viewers are back and in sync', unit: 'ms', better: 'lower', against: 'sqlite-relay' }),
+        figureOf(rounds, { id: 'resync.restart.ms', label: `restart storm: from the kill until all ${many(VIEWERS)} viewers are back and in sync`, unit: 'ms', better: 'lower', against: 'sqlite-relay' }),
         figureOf(rounds, { id: 'resync.restart.afterBootMs', label: 'restart storm: from the server answering again until all are in sync', unit: 'ms', better: 'lower', against: 'sqlite-relay' }),
       ],
       correctness: totalCorrectness(rounds),
       notes: [
-        `${roundsOf(options)} round(s); the 200 commands are sent at ${MISSED_RATE}/s while half the viewers are away; bytes are the JSON of what the server sends (join answer, events); the storm is not run on the bare relay (it keeps nothing over a restart); viewers reconnect with the board's own delays (0.5 s, at most 3 s)`,
+        `${roundsOf(options)} round(s); the 200 commands are sent at ${MISSED_RATE}/s while half the viewers are away; bytes are the JSON of what the server sends (join answer, events); the storm is not run on the bare relay (it keeps nothing over a restart); viewers reconnect with the board's own delays (0.5 s, at most 3 s); the three systems of a round start side by side before its first run`,
+        ...(options.quick ? [`quick: ${many(VIEWERS)} viewers (${many(DROPPED)} drop) instead of 1,000, one round`] : []),
         ...rounds.notes,
       ],
     };

@@ -288,8 +288,9 @@ const fmt = (n: number) => (Number.isFinite(n) ? Math.round(n).toLocaleString('e
 /** Scenario 2: commands committed per second with no viewers, one client and four. */
 export const throughput: Scenario = async ({ quick, log }: ScenarioOptions) => {
   const rounds = quick ? 1 : 3;
-  const warmupMs = quick ? 500 : 1000;
-  const durationMs = quick ? 1500 : 3000;
+  // Windows sized so the whole suite fits its time (quick: two minutes, full: ten).
+  const warmupMs = quick ? 300 : 500;
+  const durationMs = quick ? 1000 : 2000;
   const clientCounts = [1, 4];
   const notes: string[] = [];
   const correctness: Correctness = { gaps: 0, duplicates: 0, lostAcks: 0, rejected: 0 };
@@ -381,6 +382,7 @@ export const throughput: Scenario = async ({ quick, log }: ScenarioOptions) => {
     notes.push(
       `${rounds} round(s) of ${durationMs / 1000} s after ${warmupMs / 1000} s of warm-up per system and client count; each client is its own process sending its next command when the last is answered; raw-sqlite inserts in the bench process, one transaction per row, no network.`,
     );
+    if (quick) notes.push('quick: one round of 1 s windows (full: three rounds of 2 s)');
     return { id: 'throughput', title: 'Command path throughput, no viewers', figures, correctness, notes };
   } finally {
     for (const sender of senders) if (sender.child.connected) sender.post({ kind: 'exit' });
