@@ -185,6 +185,31 @@ describe('the record PDF', { timeout: 120_000 }, () => {
     expect(shifts).toContain('Acknowledged the handover note (Marta Lindqvist) Rhys Calloway Marta Lindqvist');
   });
 
+  it('is built in the worker from the stored rows, with the photos the log names (picked out by SQLite) turned into JPEG', async () => {
+    const { manager } = server.context.dataSource;
+    const actor = await manager.findOneByOrFail(User, { email: 'supervisor@holdline.test' });
+    let drawn = 0;
+    for (const id of [complete.id, live.id]) {
+      const job = await manager.findOneByOrFail(Job, { id });
+      const input = await recordPdfInputFor(server.context, { job, actor, crewRoles: await crewRolesOf(manager, id, actor.id), planner: true });
+      expect(input.record.finalHash).toBe(job.headHash);
+      expect(input.record.lastSeq).toBe(job.lastSeq);
+      const rows = await manager.query('SELECT data FROM job_event WHERE job_id = ? AND seq <= ?', [id, job.lastSeq]) as { data: string }[];
+      const named = new Set(rows.flatMap((r) => {
+        const photoId = (JSON.parse(r.data) as { photoId?: unknown }).photoId;
+        return typeof photoId === 'string' ? [photoId] : [];
+      }));
+      expect(new Set(input.record.photoIds)).toEqual(named);
+      for (const photo of input.photos) {
+        expect(input.record.photoIds).toContain(photo.id);
+        expect(Buffer.from(photo.jpeg).subarray(0, 3).toString('hex')).toBe('ffd8ff');
+      }
+      drawn += input.photos.length;
+    }
+    // The demo's value-checked holds carry a photo of the controller screen.
+    expect(drawn).toBeGreaterThan(0);
+  });
+
   it('is refused to someone outside the job and to nobody signed in', async () => {
     const outsider = await signedInUser(server, { qualifications: ['rigger'] });
     const res = await request(server.app).get(`/api/jobs/${live.id}/record.pdf`).set('Authorization', `Bearer ${outsider.token}`);
