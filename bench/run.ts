@@ -4,9 +4,10 @@
  * scenario, the generated section of bench/README.md. Exits non-zero when a scenario failed,
  * measured no Holdline figure, or a correctness count is not zero. Every process it started is killed on the way out, Ctrl-C too.
  */
+import { execFile } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import path from 'node:path';
-import { parseArgs } from 'node:util';
+import { parseArgs, promisify } from 'node:util';
 import { clientBuilds } from './lib/builds.js';
 import { templateFor } from './lib/holdline.js';
 import { descendantsOf, killTracked } from './lib/proc.js';
@@ -43,9 +44,11 @@ async function main(): Promise<number> {
   // side by side; both kept between runs while their inputs do not change (bench/lib/cache.ts).
   const wanted = SCENARIOS.filter((id) => (!only || only.includes(id)) && existsSync(path.join(benchDir, 'scenarios', `${id}.ts`)));
   const preparing = performance.now();
-  const [template, builds] = await Promise.allSettled([
+  const [template, builds, browser] = await Promise.allSettled([
     wanted.length > 0 ? templateFor() : Promise.resolve(null),
     wanted.includes('client') ? clientBuilds() : Promise.resolve(null),
+    // Scenario 5 drives Debian's Chromium, installed here as for `npm test` when it is missing.
+    wanted.includes('client') ? promisify(execFile)('bash', [path.join(benchDir, '..', 'scripts', 'ensure-chromium.sh')]) : Promise.resolve(null),
   ]);
   const made = (seconds: number | null) => (seconds === null ? 'reused' : `made in ${seconds.toFixed(1)} s`);
   const parts: string[] = [];
@@ -54,6 +57,7 @@ async function main(): Promise<number> {
   else if (template.value) parts.push(`seeded demo ${made(template.value.seededSeconds)}`);
   if (builds.status === 'rejected') parts.push(`the client build FAILED (${String(builds.reason).split('\n')[0]})`);
   else if (builds.value) parts.push(`client build ${made(builds.value.holdline.seconds)}, empty page ${made(builds.value.empty.seconds)}`);
+  if (browser.status === 'rejected') parts.push(`Chromium is MISSING (${String((browser.reason as { stderr?: string }).stderr ?? browser.reason).trim().split('\n')[0]})`);
   report.scenarioSeconds.prepare = (performance.now() - preparing) / 1000;
   log(`prepared in ${report.scenarioSeconds.prepare.toFixed(1)} s: ${parts.join('; ') || 'nothing to prepare'}`);
 
@@ -80,7 +84,7 @@ async function main(): Promise<number> {
     }
     report.scenarioSeconds[id] = (performance.now() - begun) / 1000;
     // A scenario that left a process behind must not weigh on the next one's numbers.
-    killTracked(beforeScenarios);
+    killTracked(beforeScenarios, true);
   }
 
   report.durationSeconds = (performance.now() - started) / 1000;

@@ -4,6 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { ChildServer } from '../../tests/helpers/child-server.js';
 import { cachedDir, hashOf } from './cache.js';
+import { GC_NODE_ARGS } from './crowd-memory.js';
 import type { BenchServer, CommandPayload } from './types.js';
 
 /** Every demo account's password (server/demo/people.ts). */
@@ -107,20 +108,22 @@ async function seedTemplate(dir: string, root: string | undefined): Promise<void
     if (!board) throw new Error('bench fixture: the demo has no live job');
     const job = (await must(call(url, 'GET', `/api/jobs/${board.id}`, supervisor), 'the live job')).job as Record<string, unknown>;
     const crew = (job.crew as { userId: string; role: string }[]).map((m) => ({ userId: m.userId, role: m.role }));
-    const idleJobIds: string[] = [];
-    for (let i = 1; i <= IDLE_BOARDS; i++) {
-      const created = await must(
-        call(url, 'POST', '/api/jobs', supervisor, { name: `Bench idle board ${i}`, site: 'Bench yard', craneUnitId: job.craneUnitId, kind: 'erection' }),
-        'an idle job',
-      );
-      const id = (created.job as { id: string }).id;
-      await must(call(url, 'PUT', `/api/jobs/${id}/crew`, supervisor, { members: crew }), 'its crew');
-      await must(call(url, 'PATCH', `/api/jobs/${id}`, supervisor, { commsPlan: job.commsPlan }), 'its radio plan');
-      await must(call(url, 'PUT', `/api/jobs/${id}/configuration`, supervisor, job.configuration), 'its configuration');
-      await must(call(url, 'POST', `/api/jobs/${id}/ready`, supervisor, {}), 'making it ready');
-      await must(call(url, 'POST', `/api/jobs/${id}/commands`, supervisor, { type: 'job.start', commandId: randomUUID() }), 'starting it');
-      idleJobIds.push(id);
-    }
+    // The nine boards side by side: each is a handful of calls in order, independent of the others.
+    const idleJobIds = await Promise.all(
+      Array.from({ length: IDLE_BOARDS }, async (_, i) => {
+        const created = await must(
+          call(url, 'POST', '/api/jobs', supervisor, { name: `Bench idle board ${i + 1}`, site: 'Bench yard', craneUnitId: job.craneUnitId, kind: 'erection' }),
+          'an idle job',
+        );
+        const id = (created.job as { id: string }).id;
+        await must(call(url, 'PUT', `/api/jobs/${id}/crew`, supervisor, { members: crew }), 'its crew');
+        await must(call(url, 'PATCH', `/api/jobs/${id}`, supervisor, { commsPlan: job.commsPlan }), 'its radio plan');
+        await must(call(url, 'PUT', `/api/jobs/${id}/configuration`, supervisor, job.configuration), 'its configuration');
+        await must(call(url, 'POST', `/api/jobs/${id}/ready`, supervisor, {}), 'making it ready');
+        await must(call(url, 'POST', `/api/jobs/${id}/commands`, supervisor, { type: 'job.start', commandId: randomUUID() }), 'starting it');
+        return id;
+      }),
+    );
     writeFileSync(path.join(dir, TEMPLATE_META), JSON.stringify({ boardJobId: board.id, idleJobIds }));
   } finally {
     await server.terminate();
@@ -160,7 +163,7 @@ export async function startHoldline(options: HoldlineOptions = {}): Promise<Benc
   madeDirs.push(dataDir);
   // The whole folder: the demo's uploads (photos, plans) live beside the database.
   cpSync(template.dir, dataDir, { recursive: true });
-  const server = await ChildServer.start({ dataDir, root, env: { HOLDLINE_COMMAND_RATE: BENCH_COMMAND_RATE, ...options.env } });
+  const server = await ChildServer.start({ dataDir, root, nodeArgs: GC_NODE_ARGS, env: { HOLDLINE_COMMAND_RATE: BENCH_COMMAND_RATE, ...options.env } });
   try {
     const emails = [...new Set([...COMMANDERS, ...WATCHERS])];
     const tokens = new Map((await Promise.all(emails.map((email) => signIn(server.url, email)))).map((token, i) => [emails[i], token]));

@@ -67,17 +67,27 @@ export function track(child: ChildProcess): ChildProcess {
   return child;
 }
 
+/** The command name of a process (/proc/<pid>/comm), or '' when it has ended. */
+function commandName(pid: number): string {
+  try {
+    return readFileSync(`/proc/${pid}/comm`, 'utf8').trim();
+  } catch {
+    return '';
+  }
+}
+
 /**
  * SIGKILLs every tracked child and every process still below this one but those in `spare`;
- * synchronous, so it works in an 'exit' handler. Between scenarios the runner spares what ran
- * before the first one: tsx's esbuild service, which compiles every module imported later.
+ * synchronous, so it works in an 'exit' handler. Between scenarios (`keepCompiler`) it also spares
+ * tsx's esbuild service, which compiles every module imported later and may have been started
+ * after the first scenario began: killing it fails the next import with "The service is no longer running".
  */
-export function killTracked(spare: ReadonlySet<number> = new Set()): void {
+export function killTracked(spare: ReadonlySet<number> = new Set(), keepCompiler = false): void {
   for (const child of tracked) if (child.pid !== undefined && child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
   tracked.clear();
   // Children a scenario started without tracking them, and their own children (a tsx launcher's server).
   for (const pid of descendantsOf(process.pid).reverse()) {
-    if (spare.has(pid)) continue;
+    if (spare.has(pid) || (keepCompiler && commandName(pid) === 'esbuild')) continue;
     try {
       process.kill(pid, 'SIGKILL');
     } catch {

@@ -3,6 +3,7 @@ import { randomUUID } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { GC_NODE_ARGS } from './crowd-memory.js';
 import { track } from './proc.js';
 import type { BenchServer, CommandPayload } from './types.js';
 
@@ -26,7 +27,7 @@ export function weatherCommand(jobId: string, i: number): CommandPayload {
 
 /** Starts `bench/servers/relay.ts` and resolves with the port it printed. */
 function spawnRelay(system: 'relay' | 'sqlite-relay', port: number, db: string): Promise<{ child: ChildProcess; port: number }> {
-  const args = ['--import', 'tsx', 'bench/servers/relay.ts', '--mode', system, '--port', String(port)];
+  const args = [...GC_NODE_ARGS, '--import', 'tsx', 'bench/servers/relay.ts', '--mode', system, '--port', String(port)];
   if (system === 'sqlite-relay') args.push('--db', db);
   const child = track(spawn(process.execPath, args, { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] }));
   return new Promise((resolve, reject) => {
