@@ -11,6 +11,14 @@ export const STANDARD_GRAVITY_MPS2 = 9.80665;
 export const NEWTONS_PER_LBF = 4.4482216152605;
 /** Metres in one international foot, exact (1959 international yard and pound agreement). */
 export const METRES_PER_FT = 0.3048;
+/** Kilograms in one avoirdupois pound, exact (1959 international yard and pound agreement). */
+export const KG_PER_LB = 0.45359237;
+/** Kilograms in one short ton (US ton, 2,000 lb), exact. */
+export const KG_PER_SHORT_TON = 2000 * KG_PER_LB;
+/** Metres in one inch, exact (1/12 ft). */
+export const METRES_PER_INCH = 0.0254;
+/** Pascals in one pound-force per square inch (1 lbf over 1 in², from the exact factors above). */
+export const PA_PER_PSI = NEWTONS_PER_LBF / (METRES_PER_INCH * METRES_PER_INCH);
 /** Metres per second in one mile per hour, exact (1609.344 m / 3600 s). */
 export const MPS_PER_MPH = 0.44704;
 /** Metres per second in one kilometre per hour (1000 m / 3600 s). */
