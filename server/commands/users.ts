@@ -1,7 +1,8 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { In, type EntityManager } from 'typeorm';
 import { acknowledgmentsLeaving } from '../../shared/board/shifts.js';
-import type { InviteUserRequest, Qualification, UpdateUserRequest } from '../../shared/schemas/users.js';
+import type { InviteUserRequest, Qualification, UpdatePreferencesRequest, UpdateUserRequest } from '../../shared/schemas/users.js';
+import { DEFAULT_UNIT_SYSTEM, type UnitSystem } from '../../shared/units/quantity.js';
 import { hashPassword } from '../auth/passwords.js';
 import { revokeAllForUser } from '../auth/refresh-tokens.js';
 import { createSignInLink } from '../auth/sign-in-links.js';
@@ -23,6 +24,7 @@ export interface NewUser {
   isAdmin?: boolean;
   canInspect?: boolean;
   password?: string;
+  units?: UnitSystem;
 }
 
 /** Creates a person; e-mails are unique regardless of case. Runs inside the caller's transaction. */
@@ -40,6 +42,7 @@ export async function createUser(manager: EntityManager, input: NewUser): Promis
     isAdmin: input.isAdmin ?? false,
     active: true,
     canInspect: input.canInspect ?? false,
+    units: input.units ?? DEFAULT_UNIT_SYSTEM,
     createdAt: now,
     updatedAt: now,
   });
@@ -208,4 +211,16 @@ function stableCommandId(words: string): string {
   const hex = createHash('sha256').update(words).digest('hex');
   // Version 8 (custom) and the RFC 4122 variant, so it reads as a well-formed UUID.
   return `${hex.slice(0, 8)}-${hex.slice(8, 12)}-8${hex.slice(13, 16)}-${((parseInt(hex[16]!, 16) & 0x3) | 0x8).toString(16)}${hex.slice(17, 20)}-${hex.slice(20, 32)}`;
+}
+
+/** A person's own settings (their units); nothing else of the account changes and nothing is audited. */
+export async function updatePreferences(context: AppContext, userId: string, changes: UpdatePreferencesRequest): Promise<User> {
+  const now = context.now();
+  return context.queue.transaction(async (manager) => {
+    const found = await manager.findOneBy(User, { id: userId });
+    if (!found) throw notFound('That person');
+    if (changes.units !== undefined) found.units = changes.units;
+    found.updatedAt = now.toISOString();
+    return manager.save(found);
+  });
 }

@@ -1,5 +1,6 @@
 import { Column, Entity, PrimaryColumn } from 'typeorm';
 import type { Qualification } from '../../shared/schemas/users.js';
+import type { UnitSystem } from '../../shared/units/quantity.js';
 
 /** A person who may sign in. Crew roles are given per job; qualifications say which they may hold. */
 @Entity('user')
@@ -30,6 +31,10 @@ export class User {
   /** The admin marks this person as qualified to inspect an assembled crane (the job's final sign-off). */
   @Column('boolean', { name: 'can_inspect', default: false })
   canInspect!: boolean;
+
+  /** Metric or US customary on this person's screens; every figure is stored in SI whatever they pick. */
+  @Column('varchar', { length: 10, default: 'metric' })
+  units!: UnitSystem;
 
   @Column('varchar', { length: 30, name: 'created_at' })
   createdAt!: string;

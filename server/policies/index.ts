@@ -53,6 +53,8 @@ export const policyTable = [
   { action: 'users.invite', allow: ['admin'], routes: ['POST /api/users', 'POST /api/users/:userId/invitation'] },
   { action: 'users.read', allow: ['admin', 'self'], routes: ['GET /api/users/:userId'] },
   { action: 'users.update', allow: ['admin'], routes: ['PATCH /api/users/:userId'] },
+  // How Holdline shows things to a person (their units) is theirs alone to choose, admins included.
+  { action: 'users.preferences', allow: ['self'], routes: ['PATCH /api/users/:userId/preferences'] },
   { action: 'audit.read', allow: ['admin'], routes: ['GET /api/audit/sign-ins'] },
   { action: 'inbox.read', allow: ['admin'], routes: ['GET /api/dev/inbox'] },
   // E-mails for the record that failed or wait for another try: addresses of crews and clients, so admins only.

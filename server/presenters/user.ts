@@ -13,5 +13,6 @@ export function presentUser(user: User): UserDto {
     canInspect: user.canInspect,
     hasPassword: user.passwordHash !== null,
     createdAt: user.createdAt,
+    units: user.units,
   };
 }

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { inviteUserSchema, updateUserSchema } from '../../shared/schemas/users.js';
-import { inviteUser, resendInvitation, updateUser } from '../commands/users.js';
+import { inviteUserSchema, updatePreferencesSchema, updateUserSchema } from '../../shared/schemas/users.js';
+import { inviteUser, resendInvitation, updatePreferences, updateUser } from '../commands/users.js';
 import type { AppContext } from '../context.js';
 import { User } from '../entities/User.js';
 import { notFound, parseOrThrow } from '../errors.js';
@@ -41,6 +41,13 @@ export function usersRouter(context: AppContext): Router {
     authorize(req.actor ?? null, 'users.update', { userId: req.params.userId }, req.authProblem);
     const body = parseOrThrow(updateUserSchema, req.body, 'change');
     const user = await updateUser(context, req.params.userId, body, req.actor!, req.ip ?? null);
+    res.json({ user: presentUser(user) });
+  });
+
+  router.patch('/users/:userId/preferences', async (req, res) => {
+    authorize(req.actor ?? null, 'users.preferences', { userId: req.params.userId }, req.authProblem);
+    const body = parseOrThrow(updatePreferencesSchema, req.body, 'settings');
+    const user = await updatePreferences(context, req.params.userId, body);
     res.json({ user: presentUser(user) });
   });
 

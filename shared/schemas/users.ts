@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { DEFAULT_UNIT_SYSTEM, unitSystems } from '../units/quantity.js';
 
 /** Crew roles a person may be given on a job. */
 export const qualifications = ['supervisor', 'operator', 'signaller', 'rigger', 'viewer'] as const;
@@ -23,6 +24,9 @@ export function roleLabel(role: string): string {
   return isQualification(role) ? qualificationLabels[role] : role === 'admin' ? 'Administrator' : role;
 }
 
+/** Metric or US customary: each person's choice of units on screen. */
+export const unitSystemSchema = z.enum(unitSystems, { message: 'Choose metric or US customary units' });
+
 /** A person as the API presents them (never a hash or token). */
 export const userSchema = z.object({
   id: z.string(),
@@ -36,6 +40,8 @@ export const userSchema = z.object({
   /** False while an invited person has not yet set a password. */
   hasPassword: z.boolean(),
   createdAt: z.string(),
+  /** The person's own system of units on screen (shared/units/quantity.ts); the record stays in SI. */
+  units: unitSystemSchema.default(DEFAULT_UNIT_SYSTEM),
 });
 export type UserDto = z.infer<typeof userSchema>;
 
@@ -64,6 +70,17 @@ export const updateUserSchema = z
   .strict()
   .refine((v) => Object.keys(v).length > 0, 'Change at least one field');
 export type UpdateUserRequest = z.infer<typeof updateUserSchema>;
+
+/**
+ * Body of PATCH /api/users/:userId/preferences: a person's own choices about how Holdline shows
+ * things to them (not rights, so no second administrator is asked).
+ */
+export const updatePreferencesSchema = z
+  .object({ units: unitSystemSchema })
+  .partial()
+  .strict()
+  .refine((v) => Object.keys(v).length > 0, 'Change at least one setting');
+export type UpdatePreferencesRequest = z.infer<typeof updatePreferencesSchema>;
 
 export const userListSchema = z.object({ items: z.array(userSchema) });
 export const userEnvelopeSchema = z.object({ user: userSchema });

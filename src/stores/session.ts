@@ -1,7 +1,8 @@
 import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
 import { sessionSchema, type SessionDto } from '../../shared/schemas/auth';
-import type { UserDto } from '../../shared/schemas/users';
+import { userEnvelopeSchema, type UserDto } from '../../shared/schemas/users';
+import { DEFAULT_UNIT_SYSTEM, quantitiesIn, type UnitSystem } from '../../shared/units/quantity';
 import { api, ApiRequestError, setTokenSource } from '../services/api';
 import { disconnectSocket, renewSocketToken, setSocketSession } from '../services/socket';
 
@@ -35,6 +36,10 @@ export const useSessionStore = defineStore('session', () => {
 
   const signedIn = computed(() => user.value !== null);
   const isAdmin = computed(() => user.value?.isAdmin === true);
+  /** The person's system of units on screen; metric before anyone signs in. */
+  const units = computed<UnitSystem>(() => user.value?.units ?? DEFAULT_UNIT_SYSTEM);
+  /** Figures in the person's units (shared/units/quantity.ts): every screen shows a quantity through this. */
+  const quantities = computed(() => quantitiesIn(units.value));
 
   function accept(session: SessionDto) {
     user.value = session.user;
@@ -100,6 +105,13 @@ export const useSessionStore = defineStore('session', () => {
     }
   }
 
+  /** Saves the person's own choice of units; the answer replaces the person, so every screen follows at once. */
+  async function setUnits(next: UnitSystem): Promise<void> {
+    if (!user.value) return;
+    const answer = await api(`/users/${encodeURIComponent(user.value.id)}/preferences`, { method: 'PATCH', body: { units: next }, schema: userEnvelopeSchema });
+    user.value = answer.user;
+  }
+
   /** Accepts a session handed over by an invitation or reset link. */
   function adopt(session: SessionDto) {
     accept(session);
@@ -123,5 +135,5 @@ export const useSessionStore = defineStore('session', () => {
     },
   });
 
-  return { user, token, expiresAtMs, restored, endedReason, serverTimeZone, signedIn, isAdmin, login, refresh, restore, logout, adopt };
+  return { user, token, expiresAtMs, restored, endedReason, serverTimeZone, signedIn, isAdmin, units, quantities, login, refresh, restore, logout, adopt, setUnits };
 });

@@ -42,6 +42,7 @@ function signInAs(overrides: Partial<UserDto>) {
     active: true,
     hasPassword: true,
     createdAt: '2026-10-01T07:00:00.000Z',
+    units: 'metric',
     ...overrides,
   };
 }

@@ -15,6 +15,7 @@ function person(overrides: Partial<UserDto>): UserDto {
     active: true,
     hasPassword: true,
     createdAt: '2026-11-02T07:30:00.000Z',
+    units: 'metric',
     ...overrides,
   };
 }

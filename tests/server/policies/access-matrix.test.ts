@@ -73,6 +73,8 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   ['GET /api/users/:userId (other)',                    'Y   -   -   -   -   -   -   -   -   -   -'],
   ['PATCH /api/users/:userId (own)',                    'Y   -   -   -   -   -   -   -   -   -   -'],
   ['PATCH /api/users/:userId (other)',                  'Y   -   -   -   -   -   -   -   -   -   -'],
+  ['PATCH /api/users/:userId/preferences (own)',        'Y   Y   Y   Y   Y   Y   Y   Y   Y   -   -'],
+  ['PATCH /api/users/:userId/preferences (other)',      '-   -   -   -   -   -   -   -   -   -   -'],
   ['GET /api/audit/sign-ins',                           'Y   -   -   -   -   -   -   -   -   -   -'],
   ['GET /api/dev/inbox',                                'Y   -   -   -   -   -   -   -   -   -   -'],
   ['GET /api/mail/problems',                            'Y   -   -   -   -   -   -   -   -   -   -'],

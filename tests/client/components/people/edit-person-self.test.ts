@@ -35,6 +35,7 @@ const admin: UserDto = {
   canInspect: false,
   hasPassword: true,
   createdAt: '2026-10-01T07:00:00.000Z',
+  units: 'metric',
 };
 const other: UserDto = { ...admin, id: 'b2b2b2b2-0000-4000-8000-000000000002', email: 'yard@example.test', displayName: 'Gus Arden', isAdmin: false };
 

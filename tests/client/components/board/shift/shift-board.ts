@@ -60,7 +60,7 @@ export function storesWith(board: BoardState, who: { userId: string; name: strin
   setActivePinia(pinia);
   const session = useSessionStore();
   if (who) {
-    const user: UserDto = { id: who.userId, email: `${who.userId}@holdline.test`, displayName: who.name, qualifications: [], isAdmin: false, active: true, canInspect: opts.canInspect ?? false, hasPassword: true, createdAt: '2026-03-01T08:00:00.000Z' };
+    const user: UserDto = { id: who.userId, email: `${who.userId}@holdline.test`, displayName: who.name, qualifications: [], isAdmin: false, active: true, canInspect: opts.canInspect ?? false, hasPassword: true, createdAt: '2026-03-01T08:00:00.000Z', units: 'metric' };
     session.user = user;
   }
   const store = useBoardStore();
