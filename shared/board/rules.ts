@@ -1,11 +1,17 @@
 import type { WindLimit } from '../schemas/arrangement.js';
 import type { BoardHold, BoardStage, BoardState, WeatherReading } from './types.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
 
 /**
  * The board's rules that both sides need: the one wind rule (the weather panel, wind `check`
  * steps, the holds before a raise and the resume all use it), step order within a stage, and the
  * retry rules of the blind configuration check. Pure: time comes in as a parameter.
  */
+
+/** A wind reading as recorded (0.1 m/s), in the person's units, rounded up: never read as calmer than it was. */
+const windReading = (q: Quantities, ms: number) => q.wind(ms, 'up', 1, true);
+/** A wind limit in the person's units, rounded down: never shown as more permissive than it is. */
+const windLimit = (q: Quantities, ms: number) => q.wind(ms, 'down', 1, true);
 
 const NUMBER = /^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/;
 
@@ -72,10 +78,10 @@ export function stepNeedsFreshWeather(stage: Pick<BoardStage, 'id' | 'boom' | 'i
 }
 
 /** Why a gust is over a wind limit, or null when it is within it (at the limit counts as within). */
-export function gustOverLimit(gustMs: number, limit: WindLimit | null, phase?: 'assembly' | 'raising'): string | null {
+export function gustOverLimit(gustMs: number, limit: WindLimit | null, phase?: 'assembly' | 'raising', q: Quantities = METRIC): string | null {
   const words = phase ? `the ${phase} limit` : 'the limit';
   if (!limit) return `No wind limit is known${phase ? ` for ${phase}` : ''}: get the manufacturer’s limit before going on`;
-  if (gustMs > limit.gustMs) return `Gust ${gustMs} m/s is over ${words} of ${limit.gustMs} m/s`;
+  if (gustMs > limit.gustMs) return `Gust ${windReading(q, gustMs)} is over ${words} of ${windLimit(q, limit.gustMs)}`;
   return null;
 }
 
@@ -83,14 +89,15 @@ export function gustOverLimit(gustMs: number, limit: WindLimit | null, phase?: '
 export function weatherOverLimit(
   reading: { meanMs: number; gustMs: number; lightning?: boolean; poorVisibility?: boolean; ice?: boolean },
   limit: WindLimit | null,
+  q: Quantities = METRIC,
 ): string | null {
   if (reading.lightning) return 'Lightning reported';
   if (reading.ice) return 'Ice reported on the boom or the ground';
   if (reading.poorVisibility) return 'Visibility too poor to see the signaller';
   if (!limit) return null;
-  const gust = gustOverLimit(reading.gustMs, limit);
+  const gust = gustOverLimit(reading.gustMs, limit, undefined, q);
   if (gust) return gust;
-  if (reading.meanMs > limit.meanMs) return `Mean wind ${reading.meanMs} m/s is over the limit of ${limit.meanMs} m/s`;
+  if (reading.meanMs > limit.meanMs) return `Mean wind ${windReading(q, reading.meanMs)} is over the limit of ${windLimit(q, limit.meanMs)}`;
   return null;
 }
 
@@ -135,8 +142,11 @@ export interface WeatherVerdict {
   problem: string | null;
 }
 
-/** The weather against the job's limit for `phase` (the current phase by default) at time `nowMs`. */
-export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembly' | 'raising' = windPhase(state)): WeatherVerdict {
+/**
+ * The weather against the job's limit for `phase` (the current phase by default) at time `nowMs`,
+ * worded in `q`'s units (metric for the server's refusals and the record).
+ */
+export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembly' | 'raising' = windPhase(state), q: Quantities = METRIC): WeatherVerdict {
   const limit = state.windLimits ? state.windLimits[phase] : null;
   const reading = state.weather;
   const freshMs = weatherFreshMs(state);
@@ -148,9 +158,9 @@ export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembl
     .filter((s) => s.state === 'done' && s.records?.check?.kind === 'wind' && s.doneBy && (!reading || s.doneBy.at > reading.at))
     .map((s) => ({ text: s.text, gustMs: parseReading(s.doneBy!.value ?? '', 'm/s') }))
     .filter((g): g is { text: string; gustMs: number } => g.gustMs !== null)
-    .map((g) => ({ ...g, over: gustOverLimit(g.gustMs, limit, phase) }))
+    .map((g) => ({ ...g, over: gustOverLimit(g.gustMs, limit, phase, q) }))
     .find((g) => g.over && limit);
-  const overLimit = (reading ? weatherOverLimit(reading, limit) : null) ?? (laterStepGust ? `${laterStepGust.over} (typed at “${laterStepGust.text}”)` : null);
+  const overLimit = (reading ? weatherOverLimit(reading, limit, q) : null) ?? (laterStepGust ? `${laterStepGust.over} (typed at “${laterStepGust.text}”)` : null);
   const stepsOverLimit = state.stages.flatMap((stage) =>
     stage.steps
       .filter((s) => s.outOfLimit?.kind === 'wind')
@@ -162,7 +172,7 @@ export function weatherVerdict(state: BoardState, nowMs: number, phase: 'assembl
     : height === null
       ? 'The height of this reading was not recorded; the limit is for the gust at the boom tip.'
       : height < WIND_READING_REFERENCE_HEIGHT_M
-        ? `Read at ${height} m above ground: wind near the ground reads lower than at the boom tip, which the limit is for.`
+        ? `Read at ${q.length(height, 'nearest', 1, true)} above ground: wind near the ground reads lower than at the boom tip, which the limit is for.`
         : null;
   const minutes = Math.round(freshMs / 60_000);
   let problem: string | null = null;

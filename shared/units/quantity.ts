@@ -82,12 +82,17 @@ export function fromShown(kind: QuantityKind, shownValue: number, system: UnitSy
   return shownValue * units[kind][system].siPer;
 }
 
-/** The number alone, converted and rounded toward the safe side asked for, without the unit. */
-export function showNumber(kind: QuantityKind, siValue: number, system: UnitSystem, rounding: Rounding, decimals?: number): string {
+/**
+ * The number alone, converted and rounded toward the safe side asked for, without the unit.
+ * `trim` drops trailing zeros after the rounding ("12" rather than "12.0"), for a reading recorded
+ * as typed.
+ */
+export function showNumber(kind: QuantityKind, siValue: number, system: UnitSystem, rounding: Rounding, decimals?: number, trim = false): string {
   const unit = units[kind][system];
   const places = decimals ?? unit.decimals;
   const value = siValue / unit.siPer;
-  const text = rounding === 'up' ? fmtUp(value, places) : rounding === 'down' ? fmtDown(value, places) : fmt(value, places);
+  const fixed = rounding === 'up' ? fmtUp(value, places) : rounding === 'down' ? fmtDown(value, places) : fmt(value, places);
+  const text = trim && fixed.includes('.') ? fixed.replace(/\.?0+$/, '') : fixed;
   return unit.grouped ? group(text) : text;
 }
 
@@ -95,8 +100,8 @@ export function showNumber(kind: QuantityKind, siValue: number, system: UnitSyst
  * THE way a figure is shown to a person: converted from SI into their system, rounded toward the
  * safe side asked for, with its unit written out ("10.0 US tons", "22,481 lbf", "29.1 psi").
  */
-export function showQuantity(kind: QuantityKind, siValue: number, system: UnitSystem, rounding: Rounding, decimals?: number): string {
-  return `${showNumber(kind, siValue, system, rounding, decimals)} ${unitWord(kind, system)}`;
+export function showQuantity(kind: QuantityKind, siValue: number, system: UnitSystem, rounding: Rounding, decimals?: number, trim = false): string {
+  return `${showNumber(kind, siValue, system, rounding, decimals, trim)} ${unitWord(kind, system)}`;
 }
 
 /** "22481" → "22,481"; the decimals, if any, are left alone. */
@@ -115,26 +120,26 @@ function group(text: string): string {
 export interface Quantities {
   system: UnitSystem;
   /** A mass in kilograms. */
-  mass(kg: number, rounding: Rounding, decimals?: number): string;
+  mass(kg: number, rounding: Rounding, decimals?: number, trim?: boolean): string;
   /** A force in kilonewtons. */
-  force(kn: number, rounding: Rounding, decimals?: number): string;
+  force(kn: number, rounding: Rounding, decimals?: number, trim?: boolean): string;
   /** A length in metres. */
-  length(m: number, rounding: Rounding, decimals?: number): string;
+  length(m: number, rounding: Rounding, decimals?: number, trim?: boolean): string;
   /** A pressure in kilopascals. */
-  pressure(kpa: number, rounding: Rounding, decimals?: number): string;
+  pressure(kpa: number, rounding: Rounding, decimals?: number, trim?: boolean): string;
   /** A wind speed in metres per second. */
-  wind(ms: number, rounding: Rounding, decimals?: number): string;
+  wind(ms: number, rounding: Rounding, decimals?: number, trim?: boolean): string;
 }
 
 /** The `Quantities` of one system. */
 export function quantitiesIn(system: UnitSystem): Quantities {
   return {
     system,
-    mass: (kg, r, d) => showQuantity('mass', kg, system, r, d),
-    force: (kn, r, d) => showQuantity('force', kn, system, r, d),
-    length: (m, r, d) => showQuantity('length', m, system, r, d),
-    pressure: (kpa, r, d) => showQuantity('pressure', kpa, system, r, d),
-    wind: (ms, r, d) => showQuantity('windSpeed', ms, system, r, d),
+    mass: (kg, r, d, t) => showQuantity('mass', kg, system, r, d, t),
+    force: (kn, r, d, t) => showQuantity('force', kn, system, r, d, t),
+    length: (m, r, d, t) => showQuantity('length', m, system, r, d, t),
+    pressure: (kpa, r, d, t) => showQuantity('pressure', kpa, system, r, d, t),
+    wind: (ms, r, d, t) => showQuantity('windSpeed', ms, system, r, d, t),
   };
 }
 

@@ -110,6 +110,15 @@ describe('the figure as shown', () => {
     expect(showNumber('force', 0.1, 'us', 'up')).toBe('23');
   });
 
+  it('trims trailing zeros only when asked, after the rounding: a reading shows as recorded', () => {
+    expect(showQuantity('length', 12, 'metric', 'nearest', 1, true)).toBe('12 m');
+    expect(showQuantity('windSpeed', 6.3, 'metric', 'up', 1, true)).toBe('6.3 m/s');
+    expect(showQuantity('windSpeed', 6.3, 'metric', 'up', 1)).toBe('6.3 m/s');
+    expect(showQuantity('length', 12, 'metric', 'nearest')).toBe('12.0 m');
+    expect(showQuantity('windSpeed', 0.44704 * 20, 'us', 'up', 1, true)).toBe('20 mph');
+    expect(showQuantity('force', 100, 'us', 'up', 0, true)).toBe('22,481 lbf');
+  });
+
   it('quantitiesIn carries the system through', () => {
     expect(quantitiesIn('us').pressure(200, 'up')).toBe('29.1 psi');
     expect(quantitiesIn('metric').wind(9.8, 'down')).toBe('9.8 m/s');
