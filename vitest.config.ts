@@ -12,6 +12,9 @@ export default defineConfig({
           name: 'shared',
           include: ['tests/shared/**/*.test.ts'],
           environment: 'node',
+          // Pure code with no module state to leak between files: one module graph for them all
+          // instead of one per file (the imports took 25 s of the project's 52 s).
+          isolate: false,
         },
       },
       {
