@@ -34,6 +34,7 @@ import { plansRouter } from './routes/plans.js';
 import { mailRouter } from './routes/mail.js';
 import { recordsRouter } from './routes/records.js';
 import { recordsListRouter } from './routes/records-list.js';
+import { paperCopyRouter } from './routes/paper-copy.js';
 import { recordPdfRouter } from './routes/record-pdf.js';
 import { usersRouter } from './routes/users.js';
 import { uploadsRouter } from './routes/uploads.js';
@@ -149,6 +150,7 @@ export function createApp(deps: AppDeps): HoldlineApp {
   api.use(recordsRouter(context));
   api.use(recordsListRouter(context));
   api.use(recordPdfRouter(context));
+  api.use(paperCopyRouter(context));
   api.use(boardRouter(context));
   api.use(apiNotFound);
   app.use('/api', api);
@@ -194,6 +196,8 @@ export function createApp(deps: AppDeps): HoldlineApp {
 
 /** Hashed build output (`/assets/<name>-<hash>.<ext>`): a new build gives new names, so a browser keeps these for good. */
 const IMMUTABLE = 'public, max-age=31536000, immutable';
+/** Build files at fixed names that a browser must check with the server every time (vite.config.ts, VitePWA). */
+const REVALIDATED = new Set(['sw.js', 'manifest.webmanifest']);
 
 /**
  * Serves the built client and answers client routes with index.html. The build writes a Brotli and
@@ -216,6 +220,8 @@ function serveClient(app: Express, clientDir: string): void {
         maxAge: '1h',
         setHeaders: (res, file) => {
           if (file.startsWith(assetsDir)) res.setHeader('Cache-Control', IMMUTABLE);
+          // The service worker and the manifest name no hash: checked with the server on every use, so a new build reaches phones.
+          else if (REVALIDATED.has(path.relative(clientDir, file).replace(/\.(br|gz)$/, ''))) res.setHeader('Cache-Control', 'no-cache');
         },
       },
     }),

@@ -25,6 +25,15 @@ export const SAFETY_TEXT =
 let unpacked: { regular: Buffer; bold: Buffer } | null = null;
 const fontBytes = () => (unpacked ??= { regular: woffToSfnt(readFileSync(FONTS.regular)), bold: woffToSfnt(readFileSync(FONTS.bold)) });
 
+export interface PdfWriterOptions {
+  /** Printed at the top right of every page (e.g. "in progress"). */
+  stamp?: string;
+  /** Room at the top of every page, for a header drawn by `eachPage`; 48 points otherwise. */
+  marginTop?: number;
+  /** Draws on every page once the pages are counted (a running header, a code to scan), margins set to 0 at the top and bottom. */
+  eachPage?: (doc: PDFKit.PDFDocument, page: { index: number; count: number }) => void;
+}
+
 /** A small writer over pdfkit: headings, key/value rows, tables, drawings, page breaks. */
 export class PdfWriter {
   readonly doc: PDFKit.PDFDocument;
@@ -35,8 +44,8 @@ export class PdfWriter {
    * `footer` is printed at the foot of every page with "page N of M"; a second line (e.g. a hash)
    * goes above it. `stamp`, when given, is printed at the top of every page (e.g. "in progress").
    */
-  constructor(title: string, footer: string | [string, string], options: { stamp?: string } = {}) {
-    this.doc = new PDFDocument({ size: 'A4', margins: { top: 48, bottom: 56, left: 48, right: 48 }, info: { Title: title, Creator: 'Holdline' }, bufferPages: true });
+  constructor(title: string, footer: string | [string, string], options: PdfWriterOptions = {}) {
+    this.doc = new PDFDocument({ size: 'A4', margins: { top: options.marginTop ?? 48, bottom: 56, left: 48, right: 48 }, info: { Title: title, Creator: 'Holdline' }, bufferPages: true });
     this.doc.registerFont('Body', fontBytes().regular);
     this.doc.registerFont('Body-Bold', fontBytes().bold);
     this.doc.font('Body');
@@ -44,10 +53,12 @@ export class PdfWriter {
     this.done = new Promise((resolve) => this.doc.on('end', () => resolve(Buffer.concat(this.chunks))));
     this.footer = typeof footer === 'string' ? [footer] : footer;
     this.stamp = options.stamp ?? null;
+    this.eachPage = options.eachPage ?? null;
   }
 
   private readonly footer: string[];
   private readonly stamp: string | null;
+  private readonly eachPage: PdfWriterOptions['eachPage'] | null;
 
   get width(): number {
     return this.doc.page.width - this.doc.page.margins.left - this.doc.page.margins.right;
@@ -162,6 +173,12 @@ export class PdfWriter {
         const top = this.doc.page.margins.top;
         this.doc.page.margins.top = 0;
         this.doc.font('Body-Bold').fontSize(9).fillColor('#9a1c12').text(this.stamp, this.doc.page.margins.left, 20, { width: this.width, align: 'right', lineBreak: false });
+        this.doc.page.margins.top = top;
+      }
+      if (this.eachPage) {
+        const top = this.doc.page.margins.top;
+        this.doc.page.margins.top = 0;
+        this.eachPage(this.doc, { index: i - range.start, count: range.count });
         this.doc.page.margins.top = top;
       }
     }

@@ -136,6 +136,8 @@ export const policyTable = [
       'GET /api/jobs/:jobId/plan',
       'GET /api/jobs/:jobId/plan/versions',
       'GET /api/jobs/:jobId/plan.pdf',
+      // The plan from the board's state onward, for working on paper; redacted like plan.pdf.
+      'GET /api/jobs/:jobId/paper.pdf',
     ],
     // A list follows the jobs it shows, each one checked against this row.
     events: ['jobs:follow'],
