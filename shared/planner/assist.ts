@@ -12,7 +12,8 @@ import type { AssistChart, AssistCrane, HookBlock } from '../schemas/arrangement
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
 import { tipHangings } from './chart.js';
-import { figure, guarded, kgToKn } from './figures.js';
+import { figure, guarded, kgToKn, ratingOf, stated } from './figures.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
 import { fmt, fmtDown, fmtUp, plain } from '../format.js';
 import type { AssistLiftResultRow, PlannerInputs, TandemStepRow } from './types.js';
 
@@ -33,6 +34,7 @@ export function computeAssist(
   boom: BoomOutcome,
   hookBlock: HookBlock | null,
   figures: Figure[],
+  q: Quantities = METRIC,
 ): { lifts: AssistLiftResultRow[]; tandem: TandemStepRow[] } {
   const { lifts, assistCraneId, chartId } = config.assist;
   const tipSupport = boom.listed?.raising.limits.tipSupportRequired === true;
@@ -52,16 +54,16 @@ export function computeAssist(
   }
   figures.push(figure('assist.chart', 'assist', 'Assist-crane chart', `${crane.model}: ${chart.description}`, 'info', false, chartRule));
 
-  const rows = lifts.map((lift, i) => computeLift(config, lift, i, chart, caution, figures));
-  computeSlings(config, figures);
-  const tandem = tipSupport ? computeTandem(config, inputs, boom, hookBlock, crane, chart, figures) : [];
-  computePads(config, figures);
+  const rows = lifts.map((lift, i) => computeLift(config, lift, i, chart, caution, figures, q));
+  computeSlings(config, figures, q);
+  const tandem = tipSupport ? computeTandem(config, inputs, boom, hookBlock, crane, chart, figures, q) : [];
+  computePads(config, figures, q);
   return { lifts: rows, tandem };
 }
 
 type Lift = Configuration['assist']['lifts'][number];
 
-function computeLift(config: Configuration, lift: Lift, i: number, chart: AssistChart, caution: number, figures: Figure[]): AssistLiftResultRow {
+function computeLift(config: Configuration, lift: Lift, i: number, chart: AssistChart, caution: number, figures: Figure[], q: Quantities): AssistLiftResultRow {
   const key = `assist.lift.${i}`;
   const label = `Assist lift: ${lift.label}`;
   const failed: AssistLiftResultRow = { label: lift.label, totalKn: 0, capacityKn: null, chartRadiusM: null, sharePercent: null, pass: false, reason: 'cannot compute', status: 'fail' };
@@ -82,8 +84,8 @@ function computeLift(config: Configuration, lift: Lift, i: number, chart: Assist
     const noHook = lift.hookBlockT === 0;
     const value =
       r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
-        ? `${percentUp(r.sharePercent)} % (${fmtUp(totalT, 2)} t of ${fmtDown(knToTonnesForce(r.capacityKn), 1)} t at ${plain(r.chartRadiusM)} m)`
-        : `Off the chart at ${plain(lift.radiusM)} m`;
+        ? `${percentUp(r.sharePercent)} % (${q.mass(totalT * 1000, 'up', 2)} of ${q.mass(knToTonnesForce(r.capacityKn) * 1000, 'down', 1)} at ${stated(q, r.chartRadiusM)})`
+        : `Off the chart at ${stated(q, lift.radiusM)}`;
     const status: FigureStatus = r.band === 'fail' ? 'fail' : noHook ? 'caution' : r.band;
     const detail = [
       `on the hook: lift ${plain(lift.liftT)} t + rigging ${plain(lift.riggingT)} t + ${onHook(lift)}`,
@@ -108,7 +110,7 @@ function computeLift(config: Configuration, lift: Lift, i: number, chart: Assist
 }
 
 /** Sling legs of the lifts whose pick points are off the centre of gravity. */
-function computeSlings(config: Configuration, figures: Figure[]): void {
+function computeSlings(config: Configuration, figures: Figure[], q: Quantities): void {
   const withLegs = config.assist.lifts.map((l, i) => ({ l, i })).filter((x) => x.l.legs !== null);
   if (withLegs.length === 0) {
     figures.push(
@@ -133,21 +135,21 @@ function computeSlings(config: Configuration, figures: Figure[]): void {
       }
       const r = slingLegTensionsFromHookHeight({ loadKn: tonnesForceToKn(l.liftT + l.riggingT), distancesToCogM: [legs.toCogAM, legs.toCogBM], hookHeightM: legs.hookHeightM });
       const [a, b] = r.legs.map((x) => knToTonnesForce(x.tensionKn));
-      const value = `leg A ${fmtUp(a, 2)} t at ${fmtDown(r.legs[0].angleFromHorizontalDeg)}°, leg B ${fmtUp(b, 2)} t at ${fmtDown(r.legs[1].angleFromHorizontalDeg)}°`;
+      const value = `leg A ${q.mass(a * 1000, 'up', 2)} at ${fmtDown(r.legs[0].angleFromHorizontalDeg)}°, leg B ${q.mass(b * 1000, 'up', 2)} at ${fmtDown(r.legs[1].angleFromHorizontalDeg)}°`;
       const rated = legs.legRatedLoadT;
       const worst = Math.max(a, b);
       const status: FigureStatus = rated === null ? 'info' : worst > rated ? 'fail' : 'pass';
       const detail =
         rated === null
           ? 'no rated load entered: the rigger compares each leg with its tag'
-          : `${fmtUp(worst, 2)} t in the heavier leg against ${plain(rated)} t rated per leg${worst > rated ? ': above the sling’s rating, choose a stronger sling' : ''}`;
+          : `${q.mass(worst * 1000, 'up', 2)} in the heavier leg against ${ratingOf(q, 'mass', rated * 1000)} rated per leg${worst > rated ? ': above the sling’s rating, choose a stronger sling' : ''}`;
       figures.push(figure(key, 'assist', label, value, status, false, rule, `legs ${fmt(r.legs[0].legLengthM, 2)} m and ${fmt(r.legs[1].legLengthM, 2)} m from hook to pick point; ${detail}`));
     });
   }
 }
 
 /** The assist crane's outrigger or track pads against the site's allowable ground pressure. */
-function computePads(config: Configuration, figures: Figure[]): void {
+function computePads(config: Configuration, figures: Figure[], q: Quantities): void {
   const pads = config.assist.pads;
   const what = pads.kind === 'track' ? 'track' : 'outrigger';
   const label = `Ground under the assist crane’s ${what} pads`;
@@ -168,7 +170,7 @@ function computePads(config: Configuration, figures: Figure[]): void {
         'assist.ground',
         'assist',
         label,
-        `${fmtUp(r.pressureKpa)} kPa (allowable ${plain(allowable)} kPa)`,
+        `${q.pressure(r.pressureKpa, 'up')} (allowable ${ratingOf(q, 'pressure', allowable)})`,
         status,
         false,
         `${rule}; ${r.rule}; the site’s allowable pressure (where the assist crane stands on other ground, that ground’s allowable governs)`,
@@ -179,7 +181,7 @@ function computePads(config: Configuration, figures: Figure[]): void {
 }
 
 /** The tandem raise: the assist crane's share of the boom at the tip at 0°, 10°, 20°... to the release angle. */
-function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomOutcome, hookBlock: HookBlock | null, crane: AssistCrane, chart: AssistChart, figures: Figure[]): TandemStepRow[] {
+function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomOutcome, hookBlock: HookBlock | null, crane: AssistCrane, chart: AssistChart, figures: Figure[], q: Quantities): TandemStepRow[] {
   const t = config.assist.tandem;
   const listed = boom.listed!;
   const label = 'Tandem raise: assist crane carries the tip';
@@ -231,8 +233,8 @@ function computeTandem(config: Configuration, inputs: PlannerInputs, boom: BoomO
         : '';
       const value =
         s.share.sharePercent !== null && s.share.capacityKn !== null && s.share.chartRadiusM !== null
-          ? `${percentUp(s.share.sharePercent)} % (${fmtUp(knToTonnesForce(s.share.totalKn), 2)} t of ${fmtDown(knToTonnesForce(s.share.capacityKn), 1)} t at ${fmt(s.radiusM, 1)} m; tip ${fmt(s.tipHeightM, 1)} m up${reach})`
-          : `Off the chart at ${fmt(s.radiusM, 1)} m (tip ${fmt(s.tipHeightM, 1)} m up${reach})`;
+          ? `${percentUp(s.share.sharePercent)} % (${q.mass(knToTonnesForce(s.share.totalKn) * 1000, 'up', 2)} of ${q.mass(knToTonnesForce(s.share.capacityKn) * 1000, 'down', 1)} at ${q.length(s.radiusM, 'nearest')}; tip ${q.length(s.tipHeightM, 'nearest')} up${reach})`
+          : `Off the chart at ${q.length(s.radiusM, 'nearest')} (tip ${q.length(s.tipHeightM, 'nearest')} up${reach})`;
       figures.push(
         figure(
           key,

@@ -2,7 +2,8 @@
 import { boomMakeup, platesRequired, type BoomMakeup } from '../calc/boom.js';
 import type { BoomArrangement } from '../schemas/arrangement.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
-import { emptyMakeup, figure, guarded, kgToKn } from './figures.js';
+import { emptyMakeup, figure, guarded, kgToKn, ratingOf, stated } from './figures.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
 import { fmt, plain } from '../format.js';
 import type { PlannerInputs } from './types.js';
 
@@ -20,7 +21,7 @@ export interface BoomOutcome {
 const ARRANGEMENT_RULE = 'manufacturer arrangement data for this boom length';
 
 /** The boom's figures; its outcome feeds the ground and site checks. */
-export function computeBoom(config: Configuration, inputs: PlannerInputs, figures: Figure[]): BoomOutcome {
+export function computeBoom(config: Configuration, inputs: PlannerInputs, figures: Figure[], q: Quantities = METRIC): BoomOutcome {
   const { arrangement, inventory } = inputs;
   const lengthM = config.boomLengthM;
   const makeup = guarded(figures, 'boom.makeup', 'boom', 'Boom make-up', emptyMakeup(lengthM, 'the make-up could not be worked out'), () => {
@@ -47,7 +48,7 @@ export function computeBoom(config: Configuration, inputs: PlannerInputs, figure
         'boom.sectionWeight',
         'boom',
         'Boom section weight',
-        `${fmt(weightKg / 1000, 2)} t (${fmt(kn)} kN)`,
+        `${q.mass(weightKg, 'nearest', 2)} (${q.force(kn, 'nearest')})`,
         'info',
         false,
         `sum of the section weights, foot to tip (${ARRANGEMENT_RULE}); centre of gravity ${fmt(boomCogFromFootM ?? 0, 2)} m from the boom foot = Σ weight × section CoG ÷ Σ weight`,
@@ -74,16 +75,16 @@ export function computeBoom(config: Configuration, inputs: PlannerInputs, figure
     const lines = listed.guyLines.map((g) => `${g.mark} ${plain(g.lengthM)} m ×${g.quantity}`).join(', ');
     figures.push(figure('boom.guyLines', 'boom', 'Guy-line set', `${lines} (${makeup.totalGuyLineCount} lines)`, 'info', false, `guy-line set (${ARRANGEMENT_RULE})`));
     figures.push(
-      figure('boom.counterweight', 'boom', 'Counterweight for raising', `${fmt(listed.raising.counterweightKg / 1000, 1)} t`, 'info', false, `counterweight before raising (${ARRANGEMENT_RULE})`),
+      figure('boom.counterweight', 'boom', 'Counterweight for raising', q.mass(listed.raising.counterweightKg, 'nearest', 1), 'info', false, `counterweight before raising (${ARRANGEMENT_RULE})`),
     );
-    figures.push(figure('boom.trackGauge', 'boom', 'Track gauge for raising', `${plain(listed.raising.trackGaugeM)} m`, 'info', false, `track gauge before raising (${ARRANGEMENT_RULE})`));
+    figures.push(figure('boom.trackGauge', 'boom', 'Track gauge for raising', stated(q, listed.raising.trackGaugeM), 'info', false, `track gauge before raising (${ARRANGEMENT_RULE})`));
     const l = listed.raising.limits;
     figures.push(
       figure(
         'boom.raisingLimits',
         'boom',
         'Raising limits',
-        `ground slope ≤ ${plain(l.maxGroundSlopePercent)} %, boom hoist line pull ≤ ${plain(l.maxBoomHoistLinePullKn)} kN, ${l.tipSupportRequired ? 'tip must be carried while the boom leaves the ground' : 'no tip support needed'}`,
+        `ground slope ≤ ${plain(l.maxGroundSlopePercent)} %, boom hoist line pull ≤ ${ratingOf(q, 'force', l.maxBoomHoistLinePullKn)}, ${l.tipSupportRequired ? 'tip must be carried while the boom leaves the ground' : 'no tip support needed'}`,
         'info',
         false,
         `raising limits (${ARRANGEMENT_RULE})`,
@@ -119,15 +120,15 @@ export function computeBoom(config: Configuration, inputs: PlannerInputs, figure
   let cosBoomAngle: number | null = null;
   if (projectedM <= 0) {
     figures.push(
-      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is inside the boom foot`, 'fail', false, radiusRule, 'the planned radius is shorter than the boom foot’s offset: choose a longer radius'),
+      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${stated(q, radiusM)} is inside the boom foot`, 'fail', false, radiusRule, 'the planned radius is shorter than the boom foot’s offset: choose a longer radius'),
     );
   } else if (projectedM <= lengthM) {
     cosBoomAngle = projectedM / lengthM;
     const angleDeg = (Math.acos(cosBoomAngle) * 180) / Math.PI;
-    figures.push(figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${fmt(angleDeg)}° at ${plain(radiusM)} m radius`, 'info', false, radiusRule));
+    figures.push(figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${fmt(angleDeg)}° at ${stated(q, radiusM)} radius`, 'info', false, radiusRule));
   } else {
     figures.push(
-      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${plain(radiusM)} m is beyond the ${plain(lengthM)} m boom`, 'fail', false, radiusRule, 'the planned radius is beyond the boom’s reach: choose a longer boom or a shorter radius'),
+      figure('boom.radius', 'boom', 'Boom angle for the heaviest lift', `${stated(q, radiusM)} is beyond the ${stated(q, lengthM)} boom`, 'fail', false, radiusRule, 'the planned radius is beyond the boom’s reach: choose a longer boom or a shorter radius'),
     );
   }
   // The crane's own chart is checked in chart.ts (chart.lift, chart.raise).

@@ -7,8 +7,9 @@ import { chartShare, limitShare, percentUp, type ShareResult } from '../calc/cha
 import type { CapacityChart, HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
-import { figure, guarded, kgToKn } from './figures.js';
-import { fmt, fmtDown, fmtUp, plain } from '../format.js';
+import { figure, guarded, kgToKn, stated } from './figures.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
+import { fmt, fmtUp, plain } from '../format.js';
 import { ROPE_RUN_ASSUMED_WHEN_MISSING } from './rope.js';
 import type { ChartResults, PlannerInputs } from './types.js';
 
@@ -69,7 +70,7 @@ function listWeights(items: readonly Hanging[]): string {
 }
 
 /** The chart figures (chart.lift, chart.raise); their results feed the plan and the record. */
-export function computeChart(config: Configuration, inputs: PlannerInputs, boom: BoomOutcome, hookBlock: HookBlock | null, figures: Figure[]): ChartResults {
+export function computeChart(config: Configuration, inputs: PlannerInputs, boom: BoomOutcome, hookBlock: HookBlock | null, figures: Figure[], q: Quantities = METRIC): ChartResults {
   const caution = config.chartCautionPercent;
   const listed = boom.listed;
   const results: ChartResults = { lift: null, raise: null };
@@ -103,8 +104,8 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
         const status: FigureStatus = r.band === 'fail' ? 'fail' : liftMissing.length ? 'caution' : statusOf(r);
         const value =
           r.sharePercent !== null && r.capacityKn !== null && r.chartRadiusM !== null
-            ? `${percentUp(r.sharePercent)} % of chart (${fmtUp(totalKg / 1000, 2)} t of ${fmtDown(r.capacityKn / 9.80665, 1)} t at ${plain(r.chartRadiusM)} m)`
-            : `Off the chart at ${plain(radiusM)} m`;
+            ? `${percentUp(r.sharePercent)} % of chart (${q.mass(totalKg, 'up', 2)} of ${q.mass((r.capacityKn / 9.80665) * 1000, 'down', 1)} at ${stated(q, r.chartRadiusM)})`
+            : `Off the chart at ${stated(q, radiusM)}`;
         const detail = [
           `on the hook: load ${plain(loadT)} t + rigging ${plain(riggingT)} t + ${listWeights(onHook)}`,
           rope.note,
@@ -149,7 +150,7 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
           'chart.raise',
           'boom',
           raiseLabel,
-          `${fmtUp(knownKg / 1000, 2)} t at the tip; limit not given in the data`,
+          `${q.mass(knownKg, 'up', 2)} at the tip; limit not given in the data`,
           'unverified',
           false,
           raiseRule,
@@ -166,7 +167,7 @@ export function computeChart(config: Configuration, inputs: PlannerInputs, boom:
             'chart.raise',
             'boom',
             raiseLabel,
-            `${percentUp(r.sharePercent ?? 0)} % (${fmtUp(knownKg / 1000, 2)} t of ${fmtDown(limitKg / 1000, 2)} t allowed)`,
+            `${percentUp(r.sharePercent ?? 0)} % (${q.mass(knownKg, 'up', 2)} of ${q.mass(limitKg, 'down', 2)} allowed)`,
             status,
             r.band !== 'fail' && missing.length === 0,
             `${raiseRule}; ${r.rule}`,

@@ -7,6 +7,8 @@ import { CalcInputError } from '../calc/errors.js';
 import { tonnesForceToKn } from '../calc/units.js';
 import type { InventoryItem } from '../schemas/arrangement.js';
 import type { Figure, FigureStatus } from '../schemas/configuration.js';
+import { plain } from '../format.js';
+import { showQuantity, toShown, unitWord, type QuantityKind, type Quantities } from '../units/quantity.js';
 import { overrideReason } from './overrides.js';
 
 /** The group a figure is listed under. */
@@ -27,6 +29,20 @@ export function figure(
   const f: Figure = { key, group, label, value, status, overridable: mayOverride, rule };
   if (detail !== undefined && detail.length > 0) f.detail = detail;
   return f;
+}
+
+/** A dimension from the data or the configuration, as stated: metres to 3 decimals as written, feet to 0.1 (information, nearest). */
+export function stated(q: Quantities, lengthM: number): string {
+  return q.length(lengthM, 'nearest', q.system === 'metric' ? 3 : 1, true);
+}
+
+/**
+ * A rating or limit from the data (a block's rated load, a drum's permissible pull): in metric as
+ * the data states it, in another system converted and rounded DOWN, never above the rating.
+ */
+export function ratingOf(q: Quantities, kind: QuantityKind, siValue: number): string {
+  if (q.system === 'metric') return `${plain(toShown(kind, siValue, 'metric'))} ${unitWord(kind, 'metric')}`;
+  return showQuantity(kind, siValue, q.system, 'down', undefined, true);
 }
 
 /** Kilograms to kilonewtons through tonne-force (1 tf = 9.80665 kN). */

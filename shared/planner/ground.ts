@@ -10,7 +10,8 @@ import { tonnesForceToKn } from '../calc/units.js';
 import type { HookBlock } from '../schemas/arrangement.js';
 import type { Configuration, Figure, FigureStatus } from '../schemas/configuration.js';
 import type { BoomOutcome } from './boom.js';
-import { figure, guarded, kgToKn } from './figures.js';
+import { figure, guarded, kgToKn, ratingOf } from './figures.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
 import { fmt, fmtUp, plain } from '../format.js';
 import type { LoadCaseResult, PlannerInputs } from './types.js';
 
@@ -46,6 +47,7 @@ export function computeGround(
   boom: BoomOutcome,
   hookBlock: HookBlock | null,
   figures: Figure[],
+  q: Quantities = METRIC,
 ): LoadCaseResult[] {
   const { arrangement } = inputs;
   const allowable = config.ground.allowablePressureKpa;
@@ -183,7 +185,7 @@ export function computeGround(
       const overEnd = points.find((p) => p.angleDeg === 0)!;
       const overSide = points.find((p) => p.angleDeg === 90)!;
       const rule = `${governing.sweep.rule}; ${governing.sweep.points.some((p) => p.rigidPlaneKpa !== null) ? 'rigid plane: ' : ''}${tracks.count === 2 ? 'q(x, y) = V/A + M_along·x/I_y + M_across·y/I_x with no tension (contact area iterated to equilibrium); ' : 'rigid plane not applied: the data does not give one track on each side; '}per track: heavier side V/2 + |M_across| ÷ gauge (gauge ${plain(footprint.gaugeM)} m, the raising gauge), the moment along the tracks shared equally, eccentric footing theory along the track (Das, Principles of Foundation Engineering); V and M from the weights listed under “Weights in the ground pressure”; ${SLEW_NOTE}${sweeps.length > 1 ? '; hanging hoist rope taken both at its longest (hook at the ground) and its shortest (hook block at the tip), the worse kept at each angle' : ''}`;
-      const value = `${fmtUp(worst.pressureKpa)} kPa at ${plain(worst.angleDeg)}° slew, ${worst.method} (allowable ${plain(allowable)} kPa)${missing ? ', weights not included' : ''}`;
+      const value = `${q.pressure(worst.pressureKpa, 'up')} at ${plain(worst.angleDeg)}° slew, ${worst.method} (allowable ${ratingOf(q, 'pressure', allowable)})${missing ? ', weights not included' : ''}`;
       const detail = `${geometryNote}; V ${fmt(governing.verticalLoadKn)} kN, M ${fmt(governing.momentKnm)} kN·m; worst at ${plain(worst.angleDeg)}° at the ${whereWords(worst)}: per track ${fmtUp(worst.perTrackKpa)} kPa, rigid plane ${worst.rigidPlaneKpa === null ? 'not applied' : `${fmtUp(worst.rigidPlaneKpa)} kPa`}; over the end ${fmtUp(overEnd.pressureKpa)} kPa, over the side ${fmtUp(overSide.pressureKpa)} kPa; ${sourceNote}${missingNote}`;
       figures.push(figure(figKey, 'ground', label + suffix, value, statusOf(worst.pressureKpa), false, rule, detail));
 
@@ -227,7 +229,7 @@ export function computeGround(
               matKey,
               'ground',
               `${label} with mats`,
-              `${fmtUp(m.totalPressureKpa)} kPa at ${plain(point.angleDeg)}° slew (allowable ${plain(allowable)} kPa)${missing ? ', weights not included' : ''}`,
+              `${q.pressure(m.totalPressureKpa, 'up')} at ${plain(point.angleDeg)}° slew (allowable ${ratingOf(q, 'pressure', allowable)})${missing ? ', weights not included' : ''}`,
               statusOf(m.totalPressureKpa),
               false,
               matRule,

@@ -19,7 +19,8 @@ import {
 import { tonnesForceToKn } from '../calc/units.js';
 import type { ArrangementData, Drum, HookBlock, Rope, Sheave } from '../schemas/arrangement.js';
 import type { Configuration, Figure } from '../schemas/configuration.js';
-import { figure, guarded, serviceableAtHand } from './figures.js';
+import { figure, guarded, ratingOf, serviceableAtHand } from './figures.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
 import { fmt, fmtDown, fmtUp, plain } from '../format.js';
 import type { ConfigurationResults, PlannerInputs } from './types.js';
 
@@ -136,6 +137,7 @@ export function computeRope(
   config: Configuration,
   inputs: PlannerInputs,
   figures: Figure[],
+  q: Quantities = METRIC,
 ): { reeving: ConfigurationResults['reeving']; hookBlock: HookBlock | null } {
   const { arrangement, inventory } = inputs;
   const { hookBlockId, parts } = config.mainHook;
@@ -147,7 +149,7 @@ export function computeRope(
   // The boom hoist, the guy lines and the other drums do not depend on the main hook block.
   const others = () => {
     computeBoomHoist(config, arrangement, figures);
-    if (config.auxiliary.enabled) computeAuxiliary(config, inputs, lowestHookPositionM, figures);
+    if (config.auxiliary.enabled) computeAuxiliary(config, inputs, lowestHookPositionM, figures, q);
     computeSheavesDOverD(config, arrangement, figures);
     computeFleetAngles(config, arrangement, figures);
     figures.push(
@@ -197,8 +199,8 @@ export function computeRope(
   const ratingRule = 'load + rigging ≤ rated load of the hook block (manufacturer arrangement data)';
   figures.push(
     liftT <= hookBlock.ratedLoadT
-      ? figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmtUp(liftT, 2)} t of ${plain(hookBlock.ratedLoadT)} t`, 'pass', false, ratingRule)
-      : figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${fmtUp(liftT, 2)} t on a ${plain(hookBlock.ratedLoadT)} t block`, 'fail', false, ratingRule, 'choose a larger hook block'),
+      ? figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${q.mass(liftT * 1000, 'up', 2)} of ${ratingOf(q, 'mass', hookBlock.ratedLoadT * 1000)}`, 'pass', false, ratingRule)
+      : figure('rope.hookBlockRating', 'rope', 'Hook block rating', `${q.mass(liftT * 1000, 'up', 2)} on a ${ratingOf(q, 'mass', hookBlock.ratedLoadT * 1000)} block`, 'fail', false, ratingRule, 'choose a larger hook block'),
   );
 
   const main = drumAndRope(arrangement, 'mainHoist');
@@ -220,8 +222,8 @@ export function computeRope(
     const notes = path.notes.length > 0 ? `; ${path.notes.join('; ')}` : '';
     figures.push(
       pull <= permissible
-        ? figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmtUp(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts${notes}`)
-        : figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${fmtUp(pull)} kN, above the ${plain(permissible)} kN permissible`, 'fail', false, pullRule, `hook load ${fmt(loadKn)} kN on ${parts} parts: reeve more parts${notes}`),
+        ? figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${q.force(pull, 'up')} of ${ratingOf(q, 'force', permissible)} permissible`, 'pass', false, pullRule, `hook load ${q.force(loadKn, 'nearest')} on ${parts} parts${notes}`)
+        : figure('rope.leadLinePull', 'rope', 'Lead-line pull', `${q.force(pull, 'up')}, above the ${ratingOf(q, 'force', permissible)} permissible`, 'fail', false, pullRule, `hook load ${q.force(loadKn, 'nearest')} on ${parts} parts: reeve more parts${notes}`),
     );
 
     const needed = guarded(figures, 'rope.requiredParts', 'rope', 'Parts of line needed', null as number | null, () => {
@@ -235,7 +237,7 @@ export function computeRope(
       });
       figures.push(
         r.achievable
-          ? figure('rope.requiredParts', 'rope', 'Parts of line needed', `at least ${r.parts} parts (${fmt(r.leadLinePullKn)} kN)`, 'info', false, r.rule)
+          ? figure('rope.requiredParts', 'rope', 'Parts of line needed', `at least ${r.parts} parts (${q.force(r.leadLinePullKn, 'nearest')})`, 'info', false, r.rule)
           : figure('rope.requiredParts', 'rope', 'Parts of line needed', `Not achievable with ${hookBlock.id}`, 'info', false, r.rule, r.reason),
       );
       return r.parts;
@@ -268,6 +270,7 @@ export function computeRope(
     lowestHookPositionM,
     arrangement,
     fix: 'fewer parts, a shorter boom, a higher lowest hook position or a longer rope',
+    q,
   });
 
   others();
@@ -326,6 +329,7 @@ function wrapsFigures(
     lowestHookPositionM: number;
     arrangement: ArrangementData;
     fix: string;
+    q: Quantities;
   },
 ): { paidOutM: number; wrapsLeft: number } | null {
   const key = `${o.keyPrefix}.wraps`;
@@ -364,7 +368,7 @@ function wrapsFigures(
         `${o.keyPrefix}.lengthRequired`,
         'rope',
         o.keyPrefix === 'rope' ? 'Main hoist rope needed' : `${o.hoistLabel[0].toUpperCase()}${o.hoistLabel.slice(1)} rope needed`,
-        `${fmtUp(needed.ropeLengthRequiredM)} m of ${plain(o.drum.ropeLengthM)} m on the drum`,
+        `${o.q.length(needed.ropeLengthRequiredM, 'up')} of ${ratingOf(o.q, 'length', o.drum.ropeLengthM)} on the drum`,
         'info',
         false,
         `${needed.rule}; ${run.rule}`,
@@ -386,7 +390,7 @@ function wrapsFigures(
  * the auxiliary hook at its full rating (the most it may be asked to carry, on one part of line),
  * and the wraps left on its drum at the plan's lowest hook position.
  */
-function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHookPositionM: number, figures: Figure[]): void {
+function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHookPositionM: number, figures: Figure[], q: Quantities): void {
   const { arrangement } = inputs;
   const auxId = config.auxiliary.hookBlockId;
   if (!auxId) return;
@@ -422,12 +426,12 @@ function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHo
     const notes = path.notes.length > 0 ? `; ${path.notes.join('; ')}` : '';
     figures.push(
       pull <= permissible
-        ? figure('rope.aux.leadLinePull', 'rope', 'Auxiliary hoist line pull', `${fmtUp(pull)} kN of ${plain(permissible)} kN permissible`, 'pass', false, rule, `${aux.id} at its full ${plain(aux.ratedLoadT)} t rating on one part${notes}`)
+        ? figure('rope.aux.leadLinePull', 'rope', 'Auxiliary hoist line pull', `${q.force(pull, 'up')} of ${ratingOf(q, 'force', permissible)} permissible`, 'pass', false, rule, `${aux.id} at its full ${ratingOf(q, 'mass', aux.ratedLoadT * 1000)} rating on one part${notes}`)
         : figure(
             'rope.aux.leadLinePull',
             'rope',
             'Auxiliary hoist line pull',
-            `${fmtUp(pull)} kN, above the ${plain(permissible)} kN permissible`,
+            `${q.force(pull, 'up')}, above the ${ratingOf(q, 'force', permissible)} permissible`,
             'fail',
             false,
             rule,
@@ -451,6 +455,7 @@ function computeAuxiliary(config: Configuration, inputs: PlannerInputs, lowestHo
     lowestHookPositionM,
     arrangement,
     fix: 'a shorter boom, a higher lowest hook position or a longer rope',
+    q,
   });
 }
 

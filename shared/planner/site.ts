@@ -2,7 +2,8 @@
 import { fallZoneRadiusM, powerLineClearanceCheck, powerLineMinimumDistance } from '../calc/site.js';
 import type { Configuration, Figure, PowerLine } from '../schemas/configuration.js';
 import { figure, guarded } from './figures.js';
-import { fmt, fmtUp, plain } from '../format.js';
+import { METRIC, type Quantities } from '../units/quantity.js';
+import { fmt, plain } from '../format.js';
 import type { PlannerInputs, PowerLineResult } from './types.js';
 
 /**
@@ -38,6 +39,16 @@ function roomWords(m: number): string {
 /** A required distance, rounded up to 0.01 m (the fall zone and the reach are rounded up to 0.1 m as well). */
 function requiredWords(m: number): string {
   return fmt(Math.ceil(m * 100 - 1e-9) / 100, 2);
+}
+
+/** A distance available, in the person's units: metric as `roomWords` writes it, another system rounded down. */
+function roomIn(q: Quantities, m: number): string {
+  return q.system === 'metric' ? `${roomWords(m)} m` : q.length(m, 'down', 1);
+}
+
+/** A distance required, in the person's units: metric as `requiredWords` writes it, another system rounded up. */
+function requiredIn(q: Quantities, m: number): string {
+  return q.system === 'metric' ? `${requiredWords(m)} m` : q.length(m, 'up', 1);
 }
 
 /** One part of a crane's reach in plan, with where its length came from. */
@@ -105,18 +116,19 @@ function assistBoom(config: Configuration, inputs: PlannerInputs): { planned: bo
 }
 
 /** The fall zone, the reach, and one figure per power line (and one more per line for the assist crane). */
-export function computeSite(config: Configuration, inputs: PlannerInputs, figures: Figure[]): { fallZoneRadiusM: number; reachM: number; powerLines: PowerLineResult[] } {
+export function computeSite(config: Configuration, inputs: PlannerInputs, figures: Figure[], q: Quantities = METRIC): { fallZoneRadiusM: number; reachM: number; powerLines: PowerLineResult[] } {
   const { boom, footAheadM, tipExtensionM } = boomParts(config, inputs, figures);
   const fallZone = guarded(figures, 'site.fallZone', 'site', 'Fall zone radius', 0, () => {
     const r = fallZoneRadiusM({ boomFootAheadM: footAheadM, boomLengthM: config.boomLengthM, tipExtensionM, marginM: config.fallZoneMarginM });
     const words = sumReach([...boom, { words: 'margin (setting)', lengthM: config.fallZoneMarginM }]).words;
-    figures.push(figure('site.fallZone', 'site', 'Fall zone radius', `${fmt(Math.ceil(r.radiusM * 10 - 1e-9) / 10)} m`, 'info', false, r.rule, `${words}, measured from the slewing centre`));
+    const radius = q.system === 'metric' ? `${fmt(Math.ceil(r.radiusM * 10 - 1e-9) / 10)} m` : q.length(r.radiusM, 'up', 1);
+    figures.push(figure('site.fallZone', 'site', 'Fall zone radius', radius, 'info', false, r.rule, `${words}, measured from the slewing centre`));
     return r.radiusM;
   });
 
   const reach = sumReach([...boom, ...loadParts(config)]);
   if (config.siteHazards.powerLines.length > 0) {
-    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${fmtUp(reach.reachM)} m from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
+    figures.push(figure('site.reach', 'site', 'Reach toward power lines', `${q.length(reach.reachM, 'up')} from the slewing centre`, 'info', false, GEOMETRY_RULE, reach.words));
   }
   const assist = assistBoom(config, inputs);
   const assistReach =
@@ -168,7 +180,7 @@ export function computeSite(config: Configuration, inputs: PlannerInputs, figure
             key,
             'site',
             label,
-            `${roomWords(check.availableM)} m available, ${requiredWords(min.clearanceM)} m required (${min.basisShort}; ${volts})`,
+            `${roomIn(q, check.availableM)} available, ${requiredIn(q, min.clearanceM)} required (${min.basisShort}; ${volts})`,
             result.pass ? 'pass' : 'fail',
             false,
             rule,
@@ -176,7 +188,7 @@ export function computeSite(config: Configuration, inputs: PlannerInputs, figure
           ),
         );
       }
-      if (assist.planned) result.assist = assistFigure(line, i, min.clearanceM, min.basisShort, assist.words, assistReach, figures);
+      if (assist.planned) result.assist = assistFigure(line, i, min.clearanceM, min.basisShort, assist.words, assistReach, figures, q);
       return result;
     });
   });
@@ -192,6 +204,7 @@ function assistFigure(
   craneWords: string,
   reach: { reachM: number; words: string } | null,
   figures: Figure[],
+  q: Quantities,
 ): PowerLineResult['assist'] {
   const key = `powerLine.${i}.assist`;
   const label = `Assist crane to power line: ${line.label}`;
@@ -215,7 +228,7 @@ function assistFigure(
       key,
       'site',
       label,
-      `${roomWords(check.availableM)} m available, ${requiredWords(requiredM)} m required (${basisShort})`,
+      `${roomIn(q, check.availableM)} available, ${requiredIn(q, requiredM)} required (${basisShort})`,
       check.pass ? 'pass' : 'fail',
       false,
       rule,
