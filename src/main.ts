@@ -11,9 +11,11 @@ import 'quasar/dist/quasar.css';
 import './css/app.css';
 import App from './App.vue';
 import { router } from './router';
+import { registerServiceWorker } from './boot/service-worker';
 
 const app = createApp(App);
 app.use(Quasar, { plugins: { Notify, Dialog }, config: { notify: { position: 'top', timeout: 4000 } } });
 app.use(createPinia());
 app.use(router);
 app.mount('#app');
+registerServiceWorker();

@@ -8,8 +8,10 @@ import { isActingSupervisor, isBriefed, shiftOf } from '../../shared/board/shift
 import type { CrewRole } from '../../shared/schemas/jobs';
 import type { JobEventDto } from '../../shared/events/log';
 import { fetchEventsAfter } from '../services/events';
+import { readSavedBoard, rememberSavedView, saveBoard, type SavedBoardEntry } from '../services/saved-boards';
 import { connectSocket, type HoldlineSocket } from '../services/socket';
 import { BLOCKED_WORDS } from '../words/board';
+import { SAVED_BOARD_WORDS } from '../words/offline';
 import { useSessionStore } from './session';
 
 type DistributiveOmit<T, K extends PropertyKey> = T extends unknown ? Omit<T, K> : never;
@@ -38,6 +40,12 @@ const NO_ANSWER = 'No answer from the server. Check the connection; the command 
 const NOT_RECORDED_FOR_NOW = new Set(['no_answer', 'server_restarting', 'storage_full', 'storage_busy', 'storage_readonly', 'storage_failed', 'too_many_commands']);
 /** A kept stop is sent again at least this often while the board is live (a storage fault does not drop the connection). */
 const STOP_RETRY_MS = 5000;
+/** A live board is saved on the device when its seq moves, and at least this often (the time it was last live). */
+const SAVE_EVERY_MS = 15_000;
+/** Signed in and online, a board that has not joined after this long shows the saved one meanwhile. */
+const SAVED_AFTER_MS = 4000;
+/** While a saved board shows without a session, the session is tried again this often (and at once when the browser says it is online). */
+const OFFLINE_RETRY_MS = 5000;
 
 /**
  * The live board of one job for every view: joins through the socket, applies server events with
@@ -59,6 +67,14 @@ export const useBoardStore = defineStore('board', () => {
   const queuedStop = ref<QueuedStop | null>(null);
   /** The last event applied, for flashes, sounds and announcements. */
   const lastEvent = shallowRef<JobEventDto | null>(null);
+  /**
+   * The board shown is the one this device saved (services/saved-boards.ts), not the server's: the
+   * server cannot be reached. Null once a live board arrives. Nothing is sent from it but the stop,
+   * which queues as it does whenever the board is not live.
+   */
+  const saved = shallowRef<SavedBoardEntry | null>(null);
+  /** Who is looking: the signed-in person, or whoever saved the board shown offline. */
+  const viewerId = computed(() => session.user?.id ?? saved.value?.userId ?? null);
 
   /** The stores that follow the open job's events (jobs, plan): one socket, one follower, several readers. */
   const listeners = new Set<BoardEventListener>();
@@ -75,15 +91,21 @@ export const useBoardStore = defineStore('board', () => {
   /** A kept stop is being sent now; when it was last tried. */
   let sendingStop = false;
   let lastStopTryAt = 0;
+  let lastSavedAt = 0;
+  let lastSavedSeq = -1;
+  let savedTimer: ReturnType<typeof setTimeout> | undefined;
+  /** The board view open now (cab, rigger…), kept with the saved board: an app opened offline goes back to it. */
+  let viewName: string | undefined;
+  let offlineTimer: ReturnType<typeof setInterval> | undefined;
 
-  const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === session.user?.id).map((c) => c.role));
+  const myRoles = computed<CrewRole[]>(() => (board.value?.crew ?? []).filter((c) => c.userId === viewerId.value).map((c) => c.role));
   /** Briefed for the plan version in force and the shift (while made safe: the next shift), by the shared rule. */
-  const briefed = computed(() => !!board.value && !!session.user && isBriefed(board.value, session.user.id));
+  const briefed = computed(() => !!board.value && !!viewerId.value && isBriefed(board.value, viewerId.value));
   const stopped = computed(() => board.value?.job.state === 'stopped');
   /** The site's IANA time zone every time on the board is shown in (a board from before zones: the server's). */
   const siteTimeZone = computed(() => board.value?.job.timeZone ?? session.serverTimeZone);
   /** This person is the job's acting supervisor: the one who releases holds, ends and starts shifts. */
-  const isActing = computed(() => !!board.value && !!session.user && myRoles.value.includes('supervisor') && isActingSupervisor(board.value, session.user.id));
+  const isActing = computed(() => !!board.value && !!viewerId.value && myRoles.value.includes('supervisor') && isActingSupervisor(board.value, viewerId.value));
 
   /**
    * Why a command cannot be sent now, in words to show beside its control, or '' when it can: the
@@ -92,6 +114,7 @@ export const useBoardStore = defineStore('board', () => {
    * the briefing for this plan version and shift.
    */
   function blockReason(type: BoardCommand['type']): string {
+    if (saved.value) return SAVED_BOARD_WORDS.blocked;
     if (!live.value) return restartingSince.value !== null ? BLOCKED_WORDS.restarting : BLOCKED_WORDS.notLive;
     const b = board.value;
     if (stopped.value && !commandsWhileStopped.has(type)) return BLOCKED_WORDS.stopped;
@@ -104,12 +127,88 @@ export const useBoardStore = defineStore('board', () => {
 
   function refresh() {
     if (!follower) return;
-    board.value = follower.board ? { ...follower.board } : null;
+    if (follower.board) {
+      board.value = { ...follower.board };
+      if (saved.value) stopShowingSaved();
+    } else board.value = readSavedBoardOf(saved.value);
     const wasLive = live.value;
     live.value = follower.live;
     lastSyncAt.value = follower.lastSyncAt;
     if (live.value) restartingSince.value = null;
     if (live.value && (!wasLive || Date.now() - lastStopTryAt >= STOP_RETRY_MS)) void sendQueuedStop();
+    if (live.value) keepOnDevice(false);
+    else if (wasLive) keepOnDevice(true);
+  }
+
+  /**
+   * Saves the live board on this device for a reload without network: when its seq moved, every
+   * SAVE_EVERY_MS while live (the time it was last live), and once more when it stops being live.
+   * Presence is left out: who was connected then says nothing about who is now.
+   */
+  function keepOnDevice(now: boolean) {
+    const b = follower?.board;
+    const user = session.user;
+    if (!b || !user || !jobId.value || follower!.lastSyncAt <= 0) return;
+    if (!now && b.seq === lastSavedSeq && Date.now() - lastSavedAt < SAVE_EVERY_MS) return;
+    lastSavedAt = Date.now();
+    lastSavedSeq = b.seq;
+    saveBoard({ jobId: jobId.value, view: viewName, liveAt: follower!.lastSyncAt, userId: user.id, userName: user.displayName }, { ...b, presence: [] });
+  }
+
+  /** The board this device saved for the open job, when it belongs to whoever is looking. */
+  function readSavedBoardOf(entry: SavedBoardEntry | null): BoardSnapshot | null {
+    if (!entry || !jobId.value) return null;
+    return board.value && saved.value === entry ? board.value : (readSavedBoard(jobId.value)?.board ?? null);
+  }
+
+  /** No live board yet and the server out of reach: show the saved one, marked not live, and keep trying. */
+  function showSaved() {
+    clearTimeout(savedTimer);
+    if (!jobId.value || follower?.board || saved.value) return;
+    const kept = readSavedBoard(jobId.value);
+    if (!kept || (session.user && session.user.id !== kept.userId)) return;
+    const { board: keptBoard, ...entry } = kept;
+    saved.value = entry;
+    board.value = keptBoard;
+    loading.value = false;
+    if (!session.signedIn) {
+      clearInterval(offlineTimer);
+      offlineTimer = setInterval(() => void reconnectOffline(), OFFLINE_RETRY_MS);
+      window.addEventListener('online', onOnline);
+    }
+  }
+
+  /** The layout says which view is open, for the saved board. */
+  function setView(name: string) {
+    viewName = name;
+    if (jobId.value) rememberSavedView(jobId.value, name);
+  }
+
+  function stopShowingSaved() {
+    saved.value = null;
+    clearTimeout(savedTimer);
+    clearInterval(offlineTimer);
+    window.removeEventListener('online', onOnline);
+  }
+
+  function onOnline() {
+    void reconnectOffline();
+  }
+
+  /**
+   * Opened offline, the socket has no token: once the server answers, the refresh cookie gives a
+   * session and the socket connects with it (a refused cookie goes to the sign-in page, stores/session.ts).
+   */
+  async function reconnectOffline() {
+    if (session.signedIn) {
+      clearInterval(offlineTimer);
+      if (socket && !socket.connected && !socket.active) socket.connect();
+      return;
+    }
+    if (await session.refresh()) {
+      clearInterval(offlineTimer);
+      if (socket && !socket.connected && !socket.active) socket.connect();
+    }
   }
 
   /** The server is going down to restart: not live at once (it takes no command now), and the cover says why. */
@@ -148,6 +247,8 @@ export const useBoardStore = defineStore('board', () => {
     const onPresence = (p: Parameters<BoardFollower['onPresence']>[0]) => f.onPresence(p);
     const onConnect = () => void join();
     const onDisconnect = () => f.onDisconnect();
+    // The server cannot be reached: the saved board meanwhile, if this device has one.
+    const onConnectError = () => showSaved();
     const onRestarting = () => serverRestarting();
     s.on('server:restarting', onRestarting);
     // Taken off the crew while watching: the server stops sending this board and says why; the
@@ -163,7 +264,9 @@ export const useBoardStore = defineStore('board', () => {
     s.on('board:tick', onTick);
     s.on('board:presence', onPresence);
     s.on('connect', onConnect);
+    s.on('connect_error', onConnectError);
     detach.push(() => {
+      s.off('connect_error', onConnectError);
       s.off('board:event', onEvent);
       s.off('board:tick', onTick);
       s.off('board:presence', onPresence);
@@ -173,6 +276,7 @@ export const useBoardStore = defineStore('board', () => {
       s.off('board:removed', onRemoved);
     });
     livenessTimer = setInterval(() => f.checkLiveness(), 250);
+    savedTimer = setTimeout(showSaved, session.signedIn && navigator.onLine !== false ? SAVED_AFTER_MS : 0);
     if (s.connected) await join();
     else loading.value = true;
   }
@@ -192,6 +296,10 @@ export const useBoardStore = defineStore('board', () => {
 
   function close() {
     clearInterval(livenessTimer);
+    // The last word on how live it was, before the board goes.
+    if (live.value) keepOnDevice(true);
+    stopShowingSaved();
+    lastSavedSeq = -1;
     for (const off of detach.splice(0)) off();
     if (socket && jobId.value) socket.emit('board:leave', { jobId: jobId.value });
     follower = null;
@@ -276,7 +384,7 @@ export const useBoardStore = defineStore('board', () => {
     return waiting.value.has(commandId);
   }
 
-  return { jobId, board, live, restartingSince, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, siteTimeZone, isActing, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
+  return { jobId, board, live, saved, viewerId, setView, restartingSince, lastSyncAt, loading, error, waiting, queuedStop, lastEvent, myRoles, briefed, stopped, siteTimeZone, isActing, blockReason, onBoardEvent, open, close, send, stop, setQueuedStopReason, isWaiting };
 });
 
 /** A stop queued on this device for this job (it survives a reload while offline). */

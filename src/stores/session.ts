@@ -4,6 +4,7 @@ import { sessionSchema, type SessionDto } from '../../shared/schemas/auth';
 import { userEnvelopeSchema, type UserDto } from '../../shared/schemas/users';
 import { DEFAULT_UNIT_SYSTEM, quantitiesIn, type UnitSystem } from '../../shared/units/quantity';
 import { api, ApiRequestError, setTokenSource } from '../services/api';
+import { clearSavedBoards } from '../services/saved-boards';
 import { disconnectSocket, renewSocketToken, setSocketSession } from '../services/socket';
 
 /** What the router does when the server ends the session while a screen is open (src/router/index.ts: the sign-in page). */
@@ -23,6 +24,11 @@ export const useSessionStore = defineStore('session', () => {
   const token = ref<string | null>(null);
   const expiresAtMs = ref(0);
   const restored = ref(false);
+  /**
+   * The last refresh got no answer from the server (no network, or the server down or restarting),
+   * as opposed to a refusal: a board saved on this device may be shown, not live (router/index.ts).
+   */
+  const serverUnreachable = ref(false);
   /** Why the server ended this session while it was open (signed out on this device, deactivated); '' otherwise. */
   const endedReason = ref('');
   /**
@@ -42,6 +48,7 @@ export const useSessionStore = defineStore('session', () => {
   const quantities = computed(() => quantitiesIn(units.value));
 
   function accept(session: SessionDto) {
+    serverUnreachable.value = false;
     user.value = session.user;
     token.value = session.token;
     serverTimeZone.value = session.timeZone;
@@ -54,6 +61,8 @@ export const useSessionStore = defineStore('session', () => {
   function clear() {
     clearTimeout(timer);
     disconnectSocket();
+    // The boards kept for offline reading are this person's: gone with the session.
+    clearSavedBoards();
     user.value = null;
     token.value = null;
     expiresAtMs.value = 0;
@@ -75,13 +84,19 @@ export const useSessionStore = defineStore('session', () => {
         // Only a refusal ends the session; a dropped network keeps the person signed in to retry.
         if (error instanceof ApiRequestError && (error.status === 401 || error.status === 403)) {
           const wasSignedIn = user.value !== null;
+          // A saved board was open without a session (opened offline): the server is back and refused it.
+          const wasOffline = serverUnreachable.value;
+          serverUnreachable.value = false;
           clear();
           // Ended elsewhere (signed out in another tab of this browser, deactivated): to the sign-in page, saying so.
           if (wasSignedIn) {
             endedReason.value = error.message;
             sessionEndedHandler?.();
-          }
-        } else if (user.value) timer = setTimeout(() => void refresh(), 10_000);
+          } else if (wasOffline) sessionEndedHandler?.();
+        } else {
+          serverUnreachable.value = error instanceof ApiRequestError && (error.status === 0 || error.status >= 500);
+          if (user.value) timer = setTimeout(() => void refresh(), 10_000);
+        }
         return false;
       })
       .finally(() => {
@@ -135,5 +150,5 @@ export const useSessionStore = defineStore('session', () => {
     },
   });
 
-  return { user, token, expiresAtMs, restored, endedReason, serverTimeZone, signedIn, isAdmin, units, quantities, login, refresh, restore, logout, adopt, setUnits };
+  return { user, token, expiresAtMs, restored, serverUnreachable, endedReason, serverTimeZone, signedIn, isAdmin, units, quantities, login, refresh, restore, logout, adopt, setUnits };
 });
