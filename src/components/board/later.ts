@@ -35,3 +35,5 @@ export const MadeSafeBoard = later(() => import('./shift/MadeSafeBoard.vue'));
 export const MakeSafeChecklist = later(() => import('./shift/MakeSafeChecklist.vue'));
 // The narrow header's menu: Quasar's menu and list come with it.
 export const BoardMoreMenu = later(() => import('./BoardMoreMenu.vue'));
+// The wide header's paper copy button (the narrow header has it in its menu).
+export const PaperCopyButton = later(() => import('../common/PaperCopyButton.vue'));
