@@ -46,8 +46,8 @@ interface UnitOf {
 /** THE unit words and factors, one row per kind and system. Metric rows write what the app always wrote. */
 export const units: Record<QuantityKind, Record<UnitSystem, UnitOf>> = {
   mass: {
-    metric: { word: 't', name: 'tonne (1,000 kg)', siPer: 1000, decimals: 2 },
-    us: { word: 'US tons', name: 'US ton (short ton, 2,000 lb)', siPer: KG_PER_SHORT_TON, decimals: 2 },
+    metric: { word: 't', name: 'tonne of 1,000 kg', siPer: 1000, decimals: 2 },
+    us: { word: 'US tons', name: 'US ton, the short ton of 2,000 lb', siPer: KG_PER_SHORT_TON, decimals: 2 },
   },
   force: {
     metric: { word: 'kN', name: 'kilonewton', siPer: 1, decimals: 1 },
