@@ -119,6 +119,7 @@ const matrix: readonly (readonly [row: string, cells: string])[] = [
   ['GET /api/jobs/:jobId/plan',                         'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['GET /api/jobs/:jobId/plan/versions',                'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['GET /api/jobs/:jobId/plan.pdf',                     'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
+  ['GET /api/jobs/:jobId/paper.pdf',                    'Y   Y   Y   Y   Y   Y   Y   -   -   -   -'],
   ['PATCH /api/jobs/:jobId',                            'Y   Y   Y   -   -   -   -   -   -   -   -'],
   ['PUT /api/jobs/:jobId/crew',                         'Y   Y   Y   -   -   -   -   -   -   -   -'],
   ['PUT /api/jobs/:jobId/configuration',                'Y   Y   Y   -   -   -   -   -   -   -   -'],
@@ -375,7 +376,7 @@ describe('the access-control matrix', () => {
     expect((await zipOf(people.vwr)).includes('photos/')).toBe(true);
     // Job B's supervisor and rigger ask for job A's record, log, exports, site file, plan and board by
     // its id: each refused as forbidden. A qualified supervisor reads only the jobs whose crew they are on.
-    const jobAData = ['', '/events?after=0', '/events.jsonl', '/events.csv', '/record.pdf', '/configuration.pdf', '/site-file.zip', '/plan', '/plan/versions', '/plan.pdf', '/readiness', '/record/verify', '/board'];
+    const jobAData = ['', '/events?after=0', '/events.jsonl', '/events.csv', '/record.pdf', '/configuration.pdf', '/site-file.zip', '/plan', '/plan/versions', '/plan.pdf', '/paper.pdf', '/readiness', '/record/verify', '/board'];
     for (const who of [people.osp, people.out]) {
       for (const tail of jobAData) {
         const res = await get(who, `/api/jobs/${jobA}${tail}`);
