@@ -4,9 +4,10 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
 import { seedDemoIfEmpty } from '../../server/demo/seed.js';
-import { SAVED_BOARD_WORDS } from '../../src/words/offline.js';
+import { SAVED_BOARD_WORDS, WAKE_LOCK_WORDS } from '../../src/words/offline.js';
 import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import path from 'node:path';
 
 const LIVE_JOB = 'Transformer T2 lift: boom erection';
 /** The preamble's tablet: a rigger's 820 x 1180 tablet in portrait. */
@@ -104,6 +105,14 @@ describe('the installed app with no network', () => {
     await page.setViewportSize(TABLET);
     await screenshot(page, 'offline-cab-saved-board-tablet');
     await page.setViewportSize(viewports.phone);
+    // Scrolled down to the wind panel, the band stays in sight under the header (what the screen shows, not the whole page).
+    await page.getByTestId('wind-record').scrollIntoViewIfNeeded();
+    const header = await page.locator('.board-header').boundingBox();
+    const stuck = await band.boundingBox();
+    expect(stuck!.y).toBeGreaterThanOrEqual(header!.height - 2);
+    expect(stuck!.y).toBeLessThan(header!.height + 20);
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'offline-cab-saved-board-scrolled-phone.png') });
+    await page.evaluate(() => window.scrollTo(0, 0));
     // The operator's own acknowledgment shows, and nothing that sends pretends to work: every button of the board is shut, with the reason.
     const holdButtons = page.locator('.cab-block .hold-card button');
     expect(await holdButtons.count()).toBeGreaterThan(0);
@@ -111,10 +120,10 @@ describe('the installed app with no network', () => {
     expect(await page.getByText(SAVED_BOARD_WORDS.blocked).first().isVisible()).toBe(true);
     expect(await page.getByTestId('wind-record').isDisabled()).toBe(true);
 
-    // Its age is never shown younger than it is: 12.5 minutes reads "13 min ago".
+    // Its age is never shown younger than it is: 12 min 12 s reads "13 min ago".
     await page.evaluate((id) => {
       const entries = JSON.parse(localStorage.getItem('holdline.savedBoards') ?? '[]') as { jobId: string; liveAt: number }[];
-      for (const e of entries) if (e.jobId === id) e.liveAt = Date.now() - 12.5 * 60_000;
+      for (const e of entries) if (e.jobId === id) e.liveAt = Date.now() - (12 * 60 + 12) * 1000;
       localStorage.setItem('holdline.savedBoards', JSON.stringify(entries));
     }, jobId);
     // The app opened offline at its start page (launched from the home screen) goes to the board it last showed.
@@ -147,5 +156,35 @@ describe('the installed app with no network', () => {
     await page.waitForURL(/\/sign-in/);
     expect(await page.getByTestId('saved-board').count()).toBe(0);
     await context.close();
+  });
+
+  it('says plainly on every board view when the screen may sleep', async () => {
+    const context = await chromium.browser.newContext({ viewport: viewports.phone });
+    // A phone whose battery saver refuses the lock.
+    await context.addInitScript(() => {
+      Object.defineProperty(navigator, 'wakeLock', { value: { request: () => Promise.reject(new DOMException('Battery saver is on', 'NotAllowedError')) }, configurable: true });
+    });
+    const page = await context.newPage();
+    watchErrors(page);
+    await signInThroughForm(page, `${server.url}/jobs/${jobId}/rigger`, 'rigger@holdline.test', DEMO_PASSWORD);
+    await page.waitForURL((url) => url.pathname.endsWith('/rigger'));
+    await page.getByText(stageTitle).first().waitFor();
+    expect(await page.getByTestId('wake-lock-failed').textContent()).toContain(WAKE_LOCK_WORDS.failed);
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'board-rigger-wake-lock-refused-phone.png') });
+    await context.close();
+
+    // Where the browser grants it, nothing is said.
+    const granted = await chromium.browser.newContext({ viewport: viewports.phone });
+    await granted.addInitScript(() => {
+      const sentinel = { released: false, release: () => Promise.resolve(), addEventListener: () => undefined };
+      Object.defineProperty(navigator, 'wakeLock', { value: { request: () => Promise.resolve(sentinel) }, configurable: true });
+    });
+    const other = await granted.newPage();
+    watchErrors(other);
+    await signInThroughForm(other, `${server.url}/jobs/${jobId}/rigger`, 'rigger@holdline.test', DEMO_PASSWORD);
+    await other.waitForURL((url) => url.pathname.endsWith('/rigger'));
+    await other.getByText(stageTitle).first().waitFor();
+    expect(await other.getByTestId('wake-lock-failed').count()).toBe(0);
+    await granted.close();
   });
 });
