@@ -12,10 +12,13 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BoardState } from '../../../shared/board/types.js';
 import { valueCheckFieldLabels } from '../../../shared/schemas/plan.js';
+import { siteTime } from '../../../shared/time.js';
+import { Job } from '../../../server/entities/Job.js';
 import { JobPlan } from '../../../server/entities/JobPlan.js';
 import { redactPlan } from '../../../server/presenters/plan.js';
 import { signedInUser, type SignedInUser } from '../../helpers/auth.js';
 import { acknowledgeAndRelease, boardOf, completeSteps, httpCommand, inStepOrder, readingWithinLimit, startedJob, uploadPhoto, weatherIfNeeded, type CrewByRole } from '../../helpers/board.js';
+import { plannedJob } from '../../helpers/jobs.js';
 import { startTestServer, type TestServer } from '../../helpers/server.js';
 
 let server: TestServer;
@@ -231,6 +234,28 @@ describe('the paper copy', { timeout: 120_000 }, () => {
     expect(riggers).not.toContain('Supervisor’s page');
     expect(riggers).not.toContain(marker);
     for (const f of check.fields) expect(riggers).not.toContain(`${valueCheckFieldLabels[f.field]} ${f.expected}`);
+  });
+
+  it('says an all stop in force at the top; a job with no plan in force, or closed, has no paper copy', async () => {
+    const pressedAt = server.context.now().toISOString();
+    const stop = await httpCommand(server, crew.rigger, jobId, { type: 'job.stop', pressedAt, reason: 'Sling frayed at the tip' });
+    expect(stop.status).toBe(200);
+    const stoppedFile = path.join(scratch, 'stopped.pdf');
+    writeFileSync(stoppedFile, await paperPdf(crew.supervisor));
+    const first = pagesOf(stoppedFile)[0];
+    const { manager } = server.context.dataSource;
+    const row = await manager.findOneByOrFail(Job, { id: jobId });
+    expect(first).toContain(`ALL STOP in force when printed: pressed by ${crew.rigger.user.displayName} (Rigger) at ${siteTime(pressedAt, row.timeZone)}; cause: Sling frayed at the tip.`);
+
+    const unitId = row.craneUnitId;
+    const planning = await plannedJob(server, crew, unitId, 'Still planning');
+    const early = await request(server.app).get(`/api/jobs/${planning.id}/paper.pdf`).set('Authorization', `Bearer ${crew.supervisor.token}`);
+    expect([early.status, early.body.error.code]).toEqual([409, 'no_plan_in_force']);
+
+    const cancel = await httpCommand(server, crew.supervisor, planning.id, { type: 'job.cancel', reason: 'Planned again on another crane' });
+    expect(cancel.status, JSON.stringify(cancel.body)).toBe(200);
+    const closed = await request(server.app).get(`/api/jobs/${planning.id}/paper.pdf`).set('Authorization', `Bearer ${crew.rigger.token}`);
+    expect([closed.status, closed.body.error.code]).toEqual([409, 'job_closed']);
   });
 
   it('answers 404 for an unknown job, 403 to someone outside the crew, 401 without sign-in', async () => {
