@@ -175,12 +175,12 @@ function makeSafeList(pdf: PdfWriter, items: MakeSafeItem[], at: (iso: string) =
 function startOfShift(pdf: PdfWriter, board: BoardState, at: (iso: string) => string): void {
   const start = board.shift?.start ?? null;
   pdf.heading('Start-of-shift hold');
-  const lines: [string, { name: string; at: string } | null][] = [
-    ['Shift inspection (walk-round)', start?.inspection ?? null],
-    ['Operator', start?.operator ?? null],
-    ['Supervisor (acting)', start?.supervisor ?? null],
+  const lines: [string, { name: string; at: string } | null, string[]][] = [
+    ['Shift inspection (walk-round)', start?.inspection ?? null, ['What was inspected and found']],
+    ['Operator', start?.operator ?? null, []],
+    ['Supervisor (acting)', start?.supervisor ?? null, []],
   ];
-  for (const [who, done] of lines) signLine(pdf, who, done ? `${done.name}, ${at(done.at)}` : null, []);
+  for (const [who, done, notes] of lines) signLine(pdf, who, done ? `${done.name}, ${at(done.at)}` : null, notes);
 }
 
 function crewList(pdf: PdfWriter, board: BoardState): void {

@@ -269,3 +269,55 @@ describe('the paper copy', { timeout: 120_000 }, () => {
     expect((await request(server.app).get(`/api/jobs/${jobId}/paper.pdf`)).status).toBe(401);
   });
 });
+
+describe('the paper copy at the end of a shift', { timeout: 120_000 }, () => {
+  // A server of its own: the test crane's fleet number is taken on the first one.
+  let shiftServer: TestServer;
+  beforeAll(async () => {
+    shiftServer = await startTestServer();
+  });
+  afterAll(async () => {
+    await shiftServer?.stop();
+  });
+
+  it('puts the make-safe checklist first while the crane is made safe, then the start-of-shift hold', async () => {
+    const server = shiftServer;
+    const started = await startedJob(server);
+    const pdfOf = async (name: string) => {
+      const res = await request(server.app)
+        .get(`/api/jobs/${started.jobId}/paper.pdf`)
+        .set('Authorization', `Bearer ${started.crew.signaller.token}`)
+        .buffer(true)
+        .parse((r, done) => {
+          const chunks: Buffer[] = [];
+          r.on('data', (c: Buffer) => chunks.push(c));
+          r.on('end', () => done(null, Buffer.concat(chunks)));
+        })
+        .expect(200);
+      const file = path.join(scratch, name);
+      writeFileSync(file, res.body as Buffer);
+      return pagesOf(file).join(' ');
+    };
+    expect((await httpCommand(server, started.crew.supervisor, started.jobId, { type: 'shift.end' })).status).toBe(200);
+    const items = (await boardOf(server, started.crew.supervisor, started.jobId)).shift!.makeSafe!.items;
+    const [first, ...rest] = items;
+    const firstRole = first.roles.find((r) => r !== 'viewer') as keyof CrewByRole;
+    const ticked = await httpCommand(server, started.crew[firstRole], started.jobId, { type: 'shift.item.done', itemId: first.id, ...(first.asksNote ? { note: 'Key in the site office safe.' } : {}) });
+    expect(ticked.status).toBe(200);
+
+    const making = await pdfOf('making-safe.pdf');
+    expect(making).toContain('The supervisor ended shift 1: the crane is being made safe.');
+    const list = making.slice(making.indexOf('Make-safe checklist'), making.indexOf('Crew '));
+    expect(list).toContain(`DONE ${squeeze(first.text)} — done live by ${started.crew[firstRole].user.displayName}`);
+    for (const item of rest) expect(list).toContain(`${squeeze(item.text)} For ${item.roles.map((r) => r).join(', ')}${item.asksNote ? ' Note' : ''} Initials Time (hh:mm)`);
+
+    for (const item of rest) {
+      const role = item.roles.find((r) => r !== 'viewer') as keyof CrewByRole;
+      expect((await httpCommand(server, started.crew[role], started.jobId, { type: 'shift.item.done', itemId: item.id, ...(item.asksNote ? { note: 'Forecast calm.' } : {}) })).status).toBe(200);
+    }
+    const madeSafe = await pdfOf('made-safe.pdf');
+    expect(madeSafe).toContain('The crane was made safe at the end of shift 1.');
+    expect(madeSafe).toMatch(/Start-of-shift hold Shift inspection \(walk-round\) Name \(capitals\) Initials Time \(hh:mm\) What was inspected and found Operator Name \(capitals\) Initials Time \(hh:mm\) Supervisor \(acting\) Name \(capitals\) Initials Time \(hh:mm\)/);
+    expect(madeSafe).not.toContain('Make-safe checklist');
+  });
+});
