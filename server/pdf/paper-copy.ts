@@ -238,7 +238,9 @@ const WIND_NOTICE = 'WIND: the boom goes up or comes down in this stage. Before 
 
 /**
  * Where a page break falls in the middle of a stage or a hold, the new page says which one it
- * carries on: a sheet picked up alone from the clipboard still names its stage.
+ * carries on: a sheet picked up alone from the clipboard still names its stage. Module state is
+ * safe here: a copy is drawn synchronously from start to finish (only the code is made before),
+ * and `paperCopyPdf` clears it first.
  */
 let carriesOn: string | null = null;
 
