@@ -42,6 +42,8 @@ const NOT_RECORDED_FOR_NOW = new Set(['no_answer', 'server_restarting', 'storage
 const STOP_RETRY_MS = 5000;
 /** A live board is saved on the device when its seq moves, and at least this often (the time it was last live). */
 const SAVE_EVERY_MS = 15_000;
+/** A burst of events writes the board once: at most this often (the last one a moment later). */
+const SAVE_GAP_MS = 2000;
 /** Signed in and online, a board that has not joined after this long shows the saved one meanwhile. */
 const SAVED_AFTER_MS = 4000;
 /** While a saved board shows without a session, the session is tried again this often (and at once when the browser says it is online). */
@@ -93,6 +95,7 @@ export const useBoardStore = defineStore('board', () => {
   let lastStopTryAt = 0;
   let lastSavedAt = 0;
   let lastSavedSeq = -1;
+  let saveLater: ReturnType<typeof setTimeout> | undefined;
   let savedTimer: ReturnType<typeof setTimeout> | undefined;
   /** The board view open now (cab, rigger…), kept with the saved board: an app opened offline goes back to it. */
   let viewName: string | undefined;
@@ -149,7 +152,13 @@ export const useBoardStore = defineStore('board', () => {
     const b = follower?.board;
     const user = session.user;
     if (!b || !user || !jobId.value || follower!.lastSyncAt <= 0) return;
-    if (!now && b.seq === lastSavedSeq && Date.now() - lastSavedAt < SAVE_EVERY_MS) return;
+    const since = Date.now() - lastSavedAt;
+    if (!now && b.seq === lastSavedSeq && since < SAVE_EVERY_MS) return;
+    clearTimeout(saveLater);
+    if (!now && since < SAVE_GAP_MS) {
+      saveLater = setTimeout(() => keepOnDevice(true), SAVE_GAP_MS - since);
+      return;
+    }
     lastSavedAt = Date.now();
     lastSavedSeq = b.seq;
     saveBoard({ jobId: jobId.value, view: viewName, liveAt: follower!.lastSyncAt, userId: user.id, userName: user.displayName }, { ...b, presence: [] });
@@ -298,6 +307,7 @@ export const useBoardStore = defineStore('board', () => {
     clearInterval(livenessTimer);
     // The last word on how live it was, before the board goes.
     if (live.value) keepOnDevice(true);
+    clearTimeout(saveLater);
     stopShowingSaved();
     lastSavedSeq = -1;
     for (const off of detach.splice(0)) off();
