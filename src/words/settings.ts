@@ -12,6 +12,12 @@ export const settingsWords = {
   saved: 'Settings saved.',
 };
 
+/** Above the planner's figures, for a person who does not use metric: which units, and what stays in SI. */
+export const plannerUnitsWords = {
+  converted: 'Figures in US customary units (US ton = 2,000 lb): loads and pressures rounded up, capacities and allowables down. The workings under each figure, the drawings and the record stay in SI.',
+  serverInMetric: "Shown in metric, as the server wrote them: this device's figures differ from the server's, and the server's count.",
+};
+
 /** Each system of units by name. */
 export const unitSystemWords: Record<UnitSystem, string> = {
   metric: 'Metric',

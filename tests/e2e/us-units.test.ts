@@ -87,6 +87,9 @@ describe('a crew working in US customary units', () => {
 
     // The same figures, now in the person's units with the unit written out; the server kept metric.
     await expect.poll(() => figureValue(page, 'Lead-line pull').textContent(), { timeout: 10_000 }).toMatch(/^[\d,]+ lbf of [\d,]+ lbf permissible$/);
+    expect(await page.getByTestId('planner-units-note').textContent()).toContain('Figures in US customary units (US ton = 2,000 lb)');
+    await page.getByTestId('planner-units-note').scrollIntoViewIfNeeded();
+    await viewShot(page, 'units-planner-note-tablet');
     expect(await figureValue(page, 'Heaviest lift: share of the crane’s chart').textContent()).toMatch(/\([\d.]+ US tons of [\d.]+ US tons at [\d.]+ ft\)$/);
     expect(await figureValue(page, 'Hook block rating').textContent()).toMatch(/^[\d.]+ US tons of [\d.]+ US tons$/);
     expect(await figureValue(page, 'Ground pressure: Heaviest lift').textContent()).toMatch(/^[\d.]+ psi at \d+° slew, .* \(allowable [\d.]+ psi\)/);
