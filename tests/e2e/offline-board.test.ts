@@ -1,3 +1,4 @@
+import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
@@ -105,6 +106,18 @@ describe('the installed app with no network', () => {
     await page.setViewportSize(TABLET);
     await screenshot(page, 'offline-cab-saved-board-tablet');
     await page.setViewportSize(viewports.phone);
+    // Readable in the rain: the band and its lines pass the cab's AAA contrast, in day and night.
+    for (const theme of ['day', 'night']) {
+      await page.evaluate((t) => localStorage.setItem('holdline.theme', t), theme);
+      await page.reload();
+      await band.waitFor({ timeout: 15_000 });
+      const axe = await new AxeBuilder({ page }).include('[data-testid="saved-board"]').include('[data-testid="saved-board-details"]').withRules(['color-contrast', 'color-contrast-enhanced']).analyze();
+      expect(axe.violations.map((v) => `${theme} ${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`)).toEqual([]);
+    }
+    await screenshot(page, 'offline-cab-saved-board-night-phone');
+    await page.evaluate(() => localStorage.setItem('holdline.theme', 'day'));
+    await page.reload();
+    await band.waitFor({ timeout: 15_000 });
     // Scrolled down to the wind panel, the band stays in sight under the header (what the screen shows, not the whole page).
     await page.getByTestId('wind-record').scrollIntoViewIfNeeded();
     const header = await page.locator('.board-header').boundingBox();
