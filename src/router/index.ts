@@ -28,6 +28,9 @@ const BOARD_VIEWS = new Set(['board', 'cab', 'signaller', 'rigger', 'console', '
  */
 function savedBoardRoute(to: RouteLocationNormalized, from: RouteLocationNormalized): true | RouteLocationRaw | null {
   if (typeof to.name === 'string' && BOARD_VIEWS.has(to.name) && savedBoardEntry(String(to.params.id))) return true;
+  // The job's QR code: the view its board was saved from.
+  const scanned = to.name === 'board-open' ? savedBoardEntry(String(to.params.id)) : null;
+  if (scanned) return { name: BOARD_VIEWS.has(scanned.view) ? scanned.view : 'board', params: { id: scanned.jobId } };
   // Only when the app starts (launched from the home screen, reloaded): a tap on a link still goes where it says.
   const starting = from.matched.length === 0;
   const latest = starting ? latestSavedBoard() : null;

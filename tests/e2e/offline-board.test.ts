@@ -144,6 +144,10 @@ describe('the installed app with no network', () => {
     await band.waitFor({ timeout: 15_000 });
     expect(new URL(page.url()).pathname).toBe(`/jobs/${jobId}/cab`);
     expect(await page.getByTestId('saved-board-age').textContent()).toContain('13 min ago');
+    // The job's QR code, scanned offline, opens the same saved board.
+    await page.goto(`${server.url}/jobs/${jobId}/open`);
+    await band.waitFor({ timeout: 15_000 });
+    expect(new URL(page.url()).pathname).toBe(`/jobs/${jobId}/cab`);
     await screenshot(page, 'offline-cab-saved-board-13-min-phone');
 
     // The network returns: the session comes back from its cookie and the live board replaces the saved one.
