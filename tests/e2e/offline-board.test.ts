@@ -75,7 +75,8 @@ describe('the installed app with no network', () => {
   });
 
   it('reloads the cab with no network and shows the last board, not live with its age; live again when the network returns; sign-out forgets it', async () => {
-    const context: BrowserContext = await chromium.browser.newContext({ viewport: viewports.phone });
+    // The service worker is blocked in the other browser tests (tests/e2e/browser.ts); this one is about it.
+    const context: BrowserContext = await chromium.browser.newContext({ viewport: viewports.phone, serviceWorkers: 'allow' });
     const page = await context.newPage();
     watchErrors(page);
     await signInThroughForm(page, `${server.url}/jobs/${jobId}/cab`, 'operator@holdline.test', DEMO_PASSWORD);
