@@ -79,8 +79,9 @@ export async function launchBrowser(): Promise<LaunchedBrowser> {
   });
   // Every context, made directly or through newPage, is watched for policy violations. The app's
   // service worker is blocked unless a test asks for it (`serviceWorkers: 'allow'`, the offline
-  // test): installing it downloads the whole app shell in every context, which slowed every
-  // browser test file by a fifth on two cores and tests nothing the offline test does not.
+  // test): installing it downloads the whole app shell in every context, and the run after it
+  // landed took a fifth longer in the files that open many pages, for nothing the offline test
+  // does not already check.
   const newContext = browser.newContext.bind(browser);
   browser.newContext = async (options?: Parameters<Browser['newContext']>[0]) => watchForCspViolations(await newContext({ serviceWorkers: 'block', ...options }));
   const newPage = browser.newPage.bind(browser);
