@@ -1,15 +1,12 @@
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
-import { seedDemoIfEmpty } from '../../server/demo/seed.js';
-import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, viewports, type LaunchedBrowser, signInThroughForm } from './browser.js';
+import type { TestServer } from '../helpers/server.js';
+import { screenshot, viewports, type LaunchedBrowser, signInThroughForm } from './browser.js';
+import { boardOf, LIVE_JOB, startLiveDemo } from './live-demo.js';
 
 type Viewport = { width: number; height: number };
 
-const LIVE_JOB = 'Transformer T2 lift: boom erection';
 const sizes: [string, Viewport][] = [
   ['phone', viewports.phone],
   ['laptop', viewports.desktop],
@@ -43,19 +40,10 @@ describe('live board views', () => {
   let fleetNumber: string;
   let supervisorToken: string;
 
-  async function boardNow(): Promise<BoardSnapshot> {
-    return (await request(server.app).get(`/api/jobs/${jobId}/board`).set({ Authorization: `Bearer ${supervisorToken}` }).expect(200)).body as BoardSnapshot;
-  }
+  const boardNow = () => boardOf({ server, chromium, jobId, supervisorToken });
 
   beforeAll(async () => {
-    // The test server forces HOLDLINE_DEMO off, and the demo is seeded by server/index.ts, not the app: seed it here.
-    server = await startTestServer({ withClient: true });
-    await seedDemoIfEmpty(server.context);
-    chromium = await launchBrowser();
-    const login = await request(server.app).post('/api/auth/login').send({ email: 'supervisor@holdline.test', password: DEMO_PASSWORD }).expect(200);
-    supervisorToken = login.body.token as string;
-    const jobs = await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${supervisorToken}` }).expect(200);
-    jobId = (jobs.body.items as { id: string; name: string }[]).find((j) => j.name === LIVE_JOB)!.id;
+    ({ server, chromium, jobId, supervisorToken } = await startLiveDemo());
     const board = await boardNow();
     const holding = board.stages.find((s) => s.state === 'holding')!;
     holdId = holding.hold!.id;

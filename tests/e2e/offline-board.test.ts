@@ -2,15 +2,13 @@ import AxeBuilder from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
-import { seedDemoIfEmpty } from '../../server/demo/seed.js';
 import { SAVED_BOARD_WORDS, WAKE_LOCK_WORDS } from '../../src/words/offline.js';
-import { startTestServer, type TestServer } from '../helpers/server.js';
-import { launchBrowser, screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import type { TestServer } from '../helpers/server.js';
+import { screenshot, SCREENSHOT_DIR, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { boardOf, startLiveDemo } from './live-demo.js';
 import path from 'node:path';
 
-const LIVE_JOB = 'Transformer T2 lift: boom erection';
 /** The preamble's tablet: a rigger's 820 x 1180 tablet in portrait. */
 const TABLET = { width: 820, height: 1180 };
 
@@ -34,18 +32,10 @@ describe('the installed app with no network', () => {
   let fleetNumber: string;
   let supervisorToken: string;
 
-  async function boardNow(): Promise<BoardSnapshot> {
-    return (await request(server.app).get(`/api/jobs/${jobId}/board`).set({ Authorization: `Bearer ${supervisorToken}` }).expect(200)).body as BoardSnapshot;
-  }
+  const boardNow = () => boardOf({ server, chromium, jobId, supervisorToken });
 
   beforeAll(async () => {
-    server = await startTestServer({ withClient: true });
-    await seedDemoIfEmpty(server.context);
-    chromium = await launchBrowser();
-    const login = await request(server.app).post('/api/auth/login').send({ email: 'supervisor@holdline.test', password: DEMO_PASSWORD }).expect(200);
-    supervisorToken = login.body.token as string;
-    const jobs = await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${supervisorToken}` }).expect(200);
-    jobId = (jobs.body.items as { id: string; name: string }[]).find((j) => j.name === LIVE_JOB)!.id;
+    ({ server, chromium, jobId, supervisorToken } = await startLiveDemo());
     const board = await boardNow();
     stageTitle = board.stages.find((s) => s.state === 'holding')!.title;
     fleetNumber = board.job.craneFleetNumber;

@@ -6,14 +6,12 @@
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import request from 'supertest';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import type { BoardSnapshot } from '../../shared/board/types.js';
 import { DEMO_PASSWORD } from '../../server/demo/people.js';
-import { seedDemoIfEmpty } from '../../server/demo/seed.js';
-import { startTestServer, type TestServer } from '../helpers/server.js';
+import type { TestServer } from '../helpers/server.js';
 import path from 'node:path';
-import { launchBrowser, SCREENSHOT_DIR, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { SCREENSHOT_DIR, screenshot, signInThroughForm, viewports, type LaunchedBrowser } from './browser.js';
+import { boardOf, startLiveDemo } from './live-demo.js';
 
-const LIVE_JOB = 'Transformer T2 lift: boom erection';
 /** The sizes the brief asks to look at: a phone and a portrait tablet. */
 const phone = viewports.phone;
 const tablet = { width: 820, height: 1180 };
@@ -48,18 +46,10 @@ describe('a crew working in US customary units', () => {
   let jobId: string;
   let supervisorToken: string;
 
-  async function boardNow(): Promise<BoardSnapshot> {
-    return (await request(server.app).get(`/api/jobs/${jobId}/board`).set({ Authorization: `Bearer ${supervisorToken}` }).expect(200)).body as BoardSnapshot;
-  }
+  const boardNow = () => boardOf({ server, chromium, jobId, supervisorToken });
 
   beforeAll(async () => {
-    server = await startTestServer({ withClient: true });
-    await seedDemoIfEmpty(server.context);
-    chromium = await launchBrowser();
-    const login = await request(server.app).post('/api/auth/login').send({ email: 'supervisor@holdline.test', password: DEMO_PASSWORD }).expect(200);
-    supervisorToken = login.body.token as string;
-    const jobs = await request(server.app).get('/api/jobs').set({ Authorization: `Bearer ${supervisorToken}` }).expect(200);
-    jobId = (jobs.body.items as { id: string; name: string }[]).find((j) => j.name === LIVE_JOB)!.id;
+    ({ server, chromium, jobId, supervisorToken } = await startLiveDemo());
   });
   afterEach(() => {
     const errors = pageErrors.splice(0);
